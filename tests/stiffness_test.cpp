@@ -1,0 +1,707 @@
+// Tests of the direct stiffness method (methods/stiffness).
+//
+// Published checks cite their source beside them. Two texts are used, both
+// from memory (edition details and case numbers as remembered, not looked
+// up):
+//   [Roark]  W. C. Young, R. G. Budynas, "Roark's Formulas for Stress and
+//            Strain", 7th ed., McGraw-Hill, 2002, Table 8.1 (shear, moment,
+//            slope and deflection formulas for elastic straight beams).
+//   [Hicks]  T. G. Hicks, "Civil Engineering Formulas", McGraw-Hill,
+//            chapter 2 (beam formulas), Fig. 2.2 cases and Table 2.1
+//            "Uniformly loaded continuous beams over equal spans".
+// Other checks are general laws: equilibrium, Maxwell-Betti reciprocity,
+// symmetry, compatibility.
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <random>
+#include <string>
+#include <vector>
+
+#include "methods/beam/beam.h"
+#include "methods/beam/numbers.h"
+#include "methods/beam/stability.h"
+#include "methods/stiffness/stiffness.h"
+
+namespace trivet {
+namespace {
+
+using T = SupportType;
+
+template <class R>
+BasicBeam<R> make_beam(const std::vector<R>& lengths, const R& EI, const std::vector<T>& types) {
+  BasicBeam<R> b;
+  for (const R& L : lengths) b.spans.push_back({L, EI});
+  for (std::size_t i = 0; i < types.size(); ++i) {
+    BasicSupport<R> s;
+    s.type = types[i];
+    b.supports.push_back(s);
+    b.labels.push_back(std::string(1, static_cast<char>('A' + i % 26)));
+  }
+  return b;
+}
+
+template <class R>
+BasicLoad<R> span_point(std::size_t span, R at, R P) {
+  BasicLoad<R> l; l.type = LoadType::Point; l.index = span; l.at = at; l.P = P; return l;
+}
+template <class R>
+BasicLoad<R> span_couple(std::size_t span, R at, R C) {
+  BasicLoad<R> l; l.type = LoadType::Couple; l.index = span; l.at = at; l.C = C; return l;
+}
+template <class R>
+BasicLoad<R> span_udl(std::size_t span, R from, R to, R w) {
+  BasicLoad<R> l; l.type = LoadType::Udl; l.index = span; l.from = from; l.to = to; l.w1 = w; l.w2 = w; return l;
+}
+template <class R>
+BasicLoad<R> span_linear(std::size_t span, R from, R to, R w1, R w2) {
+  BasicLoad<R> l; l.type = LoadType::Linear; l.index = span; l.from = from; l.to = to; l.w1 = w1; l.w2 = w2; return l;
+}
+template <class R>
+BasicLoad<R> node_point(std::size_t node, R P) {
+  BasicLoad<R> l; l.type = LoadType::Point; l.on_node = true; l.index = node; l.P = P; return l;
+}
+template <class R>
+BasicLoad<R> node_couple(std::size_t node, R C) {
+  BasicLoad<R> l; l.type = LoadType::Couple; l.on_node = true; l.index = node; l.C = C; return l;
+}
+
+Solution solve(const Beam& b, bool with_stations = true) {
+  return stiffness::solve(b, with_stations ? build_stations(b, 10) : std::vector<Station>{});
+}
+
+// Equilibrium (a general law): the reactions, spring forces included,
+// balance the applied loads, and moments about the left end balance.
+// `tol` is relative to the sum of |load| (times the beam length, for moments).
+void expect_equilibrium(const Beam& b, const Solution& s, double tol = 1e-10) {
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  ASSERT_EQ(s.nodes.size(), b.node_count());
+  std::vector<double> node_x(b.node_count(), 0.0);  // prefix sums: O(n)
+  for (std::size_t i = 1; i < node_x.size(); ++i) node_x[i] = node_x[i - 1] + b.spans[i - 1].length;
+  double load = 0, load_moment = 0, scale = 0;  // down +, clockwise + about x = 0
+  for (const Load& l : b.loads) {
+    const double x0 = node_x[l.index];  // the node, or the span's left end
+    switch (l.type) {
+      case LoadType::Point:
+        load += l.P; load_moment += l.P * (x0 + (l.on_node ? 0.0 : l.at)); scale += std::fabs(l.P);
+        break;
+      case LoadType::Couple:
+        load_moment += l.C; scale += std::fabs(l.C);
+        break;
+      case LoadType::Udl: case LoadType::Linear: {
+        const double w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+        const double c = l.to - l.from, a = x0 + l.from;
+        const double W = (l.w1 + w2) / 2 * c;
+        load += W;
+        load_moment += a * W + c * c * (l.w1 + 2 * w2) / 6;
+        scale += (std::fabs(l.w1) + std::fabs(w2)) * c;
+      }
+    }
+  }
+  double react = 0, react_moment = 0;
+  for (std::size_t i = 0; i < s.nodes.size(); ++i) {
+    react += s.nodes[i].reaction_force;
+    react_moment += -s.nodes[i].reaction_force * s.nodes[i].x - s.nodes[i].reaction_moment;
+    scale += std::fabs(s.nodes[i].reaction_force);
+  }
+  const double length = node_x.back();
+  EXPECT_NEAR(react, load, tol * (scale + 1e-300)) << "vertical equilibrium";
+  EXPECT_NEAR(load_moment + react_moment, 0.0, tol * (scale * length + 1e-300)) << "moment equilibrium";
+}
+
+// Relative tolerance for single published closed forms solved in double:
+// the element solution is exact, so only rounding remains (a few hundred ulps).
+constexpr double kRel = 1e-11;
+
+// --- Single spans: published closed forms -------------------------------------
+
+TEST(SingleSpan, SimplySupportedUdl) {
+  // [Roark] Table 8.1 case 2e, uniform load on a simply supported beam;
+  // [Hicks] Fig. 2.2 "simple beam, uniformly distributed load" (from memory):
+  // M_max = wL^2/8, deflection 5wL^4/(384 EI), reactions wL/2.
+  const double L = 6, EI = 2e4, w = 10;
+  for (bool with_stations : {false, true}) {
+    Beam b = make_beam<double>({L}, EI, {T::Pinned, T::Roller});
+    b.loads = {span_udl<double>(0, 0, L, w)};
+    Solution s = solve(b, with_stations);
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    const PointValues mid = s.at(0, L / 2, false);
+    EXPECT_NEAR(mid.moment, w * L * L / 8, kRel * w * L * L);
+    EXPECT_NEAR(mid.deflection, 5 * w * L * L * L * L / (384 * EI), kRel * w * L * L * L * L / EI);
+    EXPECT_NEAR(mid.shear, 0.0, kRel * w * L);
+    EXPECT_NEAR(s.nodes[0].reaction_force, w * L / 2, kRel * w * L);
+    EXPECT_NEAR(s.nodes[1].reaction_force, w * L / 2, kRel * w * L);
+    // [Roark] same case: end slope wL^3/(24 EI), clockwise at the left end.
+    EXPECT_NEAR(s.nodes[0].rotation_right, w * L * L * L / (24 * EI), kRel * w * L * L * L / EI);
+    EXPECT_FALSE(s.nodes[0].moment_left.has_value());
+    EXPECT_FALSE(s.nodes[1].moment_right.has_value());
+    expect_equilibrium(b, s);
+  }
+}
+
+TEST(SingleSpan, SimplySupportedCentralPoint) {
+  // [Roark] Table 8.1 case 1e; [Hicks] Fig. 2.2 "simple beam, concentrated
+  // load at center" (from memory): M = PL/4, deflection PL^3/(48 EI).
+  const double L = 5, EI = 3e4, P = 12;
+  Beam b = make_beam<double>({L}, EI, {T::Pinned, T::Roller});
+  b.loads = {span_point<double>(0, L / 2, P)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const PointValues left = s.at(0, L / 2, false), right = s.at(0, L / 2, true);
+  EXPECT_NEAR(left.moment, P * L / 4, kRel * P * L);
+  EXPECT_NEAR(left.deflection, P * L * L * L / (48 * EI), kRel * P * L * L * L / EI);
+  // Shear jumps by -P across the load (beam.h jump rule): +P/2 to -P/2.
+  EXPECT_NEAR(left.shear, P / 2, kRel * P);
+  EXPECT_NEAR(right.shear, -P / 2, kRel * P);
+  EXPECT_NEAR(s.nodes[0].reaction_force, P / 2, kRel * P);
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, FixedFixedUdl) {
+  // [Roark] Table 8.1 case 2d; [Hicks] Fig. 2.2 "beam fixed at both ends,
+  // uniformly distributed load" (from memory): end moments -wL^2/12,
+  // midspan +wL^2/24, midspan deflection wL^4/(384 EI).
+  const double L = 7, EI = 5e4, w = 8;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Fixed});
+  b.loads = {span_udl<double>(0, 0, L, w)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(*s.nodes[0].moment_right, -w * L * L / 12, kRel * w * L * L);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -w * L * L / 12, kRel * w * L * L);
+  EXPECT_NEAR(s.at(0, L / 2, false).moment, w * L * L / 24, kRel * w * L * L);
+  EXPECT_NEAR(s.at(0, L / 2, false).deflection, w * L * L * L * L / (384 * EI), kRel * w * L * L * L * L / EI);
+  // Reaction couples: counter-clockwise at the left end, clockwise at the right.
+  EXPECT_NEAR(s.nodes[0].reaction_moment, w * L * L / 12, kRel * w * L * L);
+  EXPECT_NEAR(s.nodes[1].reaction_moment, -w * L * L / 12, kRel * w * L * L);
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, FixedFixedPointLoad) {
+  // [Roark] Table 8.1 case 1d; [Hicks] Fig. 2.2 "beam fixed at both ends,
+  // concentrated load at any point" (from memory): M_A = -P a b^2 / L^2,
+  // M_B = -P a^2 b / L^2 (hogging), R_A = P b^2 (3a + b) / L^3,
+  // R_B = P a^2 (a + 3b) / L^3.
+  const double a = 2, bb = 3, L = a + bb, EI = 1e4, P = 7;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Fixed});
+  b.loads = {span_point<double>(0, a, P)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(*s.nodes[0].moment_right, -P * a * bb * bb / (L * L), kRel * P * L);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -P * a * a * bb / (L * L), kRel * P * L);
+  EXPECT_NEAR(s.nodes[0].reaction_force, P * bb * bb * (3 * a + bb) / (L * L * L), kRel * P);
+  EXPECT_NEAR(s.nodes[1].reaction_force, P * a * a * (a + 3 * bb) / (L * L * L), kRel * P);
+  // [Roark] same case: deflection under the load P a^3 b^3 / (3 EI L^3).
+  EXPECT_NEAR(s.at(0, a, false).deflection, P * a * a * a * bb * bb * bb / (3 * EI * L * L * L),
+              kRel * P * L * L * L / EI);
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, ProppedCantileverUdl) {
+  // [Roark] Table 8.1 case 2c; [Hicks] Fig. 2.2 "beam fixed at one end,
+  // supported at other, uniformly distributed load" (from memory):
+  // R_fixed = 5wL/8, R_prop = 3wL/8, M_fixed = -wL^2/8, maximum sagging
+  // moment 9wL^2/128 at 3L/8 from the prop.
+  const double L = 8, EI = 4e4, w = 5;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Roller});
+  b.loads = {span_udl<double>(0, 0, L, w)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(s.nodes[0].reaction_force, 5 * w * L / 8, kRel * w * L);
+  EXPECT_NEAR(s.nodes[1].reaction_force, 3 * w * L / 8, kRel * w * L);
+  EXPECT_NEAR(*s.nodes[0].moment_right, -w * L * L / 8, kRel * w * L * L);
+  const PointValues peak = s.at(0, L - 3 * L / 8, false);
+  EXPECT_NEAR(peak.moment, 9 * w * L * L / 128, kRel * w * L * L);
+  EXPECT_NEAR(peak.shear, 0.0, kRel * w * L);  // a maximum: dM/dx = 0
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, CantileverTipLoadAndUdl) {
+  // [Roark] Table 8.1 cases 1a and 2a; [Hicks] Fig. 2.2 "cantilever beam,
+  // concentrated load at free end" and "... uniformly distributed load"
+  // (from memory): M_fixed = -PL, tip deflection PL^3/(3 EI);
+  // M_fixed = -wL^2/2, tip deflection wL^4/(8 EI).
+  const double L = 3, EI = 9e3, P = 4, w = 2;
+  {
+    Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Free});
+    b.loads = {node_point<double>(1, P)};
+    Solution s = solve(b, false);
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    EXPECT_NEAR(*s.nodes[0].moment_right, -P * L, kRel * P * L);
+    EXPECT_NEAR(s.nodes[1].deflection, P * L * L * L / (3 * EI), kRel * P * L * L * L / EI);
+    EXPECT_NEAR(s.nodes[0].reaction_force, P, kRel * P);
+    EXPECT_NEAR(s.nodes[0].reaction_moment, P * L, kRel * P * L);
+    // At the free end the node force fixes the inside shear by the beam.h
+    // jump rule: V(L-) - P = 0 beyond the end, so V = +P (M = -P (L - x)).
+    EXPECT_NEAR(s.at(0, L, false).shear, P, kRel * P);
+    EXPECT_NEAR(*s.nodes[1].moment_left, 0.0, kRel * P * L);
+    expect_equilibrium(b, s);
+  }
+  {
+    Beam b = make_beam<double>({L}, EI, {T::Free, T::Fixed});  // mirrored: free end on the left
+    b.loads = {span_udl<double>(0, 0, L, w)};
+    Solution s = solve(b, false);
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    EXPECT_NEAR(*s.nodes[1].moment_left, -w * L * L / 2, kRel * w * L * L);
+    EXPECT_NEAR(s.nodes[0].deflection, w * L * L * L * L / (8 * EI), kRel * w * L * L * L * L / EI);
+    EXPECT_NEAR(s.nodes[0].reaction_force, 0.0, kRel * w * L);  // free: no reaction
+    expect_equilibrium(b, s);
+  }
+}
+
+TEST(SingleSpan, SimplySupportedTriangularLoad) {
+  // Load rising linearly from 0 at A to w at B. Reactions by statics: wL/6,
+  // wL/3. Midspan deflection: a triangle plus its mirror image is the
+  // uniform load, and midspan deflection is symmetric, so it is half of
+  // 5wL^4/(384 EI) (symmetry and superposition, general laws). [Roark]
+  // Table 8.1 case 2e with w_a = 0 (from memory): M_max = wL^2/(9 sqrt 3)
+  // at x = L/sqrt 3.
+  const double L = 6, EI = 2e4, w = 9;
+  Beam b = make_beam<double>({L}, EI, {T::Pinned, T::Roller});
+  b.loads = {span_linear<double>(0, 0, L, 0, w)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(s.nodes[0].reaction_force, w * L / 6, kRel * w * L);
+  EXPECT_NEAR(s.nodes[1].reaction_force, w * L / 3, kRel * w * L);
+  EXPECT_NEAR(s.at(0, L / 2, false).deflection, 5 * w * L * L * L * L / (768 * EI), kRel * w * L * L * L * L / EI);
+  const PointValues peak = s.at(0, L / std::sqrt(3.0), false);
+  EXPECT_NEAR(peak.moment, w * L * L / (9 * std::sqrt(3.0)), kRel * w * L * L);
+  EXPECT_NEAR(peak.shear, 0.0, kRel * w * L);
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, FixedFixedTriangularLoad) {
+  // [Roark] Table 8.1 case 2d with w_a = 0 (from memory): load rising from
+  // 0 at A to w at B; M_A = -wL^2/30, M_B = -wL^2/20, R_A = 3wL/20,
+  // R_B = 7wL/20.
+  const double L = 5, EI = 7e3, w = 6;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Fixed});
+  b.loads = {span_linear<double>(0, 0, L, 0, w)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(*s.nodes[0].moment_right, -w * L * L / 30, kRel * w * L * L);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -w * L * L / 20, kRel * w * L * L);
+  EXPECT_NEAR(s.nodes[0].reaction_force, 3 * w * L / 20, kRel * w * L);
+  EXPECT_NEAR(s.nodes[1].reaction_force, 7 * w * L / 20, kRel * w * L);
+  expect_equilibrium(b, s);
+}
+
+TEST(SingleSpan, SimplySupportedCouple) {
+  // Clockwise couple C at a on a simply supported span. By statics:
+  // R_A = -C/L, R_B = +C/L; M just left of a = -C a/L, just right = C b/L
+  // (the moment jumps by +C, beam.h). [Roark] Table 8.1 case 3e (from memory).
+  const double L = 4, a = 1.5, EI = 1e4, C = 10;
+  Beam b = make_beam<double>({L}, EI, {T::Pinned, T::Roller});
+  b.loads = {span_couple<double>(0, a, C)};
+  Solution s = solve(b, false);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(s.nodes[0].reaction_force, -C / L, kRel * C);
+  EXPECT_NEAR(s.nodes[1].reaction_force, C / L, kRel * C);
+  EXPECT_NEAR(s.at(0, a, false).moment, -C * a / L, kRel * C);
+  EXPECT_NEAR(s.at(0, a, true).moment, C * (L - a) / L, kRel * C);
+  expect_equilibrium(b, s);
+}
+
+// --- Settlement, guided end, spring ---------------------------------------------
+
+TEST(Supports, FixedFixedSettlement) {
+  // Right end of a fixed-fixed span settles by D. Slope-deflection fixed-end
+  // moments for a chord rotation D/L: 6 EI D / L^2, shear 12 EI D / L^3
+  // (e.g. R. C. Hibbeler, "Structural Analysis", slope-deflection
+  // equations; from memory). Signs here: v = D (3s^2 - 2s^3), so
+  // M(0) = -6EID/L^2 (hogging), M(L) = +6EID/L^2, V = +12EID/L^3.
+  const double L = 5, EI = 2e4, D = 0.01;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Fixed});
+  b.supports[1].settlement = D;
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double M = 6 * EI * D / (L * L), V = 12 * EI * D / (L * L * L);
+  EXPECT_NEAR(*s.nodes[0].moment_right, -M, kRel * M);
+  EXPECT_NEAR(*s.nodes[1].moment_left, M, kRel * M);
+  EXPECT_NEAR(s.at(0, 1.7, false).shear, V, kRel * V);
+  EXPECT_NEAR(s.nodes[0].reaction_force, V, kRel * V);
+  EXPECT_NEAR(s.nodes[1].reaction_force, -V, kRel * V);
+  EXPECT_NEAR(s.nodes[1].deflection, D, 1e-15);  // prescribed: returned exactly up to rounding
+  EXPECT_NEAR(s.at(0, L / 2, false).deflection, D / 2, kRel * D);  // antisymmetry about midspan
+  expect_equilibrium(b, s);
+}
+
+TEST(Supports, FixedGuidedTipLoad) {
+  // Fixed at A, guided at B (rotation held, deflection free), load P at B.
+  // [Roark] Table 8.1 case 1b (guided end, fixed end; from memory), and
+  // derived from the slope-deflection equations with both end rotations
+  // zero: tip deflection P L^3 / (12 EI), end moments -PL/2 at A and +PL/2
+  // at B.
+  const double L = 4, EI = 6e3, P = 9;
+  Beam b = make_beam<double>({L}, EI, {T::Fixed, T::Guided});
+  b.loads = {node_point<double>(1, P)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(s.nodes[1].deflection, P * L * L * L / (12 * EI), kRel * P * L * L * L / EI);
+  EXPECT_NEAR(*s.nodes[0].moment_right, -P * L / 2, kRel * P * L);
+  EXPECT_NEAR(*s.nodes[1].moment_left, P * L / 2, kRel * P * L);
+  EXPECT_NEAR(s.nodes[1].rotation_left, 0.0, 1e-15);
+  EXPECT_NEAR(s.nodes[1].reaction_force, 0.0, 0.0 + 1e-300);  // guided: no force reaction, exactly 0
+  EXPECT_NEAR(s.nodes[1].reaction_moment, P * L / 2, kRel * P * L);
+  EXPECT_NEAR(s.nodes[0].reaction_force, P, kRel * P);
+  expect_equilibrium(b, s);
+}
+
+TEST(Supports, CentralSpringUnderUdl) {
+  // Simply supported span L with a spring k at midspan, uniform load w.
+  // Derived by compatibility from the closed forms 5wL^4/(384 EI) and
+  // PL^3/(48 EI) ([Roark] Table 8.1 cases 2e and 1e, from memory):
+  // spring force F = (5wL^4/384EI) / (1/k + L^3/48EI); midspan deflection
+  // F/k; end reactions (wL - F)/2 by statics.
+  const double L = 10, EI = 3e4, w = 4, k = 30 * EI / (L * L * L);
+  Beam b = make_beam<double>({L / 2, L / 2}, EI, {T::Pinned, T::Spring, T::Roller});
+  b.supports[1].k = k;
+  b.loads = {span_udl<double>(0, 0, L / 2, w), span_udl<double>(1, 0, L / 2, w)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double F = (5 * w * L * L * L * L / (384 * EI)) / (1 / k + L * L * L / (48 * EI));
+  EXPECT_NEAR(s.nodes[1].reaction_force, F, kRel * w * L);
+  EXPECT_NEAR(s.nodes[1].deflection, F / k, kRel * F / k);
+  EXPECT_NEAR(s.nodes[0].reaction_force, (w * L - F) / 2, kRel * w * L);
+  EXPECT_NEAR(s.nodes[2].reaction_force, (w * L - F) / 2, kRel * w * L);
+  expect_equilibrium(b, s);
+}
+
+TEST(Supports, SpringBaseSettlement) {
+  // Same beam, no load, the spring's base moves down by d. Compatibility:
+  // the spring force R = k (v - d) acts upward on the beam, which deflects
+  // v = -R L^3/(48 EI) ([Roark] Table 8.1 case 1e, from memory), so
+  // R = -k d / (1 + k L^3/(48 EI)).
+  const double L = 10, EI = 3e4, k = 30 * EI / (L * L * L), d = 0.02;
+  Beam b = make_beam<double>({L / 2, L / 2}, EI, {T::Pinned, T::Spring, T::Roller});
+  b.supports[1].k = k;
+  b.supports[1].settlement = d;
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double R = -k * d / (1 + k * L * L * L / (48 * EI));
+  EXPECT_NEAR(s.nodes[1].reaction_force, R, kRel * k * d);
+  EXPECT_NEAR(s.nodes[1].deflection, -R * L * L * L / (48 * EI), kRel * d);
+  EXPECT_NEAR(s.nodes[0].reaction_force, -R / 2, kRel * k * d);
+  expect_equilibrium(b, s);
+}
+
+TEST(Supports, RotationalSpringReaction) {
+  // A cantilever-like span: A pinned with a rotational spring kr... here a
+  // general law only: the reported couple is kr * rotation (beam.h), and
+  // equilibrium holds. Spring at A with k and kr, roller at B, UDL.
+  const double L = 6, EI = 1e4, w = 3;
+  Beam b = make_beam<double>({L}, EI, {T::Spring, T::Roller});
+  b.supports[0].k = 1e3;
+  b.supports[0].kr = 2e4;
+  b.loads = {span_udl<double>(0, 0, L, w)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(s.nodes[0].reaction_moment, 2e4 * s.nodes[0].rotation_right, 1e-12 * w * L * L);
+  EXPECT_NEAR(s.nodes[0].reaction_force, 1e3 * s.nodes[0].deflection, 1e-12 * w * L);
+  // Moment just inside A = -(reaction couple) by the beam.h jump rule.
+  EXPECT_NEAR(*s.nodes[0].moment_right, -s.nodes[0].reaction_moment, 1e-10 * w * L * L);
+  expect_equilibrium(b, s);
+}
+
+// --- Continuous beams: [Hicks] Table 2.1 --------------------------------------------
+
+TEST(Continuous, HicksTwoEqualSpansUdl) {
+  // [Hicks] Table 2.1, 2 spans (from memory): reactions 0.375, 1.250, 0.375
+  // wL; M_B = -0.125 wL^2; max positive 0.070 wL^2 (at 0.375 L from an end).
+  // Tolerance: half a unit of the last printed place (0.0005).
+  const double L = 5, EI = 2e4, w = 4;
+  Beam b = make_beam<double>({L, L}, EI, {T::Pinned, T::Roller, T::Roller});
+  b.loads = {span_udl<double>(0, 0, L, w), span_udl<double>(1, 0, L, w)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double wl = w * L, wl2 = w * L * L, t = 0.0005;
+  EXPECT_NEAR(s.nodes[0].reaction_force, 0.375 * wl, t * wl);
+  EXPECT_NEAR(s.nodes[1].reaction_force, 1.250 * wl, t * wl);
+  EXPECT_NEAR(s.nodes[2].reaction_force, 0.375 * wl, t * wl);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -0.125 * wl2, t * wl2);
+  EXPECT_NEAR(*s.nodes[1].moment_right, -0.125 * wl2, t * wl2);
+  EXPECT_NEAR(s.at(0, 0.375 * L, false).moment, 0.070 * wl2, t * wl2);
+  expect_equilibrium(b, s);
+}
+
+TEST(Continuous, HicksThreeEqualSpansUdl) {
+  // [Hicks] Table 2.1, 3 spans (from memory): reactions 0.400, 1.100,
+  // 1.100, 0.400 wL; M_B = M_C = -0.100 wL^2; max positive 0.080 wL^2 in the
+  // end spans (at 0.4 L from the end) and 0.025 wL^2 at the middle of the
+  // centre span. Tolerance: half a unit of the last printed place.
+  const double L = 3, EI = 1e4, w = 6;
+  Beam b = make_beam<double>({L, L, L}, EI, {T::Pinned, T::Roller, T::Roller, T::Roller});
+  for (std::size_t i = 0; i < 3; ++i) b.loads.push_back(span_udl<double>(i, 0, L, w));
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double wl = w * L, wl2 = w * L * L, t = 0.0005;
+  const double R[] = {0.400, 1.100, 1.100, 0.400};
+  for (int i = 0; i < 4; ++i) EXPECT_NEAR(s.nodes[i].reaction_force, R[i] * wl, t * wl) << i;
+  EXPECT_NEAR(*s.nodes[1].moment_left, -0.100 * wl2, t * wl2);
+  EXPECT_NEAR(*s.nodes[2].moment_right, -0.100 * wl2, t * wl2);
+  EXPECT_NEAR(s.at(0, 0.4 * L, false).moment, 0.080 * wl2, t * wl2);
+  EXPECT_NEAR(s.at(1, 0.5 * L, false).moment, 0.025 * wl2, t * wl2);
+  expect_equilibrium(b, s);
+}
+
+// --- Hinge ----------------------------------------------------------------------------
+
+TEST(Hinge, GerberBeamByStatics) {
+  // Fixed at A, hinge at B (no support), roller at C. Statics only: BC is
+  // simply supported on the hinge and C; the hinge force loads the
+  // cantilever AB at its tip. The moment at the hinge is zero.
+  const double L1 = 4, L2 = 6, EI = 8e3, w = 3, P = 5, a = 2;
+  Beam b = make_beam<double>({L1, L2}, EI, {T::Fixed, T::Free, T::Roller});
+  b.supports[1].hinge = true;
+  b.loads = {span_udl<double>(0, 0, L1, w), span_udl<double>(1, 0, L2, w), span_point<double>(1, a, P)};
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double RC = (w * L2 * L2 / 2 + P * a) / L2;
+  const double VB = w * L2 + P - RC;  // force the hinge passes to AB, down on AB
+  const double RA = w * L1 + VB, MA = -(w * L1 * L1 / 2 + VB * L1);
+  const double scale = (w * (L1 + L2) + P);
+  EXPECT_NEAR(s.nodes[2].reaction_force, RC, kRel * scale);
+  EXPECT_NEAR(s.nodes[0].reaction_force, RA, kRel * scale);
+  EXPECT_NEAR(*s.nodes[0].moment_right, MA, kRel * scale * (L1 + L2));
+  EXPECT_NEAR(*s.nodes[1].moment_left, 0.0, kRel * scale * (L1 + L2));
+  EXPECT_NEAR(*s.nodes[1].moment_right, 0.0, kRel * scale * (L1 + L2));
+  EXPECT_NEAR(s.nodes[1].reaction_force, 0.0, 1e-300);
+  // The two sides turn differently at a hinge (here by a finite amount).
+  EXPECT_GT(std::fabs(s.nodes[1].rotation_left - s.nodes[1].rotation_right), 1e-6);
+  // Deflection at B: the cantilever AB under its UDL and tip force VB,
+  // [Roark] Table 8.1 cases 1a and 2a (from memory): wL^4/8EI + PL^3/3EI.
+  EXPECT_NEAR(s.nodes[1].deflection, w * L1 * L1 * L1 * L1 / (8 * EI) + VB * L1 * L1 * L1 / (3 * EI),
+              kRel * scale * L1 * L1 * L1 / EI);
+  expect_equilibrium(b, s);
+}
+
+// --- Maxwell-Betti reciprocity on random beams ----------------------------------------
+
+struct Features { int spring = 0, rot_spring = 0, hinge = 0, guided = 0, free = 0, fixed = 0; };
+
+Beam random_beam(std::mt19937& rng, Features& seen) {
+  std::uniform_int_distribution<int> spans(1, 4), type(0, 5);
+  std::uniform_real_distribution<double> len(1.0, 6.0), stiff(0.5, 2.0), coin(0.0, 1.0);
+  for (;;) {
+    const int n = spans(rng);
+    Beam b;
+    for (int i = 0; i < n; ++i) b.spans.push_back({len(rng), 1e4 * stiff(rng)});
+    const T types[] = {T::Fixed, T::Pinned, T::Roller, T::Free, T::Spring, T::Guided};
+    for (int i = 0; i <= n; ++i) {
+      Support s;
+      s.type = types[type(rng)];
+      if (s.type == T::Spring) {
+        s.k = 1e3 * stiff(rng);
+        if (coin(rng) < 0.5) s.kr = 1e4 * stiff(rng);
+      }
+      const bool can_hinge = i > 0 && i < n && !restrains_rotation(s.type) && !(s.type == T::Spring && s.kr > 0);
+      s.hinge = can_hinge && coin(rng) < 0.4;
+      b.supports.push_back(s);
+      b.labels.push_back(std::string(1, static_cast<char>('A' + i)));
+    }
+    if (find_mechanism(b)) continue;
+    for (const Support& s : b.supports) {
+      seen.spring += s.type == T::Spring;
+      seen.rot_spring += s.type == T::Spring && s.kr > 0;
+      seen.hinge += s.hinge;
+      seen.guided += s.type == T::Guided;
+      seen.free += s.type == T::Free;
+      seen.fixed += s.type == T::Fixed;
+    }
+    return b;
+  }
+}
+
+TEST(Reciprocity, MaxwellBettiOnRandomBeams) {
+  // Maxwell-Betti (a general law of linear elasticity): the deflection at i
+  // due to a unit force at j equals the deflection at j due to a unit force
+  // at i; and the rotation at i due to a unit force at j equals the
+  // deflection at j due to a unit couple at i.
+  std::mt19937 rng(20240611u);
+  Features seen;
+  std::uniform_real_distribution<double> frac(0.05, 0.95);
+  for (int trial = 0; trial < 200; ++trial) {
+    const Beam base = random_beam(rng, seen);
+    const std::size_t n = base.spans.size();
+    std::uniform_int_distribution<std::size_t> pick(0, n - 1);
+    const std::size_t si = pick(rng), sj = pick(rng);
+    const double ai = frac(rng) * base.spans[si].length, aj = frac(rng) * base.spans[sj].length;
+    auto with = [&](const Load& l) { Beam b = base; b.loads = {l}; return b; };
+    const Beam bi = with(span_point<double>(si, ai, 1.0)), bj = with(span_point<double>(sj, aj, 1.0));
+    const Beam ci = with(span_couple<double>(si, ai, 1.0));
+    const Solution s_i = stiffness::solve(bi, {}), s_j = stiffness::solve(bj, {}), c_i = stiffness::solve(ci, {});
+    ASSERT_EQ(s_i.status, MethodStatus::Ok) << s_i.reason;
+    ASSERT_EQ(s_j.status, MethodStatus::Ok) << s_j.reason;
+    ASSERT_EQ(c_i.status, MethodStatus::Ok) << c_i.reason;
+    const double dij = s_j.at(si, ai, false).deflection, dji = s_i.at(sj, aj, false).deflection;
+    // Tolerance: rounding relative to the size of the flexibility terms.
+    EXPECT_NEAR(dij, dji, 1e-9 * (std::fabs(dij) + std::fabs(dji)) + 1e-15) << "trial " << trial;
+    const double rij = s_j.at(si, ai, false).rotation, dcj = c_i.at(sj, aj, false).deflection;
+    EXPECT_NEAR(rij, dcj, 1e-9 * (std::fabs(rij) + std::fabs(dcj)) + 1e-15) << "trial " << trial;
+    expect_equilibrium(bi, s_i);
+    expect_equilibrium(ci, c_i);
+  }
+  // The draw must have covered the features the law is meant to test.
+  EXPECT_GT(seen.spring, 0);
+  EXPECT_GT(seen.rot_spring, 0);
+  EXPECT_GT(seen.hinge, 0);
+  EXPECT_GT(seen.guided, 0);
+  EXPECT_GT(seen.free, 0);
+  EXPECT_GT(seen.fixed, 0);
+}
+
+// --- Exact recovery between element nodes ---------------------------------------------
+
+TEST(Recovery, BetweenNodesEqualsANodePlacedThere) {
+  // Evaluating inside an element must give what a solve with an element
+  // node at that very point gives (the element solution is exact).
+  const double EI = 1.5e4;
+  Beam b = make_beam<double>({4, 6, 3}, EI, {T::Fixed, T::Spring, T::Roller, T::Free});
+  b.supports[1].k = 2e3;
+  b.supports[1].kr = 5e3;
+  b.loads = {span_linear<double>(0, 0.5, 3.5, 2, 7), span_udl<double>(1, 0, 6, 3),
+             span_point<double>(1, 2.2, 10), span_couple<double>(1, 4.1, -6),
+             span_linear<double>(2, 0, 3, 5, 1), node_point<double>(3, 2)};
+  const Solution coarse = stiffness::solve(b, {});
+  ASSERT_EQ(coarse.status, MethodStatus::Ok) << coarse.reason;
+  std::mt19937 rng(7u);
+  for (int k = 0; k < 30; ++k) {
+    const std::size_t span = static_cast<std::size_t>(k % 3);
+    const double L = b.spans[span].length;
+    const double x = std::uniform_real_distribution<double>(0.01, 0.99)(rng) * L;
+    std::vector<Station> st = {{b.node_x(span) + x, span, x, false}};
+    const Solution fine = stiffness::solve(b, st);
+    ASSERT_EQ(fine.status, MethodStatus::Ok) << fine.reason;
+    const PointValues c = coarse.at(span, x, false), f = fine.at(span, x, false);
+    // Rounding only: the two solves differ in element layout.
+    EXPECT_NEAR(c.deflection, f.deflection, 1e-11 * (std::fabs(f.deflection) + 1e-3));
+    EXPECT_NEAR(c.rotation, f.rotation, 1e-11 * (std::fabs(f.rotation) + 1e-3));
+    EXPECT_NEAR(c.moment, f.moment, 1e-10 * (std::fabs(f.moment) + 10));
+    EXPECT_NEAR(c.shear, f.shear, 1e-10 * (std::fabs(f.shear) + 10));
+    expect_equilibrium(b, fine);
+  }
+  // Moment from statics agrees with -EI v'' (central difference of the
+  // recovered rotation, a consistency law): tolerance from the difference step.
+  const double x = 1.234, h = 1e-4;
+  const double vpp = (coarse.at(1, x + h, false).rotation - coarse.at(1, x - h, false).rotation) / (2 * h);
+  EXPECT_NEAR(coarse.at(1, x, false).moment, -EI * vpp, 1e-5 * std::fabs(coarse.at(1, x, false).moment) + 1e-6);
+  expect_equilibrium(b, coarse);
+}
+
+// --- Extended precision -------------------------------------------------------------
+
+using X = Extended;
+
+X rel_err(const X& got, const X& want) {
+  using std::abs;
+  return abs(got - want) / abs(want);
+}
+
+TEST(ExtendedPrecision, FixedFixedPointLoad) {
+  // [Roark] Table 8.1 case 1d (from memory), as in SingleSpan.FixedFixedPointLoad,
+  // solved in 50 digits: agreement far beyond double (1e-40 relative).
+  const X a = 2, bb = 3, L = a + bb, EI = 3, P = 7;
+  BasicBeam<X> b = make_beam<X>({L}, EI, {T::Fixed, T::Fixed});
+  b.loads = {span_point<X>(0, a, P)};
+  const BasicSolution<X> s = stiffness::solve(b, build_stations(b, 10));
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const X tol("1e-40");
+  EXPECT_LT(rel_err(*s.nodes[0].moment_right, -P * a * bb * bb / (L * L)), tol);
+  EXPECT_LT(rel_err(*s.nodes[1].moment_left, -P * a * a * bb / (L * L)), tol);
+  EXPECT_LT(rel_err(s.nodes[0].reaction_force, P * bb * bb * (X(3) * a + bb) / (L * L * L)), tol);
+  EXPECT_LT(rel_err(s.nodes[1].reaction_force, P * a * a * (a + X(3) * bb) / (L * L * L)), tol);
+}
+
+TEST(ExtendedPrecision, UdlAndTriangularLoadsUseGaussInFullPrecision) {
+  // [Roark] Table 8.1 cases 2e and 2d (from memory): simply supported UDL
+  // midspan deflection 5wL^4/(384 EI); fixed-fixed load rising from 0 to w:
+  // M_A = -wL^2/30, M_B = -wL^2/20. The work-equivalent loads come from the
+  // Gauss rule, so these would stall near 1e-16 with double Gauss constants.
+  const X tol("1e-40");
+  {
+    const X L = 7, EI = 11, w = 3;
+    BasicBeam<X> b = make_beam<X>({L}, EI, {T::Pinned, T::Roller});
+    b.loads = {span_udl<X>(0, X(0), L, w)};
+    const BasicSolution<X> s = stiffness::solve(b, build_stations(b, 10));
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    EXPECT_LT(rel_err(s.at(0, L / X(2), false).deflection, X(5) * w * L * L * L * L / (X(384) * EI)), tol);
+    EXPECT_LT(rel_err(s.at(0, L / X(2), false).moment, w * L * L / X(8)), tol);
+  }
+  {
+    const X L = 5, EI = 7, w = 6;
+    BasicBeam<X> b = make_beam<X>({L}, EI, {T::Fixed, T::Fixed});
+    b.loads = {span_linear<X>(0, X(0), L, X(0), w)};
+    const BasicSolution<X> s = stiffness::solve(b, {});
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    EXPECT_LT(rel_err(*s.nodes[0].moment_right, -w * L * L / X(30)), tol);
+    EXPECT_LT(rel_err(*s.nodes[1].moment_left, -w * L * L / X(20)), tol);
+  }
+}
+
+// --- Size -------------------------------------------------------------------------------
+
+TEST(Size, HundredThousandSpans) {
+  // 100,000 equal spans under uniform load. Equilibrium (general law); and
+  // by symmetry an interior span far from the ends turns through no end
+  // rotation, so it acts as fixed-fixed: support moment -wL^2/12 ([Roark]
+  // Table 8.1 case 2d, from memory). The end effect decays by (2 - sqrt 3)
+  // per span, so it is far below the tolerance in the middle.
+  const std::size_t n = 100000;
+  const double L = 4, EI = 1e4, w = 2;
+  Beam b;
+  for (std::size_t i = 0; i < n; ++i) {
+    b.spans.push_back({L, EI});
+    b.loads.push_back(span_udl<double>(i, 0, L, w));
+  }
+  for (std::size_t i = 0; i <= n; ++i) {
+    Support s;
+    s.type = i == 0 ? T::Pinned : T::Roller;
+    b.supports.push_back(s);
+    b.labels.push_back("N" + std::to_string(i));
+  }
+  const Solution s = stiffness::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  expect_equilibrium(b, s, 1e-9);
+  EXPECT_NEAR(*s.nodes[n / 2].moment_left, -w * L * L / 12, 1e-9 * w * L * L);
+  EXPECT_NEAR(s.nodes[n / 2].reaction_force, w * L, 1e-9 * w * L);
+}
+
+// --- Out of scope and faults --------------------------------------------------------------
+
+TEST(Scope, CoupleAtHingeIsNotApplicable) {
+  Beam b = make_beam<double>({3, 3}, 1e4, {T::Fixed, T::Free, T::Roller});
+  b.supports[1].hinge = true;
+  b.loads = {node_couple<double>(1, 5)};
+  const Solution s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::NotApplicable);
+  EXPECT_NE(s.reason.find("hinge"), std::string::npos) << s.reason;
+  EXPECT_NE(s.reason.find("node B"), std::string::npos) << s.reason;
+}
+
+TEST(Scope, NegativeSpringIsNotApplicable) {
+  Beam b = make_beam<double>({3}, 1e4, {T::Fixed, T::Spring});
+  b.supports[1].k = -5;
+  const Solution s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::NotApplicable);
+  EXPECT_NE(s.reason.find("spring"), std::string::npos) << s.reason;
+}
+
+TEST(Faults, MechanismFailsWithAReason) {
+  // Not stable (one pinned support): the reader would refuse it; the solver
+  // must still not return a number.
+  Beam b = make_beam<double>({3, 2}, 1e4, {T::Free, T::Pinned, T::Free});
+  b.loads = {node_point<double>(0, 1)};
+  const Solution s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::Failed);
+  EXPECT_NE(s.reason.find("pivot"), std::string::npos) << s.reason;
+}
+
+TEST(Faults, NonFiniteLoadFails) {
+  Beam b = make_beam<double>({3}, 1e4, {T::Pinned, T::Roller});
+  b.loads = {span_point<double>(0, 1.0, std::nan(""))};
+  const Solution s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::Failed);
+  EXPECT_FALSE(s.reason.empty());
+}
+
+}  // namespace
+}  // namespace trivet
