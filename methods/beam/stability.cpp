@@ -44,6 +44,7 @@ std::optional<Mechanism> find_mechanism(const Beam& beam) {
   std::size_t seg_first = 0;   // first span of the current segment
   std::size_t free_from = 0;   // first span of the part that can still move
   double x0 = 0.0;             // left end of the current segment
+  bool folds = false;          // the moving part crosses a hinge
   auto restrain_node = [&](std::size_t i, bool at_hinge) {
     const Support& s = beam.supports[i];
     const double dx = xs[i] - x0;
@@ -79,8 +80,10 @@ std::optional<Mechanism> find_mechanism(const Beam& beam) {
                              ") can move while the hinge at " + label(i) + " stays put"};
       }
       carried = 1;
+      folds = true;
     } else {
       free_from = i;
+      folds = false;
     }
     // New segment: v = h + b (x - x_i); h free only if carried.
     seg_first = i;
@@ -91,9 +94,10 @@ std::optional<Mechanism> find_mechanism(const Beam& beam) {
   (void)seg_first;
   if (m.dim > 0) {
     const std::size_t first = free_from;
-    std::string what = m.dim == 2 ? "can move up and down and turn"
-                                  : (std::abs(m.ub) <= 1e-300 ? "can move up and down"
-                                                              : "can turn about a point");
+    std::string what = folds ? "can fold at its hinges"
+                       : m.dim == 2 ? "can move up and down and turn"
+                                    : (std::abs(m.ub) <= 1e-300 ? "can move up and down"
+                                                                : "can turn about a point");
     std::string where = first == 0 && n == 1 ? "the beam"
                         : "spans " + std::to_string(first + 1) + " to " + std::to_string(n) +
                               " (nodes " + label(first) + " to " + label(n) + ")";

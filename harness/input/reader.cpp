@@ -1,0 +1,930 @@
+#include "harness/input/reader.h"
+
+#include <algorithm>
+#include <charconv>
+#include <cmath>
+#include <fstream>
+#include <map>
+#include <set>
+#include <sstream>
+
+#include <nlohmann/json.hpp>
+
+#include "methods/beam/stability.h"
+
+namespace trivet::input {
+
+using nlohmann::json;
+
+std::string Error::format(const std::string& file) const {
+  std::string s = file + ": " + (pointer.empty() ? std::string("/") : pointer);
+  if (!where.empty()) s += " (" + where + ")";
+  return s + ": " + reason;
+}
+
+const char* quantity_name(Quantity q) {
+  switch (q) {
+    case Quantity::Moment: return "moment";
+    case Quantity::Shear: return "shear";
+    case Quantity::Reaction: return "reaction";
+    case Quantity::ReactionMoment: return "reaction_moment";
+    case Quantity::Deflection: return "deflection";
+    case Quantity::Rotation: return "rotation";
+    case Quantity::MaxMoment: return "max_moment";
+    case Quantity::MinMoment: return "min_moment";
+    case Quantity::MaxDeflection: return "max_deflection";
+  }
+  return "?";
+}
+
+Dimension quantity_dimension(Quantity q) {
+  switch (q) {
+    case Quantity::Moment: case Quantity::ReactionMoment:
+    case Quantity::MaxMoment: case Quantity::MinMoment: return {1, 1};
+    case Quantity::Shear: case Quantity::Reaction: return {1, 0};
+    case Quantity::Deflection: case Quantity::MaxDeflection: return {0, 1};
+    case Quantity::Rotation: return {0, 0};
+  }
+  return {0, 0};
+}
+
+std::string default_label(std::size_t i) {
+  std::string s;
+  std::size_t n = i + 1;
+  while (n > 0) {
+    --n;
+    s.insert(s.begin(), static_cast<char>('A' + n % 26));
+    n /= 26;
+  }
+  return s;
+}
+
+std::string format_number(double v) {
+  if (!(v < 0.0) && !(v > 0.0)) return "0";  // also -0
+  char buf[64];
+  auto res = std::to_chars(buf, buf + sizeof buf, v);
+  return std::string(buf, res.ptr);
+}
+
+namespace {
+
+std::size_t edit_distance(const std::string& a, const std::string& b) {
+  std::vector<std::size_t> prev(b.size() + 1), cur(b.size() + 1);
+  for (std::size_t j = 0; j <= b.size(); ++j) prev[j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    cur[0] = i;
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      const bool same = std::tolower(static_cast<unsigned char>(a[i - 1])) ==
+                        std::tolower(static_cast<unsigned char>(b[j - 1]));
+      cur[j] = std::min({prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (same ? 0 : 1)});
+    }
+    std::swap(prev, cur);
+  }
+  return prev[b.size()];
+}
+
+}  // namespace
+
+std::optional<std::string> did_you_mean(const std::string& word,
+                                        const std::vector<std::string>& options) {
+  std::optional<std::string> best;
+  std::size_t best_d = 0;
+  for (const auto& o : options) {
+    const std::size_t d = edit_distance(word, o);
+    if (!best || d < best_d) { best = o; best_d = d; }
+  }
+  if (!best) return std::nullopt;
+  const std::size_t limit = std::max<std::size_t>(1, std::min<std::size_t>(3, best->size() / 3 + 1));
+  if (*best == word || best_d > limit || best_d >= word.size()) return std::nullopt;
+  return best;
+}
+
+std::optional<Tolerance> parse_tolerance_text(const std::string& text, std::string* reason) {
+  std::string t = text;
+  while (!t.empty() && std::isspace(static_cast<unsigned char>(t.back()))) t.pop_back();
+  std::size_t b = 0;
+  while (b < t.size() && std::isspace(static_cast<unsigned char>(t[b]))) ++b;
+  t = t.substr(b);
+  Tolerance tol;
+  bool pct = !t.empty() && t.back() == '%';
+  if (pct) t.pop_back();
+  double v = 0;
+  auto res = std::from_chars(t.data(), t.data() + t.size(), v);
+  if (t.empty() || res.ec != std::errc() || res.ptr != t.data() + t.size() || !std::isfinite(v)) {
+    if (reason) *reason = "must be a percentage such as \"1%\" or an absolute value such as 0.05 (got \"" + text + "\")";
+    return std::nullopt;
+  }
+  if (v < 0) {
+    if (reason) *reason = "must not be negative (got \"" + text + "\")";
+    return std::nullopt;
+  }
+  tol.relative = pct;
+  tol.value = pct ? v / 100.0 : v;
+  return tol;
+}
+
+namespace {
+
+const char* type_of(const json& j) {
+  switch (j.type()) {
+    case json::value_t::null: return "null";
+    case json::value_t::object: return "an object";
+    case json::value_t::array: return "an array";
+    case json::value_t::string: return "a string";
+    case json::value_t::boolean: return "true/false";
+    case json::value_t::number_integer:
+    case json::value_t::number_unsigned:
+    case json::value_t::number_float: return "a number";
+    default: return "something else";
+  }
+}
+
+std::string got(const json& j) {
+  if (j.is_string()) {
+    std::string s = j.get<std::string>();
+    if (s.size() > 40) s = s.substr(0, 40) + "...";
+    return "got the string \"" + s + "\"";
+  }
+  if (j.is_number()) return "got " + format_number(j.get<double>());
+  if (j.is_boolean()) return std::string("got ") + (j.get<bool>() ? "true" : "false");
+  return std::string("got ") + type_of(j);
+}
+
+// Escapes a key for a JSON Pointer (RFC 6901: ~ -> ~0, / -> ~1).
+std::string escape_key(const std::string& k) {
+  std::string r;
+  for (char c : k) {
+    if (c == '~') r += "~0";
+    else if (c == '/') r += "~1";
+    else r += c;
+  }
+  return r;
+}
+
+struct Reader {
+  std::vector<Error>* errors;
+  Units units;
+  Limits limits;
+
+  void error(const std::string& ptr, const std::string& where, const std::string& reason) {
+    if (errors->size() < 1000) errors->push_back({ptr, where, reason});
+    else if (errors->size() == 1000)
+      errors->push_back({"", "", "more than 1000 errors; the rest are not listed"});
+  }
+
+  // Reports keys of `obj` not in `allowed`.
+  void check_keys(const json& obj, const std::string& ptr, const std::string& where,
+                  const std::vector<std::string>& allowed) {
+    for (auto it = obj.begin(); it != obj.end(); ++it) {
+      if (std::find(allowed.begin(), allowed.end(), it.key()) != allowed.end()) continue;
+      std::string reason = "unknown field '" + it.key() + "'";
+      if (auto m = did_you_mean(it.key(), allowed)) reason += " (did you mean '" + *m + "'?)";
+      else {
+        reason += " (known here: ";
+        for (std::size_t i = 0; i < allowed.size(); ++i) reason += (i ? ", " : "") + allowed[i];
+        reason += ")";
+      }
+      error(ptr + "/" + escape_key(it.key()), where, reason);
+    }
+  }
+
+  // A quantity: a plain number in the file's units or a string with a unit.
+  std::optional<double> quantity(const json& v, const std::string& ptr, const std::string& where,
+                                 Dimension dim) {
+    if (v.is_number()) {
+      const double d = v.get<double>();
+      if (!std::isfinite(d)) {
+        error(ptr, where, "must be a finite number (the value is too large)");
+        return std::nullopt;
+      }
+      return d;
+    }
+    if (v.is_string()) {
+      auto q = parse_quantity(v.get<std::string>(), dim, units);
+      if (!q.ok) {
+        error(ptr, where, q.reason);
+        return std::nullopt;
+      }
+      return q.value;
+    }
+    error(ptr, where, "must be a number (" + units.of(dim) + "), or a string with its unit (" + got(v) + ")");
+    return std::nullopt;
+  }
+
+  std::optional<double> field(const json& obj, const char* key, const std::string& ptr,
+                              const std::string& where, Dimension dim, bool required) {
+    auto it = obj.find(key);
+    if (it == obj.end()) {
+      // A misspelt key has already been reported with this one suggested.
+      bool misspelt = false;
+      for (auto k = obj.begin(); k != obj.end(); ++k)
+        if (k.key() != key && did_you_mean(k.key(), {key}) == std::optional<std::string>(key)) misspelt = true;
+      if (required && !misspelt) error(ptr + "/" + key, where, "required field is missing");
+      return std::nullopt;
+    }
+    return quantity(*it, ptr + "/" + key, where, dim);
+  }
+
+  std::optional<double> positive(const json& obj, const char* key, const std::string& ptr,
+                                 const std::string& where, Dimension dim, bool required) {
+    auto v = field(obj, key, ptr, where, dim, required);
+    if (v && !(*v > 0.0)) {
+      error(ptr + "/" + key, where, "must be greater than 0 (got " + format_number(*v) + ")");
+      return std::nullopt;
+    }
+    return v;
+  }
+};
+
+const std::vector<std::string> kTopKeys = {"title", "description", "units", "spans", "supports",
+                                           "labels", "loads", "stations_per_span", "claims", "$schema"};
+const std::vector<std::string> kSupportTypes = {"fixed", "pinned", "roller", "free", "spring", "guided"};
+const std::vector<std::string> kLoadTypes = {"point", "udl", "linear", "couple"};
+const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "reaction_moment",
+                                              "deflection", "rotation", "max_moment",
+                                              "min_moment", "max_deflection"};
+
+// Tracks object keys during parsing so that a key given twice is an error
+// (nlohmann/json would otherwise keep the last one silently).
+struct DuplicateFinder {
+  struct Frame {
+    bool object;
+    std::size_t index = 0;
+    std::set<std::string> keys;
+    std::string name;  // this container's pointer
+  };
+  std::vector<Frame> stack;
+  std::string pending_key;
+  std::vector<std::string> duplicates;  // pointers
+
+  std::string child_pointer() {
+    if (stack.empty()) return "";
+    Frame& f = stack.back();
+    if (f.object) return f.name + "/" + escape_key(pending_key);
+    return f.name + "/" + std::to_string(f.index);
+  }
+  void value_done() {
+    if (!stack.empty() && !stack.back().object) ++stack.back().index;
+  }
+  bool operator()(int, json::parse_event_t ev, json& parsed) {
+    switch (ev) {
+      case json::parse_event_t::object_start:
+      case json::parse_event_t::array_start: {
+        std::string name = child_pointer();
+        stack.push_back({ev == json::parse_event_t::object_start, 0, {}, name});
+        break;
+      }
+      case json::parse_event_t::object_end:
+      case json::parse_event_t::array_end:
+        if (!stack.empty()) stack.pop_back();
+        value_done();
+        break;
+      case json::parse_event_t::key: {
+        pending_key = parsed.get<std::string>();
+        if (!stack.empty() && !stack.back().keys.insert(pending_key).second &&
+            duplicates.size() < 100)
+          duplicates.push_back(stack.back().name + "/" + escape_key(pending_key));
+        break;
+      }
+      case json::parse_event_t::value:
+        value_done();
+        break;
+    }
+    return true;
+  }
+};
+
+std::string where_of(const std::string& ptr) {
+  // "/spans/1/..." -> "span 2", "/supports/0" -> "node 1", ...
+  static const std::vector<std::pair<std::string, std::string>> prefixes = {
+      {"/spans/", "span "}, {"/supports/", "node "}, {"/labels/", "node "},
+      {"/loads/", "load "}, {"/claims/values/", "claim "}};
+  for (const auto& [p, w] : prefixes) {
+    if (ptr.compare(0, p.size(), p) == 0) {
+      std::size_t i = p.size();
+      std::size_t n = 0;
+      bool digits = false;
+      while (i < ptr.size() && std::isdigit(static_cast<unsigned char>(ptr[i]))) {
+        n = n * 10 + static_cast<std::size_t>(ptr[i] - '0');
+        ++i;
+        digits = true;
+      }
+      if (digits) return w + std::to_string(n + 1);
+    }
+  }
+  return "";
+}
+
+}  // namespace
+
+BeamFile parse_beam_text(const std::string& text, const std::string& display, const Limits& limits) {
+  BeamFile out;
+  out.path = display;
+  Reader rd{&out.errors, Units{}, limits};
+
+  if (text.size() > limits.max_file_bytes) {
+    rd.error("", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB");
+    return out;
+  }
+  if (std::all_of(text.begin(), text.end(), [](char c) { return std::isspace(static_cast<unsigned char>(c)); })) {
+    rd.error("", "", "the file is empty (a beam file is a JSON object)");
+    return out;
+  }
+
+  json root;
+  DuplicateFinder dups;
+  try {
+    root = json::parse(text, std::ref(dups), true, false);
+  } catch (const json::parse_error& e) {
+    std::string msg = e.what();
+    const std::string marker = "parse error at ";
+    auto p = msg.find(marker);
+    if (p != std::string::npos) msg = msg.substr(p + marker.size());
+    rd.error("", "", "not valid JSON: " + msg);
+    return out;
+  } catch (const json::out_of_range& e) {
+    // nlohmann/json refuses numbers beyond double (e.g. 1e999); the
+    // duplicate finder knows where the parser had got to.
+    const std::string ptr = dups.child_pointer();
+    rd.error(ptr, where_of(ptr), "must be a finite number (the value is too large)");
+    return out;
+  } catch (const std::exception& e) {
+    rd.error("", "", std::string("not valid JSON: ") + e.what());
+    return out;
+  }
+  for (const auto& d : dups.duplicates)
+    rd.error(d, where_of(d), "this field is given twice (each field may appear once)");
+  if (!root.is_object()) {
+    rd.error("", "", std::string("a beam file must be a JSON object with spans, supports and loads (got ") +
+                         type_of(root) + ")");
+    return out;
+  }
+  rd.check_keys(root, "", "", kTopKeys);
+
+  Beam& beam = out.beam;
+  // title
+  if (auto it = root.find("title"); it != root.end()) {
+    if (it->is_string()) beam.title = it->get<std::string>();
+    else rd.error("/title", "", "must be a string (" + got(*it) + ")");
+  }
+  // units
+  bool units_ok = false;
+  if (auto it = root.find("units"); it == root.end()) {
+    rd.error("/units", "", "required field is missing (for example {\"force\": \"kN\", \"length\": \"m\"})");
+  } else if (!it->is_object()) {
+    rd.error("/units", "", "must be an object such as {\"force\": \"kN\", \"length\": \"m\"} (" + got(*it) + ")");
+  } else {
+    rd.check_keys(*it, "/units", "", {"force", "length"});
+    units_ok = true;
+    auto unit_field = [&](const char* key, const std::vector<std::string>& names, bool force) {
+      auto f = it->find(key);
+      const std::string ptr = std::string("/units/") + key;
+      std::string list;
+      for (std::size_t i = 0; i < names.size(); ++i) list += (i ? ", " : "") + names[i];
+      if (f == it->end()) { rd.error(ptr, "", "required field is missing (one of " + list + ")"); units_ok = false; return; }
+      if (!f->is_string()) { rd.error(ptr, "", "must be one of " + list + " (" + got(*f) + ")"); units_ok = false; return; }
+      const std::string name = f->get<std::string>();
+      auto factor = force ? force_unit(name) : length_unit(name);
+      if (!factor) {
+        std::string reason = "unknown " + std::string(force ? "force" : "length") + " unit '" + name + "'";
+        if (auto m = did_you_mean(name, names)) reason += " (did you mean '" + *m + "'?)";
+        else reason += " (one of " + list + ")";
+        rd.error(ptr, "", reason);
+        units_ok = false;
+        return;
+      }
+      if (force) { rd.units.force = name; rd.units.newtons = *factor; }
+      else { rd.units.length = name; rd.units.metres = *factor; }
+    };
+    unit_field("force", {"N", "kN", "MN", "lbf", "kip"}, true);
+    unit_field("length", {"mm", "cm", "m", "in", "ft"}, false);
+  }
+  out.units = rd.units;
+  // Quantities given with their own unit cannot be converted without the
+  // file's units; plain numbers can still be checked.
+  (void)units_ok;
+
+  const Dimension kLength{0, 1}, kForce{1, 0}, kMoment{1, 1}, kLineLoad{1, -1}, kEI{1, 2},
+      kE{1, -2}, kI{0, 4};
+
+  // spans
+  bool spans_ok = false;
+  if (auto it = root.find("spans"); it == root.end()) {
+    rd.error("/spans", "", "required field is missing (a list of spans, left to right)");
+  } else if (!it->is_array()) {
+    rd.error("/spans", "", "must be a list of spans (" + got(*it) + ")");
+  } else if (it->empty()) {
+    rd.error("/spans", "", "must have at least one span");
+  } else if (it->size() > limits.max_spans) {
+    rd.error("/spans", "", "has " + std::to_string(it->size()) + " spans, more than the limit of " +
+                               std::to_string(limits.max_spans));
+  } else {
+    spans_ok = true;
+    beam.spans.reserve(it->size());
+    for (std::size_t i = 0; i < it->size(); ++i) {
+      const json& s = (*it)[i];
+      const std::string ptr = "/spans/" + std::to_string(i);
+      const std::string where = "span " + std::to_string(i + 1);
+      Span span;
+      if (!s.is_object()) {
+        rd.error(ptr, where, "must be an object with length and EI (" + got(s) + ")");
+        spans_ok = false;
+        beam.spans.push_back(span);
+        continue;
+      }
+      rd.check_keys(s, ptr, where, {"length", "EI", "E", "I"});
+      auto L = rd.positive(s, "length", ptr, where, kLength, true);
+      const bool has_ei = s.contains("EI"), has_e = s.contains("E"), has_i = s.contains("I");
+      std::optional<double> ei;
+      if (has_ei && (has_e || has_i)) {
+        rd.error(ptr, where, "give either EI or both E and I, not both");
+      } else if (has_ei) {
+        ei = rd.positive(s, "EI", ptr, where, kEI, true);
+      } else if (has_e || has_i) {
+        auto e = rd.positive(s, "E", ptr, where, kE, true);
+        auto in = rd.positive(s, "I", ptr, where, kI, true);
+        if (e && in) {
+          ei = *e * *in;
+          if (!std::isfinite(*ei) || !(*ei > 0)) {
+            rd.error(ptr, where, "E times I is out of range (" + format_number(*ei) + ")");
+            ei.reset();
+          }
+        }
+      } else {
+        rd.error(ptr + "/EI", where, "required field is missing (give EI, or both E and I)");
+      }
+      if (L.has_value() && ei.has_value()) {
+        span.length = L.value_or(1.0);
+        span.EI = ei.value_or(1.0);
+      } else {
+        spans_ok = false;
+      }
+      beam.spans.push_back(span);
+    }
+  }
+  const std::size_t n_spans = beam.spans.size();
+  const std::size_t n_nodes = n_spans + 1;
+
+  // supports
+  bool supports_ok = false;
+  if (auto it = root.find("supports"); it == root.end()) {
+    rd.error("/supports", "", "required field is missing (one entry per node, left to right)");
+  } else if (!it->is_array()) {
+    rd.error("/supports", "", "must be a list with one entry per node (" + got(*it) + ")");
+  } else if (n_spans > 0 && it->size() != n_nodes) {
+    rd.error("/supports", "", "must have one entry per node: " + std::to_string(n_nodes) + " for " +
+                                  std::to_string(n_spans) + (n_spans == 1 ? " span" : " spans") +
+                                  " (got " + std::to_string(it->size()) + ")");
+  } else {
+    supports_ok = n_spans > 0;
+    for (std::size_t i = 0; i < it->size(); ++i) {
+      const json& s = (*it)[i];
+      const std::string ptr = "/supports/" + std::to_string(i);
+      const std::string where = "node " + std::to_string(i + 1);
+      Support sup;
+      const json* type = nullptr;
+      std::string tptr = ptr;
+      if (s.is_string()) {
+        type = &s;
+      } else if (s.is_object()) {
+        rd.check_keys(s, ptr, where, {"type", "k", "kr", "settlement", "hinge"});
+        auto t = s.find("type");
+        if (t == s.end()) { rd.error(ptr + "/type", where, "required field is missing (one of fixed, pinned, roller, free, spring, guided)"); supports_ok = false; }
+        else { type = &*t; tptr = ptr + "/type"; }
+      } else {
+        rd.error(ptr, where, "must be a support type such as \"pinned\", or an object with \"type\" (" + got(s) + ")");
+        supports_ok = false;
+      }
+      bool type_ok = false;
+      if (type) {
+        if (!type->is_string()) {
+          rd.error(tptr, where, "must be one of fixed, pinned, roller, free, spring, guided (" + got(*type) + ")");
+        } else {
+          const std::string t = type->get<std::string>();
+          static const std::map<std::string, SupportType> m = {
+              {"fixed", SupportType::Fixed}, {"pinned", SupportType::Pinned},
+              {"roller", SupportType::Roller}, {"free", SupportType::Free},
+              {"spring", SupportType::Spring}, {"guided", SupportType::Guided}};
+          auto f = m.find(t);
+          if (f == m.end()) {
+            std::string reason = "unknown support type '" + t + "'";
+            if (auto d = did_you_mean(t, kSupportTypes)) reason += " (did you mean '" + *d + "'?)";
+            else reason += " (one of fixed, pinned, roller, free, spring, guided)";
+            rd.error(tptr, where, reason);
+          } else {
+            sup.type = f->second;
+            type_ok = true;
+          }
+        }
+      }
+      if (!type_ok) supports_ok = false;
+      if (s.is_object() && type_ok) {
+        const bool spring = sup.type == SupportType::Spring;
+        if (spring) {
+          auto k = rd.positive(s, "k", ptr, where, kLineLoad, true);
+          if (k) sup.k = *k; else supports_ok = false;
+          if (s.contains("kr")) {
+            auto kr = rd.field(s, "kr", ptr, where, kMoment, false);
+            if (kr && *kr < 0) { rd.error(ptr + "/kr", where, "must not be negative (got " + format_number(*kr) + ")"); supports_ok = false; }
+            else if (kr) sup.kr = *kr; else supports_ok = false;
+          }
+        } else {
+          if (s.contains("k")) { rd.error(ptr + "/k", where, "only a spring support takes a stiffness 'k' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
+          if (s.contains("kr")) { rd.error(ptr + "/kr", where, "only a spring support takes a rotational stiffness 'kr' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
+        }
+        if (s.contains("settlement")) {
+          auto st = rd.field(s, "settlement", ptr, where, kLength, false);
+          if (st && (sup.type == SupportType::Free || sup.type == SupportType::Guided)) {
+            rd.error(ptr + "/settlement", where, std::string("a settlement needs a support that holds the node up; a ") +
+                                                     support_type_name(sup.type) + " node is free to deflect");
+            supports_ok = false;
+          } else if (st) sup.settlement = *st;
+          else supports_ok = false;
+        }
+        if (auto h = s.find("hinge"); h != s.end()) {
+          if (!h->is_boolean()) { rd.error(ptr + "/hinge", where, "must be true or false (" + got(*h) + ")"); supports_ok = false; }
+          else sup.hinge = h->get<bool>();
+        }
+        if (sup.hinge) {
+          std::string why;
+          if (i == 0 || i + 1 == it->size()) why = "a hinge releases the moment between two spans, so it can only be at an interior node";
+          else if (sup.type == SupportType::Fixed) why = "a hinge on a fixed support leaves the fixity nothing to hold; use \"pinned\" with the hinge";
+          else if (sup.type == SupportType::Guided) why = "a hinge on a guided support leaves the rotation restraint nothing to hold";
+          else if (sup.type == SupportType::Spring && sup.kr > 0) why = "a hinge on a spring with a rotational stiffness 'kr' is ambiguous (which side does kr hold?)";
+          if (!why.empty()) { rd.error(ptr + "/hinge", where, why); supports_ok = false; }
+        }
+      }
+      if (type_ok && s.is_string() && sup.type == SupportType::Spring) {
+        rd.error(ptr, where, "a spring support needs its stiffness: {\"type\": \"spring\", \"k\": ...}");
+        supports_ok = false;
+      }
+      beam.supports.push_back(sup);
+    }
+  }
+
+  // labels
+  beam.labels.clear();
+  for (std::size_t i = 0; i < n_nodes && n_spans > 0; ++i) beam.labels.push_back(default_label(i));
+  if (auto it = root.find("labels"); it != root.end()) {
+    if (!it->is_array()) {
+      rd.error("/labels", "", "must be a list of node names (" + got(*it) + ")");
+    } else if (n_spans > 0 && it->size() != n_nodes) {
+      rd.error("/labels", "", "must name every node: " + std::to_string(n_nodes) + " names for " +
+                                  std::to_string(n_spans) + (n_spans == 1 ? " span" : " spans") + " (got " +
+                                  std::to_string(it->size()) + ")");
+    } else if (n_spans > 0) {
+      std::map<std::string, std::size_t> seen;
+      for (std::size_t i = 0; i < it->size(); ++i) {
+        const json& l = (*it)[i];
+        const std::string ptr = "/labels/" + std::to_string(i);
+        const std::string where = "node " + std::to_string(i + 1);
+        if (!l.is_string() || l.get<std::string>().empty()) {
+          rd.error(ptr, where, "must be a non-empty string (" + got(l) + ")");
+          continue;
+        }
+        const std::string name = l.get<std::string>();
+        auto [p, fresh] = seen.emplace(name, i);
+        if (!fresh) rd.error(ptr, where, "the name '" + name + "' is already used by node " + std::to_string(p->second + 1));
+        beam.labels[i] = name;
+      }
+    }
+  }
+  auto node_label = [&](std::size_t i) { return i < beam.labels.size() ? beam.labels[i] : default_label(i); };
+
+  // stations_per_span
+  if (auto it = root.find("stations_per_span"); it != root.end()) {
+    if (!it->is_number_integer() && !it->is_number_unsigned()) {
+      rd.error("/stations_per_span", "", "must be a whole number from 1 to " + std::to_string(limits.max_stations_per_span) + " (" + got(*it) + ")");
+    } else {
+      const auto v = it->get<long long>();
+      if (v < 1 || v > limits.max_stations_per_span)
+        rd.error("/stations_per_span", "", "must be from 1 to " + std::to_string(limits.max_stations_per_span) + " (got " + std::to_string(v) + ")");
+      else beam.stations_per_span = static_cast<int>(v);
+    }
+  }
+  if (spans_ok && n_spans * static_cast<std::size_t>(beam.stations_per_span + 1) > limits.max_stations)
+    rd.error("/stations_per_span", "", "asks for " + std::to_string(n_spans * static_cast<std::size_t>(beam.stations_per_span + 1)) +
+                                           " stations, more than the limit of " + std::to_string(limits.max_stations));
+
+  // loads
+  std::vector<bool> couple_at_node(n_nodes, false);
+  if (auto it = root.find("loads"); it != root.end()) {
+    if (!it->is_array()) {
+      rd.error("/loads", "", "must be a list of loads (" + got(*it) + ")");
+    } else if (it->size() > limits.max_loads) {
+      rd.error("/loads", "", "has " + std::to_string(it->size()) + " loads, more than the limit of " + std::to_string(limits.max_loads));
+    } else {
+      beam.loads.reserve(it->size());
+      for (std::size_t i = 0; i < it->size(); ++i) {
+        const json& l = (*it)[i];
+        const std::string ptr = "/loads/" + std::to_string(i);
+        const std::string where = "load " + std::to_string(i + 1);
+        if (!l.is_object()) { rd.error(ptr, where, "must be an object with a type (" + got(l) + ")"); continue; }
+        Load load;
+        auto t = l.find("type");
+        if (t == l.end()) { rd.error(ptr + "/type", where, "required field is missing (one of point, udl, linear, couple)"); continue; }
+        if (!t->is_string()) { rd.error(ptr + "/type", where, "must be one of point, udl, linear, couple (" + got(*t) + ")"); continue; }
+        const std::string type = t->get<std::string>();
+        if (type == "point") load.type = LoadType::Point;
+        else if (type == "udl") load.type = LoadType::Udl;
+        else if (type == "linear") load.type = LoadType::Linear;
+        else if (type == "couple") load.type = LoadType::Couple;
+        else {
+          std::string reason = "unknown load type '" + type + "'";
+          if (auto d = did_you_mean(type, kLoadTypes)) reason += " (did you mean '" + *d + "'?)";
+          else reason += " (one of point, udl, linear, couple)";
+          rd.error(ptr + "/type", where, reason);
+          continue;
+        }
+        std::vector<std::string> keys = {"type", "span", "node", "case"};
+        switch (load.type) {
+          case LoadType::Point: keys.insert(keys.end(), {"P", "at"}); break;
+          case LoadType::Udl: keys.insert(keys.end(), {"w", "from", "to"}); break;
+          case LoadType::Linear: keys.insert(keys.end(), {"w1", "w2", "from", "to"}); break;
+          case LoadType::Couple: keys.insert(keys.end(), {"C", "at"}); break;
+        }
+        const std::size_t before = out.errors.size();
+        rd.check_keys(l, ptr, where, keys);
+        if (auto c = l.find("case"); c != l.end()) {
+          if (!c->is_string() || c->get<std::string>().empty()) rd.error(ptr + "/case", where, "must be a non-empty name (" + got(*c) + ")");
+          else load.load_case = c->get<std::string>();
+        }
+        const bool has_span = l.contains("span"), has_node = l.contains("node");
+        bool placed = false;
+        auto index_of = [&](const char* key, std::size_t count, const char* what) -> std::optional<std::size_t> {
+          const json& v = l[key];
+          const std::string p = ptr + "/" + key;
+          if (!v.is_number_integer() && !v.is_number_unsigned()) {
+            rd.error(p, where, std::string("must be a ") + what + " number, 1 to " + std::to_string(count) + " (" + got(v) + ")");
+            return std::nullopt;
+          }
+          const long long k = v.get<long long>();
+          if (k < 1 || static_cast<unsigned long long>(k) > count) {
+            rd.error(p, where, std::string("there is no ") + what + " " + std::to_string(k) + ": the beam has " +
+                                   std::to_string(count) + " " + what + (count == 1 ? "" : "s") +
+                                   ", numbered from 1");
+            return std::nullopt;
+          }
+          return static_cast<std::size_t>(k - 1);
+        };
+        if (has_span && has_node) {
+          rd.error(ptr, where, "give either 'span' or 'node', not both");
+        } else if (!has_span && !has_node) {
+          rd.error(ptr + "/span", where, "required field is missing (the span number, or 'node' for a load at a node)");
+        } else if (has_node) {
+          if (load.type == LoadType::Udl || load.type == LoadType::Linear) {
+            rd.error(ptr + "/node", where, std::string("a ") + type + " load acts along a span: give 'span' instead of 'node'");
+          } else if (n_spans > 0) {
+            if (auto k = index_of("node", n_nodes, "node")) { load.on_node = true; load.index = *k; placed = true; }
+            if (l.contains("at")) { rd.error(ptr + "/at", where, "a load at a node has no position 'at'"); placed = false; }
+          }
+        } else if (n_spans > 0) {
+          if (auto k = index_of("span", n_spans, "span")) { load.index = *k; placed = true; }
+        }
+        const double L = placed && !load.on_node ? beam.spans[load.index].length : 0.0;
+        const bool L_known = placed && !load.on_node && spans_ok;
+        auto position = [&](const char* key, double dflt, bool required) -> std::optional<double> {
+          auto v = rd.field(l, key, ptr, where, kLength, required);
+          if (!v) return l.contains(key) || required ? std::nullopt : std::optional<double>(dflt);
+          if (L_known && (*v < 0 || *v > L)) {
+            rd.error(ptr + "/" + key, where, "must be within the span, 0 to " + format_number(L) + " " + rd.units.length +
+                                                 " (got " + format_number(*v) + ")");
+            return std::nullopt;
+          }
+          return v;
+        };
+        switch (load.type) {
+          case LoadType::Point: {
+            auto P = rd.field(l, "P", ptr, where, kForce, true);
+            if (P) load.P = *P;
+            if (!load.on_node) { if (auto a = position("at", 0, true)) load.at = *a; }
+            break;
+          }
+          case LoadType::Couple: {
+            auto C = rd.field(l, "C", ptr, where, kMoment, true);
+            if (C) load.C = *C;
+            if (!load.on_node) { if (auto a = position("at", 0, true)) load.at = *a; }
+            break;
+          }
+          case LoadType::Udl: {
+            auto w = rd.field(l, "w", ptr, where, kLineLoad, true);
+            if (w) load.w1 = load.w2 = *w;
+            auto f = position("from", 0.0, false);
+            auto to = position("to", L, false);
+            if (f) load.from = *f;
+            if (to) load.to = *to;
+            break;
+          }
+          case LoadType::Linear: {
+            auto w1 = rd.field(l, "w1", ptr, where, kLineLoad, true);
+            auto w2 = rd.field(l, "w2", ptr, where, kLineLoad, true);
+            if (w1) load.w1 = *w1;
+            if (w2) load.w2 = *w2;
+            auto f = position("from", 0.0, false);
+            auto to = position("to", L, false);
+            if (f) load.from = *f;
+            if (to) load.to = *to;
+            break;
+          }
+        }
+        if (out.errors.size() != before || !placed) continue;
+        if ((load.type == LoadType::Udl || load.type == LoadType::Linear) && !(load.from < load.to)) {
+          rd.error(ptr + "/from", where, "'from' (" + format_number(load.from) + ") must be less than 'to' (" +
+                                             format_number(load.to) + ")");
+          continue;
+        }
+        // A point force exactly at a span end acts on the node.
+        if (load.type == LoadType::Point && !load.on_node && spans_ok) {
+          if (!(load.at > 0.0)) { load.on_node = true; load.index = load.index; load.at = 0; }
+          else if (!(load.at < L)) { load.on_node = true; load.index = load.index + 1; load.at = 0; }
+        }
+        if (load.type == LoadType::Couple && n_nodes > 0) {
+          std::size_t node = n_nodes;
+          if (load.on_node) node = load.index;
+          else if (spans_ok && !(load.at > 0.0)) node = load.index;
+          else if (spans_ok && !(load.at < L)) node = load.index + 1;
+          if (node < n_nodes) {
+            couple_at_node[node] = true;
+            if (supports_ok && beam.supports[node].hinge) {
+              rd.error(ptr, where, "a couple cannot act at the hinge at node " + node_label(node) + " (the hinge carries no moment)");
+              continue;
+            }
+          }
+        }
+        if (std::find(out.cases.begin(), out.cases.end(), load.load_case) == out.cases.end())
+          out.cases.push_back(load.load_case);
+        beam.loads.push_back(load);
+      }
+    }
+  }
+  if (out.cases.empty()) out.cases.push_back("loads");
+  (void)couple_at_node;
+
+  // claims
+  if (auto it = root.find("claims"); it != root.end()) {
+    if (!it->is_object()) {
+      rd.error("/claims", "", "must be an object with \"values\" (and optionally \"tolerance\") (" + got(*it) + ")");
+    } else {
+      rd.check_keys(*it, "/claims", "", {"tolerance", "values"});
+      auto read_tol = [&](const json& v, const std::string& p, const std::string& w) -> std::optional<Tolerance> {
+        if (v.is_number()) {
+          const double d = v.get<double>();
+          if (!std::isfinite(d) || d < 0) { rd.error(p, w, "must be a percentage such as \"1%\" or an absolute value >= 0 (got " + format_number(d) + ")"); return std::nullopt; }
+          return Tolerance{false, d};
+        }
+        if (v.is_string()) {
+          std::string reason;
+          auto t = parse_tolerance_text(v.get<std::string>(), &reason);
+          if (!t) rd.error(p, w, reason);
+          return t;
+        }
+        rd.error(p, w, "must be a percentage such as \"1%\" or an absolute value such as 0.05 (" + got(v) + ")");
+        return std::nullopt;
+      };
+      if (auto t = it->find("tolerance"); t != it->end()) {
+        if (auto tol = read_tol(*t, "/claims/tolerance", "")) out.claim_tolerance = *tol;
+      }
+      auto values = it->find("values");
+      if (values == it->end()) {
+        rd.error("/claims/values", "", "required field is missing (a list of claimed values)");
+      } else if (!values->is_array()) {
+        rd.error("/claims/values", "", "must be a list of claimed values (" + got(*values) + ")");
+      } else {
+        for (std::size_t i = 0; i < values->size(); ++i) {
+          const json& c = (*values)[i];
+          const std::string ptr = "/claims/values/" + std::to_string(i);
+          const std::string where = "claim " + std::to_string(i + 1);
+          if (!c.is_object()) { rd.error(ptr, where, "must be an object with quantity and value (" + got(c) + ")"); continue; }
+          rd.check_keys(c, ptr, where, {"quantity", "node", "x", "span", "side", "case", "value", "tolerance", "note"});
+          Claim claim;
+          claim.pointer = ptr;
+          const std::size_t before = out.errors.size();
+          auto q = c.find("quantity");
+          if (q == c.end()) { rd.error(ptr + "/quantity", where, "required field is missing"); continue; }
+          if (!q->is_string()) { rd.error(ptr + "/quantity", where, "must be a quantity name (" + got(*q) + ")"); continue; }
+          const std::string qn = q->get<std::string>();
+          auto qi = std::find(kQuantities.begin(), kQuantities.end(), qn);
+          if (qi == kQuantities.end()) {
+            std::string reason = "unknown quantity '" + qn + "'";
+            if (auto d = did_you_mean(qn, kQuantities)) reason += " (did you mean '" + *d + "'?)";
+            else { reason += " (one of "; for (std::size_t k = 0; k < kQuantities.size(); ++k) reason += (k ? ", " : "") + kQuantities[k]; reason += ")"; }
+            rd.error(ptr + "/quantity", where, reason);
+            continue;
+          }
+          claim.quantity = static_cast<Quantity>(qi - kQuantities.begin());
+          const bool has_node = c.contains("node"), has_x = c.contains("x"), has_span = c.contains("span");
+          const bool by_span = claim.quantity == Quantity::MaxMoment || claim.quantity == Quantity::MinMoment ||
+                               claim.quantity == Quantity::MaxDeflection;
+          const bool by_node_only = claim.quantity == Quantity::Reaction || claim.quantity == Quantity::ReactionMoment;
+          if (by_span) {
+            if (!has_span) rd.error(ptr + "/span", where, std::string("required field is missing (") + qn + " is taken over a span)");
+            if (has_node || has_x) rd.error(ptr, where, std::string(qn) + " is taken over a span: give 'span', not 'node' or 'x'");
+            if (has_span) {
+              const json& v = c["span"];
+              if (!v.is_number_integer() && !v.is_number_unsigned()) rd.error(ptr + "/span", where, "must be a span number (" + got(v) + ")");
+              else {
+                const long long k = v.get<long long>();
+                if (k < 1 || static_cast<std::size_t>(k) > n_spans) rd.error(ptr + "/span", where, "there is no span " + std::to_string(k) + ": the beam has " + std::to_string(n_spans) + " spans, numbered from 1");
+                else claim.span = static_cast<std::size_t>(k - 1);
+              }
+            }
+          } else {
+            if (has_span) rd.error(ptr + "/span", where, std::string("'span' is for max_moment, min_moment and max_deflection; give 'node' or 'x' for ") + qn);
+            if (has_node && has_x) rd.error(ptr, where, "give either 'node' or 'x', not both");
+            else if (!has_node && !has_x) rd.error(ptr + "/node", where, by_node_only ? "required field is missing (the node's label or number)" : "required field is missing (give 'node' or 'x')");
+            else if (has_x && by_node_only) rd.error(ptr + "/x", where, std::string(qn) + " is taken at a node: give 'node'");
+            else if (has_node) {
+              const json& v = c["node"];
+              if (v.is_string()) {
+                auto f = std::find(beam.labels.begin(), beam.labels.end(), v.get<std::string>());
+                if (f == beam.labels.end()) {
+                  std::string reason = "there is no node '" + v.get<std::string>() + "'";
+                  if (auto d = did_you_mean(v.get<std::string>(), beam.labels)) reason += " (did you mean '" + *d + "'?)";
+                  rd.error(ptr + "/node", where, reason);
+                } else claim.node = static_cast<std::size_t>(f - beam.labels.begin());
+              } else if (v.is_number_integer() || v.is_number_unsigned()) {
+                const long long k = v.get<long long>();
+                if (k < 1 || static_cast<std::size_t>(k) > n_nodes) rd.error(ptr + "/node", where, "there is no node " + std::to_string(k) + ": the beam has " + std::to_string(n_nodes) + " nodes, numbered from 1");
+                else claim.node = static_cast<std::size_t>(k - 1);
+              } else rd.error(ptr + "/node", where, "must be a node label or number (" + got(v) + ")");
+            } else {
+              auto x = rd.field(c, "x", ptr, where, kLength, true);
+              if (x) {
+                double total = 0;
+                for (const auto& s : beam.spans) total += s.length;
+                if (spans_ok && (*x < 0 || *x > total)) rd.error(ptr + "/x", where, "must be on the beam, 0 to " + format_number(total) + " " + rd.units.length + " (got " + format_number(*x) + ")");
+                else claim.x = *x;
+              }
+            }
+          }
+          if (auto s = c.find("side"); s != c.end()) {
+            if (s->is_string() && s->get<std::string>() == "left") claim.side = Side::Left;
+            else if (s->is_string() && s->get<std::string>() == "right") claim.side = Side::Right;
+            else rd.error(ptr + "/side", where, "must be \"left\" or \"right\" (" + got(*s) + ")");
+          }
+          if (auto cs = c.find("case"); cs != c.end()) {
+            if (!cs->is_string() || cs->get<std::string>().empty()) rd.error(ptr + "/case", where, "must be the name of a load case (" + got(*cs) + ")");
+            else claim.load_case = cs->get<std::string>();
+          }
+          auto v = rd.field(c, "value", ptr, where, quantity_dimension(claim.quantity), true);
+          if (v) claim.value = *v;
+          if (auto t = c.find("tolerance"); t != c.end()) claim.tolerance = read_tol(*t, ptr + "/tolerance", where);
+          if (out.errors.size() == before) out.claims.push_back(claim);
+        }
+      }
+    }
+  }
+  for (const auto& c : out.claims) {
+    if (c.load_case.empty() && out.cases.size() > 1) {
+      rd.error(c.pointer + "/case", where_of(c.pointer),
+               "required field is missing: the file has " + std::to_string(out.cases.size()) +
+                   " load cases, so a claim must name its \"case\"");
+    }
+    if (!c.load_case.empty() && std::find(out.cases.begin(), out.cases.end(), c.load_case) == out.cases.end()) {
+      std::string reason = "there is no load case '" + c.load_case + "'";
+      if (auto d = did_you_mean(c.load_case, out.cases)) reason += " (did you mean '" + *d + "'?)";
+      else { reason += " (cases: "; for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k]; reason += ")"; }
+      rd.error(c.pointer + "/case", where_of(c.pointer), reason);
+    }
+  }
+
+  // Stability, once the structure itself is readable.
+  if (out.errors.empty() && spans_ok && supports_ok) {
+    if (auto m = find_mechanism(beam)) {
+      rd.error("/supports", "", "the beam is unstable: " + m->description +
+                                    " (add a support or remove a hinge)");
+    }
+  }
+  return out;
+}
+
+BeamFile read_beam_file(const std::string& path, const Limits& limits) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    BeamFile out;
+    out.path = path;
+    out.errors.push_back({"", "", "cannot open the file for reading"});
+    return out;
+  }
+  in.seekg(0, std::ios::end);
+  const auto size = in.tellg();
+  if (size > 0 && static_cast<std::size_t>(size) > limits.max_file_bytes) {
+    BeamFile out;
+    out.path = path;
+    out.errors.push_back({"", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB"});
+    return out;
+  }
+  in.seekg(0, std::ios::beg);
+  std::string text;
+  if (size > 0) text.resize(static_cast<std::size_t>(size));
+  in.read(text.data(), static_cast<std::streamsize>(text.size()));
+  if (!in && !in.eof()) {
+    BeamFile out;
+    out.path = path;
+    out.errors.push_back({"", "", "cannot read the file"});
+    return out;
+  }
+  return parse_beam_text(text, path, limits);
+}
+
+}  // namespace trivet::input

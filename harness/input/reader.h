@@ -1,0 +1,95 @@
+// trivet: the beam file reader. JSON text -> validated Beam, with every
+// error of the file listed with its JSON location and a plain reason.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "harness/input/units.h"
+#include "methods/beam/beam.h"
+
+namespace trivet::input {
+
+// Upper bounds on what one file may ask for (refused with a message, never
+// an out-of-memory). Any real beam is far inside them.
+struct Limits {
+  std::size_t max_file_bytes = 256u << 20;      // 256 MiB
+  std::size_t max_spans = 1'000'000;
+  std::size_t max_loads = 4'000'000;
+  int max_stations_per_span = 1000;
+  std::size_t max_stations = 20'000'000;       // spans x (stations_per_span + 1) + loads
+};
+
+// One error in a file. `pointer` is a JSON Pointer (RFC 6901, 0-based);
+// `where` the engineer's 1-based name of the thing ("span 2", "node 3",
+// "load 1", "claim 4"), possibly empty.
+struct Error {
+  std::string pointer;
+  std::string where;
+  std::string reason;
+  // "file: /spans/1/length (span 2): must be greater than 0 (got -6.5)"
+  std::string format(const std::string& file) const;
+};
+
+enum class Quantity {
+  Moment, Shear, Reaction, ReactionMoment, Deflection, Rotation,
+  MaxMoment, MinMoment, MaxDeflection,
+};
+const char* quantity_name(Quantity q);
+Dimension quantity_dimension(Quantity q);
+
+enum class Side { Unspecified, Left, Right };
+
+// A tolerance: a fraction of the largest magnitude of that kind of quantity
+// in the beam ("1%" -> relative, 0.01), or an absolute value in file units.
+struct Tolerance {
+  bool relative = true;
+  double value = 0.01;
+};
+
+// A value a person or another program asserts (CONTRACT "claims").
+struct Claim {
+  Quantity quantity = Quantity::Moment;
+  std::string pointer;                 // "/claims/values/3"
+  std::optional<std::size_t> node;     // 0-based
+  std::optional<double> x;             // global
+  std::optional<std::size_t> span;     // 0-based
+  Side side = Side::Unspecified;
+  std::string load_case;               // empty: the file's only load set
+  double value = 0.0;
+  std::optional<Tolerance> tolerance;  // the claim's own
+};
+
+struct BeamFile {
+  std::string path;
+  Units units;
+  Beam beam;                        // valid only when errors is empty
+  std::vector<std::string> cases;   // load cases in order of first use
+  Tolerance claim_tolerance;        // claims.tolerance, default 1%
+  std::vector<Claim> claims;
+  std::vector<Error> errors;
+  bool ok() const { return errors.empty(); }
+};
+
+// Reads and validates one beam file. Never throws for a bad file: problems
+// are in `errors`. `display` is the name used in messages (default: path).
+BeamFile read_beam_file(const std::string& path, const Limits& limits = {});
+BeamFile parse_beam_text(const std::string& text, const std::string& display,
+                         const Limits& limits = {});
+
+// Reads "1%" or 0.05 (file units) into a Tolerance, or gives a reason.
+std::optional<Tolerance> parse_tolerance_text(const std::string& text, std::string* reason);
+
+// The default node names: A, B, ..., Z, AA, AB, ...
+std::string default_label(std::size_t i);
+
+// The closest of `options` to `word`, if it is plausibly a misspelling.
+std::optional<std::string> did_you_mean(const std::string& word,
+                                        const std::vector<std::string>& options);
+
+// A number as the shortest text that reads back to the same double.
+std::string format_number(double v);
+
+}  // namespace trivet::input

@@ -1,0 +1,52 @@
+// trivet: units of a beam file and quantities written with their own unit.
+#pragma once
+
+#include <optional>
+#include <string>
+
+namespace trivet::input {
+
+// The dimension of a quantity as powers of force and length, e.g. a
+// distributed load is force^1 length^-1, a flexural rigidity force^1 length^2.
+struct Dimension {
+  int force = 0;
+  int length = 0;
+  bool operator==(const Dimension& o) const { return force == o.force && length == o.length; }
+  bool operator!=(const Dimension& o) const { return !(*this == o); }
+};
+
+// Plain words for a dimension: "force/length", "force*length^2", ...
+std::string dimension_name(Dimension d);
+
+// A file's units: `force` one of N, kN, MN, lbf, kip; `length` one of mm,
+// cm, m, in, ft. The factors take one file unit to newtons and metres.
+struct Units {
+  std::string force = "kN";
+  std::string length = "m";
+  double newtons = 1000.0;
+  double metres = 1.0;
+
+  // The unit text of a dimension in these units, e.g. "kN*m" or "kN/m".
+  std::string of(Dimension d) const;
+};
+
+// Newtons per unit of a force name, or nothing if not one of ours.
+std::optional<double> force_unit(const std::string& name);
+// Metres per unit of a length name, or nothing if not one of ours.
+std::optional<double> length_unit(const std::string& name);
+
+// The result of reading "200 GPa" or "1.5 kip/ft".
+struct QuantityText {
+  bool ok = false;
+  double value = 0.0;       // converted to the file's units
+  std::string reason;       // why not, when !ok
+};
+
+// Reads a number followed by a unit expression (products and one quotient
+// of N, kN, MN, lbf, kip, mm, cm, m, in, ft, Pa, kPa, MPa, GPa, psi, ksi,
+// rad; powers as ^2 or superscripts; '*', '·' or a space between factors)
+// and converts it to `units`, checking it has dimension `want`. A number
+// without a unit is taken to be in the file's units.
+QuantityText parse_quantity(const std::string& text, Dimension want, const Units& units);
+
+}  // namespace trivet::input
