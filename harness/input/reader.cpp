@@ -435,27 +435,27 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       rd.check_keys(s, ptr, where, {"length", "EI", "E", "I"});
       auto L = rd.positive(s, "length", ptr, where, kLength, true);
       const bool has_ei = s.contains("EI"), has_e = s.contains("E"), has_i = s.contains("I");
-      std::optional<double> ei;
+      // (plain doubles here: GCC 12 warns falsely about optional<double>)
+      double ei = 0.0;
+      bool ei_ok = false;
       if (has_ei && (has_e || has_i)) {
         rd.error(ptr, where, "give either EI or both E and I, not both");
       } else if (has_ei) {
-        ei = rd.positive(s, "EI", ptr, where, kEI, true);
+        if (auto v = rd.positive(s, "EI", ptr, where, kEI, true)) { ei = *v; ei_ok = true; }
       } else if (has_e || has_i) {
         auto e = rd.positive(s, "E", ptr, where, kE, true);
         auto in = rd.positive(s, "I", ptr, where, kI, true);
         if (e && in) {
           ei = *e * *in;
-          if (!std::isfinite(*ei) || !(*ei > 0)) {
-            rd.error(ptr, where, "E times I is out of range (" + format_number(*ei) + ")");
-            ei.reset();
-          }
+          ei_ok = std::isfinite(ei) && ei > 0;
+          if (!ei_ok) rd.error(ptr, where, "E times I is out of range (" + format_number(ei) + ")");
         }
       } else {
         rd.error(ptr + "/EI", where, "required field is missing (give EI, or both E and I)");
       }
-      if (L.has_value() && ei.has_value()) {
-        span.length = L.value_or(1.0);
-        span.EI = ei.value_or(1.0);
+      if (L && ei_ok) {
+        span.length = *L;
+        span.EI = ei;
       } else {
         spans_ok = false;
       }
