@@ -252,12 +252,6 @@ R pivot_tolerance() {
   }
 }
 
-// Where an unknown sits, for messages.
-struct UnknownInfo {
-  std::size_t node = 0;
-  const char* what = "";
-};
-
 std::string node_name(const std::vector<std::string>& labels, std::size_t i) {
   if (i < labels.size() && !labels[i].empty()) return labels[i];
   return "#" + std::to_string(i);
@@ -369,23 +363,25 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       if (l.on_node) continue;
       const std::size_t s = l.index;
       const R& L = beam.spans[s].length;
-      const std::string where = " on span " + std::to_string(s + 1);
+      auto where = [s]() { return " on span " + std::to_string(s + 1); };
       Term<R> t;
       switch (l.type) {
         case LoadType::Point:
-          if (l.at < R(0) || l.at > L) return give_up<R>(MS::NotApplicable, "point load outside its span" + where);
+          // The reader moves a point force at a span end onto the node.
+          if (!(l.at > R(0)) || !(l.at < L))
+            return give_up<R>(MS::NotApplicable, "point load not strictly inside its span" + where());
           t.kind = TermKind::Point; t.a = l.at; t.p = l.P;
           break;
         case LoadType::Couple:
-          if (l.at < R(0) || l.at > L) return give_up<R>(MS::NotApplicable, "couple outside its span" + where);
+          if (l.at < R(0) || l.at > L) return give_up<R>(MS::NotApplicable, "couple outside its span" + where());
           t.kind = TermKind::Couple; t.a = l.at; t.p = l.C;
           break;
         case LoadType::Udl:
         case LoadType::Linear:
           if (l.from < R(0) || l.to > L || l.to < l.from)
-            return give_up<R>(MS::NotApplicable, "distributed load outside its span" + where);
+            return give_up<R>(MS::NotApplicable, "distributed load outside its span" + where());
           if (l.type == LoadType::Udl && !is_zero(R(l.w1 - l.w2)))
-            return give_up<R>(MS::NotApplicable, "uniform load with unequal end intensities" + where);
+            return give_up<R>(MS::NotApplicable, "uniform load with unequal end intensities" + where());
           t.kind = TermKind::Spread; t.a = l.from; t.b = l.to; t.p = l.w1; t.q = l.w2;
           break;
       }
@@ -399,8 +395,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   // Unknowns, node by node: [rotation left (= right unless hinge), deflection,
   // rotation right at a hinge], which keeps each span's unknowns within 4
   // consecutive positions.
-  std::vector<long> thL(N, -1), thR(N, -1), dv(N, -1);
-  std::vector<UnknownInfo> info;
+  std::vector<std::int32_t> thL(N, -1), thR(N, -1), dv(N, -1);
   long next = 0;
   for (std::size_t i = 0; i < N; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
@@ -421,18 +416,10 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     }
     const bool rotates = !restrains_rotation(t);
     const bool translates = !restrains_deflection(t);
-    if (rotates) {
-      thL[i] = thR[i] = next++;
-      info.push_back({i, sp.hinge ? "rotation left of hinge" : "rotation"});
-    }
-    if (translates) {
-      dv[i] = next++;
-      info.push_back({i, "deflection"});
-    }
-    if (rotates && sp.hinge) {
-      thR[i] = next++;
-      info.push_back({i, "rotation right of hinge"});
-    }
+    if (rotates) thL[i] = thR[i] = static_cast<std::int32_t>(next++);
+    if (translates) dv[i] = static_cast<std::int32_t>(next++);
+    if (rotates && sp.hinge) thR[i] = static_cast<std::int32_t>(next++);
+    if (next > 2000000000L) return give_up<R>(MS::NotApplicable, "more than 2e9 unknowns");
   }
   const std::size_t nu = static_cast<std::size_t>(next);
 
@@ -448,7 +435,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   std::size_t hb = 0;
   for (std::size_t s = 0; s < n; ++s) {
     long lo = next, hi = -1;
-    for (long idx : {thR[s], dv[s], thL[s + 1], dv[s + 1]}) {
+    for (long idx : {long(thR[s]), long(dv[s]), long(thL[s + 1]), long(dv[s + 1])}) {
       if (idx < 0) continue;
       lo = std::min(lo, idx);
       hi = std::max(hi, idx);
@@ -456,15 +443,23 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
   }
 
-  // Per-span simple-beam data.
-  std::vector<R> RA0(n), RB0(n), FL(n);
+  // Per-span simple-beam data, straight into the solved state; RB0 (the
+  // simple-beam right reaction) is kept for now in the MB slot.
+  auto state = std::make_shared<SolvedState<R>>();
+  state->spans.resize(n);
   for (std::size_t s = 0; s < n; ++s) {
-    const R& L = beam.spans[s].length;
-    SpanMath<R>::simple_beam(terms.data() + offs[s], offs[s + 1] - offs[s], L, RA0[s], FL[s]);
+    SpanState<R>& ss = state->spans[s];
+    ss.L = beam.spans[s].length;
+    ss.EI = beam.spans[s].EI;
+    ss.first = offs[s];
+    ss.last = offs[s + 1];
+    SpanMath<R>::simple_beam(terms.data() + ss.first, ss.last - ss.first, ss.L, ss.RA0, ss.FL);
     LoadParts<R> end;
-    for (std::size_t k = offs[s]; k < offs[s + 1]; ++k) SpanMath<R>::add(terms[k], L, true, end);
-    RB0[s] = -end.shear - RA0[s];  // total load minus the left reaction
+    for (std::size_t k = ss.first; k < ss.last; ++k) SpanMath<R>::add(terms[k], ss.L, true, end);
+    ss.MB = -end.shear - ss.RA0;  // total load minus the left reaction
   }
+  offs.clear();
+  offs.shrink_to_fit();
 
   Banded<R> sys;
   sys.init(nu, hb);
@@ -494,9 +489,11 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     // Y_i = RA0 - (M_ij + M_ji)/L; row of di gets -Y_i.
     const R femL = (fem[s].left + fem[s].right) / L;
     const long rdi = di.idx, rdj = dj.idx;
-    put(rdi, kL, ti); put(rdi, kL, tj); put(rdi, kLL, di); put(rdi, -kLL, dj); put_const(rdi, femL - RA0[s]);
+    const R& RA0 = state->spans[s].RA0;
+    const R& RB0 = state->spans[s].MB;
+    put(rdi, kL, ti); put(rdi, kL, tj); put(rdi, kLL, di); put(rdi, -kLL, dj); put_const(rdi, femL - RA0);
     // Y_j = RB0 + (M_ij + M_ji)/L; row of dj gets -Y_j.
-    put(rdj, -kL, ti); put(rdj, -kL, tj); put(rdj, -kLL, di); put(rdj, kLL, dj); put_const(rdj, -femL - RB0[s]);
+    put(rdj, -kL, ti); put(rdj, -kL, tj); put(rdj, -kLL, di); put(rdj, kLL, dj); put_const(rdj, -femL - RB0);
   }
   for (std::size_t i = 0; i < N; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
@@ -517,42 +514,40 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   std::vector<R> x;
   const long bad = banded_solve(sys, x);
   if (bad >= 0) {
-    const UnknownInfo& u = info[static_cast<std::size_t>(bad)];
-    return give_up<R>(MS::Failed, std::string("zero or non-positive pivot at the ") + u.what + " of node " +
-                                      name(u.node) + " (a mechanism, or too ill-conditioned)");
+    // Find the unknown's node and kind (only on failure: O(n) once).
+    std::size_t node = 0;
+    const char* what = "unknown";
+    for (std::size_t i = 0; i < N; ++i) {
+      if (thL[i] == bad) { node = i; what = beam.supports[i].hinge ? "rotation left of the hinge" : "rotation"; break; }
+      if (dv[i] == bad) { node = i; what = "deflection"; break; }
+      if (thR[i] == bad) { node = i; what = "rotation right of the hinge"; break; }
+    }
+    return give_up<R>(MS::Failed, std::string("zero or non-positive pivot at the ") + what + " of node " +
+                                      name(node) + " (a mechanism, or too ill-conditioned)");
   }
   for (std::size_t r = 0; r < nu; ++r)
     if (!is_finite(x[r])) return give_up<R>(MS::Failed, "non-finite value in the solution");
 
   auto value = [&](const Var<R>& v) { return v.idx >= 0 ? x[static_cast<std::size_t>(v.idx)] : v.value; };
 
-  // End moments and the solved state.
-  auto state = std::make_shared<SolvedState<R>>();
-  state->spans.resize(n);
-  std::vector<R> Mij(n), Mji(n), Yi(n), Yj(n);
+  // End moments (member-end convention) into the state as sagging moments:
+  // MA = M_ij, MB = -M_ji. The end forces on the member follow from them:
+  // Y_i = RA0 + (MB - MA)/L, Y_j = (total load - RA0) - (MB - MA)/L.
   for (std::size_t s = 0; s < n; ++s) {
-    const R& L = beam.spans[s].length;
-    const R k = R(2) * beam.spans[s].EI / L;
-    const R ti = value(rot(thR[s])), tj = value(rot(thL[s + 1]));
-    const R Di = value(defl(s)), Dj = value(defl(s + 1));
-    const R psi = (Dj - Di) / L;
-    Mij[s] = k * (R(2) * ti + tj - R(3) * psi) + fem[s].left;
-    Mji[s] = k * (ti + R(2) * tj - R(3) * psi) + fem[s].right;
-    Yi[s] = RA0[s] - (Mij[s] + Mji[s]) / L;
-    Yj[s] = RB0[s] + (Mij[s] + Mji[s]) / L;
     SpanState<R>& ss = state->spans[s];
-    ss.L = L;
-    ss.EI = beam.spans[s].EI;
-    ss.MA = Mij[s];
-    ss.MB = -Mji[s];
-    ss.DA = Di;
-    ss.DB = Dj;
-    ss.RA0 = RA0[s];
-    ss.FL = FL[s];
-    ss.first = offs[s];
-    ss.last = offs[s + 1];
-    if (!is_finite(Mij[s]) || !is_finite(Mji[s])) return give_up<R>(MS::Failed, "non-finite end moment");
+    const R& L = ss.L;
+    const R k = R(2) * ss.EI / L;
+    const R ti = value(rot(thR[s])), tj = value(rot(thL[s + 1]));
+    ss.DA = value(defl(s));
+    ss.DB = value(defl(s + 1));
+    const R psi = (ss.DB - ss.DA) / L;
+    ss.MA = k * (R(2) * ti + tj - R(3) * psi) + fem[s].left;
+    const R Mji = k * (ti + R(2) * tj - R(3) * psi) + fem[s].right;
+    ss.MB = -Mji;
+    if (!is_finite(ss.MA) || !is_finite(ss.MB)) return give_up<R>(MS::Failed, "non-finite end moment");
   }
+  fem.clear();
+  fem.shrink_to_fit();
   state->terms = std::move(terms);
 
   BasicSolution<R> out;
@@ -570,10 +565,20 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     nr.rotation_right = (i == n) ? rl : rr;
     if (i > 0) nr.moment_left = SpanMath<R>::evaluate(*state, i - 1, beam.spans[i - 1].length, false).moment;
     if (i < n) nr.moment_right = SpanMath<R>::evaluate(*state, i, R(0), true).moment;
-    // Member ends meeting at the node.
+    // Member ends meeting at the node: end forces from the end shears
+    // (Y_i = V(0+) of the span, Y_j = -V(L-)), end moments M_ij = MA,
+    // M_ji = -MB.
     R Yends{0}, Mends{0};
-    if (i > 0) { Yends += Yj[i - 1]; Mends += Mji[i - 1]; }
-    if (i < n) { Yends += Yi[i]; Mends += Mij[i]; }
+    if (i > 0) {
+      const SpanState<R>& ss = state->spans[i - 1];
+      Yends -= SpanMath<R>::evaluate(*state, i - 1, ss.L, false).shear;
+      Mends -= ss.MB;
+    }
+    if (i < n) {
+      const SpanState<R>& ss = state->spans[i];
+      Yends += SpanMath<R>::evaluate(*state, i, R(0), true).shear;
+      Mends += ss.MA;
+    }
     if (restrains_deflection(sp.type)) nr.reaction_force = nodeP[i] + Yends;
     else if (sp.type == SupportType::Spring) nr.reaction_force = sp.k * (nr.deflection - sp.settlement);
     if (restrains_rotation(sp.type)) nr.reaction_moment = nodeC[i] - Mends;
