@@ -1,0 +1,644 @@
+// trivet: the three-moment equation (Clapeyron) method.
+//
+// Conventions are those of methods/beam/beam.h: loads down +, couples
+// clockwise +, M sagging +, V = dM/dx, v down +, rotation clockwise + with
+// rotation = dv/dx and EI v'' = -M.
+//
+// ---------------------------------------------------------------------------
+// Derivation (our own, kept here so it can be checked line by line).
+//
+// One span of length L, rigidity EI, end deflections vA, vB, "node-side" end
+// moments MA, MB (the moments between the span and its end nodes; a couple
+// applied inside the span at local 0 or L belongs to the span's loads). The
+// moment is M(x) = MA (1 - x/L) + MB x/L + M0(x), where M0 is the moment of
+// the same span simply supported under its own loads (the "free" diagram).
+// Integrating EI v'' = -M twice with v(0) = vA, v(L) = vB (Green's function
+// of the simply supported span) gives the end rotations
+//
+//   EI L theta(0) =  FR + MA L^2/3 + MB L^2/6 + EI L psi,
+//   EI L theta(L) = -FL - MA L^2/6 - MB L^2/3 + EI L psi,
+//
+// with psi = (vB - vA)/L the chord rotation (clockwise + when the right end
+// settles more), FL = A0 * xbar the first moment of the free diagram about
+// the LEFT end and FR = A0 * (L - xbar) its first moment about the RIGHT end.
+//
+// Three-moment equation at an interior support i between span 1 (left,
+// ends i-1, i) and span 2 (right, ends i, i+1): theta_1(L1) = theta_2(0).
+// Multiplying by 6 and writing f = L/EI:
+//
+//   f1 M_{i-1} + 2 (f1 + f2) M_i + f2 M_{i+1}
+//      = -6 FL1 / (EI1 L1) - 6 FR2 / (EI2 L2) + 6 (psi1 - psi2).
+//
+// FL1 is A1 a1 (centroid distance a1 from the outer left end of the pair),
+// FR2 is A2 b2 (distance b2 from the outer right end). Settlement enters as
+// 6 (psi1 - psi2): a support that settles more than its neighbours makes
+// psi1 > 0 and psi2 < 0, and its moment moves toward sagging.
+//
+// Fixed end: an imaginary span of infinite I (f = 0, psi = 0) beside it, so
+//   left end fixed  (theta(0) = 0):  2 f MA + f MB = -6 FR/(EI L) - 6 psi,
+//   right end fixed (theta(L) = 0):  f MA + 2 f MB = -6 FL/(EI L) + 6 psi.
+// A fixed interior support does both, one per side: the moments either side
+// are separate unknowns (the reaction couple takes the difference).
+//
+// Area-moment load terms, derived by superposing point loads. A unit load at
+// a on the simply supported span gives the triangle M0 with peak a(L-a)/L at
+// a: area a(L-a)/2, centroid (L+a)/3 from the left, so
+//   FL = P a b (L + a)/6,   FR = P a b (L + b)/6,   b = L - a.
+// A distributed load q(t) over [c, d] is the integral of these point terms:
+//   FL = int q(t) gL(t) dt,  gL(t) = t (L^2 - t^2)/6,  FR uses gR(t) = gL(L-t).
+// With t = c + tau, q = w1 + s tau (s = (w2 - w1)/(d - c)), delta = d - c and
+// m_k = int_0^delta q tau^k dtau = w1 delta^{k+1}/(k+1) + s delta^{k+2}/(k+2):
+//   6 FL = (L^2 c - c^3) m0 + (L^2 - 3c^2) m1 - 3 c m2 - m3,
+//   6 FR = (L^2 e - e^3) m0 - (L^2 - 3e^2) m1 - 3 e m2 + m3,  e = L - c.
+// A clockwise couple C at a: reactions -C/L, +C/L, so M0 = -C x/L (x < a)
+// and C (1 - x/L) (x > a); integrating,
+//   FL = C (L^2 - 3 a^2)/6,   FR = C (2 L^2 - 6 a L + 3 a^2)/6.
+//
+// After the support moments are known, each span is evaluated from its left
+// end: M(x) = MA + V0 x + Mc(x), V(x) = V0 + Vc(x), where Mc and Vc are the
+// moment and shear at x of the loads to the left of x (as on a cantilever
+// built in at x), V0 = (MB - MA - Mc(L))/L. Rotation and deflection are the
+// exact integrals: EI theta = EI theta0 - int_0^x M,
+// EI v = EI vA + EI theta0 x - int_0^x (x - t) M(t) dt, each load term in
+// closed form (polynomials of degree up to 5). theta0 follows from v(L) = vB.
+// An overhang (free end) is statically determinate: its moment and shear
+// come from statics; its rotation and deflection are integrated outward
+// from the supported node's rotation and settlement.
+// ---------------------------------------------------------------------------
+
+// GCC 12 reports a false -Wmaybe-uninitialized inside boost::rational's
+// negate() (boost/rational.hpp, a local `zero` it does initialise). Silence
+// it for the boost headers only, before anything else includes them.
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#endif
+#include <boost/multiprecision/cpp_bin_float.hpp>
+#include <boost/multiprecision/cpp_int.hpp>
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic pop
+#endif
+
+#include "methods/three_moment/three_moment.h"
+
+#include <memory>
+#include <string>
+#include <utility>
+
+namespace trivet::three_moment {
+namespace {
+
+template <class R>
+bool same(const R& a, const R& b) {
+  return !(a < b) && !(b < a);
+}
+template <class R>
+bool is_zero(const R& a) {
+  return same(a, R(0));
+}
+// False for NaN and infinities (x - x is NaN there; NaN compares false).
+template <class R>
+bool finite(const R& a) {
+  const R d = a - a;
+  return d <= R(0) && d >= R(0);
+}
+
+enum class Kind { Point, Couple, Ramp };
+
+// One load on a (possibly merged) span, local positions.
+template <class R>
+struct SpanLoad {
+  Kind kind = Kind::Point;
+  R a{0};   // Point/Couple: position; Ramp: start c
+  R d{0};   // Ramp: end
+  R p{0};   // Point: P; Couple: C; Ramp: w1 (intensity at c)
+  R w2{0};  // Ramp: intensity at d
+  R s{0};   // Ramp: slope (w2 - w1)/(d - c)
+};
+
+// One span of the solved model (interior unsupported nodes merged away).
+template <class R>
+struct Segment {
+  R L{1}, EI{1};
+  R MA{0}, MB{0};  // node-side end moments
+  R V0{0};         // shear just right of the left end
+  R theta0{0};     // rotation at the left end
+  R v0{0};         // deflection at the left end
+  std::size_t first = 0, last = 0;  // load range in State::loads
+};
+
+template <class R>
+struct State {
+  std::vector<Segment<R>> seg;
+  std::vector<SpanLoad<R>> loads;
+  std::vector<std::size_t> span_seg;  // original span -> segment
+  std::vector<R> span_off;            // original span -> offset in its segment
+  std::vector<R> span_len;
+  std::vector<bool> span_last;        // original span ends its segment
+};
+
+// Effects at x of the loads left of x (a cantilever built in at x):
+// shear V, moment M, and the integrals I1 = int_0^x M, I2 = int_0^x int M.
+template <class R>
+struct Sums {
+  R V{0}, M{0}, I1{0}, I2{0};
+};
+
+// A load q(tau) = w + k tau starting at tau = 0, integrated to u > 0.
+// sign: +1 to add the load, -1 to remove it (the continuation past `d`).
+template <class R>
+void add_ramp(Sums<R>& s, const R& u, const R& w, const R& k, bool remove) {
+  const R u2 = u * u, u3 = u2 * u, u4 = u3 * u, u5 = u4 * u;
+  const R dV = w * u + k * u2 / R(2);
+  const R dM = w * u2 / R(2) + k * u3 / R(6);
+  const R d1 = w * u3 / R(6) + k * u4 / R(24);
+  const R d2 = w * u4 / R(24) + k * u5 / R(120);
+  if (remove) {
+    s.V += dV; s.M += dM; s.I1 += d1; s.I2 += d2;
+  } else {
+    s.V -= dV; s.M -= dM; s.I1 -= d1; s.I2 -= d2;
+  }
+}
+
+// Loads at exactly x are included when `incl` is true.
+template <class R>
+Sums<R> sums(const State<R>& st, const Segment<R>& sg, const R& x, bool incl) {
+  Sums<R> s;
+  for (std::size_t j = sg.first; j < sg.last; ++j) {
+    const SpanLoad<R>& l = st.loads[j];
+    switch (l.kind) {
+      case Kind::Point:
+        if (l.a < x || (incl && same(l.a, x))) {
+          const R t = x - l.a;
+          s.V -= l.p;
+          s.M -= l.p * t;
+          s.I1 -= l.p * t * t / R(2);
+          s.I2 -= l.p * t * t * t / R(6);
+        }
+        break;
+      case Kind::Couple:
+        if (l.a < x || (incl && same(l.a, x))) {
+          const R t = x - l.a;
+          s.M += l.p;
+          s.I1 += l.p * t;
+          s.I2 += l.p * t * t / R(2);
+        }
+        break;
+      case Kind::Ramp:
+        // The load from c to d is the ramp w1 + s tau from c to infinity
+        // minus its continuation (w2 + s tau') from d to infinity.
+        if (l.a < x) add_ramp(s, R(x - l.a), l.p, l.s, false);
+        if (l.d < x) add_ramp(s, R(x - l.d), l.w2, l.s, true);
+        break;
+    }
+  }
+  return s;
+}
+
+// First moments of the span's free (simply supported) moment diagram about
+// its left end (FL) and right end (FR); see the derivation above.
+template <class R>
+std::pair<R, R> free_moments(const State<R>& st, const Segment<R>& sg) {
+  const R& L = sg.L;
+  const R L2 = L * L;
+  R FL{0}, FR{0};
+  for (std::size_t j = sg.first; j < sg.last; ++j) {
+    const SpanLoad<R>& l = st.loads[j];
+    switch (l.kind) {
+      case Kind::Point: {
+        const R b = L - l.a;
+        FL += l.p * l.a * b * (L + l.a) / R(6);
+        FR += l.p * l.a * b * (L + b) / R(6);
+        break;
+      }
+      case Kind::Couple:
+        FL += l.p * (L2 - R(3) * l.a * l.a) / R(6);
+        FR += l.p * (R(2) * L2 - R(6) * l.a * L + R(3) * l.a * l.a) / R(6);
+        break;
+      case Kind::Ramp: {
+        const R c = l.a, e = L - l.a, dl = l.d - l.a;
+        const R d2 = dl * dl, d3 = d2 * dl, d4 = d3 * dl, d5 = d4 * dl;
+        const R m0 = l.p * dl + l.s * d2 / R(2);
+        const R m1 = l.p * d2 / R(2) + l.s * d3 / R(3);
+        const R m2 = l.p * d3 / R(3) + l.s * d4 / R(4);
+        const R m3 = l.p * d4 / R(4) + l.s * d5 / R(5);
+        FL += ((L2 * c - c * c * c) * m0 + (L2 - R(3) * c * c) * m1 - R(3) * c * m2 - m3) / R(6);
+        FR += ((L2 * e - e * e * e) * m0 - (L2 - R(3) * e * e) * m1 - R(3) * e * m2 + m3) / R(6);
+        break;
+      }
+    }
+  }
+  return {FL, FR};
+}
+
+template <class R>
+BasicPointValues<R> eval(const State<R>& st, std::size_t g, const R& x, bool after) {
+  const Segment<R>& sg = st.seg[g];
+  // At 0 the limit from inside (after loads at 0); at L from inside
+  // (before loads at L); in between as asked.
+  const bool incl = is_zero(x) ? true : (same(x, sg.L) ? false : after);
+  const Sums<R> s = sums(st, sg, x, incl);
+  BasicPointValues<R> p;
+  p.shear = sg.V0 + s.V;
+  p.moment = sg.MA + sg.V0 * x + s.M;
+  const R I1 = sg.MA * x + sg.V0 * x * x / R(2) + s.I1;
+  const R I2 = sg.MA * x * x / R(2) + sg.V0 * x * x * x / R(6) + s.I2;
+  p.rotation = sg.theta0 - I1 / sg.EI;
+  p.deflection = sg.v0 + sg.theta0 * x - I2 / sg.EI;
+  return p;
+}
+
+// Values in ORIGINAL span `span` at `local`.
+template <class R>
+BasicPointValues<R> eval_span(const State<R>& st, std::size_t span, const R& local, bool after) {
+  if (span >= st.span_seg.size()) return BasicPointValues<R>{};
+  const R& off = st.span_off[span];
+  // At a merged (unsupported) node the limit from inside this span.
+  if (is_zero(local) && off > R(0)) after = true;
+  if (same(local, st.span_len[span]) && !st.span_last[span]) after = false;
+  return eval(st, st.span_seg[span], R(off + local), after);
+}
+
+// Thomas algorithm for a tridiagonal system: sub a, diagonal b, super c,
+// right-hand side d (overwritten by the solution). False on a zero or
+// non-finite pivot. O(n), no pivoting: the three-moment system is strictly
+// diagonally dominant by rows (2(f1+f2) > f1+f2; fixed rows 2f > f;
+// known rows 1 > 0).
+template <class R>
+bool thomas(const std::vector<R>& a, const std::vector<R>& b, std::vector<R>& c, std::vector<R>& d) {
+  const std::size_t n = b.size();
+  if (n == 0) return true;
+  R piv = b[0];
+  if (is_zero(piv) || !finite(piv)) return false;
+  c[0] = c[0] / piv;
+  d[0] = d[0] / piv;
+  for (std::size_t i = 1; i < n; ++i) {
+    piv = b[i] - a[i] * c[i - 1];
+    if (is_zero(piv) || !finite(piv)) return false;
+    c[i] = c[i] / piv;
+    d[i] = (d[i] - a[i] * d[i - 1]) / piv;
+  }
+  for (std::size_t i = n - 1; i-- > 0;) d[i] = d[i] - c[i] * d[i + 1];
+  for (std::size_t i = 0; i < n; ++i)
+    if (!finite(d[i])) return false;
+  return true;
+}
+
+template <class R>
+BasicSolution<R> not_applicable(std::string why) {
+  BasicSolution<R> s;
+  s.status = MethodStatus::NotApplicable;
+  s.reason = std::move(why);
+  return s;
+}
+template <class R>
+BasicSolution<R> failed(std::string why) {
+  BasicSolution<R> s;
+  s.status = MethodStatus::Failed;
+  s.reason = std::move(why);
+  return s;
+}
+
+}  // namespace
+
+template <class R>
+BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
+  (void)stations;  // `at` is exact everywhere; the grid is not needed.
+  const std::size_t n = beam.spans.size();
+  if (n == 0) return failed<R>("beam has no spans");
+  if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
+    return failed<R>("supports/labels do not match the number of spans");
+  const auto& sup = beam.supports;
+  auto label = [&](std::size_t i) { return "node " + beam.labels[i]; };
+
+  // ---- Scope and sanity.
+  for (std::size_t s = 0; s < n; ++s)
+    if (!(beam.spans[s].length > R(0)) || !(beam.spans[s].EI > R(0)) ||
+        !finite(beam.spans[s].length) || !finite(beam.spans[s].EI))
+      return failed<R>("span " + std::to_string(s + 1) + " has a non-positive length or EI");
+  for (std::size_t i = 0; i <= n; ++i) {
+    const bool interior = i > 0 && i < n;
+    switch (sup[i].type) {
+      case SupportType::Spring: return not_applicable<R>("spring support at " + label(i));
+      case SupportType::Guided: return not_applicable<R>("guided support at " + label(i));
+      default: break;
+    }
+    if (sup[i].hinge) {
+      if (!interior) return not_applicable<R>("hinge at end " + label(i));
+      if (sup[i].type == SupportType::Free) return not_applicable<R>("hinge at unsupported " + label(i));
+      if (sup[i].type == SupportType::Fixed) return not_applicable<R>("hinge at fixed support " + label(i));
+    }
+    if (sup[i].type == SupportType::Free && !is_zero(sup[i].settlement))
+      return not_applicable<R>("settlement at unsupported " + label(i));
+    if (interior && sup[i].type == SupportType::Free && !same(beam.spans[i - 1].EI, beam.spans[i].EI))
+      return not_applicable<R>("unsupported " + label(i) + " between spans of different EI");
+  }
+
+  // ---- Node loads (summed) and validation of all loads.
+  std::vector<R> nodeP(n + 1, R(0)), nodeC(n + 1, R(0));
+  std::vector<std::size_t> per_span(n, 0);
+  for (const auto& l : beam.loads) {
+    if (l.on_node) {
+      if (l.index > n) return failed<R>("node load on a node that does not exist");
+      if (l.type == LoadType::Point) nodeP[l.index] += l.P;
+      else if (l.type == LoadType::Couple) nodeC[l.index] += l.C;
+      else return not_applicable<R>(std::string(load_type_name(l.type)) + " load on " + label(l.index));
+    } else {
+      if (l.index >= n) return failed<R>("span load on a span that does not exist");
+      const R& L = beam.spans[l.index].length;
+      if (l.type == LoadType::Point || l.type == LoadType::Couple) {
+        if (l.at < R(0) || L < l.at) return failed<R>("load position outside span " + std::to_string(l.index + 1));
+      } else if (l.from < R(0) || !(l.from < l.to) || L < l.to) {
+        return failed<R>("load extent outside span " + std::to_string(l.index + 1));
+      }
+      ++per_span[l.index];
+    }
+  }
+  for (std::size_t i = 1; i < n; ++i)
+    if (sup[i].hinge && !is_zero(nodeC[i])) return not_applicable<R>("couple at hinge " + label(i));
+
+  // ---- Segments: merge spans across unsupported interior nodes.
+  auto st = std::make_shared<State<R>>();
+  std::vector<std::size_t> real;  // original node of each segment end
+  real.push_back(0);
+  for (std::size_t i = 1; i < n; ++i)
+    if (sup[i].type != SupportType::Free) real.push_back(i);
+  real.push_back(n);
+  const std::size_t m = real.size() - 1;  // segments
+  st->seg.resize(m);
+  st->span_seg.resize(n);
+  st->span_off.resize(n);
+  st->span_len.resize(n);
+  st->span_last.resize(n);
+  std::vector<std::size_t> seg_loads(m, 0);
+  for (std::size_t g = 0; g < m; ++g) {
+    R off{0};
+    for (std::size_t s = real[g]; s < real[g + 1]; ++s) {
+      st->span_seg[s] = g;
+      st->span_off[s] = off;
+      st->span_len[s] = beam.spans[s].length;
+      st->span_last[s] = s + 1 == real[g + 1];
+      off += beam.spans[s].length;
+      seg_loads[g] += per_span[s];
+      if (s + 1 < real[g + 1]) seg_loads[g] += 2;  // room for node P and C
+    }
+    st->seg[g].L = off;
+    st->seg[g].EI = beam.spans[real[g]].EI;
+  }
+  // Bucket the loads by segment (one pass to count, one to fill).
+  std::size_t total = 0;
+  for (std::size_t g = 0; g < m; ++g) {
+    st->seg[g].first = st->seg[g].last = total;
+    total += seg_loads[g];
+  }
+  st->loads.resize(total);
+  auto push = [&](std::size_t g, const SpanLoad<R>& sl) { st->loads[st->seg[g].last++] = sl; };
+  for (const auto& l : beam.loads) {
+    if (l.on_node) continue;
+    const std::size_t g = st->span_seg[l.index];
+    const R& off = st->span_off[l.index];
+    SpanLoad<R> sl;
+    switch (l.type) {
+      case LoadType::Point: sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; break;
+      case LoadType::Couple: sl.kind = Kind::Couple; sl.a = off + l.at; sl.p = l.C; break;
+      case LoadType::Udl:
+      case LoadType::Linear: {
+        const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+        sl.kind = Kind::Ramp;
+        sl.a = off + l.from;
+        sl.d = off + l.to;
+        sl.p = l.w1;
+        sl.w2 = w2;
+        sl.s = (w2 - l.w1) / (l.to - l.from);
+        break;
+      }
+    }
+    push(g, sl);
+  }
+  // Loads on unsupported interior nodes become loads of the merged span.
+  for (std::size_t i = 1; i < n; ++i) {
+    if (sup[i].type != SupportType::Free) continue;
+    const std::size_t g = st->span_seg[i];
+    SpanLoad<R> sl;
+    sl.a = st->span_off[i];
+    if (!is_zero(nodeP[i])) { sl.kind = Kind::Point; sl.p = nodeP[i]; push(g, sl); }
+    if (!is_zero(nodeC[i])) { sl.kind = Kind::Couple; sl.p = nodeC[i]; push(g, sl); }
+  }
+
+  // ---- Unknowns: per real node one moment, two at an interior fixed node.
+  auto type_of = [&](std::size_t k) { return sup[real[k]].type; };
+  std::vector<std::size_t> varL(m + 1, 0), varR(m + 1, 0);
+  std::size_t nv = 0;
+  for (std::size_t k = 0; k <= m; ++k) {
+    if (k > 0) varL[k] = nv++;
+    if (k < m) varR[k] = (k > 0 && type_of(k) != SupportType::Fixed) ? varL[k] : nv++;
+  }
+  // MA of segment g = x[varR[g]] + offA[g]; MB = x[varL[g+1]].
+  std::vector<R> offA(m, R(0));
+  for (std::size_t g = 1; g < m; ++g)
+    if (type_of(g) != SupportType::Fixed) offA[g] = nodeC[real[g]];
+
+  std::vector<R> FL(m), FR(m), psi(m), f(m);
+  for (std::size_t g = 0; g < m; ++g) {
+    const auto fm = free_moments(*st, st->seg[g]);
+    FL[g] = fm.first;
+    FR[g] = fm.second;
+    f[g] = st->seg[g].L / st->seg[g].EI;
+    psi[g] = (sup[real[g + 1]].settlement - sup[real[g]].settlement) / st->seg[g].L;
+  }
+
+  std::vector<R> A(nv, R(0)), B(nv, R(0)), Cc(nv, R(0)), D(nv, R(0));
+  std::vector<bool> set(nv, false);
+  auto known = [&](std::size_t v, const R& value) {
+    if (set[v]) return false;
+    B[v] = R(1);
+    D[v] = value;
+    set[v] = true;
+    return true;
+  };
+
+  const bool left_free = type_of(0) == SupportType::Free;
+  const bool right_free = type_of(m) == SupportType::Free;
+  if (m == 1 && left_free && right_free) return failed<R>("mechanism: no support");
+  R V0_left{0}, V0_right{0};
+  if (left_free) {
+    // Overhang to the left: from the free end, MA = C0, V0 = -P0.
+    const Segment<R>& sg = st->seg[0];
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    V0_left = R(0) - nodeP[real[0]];
+    const R MB = nodeC[real[0]] + V0_left * sg.L + s.M;
+    if (sup[real[1]].hinge) return failed<R>("mechanism: hinge at " + label(real[1]) + " next to a free end");
+    known(varR[0], nodeC[real[0]]);
+    if (!known(varL[1], MB)) return failed<R>("mechanism near " + label(real[1]));
+  }
+  if (right_free) {
+    // Overhang to the right: MB = -Cm, V(L) = Pm.
+    const Segment<R>& sg = st->seg[m - 1];
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const R MB = R(0) - nodeC[real[m]];
+    V0_right = nodeP[real[m]] - s.V;
+    const R MA = MB - V0_right * sg.L - s.M;
+    if (m > 1 && sup[real[m - 1]].hinge)
+      return failed<R>("mechanism: hinge at " + label(real[m - 1]) + " next to a free end");
+    known(varL[m], MB);
+    if (!known(varR[m - 1], R(MA - offA[m - 1]))) return failed<R>("mechanism near " + label(real[m - 1]));
+  }
+  // Remaining rows.
+  for (std::size_t k = 0; k <= m; ++k) {
+    const bool fixed = type_of(k) == SupportType::Fixed;
+    if (k == 0 || k == m) {
+      const std::size_t v = k == 0 ? varR[0] : varL[m];
+      if (set[v]) continue;
+      if (!fixed) {
+        known(v, k == 0 ? nodeC[real[0]] : R(R(0) - nodeC[real[m]]));
+      } else if (k == 0) {  // theta(0) = 0 of segment 0
+        B[v] = R(2) * f[0];
+        Cc[v] = f[0];
+        D[v] = R(-6) * FR[0] / (st->seg[0].EI * st->seg[0].L) - R(6) * psi[0];
+        set[v] = true;
+      } else {  // theta(L) = 0 of segment m-1
+        const std::size_t g = m - 1;
+        A[v] = f[g];
+        B[v] = R(2) * f[g];
+        D[v] = R(-6) * FL[g] / (st->seg[g].EI * st->seg[g].L) + R(6) * psi[g] - f[g] * offA[g];
+        set[v] = true;
+      }
+      continue;
+    }
+    if (fixed) {
+      const std::size_t vl = varL[k], vr = varR[k];
+      if (!set[vl]) {  // theta(L) = 0 of segment k-1
+        const std::size_t g = k - 1;
+        A[vl] = f[g];
+        B[vl] = R(2) * f[g];
+        D[vl] = R(-6) * FL[g] / (st->seg[g].EI * st->seg[g].L) + R(6) * psi[g] - f[g] * offA[g];
+        set[vl] = true;
+      }
+      if (!set[vr]) {  // theta(0) = 0 of segment k
+        const std::size_t g = k;
+        B[vr] = R(2) * f[g];
+        Cc[vr] = f[g];
+        D[vr] = R(-6) * FR[g] / (st->seg[g].EI * st->seg[g].L) - R(6) * psi[g];
+        set[vr] = true;
+      }
+      continue;
+    }
+    const std::size_t v = varL[k];
+    if (set[v]) continue;
+    if (sup[real[k]].hinge) {
+      known(v, R(0));
+      continue;
+    }
+    // Three-moment equation at support k.
+    const std::size_t g1 = k - 1, g2 = k;
+    A[v] = f[g1];
+    B[v] = R(2) * (f[g1] + f[g2]);
+    Cc[v] = f[g2];
+    D[v] = R(-6) * FL[g1] / (st->seg[g1].EI * st->seg[g1].L) -
+           R(6) * FR[g2] / (st->seg[g2].EI * st->seg[g2].L) + R(6) * (psi[g1] - psi[g2]) -
+           f[g1] * offA[g1] - R(2) * f[g2] * offA[g2];
+    set[v] = true;
+  }
+  if (!thomas(A, B, Cc, D)) return failed<R>("zero or non-finite pivot in the three-moment system");
+
+  // ---- Span statics.
+  for (std::size_t g = 0; g < m; ++g) {
+    Segment<R>& sg = st->seg[g];
+    sg.MA = D[varR[g]] + offA[g];
+    sg.MB = D[varL[g + 1]];
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    if (g == 0 && left_free) sg.V0 = V0_left;
+    else if (g == m - 1 && right_free) sg.V0 = V0_right;
+    else sg.V0 = (sg.MB - sg.MA - s.M) / sg.L;
+  }
+  // ---- Rotations and deflections, supported spans first.
+  auto end_rotation = [&](const Segment<R>& sg) {
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const R I1 = sg.MA * sg.L + sg.V0 * sg.L * sg.L / R(2) + s.I1;
+    return R(sg.theta0 - I1 / sg.EI);
+  };
+  for (std::size_t g = 0; g < m; ++g) {
+    if ((g == 0 && left_free) || (g == m - 1 && right_free)) continue;
+    Segment<R>& sg = st->seg[g];
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const R I2 = sg.MA * sg.L * sg.L / R(2) + sg.V0 * sg.L * sg.L * sg.L / R(6) + s.I2;
+    sg.v0 = sup[real[g]].settlement;
+    sg.theta0 = psi[g] + I2 / (sg.EI * sg.L);
+  }
+  if (right_free) {
+    const std::size_t g = m - 1;
+    R th{0};
+    if (type_of(g) != SupportType::Fixed) {
+      if (g == 0 || (g == 1 && left_free)) return failed<R>("mechanism near " + label(real[g]));
+      th = end_rotation(st->seg[g - 1]);
+    }
+    st->seg[g].theta0 = th;
+    st->seg[g].v0 = sup[real[g]].settlement;
+  }
+  if (left_free) {
+    R th{0};
+    if (type_of(1) != SupportType::Fixed) {
+      if (m == 1 || (m == 2 && right_free)) return failed<R>("mechanism near " + label(real[1]));
+      th = st->seg[1].theta0;
+    }
+    Segment<R>& sg = st->seg[0];
+    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const R I1 = sg.MA * sg.L + sg.V0 * sg.L * sg.L / R(2) + s.I1;
+    const R I2 = sg.MA * sg.L * sg.L / R(2) + sg.V0 * sg.L * sg.L * sg.L / R(6) + s.I2;
+    sg.theta0 = th + I1 / sg.EI;
+    sg.v0 = sup[real[1]].settlement - sg.theta0 * sg.L + I2 / sg.EI;
+  }
+
+  // ---- Node results.
+  std::shared_ptr<const State<R>> cst = st;
+  BasicSolution<R> out;
+  out.nodes.resize(n + 1);
+  R x{0};
+  std::vector<std::size_t> node_real(n + 1, m + 1);  // original node -> real index
+  for (std::size_t k = 0; k <= m; ++k) node_real[real[k]] = k;
+  for (std::size_t i = 0; i <= n; ++i) {
+    BasicNodeResult<R>& nr = out.nodes[i];
+    nr.x = x;
+    if (i < n) x += beam.spans[i].length;
+    BasicPointValues<R> left, right;
+    if (i > 0) {
+      left = eval_span(*cst, i - 1, beam.spans[i - 1].length, false);
+      nr.moment_left = left.moment;
+    }
+    if (i < n) {
+      right = eval_span(*cst, i, R(0), true);
+      nr.moment_right = right.moment;
+    }
+    nr.rotation_left = i > 0 ? left.rotation : right.rotation;
+    nr.rotation_right = i < n ? right.rotation : left.rotation;
+    nr.deflection = i < n ? right.deflection : left.deflection;
+    const SupportType t = sup[i].type;
+    if (restrains_deflection(t)) {
+      nr.deflection = sup[i].settlement;
+      const R Vl = i > 0 ? left.shear : R(0);
+      const R Vr = i < n ? right.shear : R(0);
+      nr.reaction_force = Vr - Vl + nodeP[i];  // V jumps by +R - P
+    }
+    if (t == SupportType::Fixed) {
+      nr.rotation_left = nr.rotation_right = R(0);
+      const std::size_t k = node_real[i];
+      const R Ml = k > 0 ? st->seg[k - 1].MB : R(0);
+      const R Mr = k < m ? st->seg[k].MA : R(0);
+      nr.reaction_moment = Ml + nodeC[i] - Mr;  // M jumps by +C - reaction couple
+    }
+  }
+  for (const auto& nr : out.nodes)
+    if (!finite(nr.deflection) || !finite(nr.reaction_force) || !finite(nr.reaction_moment) ||
+        !finite(nr.rotation_left) || !finite(nr.rotation_right))
+      return failed<R>("non-finite result");
+  out.status = MethodStatus::Ok;
+  out.at = [cst](std::size_t span, const R& local, bool after) { return eval_span(*cst, span, local, after); };
+  return out;
+}
+
+template BasicSolution<double> solve<double>(const BasicBeam<double>&, const std::vector<BasicStation<double>>&);
+template BasicSolution<Extended> solve<Extended>(const BasicBeam<Extended>&,
+                                                 const std::vector<BasicStation<Extended>>&);
+template BasicSolution<Exact> solve<Exact>(const BasicBeam<Exact>&, const std::vector<BasicStation<Exact>>&);
+
+}  // namespace trivet::three_moment
