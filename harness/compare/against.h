@@ -1,0 +1,231 @@
+// trivet: comparing another program's exported results with the consensus
+// of the methods (`trivet check beam.json --against results.csv`).
+//
+// The exported file is CSV (RFC 4180). Its kind is told from its header:
+//   stations:  `x` (global position) or `span` (1-based) with `x_local`,
+//              and any of `shear`, `moment`, `deflection`;
+//   reactions: `support` (a node label such as "B", or a 1-based node
+//              number), and any of `force`, `moment`.
+// Column names are matched without regard to case; Options::columns renames
+// them. An empty cell is "not given" and is not compared; a column that is
+// absent is not compared. Values are converted from the file's declared
+// units and sign conventions to the beam file's units and trivet's signs
+// (methods/beam/beam.h), then compared with the consensus (median of the
+// methods that ran) at the file's own positions.
+//
+// When a quantity fails, the usual mistakes are tried (see Mistake and
+// units_factors()); one that makes every row of that quantity hold within
+// the tolerance is reported as a Finding. A finding never turns a failure
+// into a pass.
+//
+// Results are plain data; nothing here prints.
+#pragma once
+
+#include <cstddef>
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "harness/compare/compare.h"
+#include "harness/input/reader.h"
+
+namespace trivet::compare::against {
+
+// ---------------------------------------------------------------------------
+// Errors: every problem of a file, with its line and column.
+
+struct Error {
+  std::size_t line = 0;     // 1-based physical line; 0: the file as a whole
+  std::size_t column = 0;   // 1-based field number; 0: the line as a whole
+  std::string column_name;  // the header's name of that column, when known
+  std::string reason;
+  // "results.csv: line 4, column 2 (moment): not a number (got \"1.2.3\")"
+  // "results.csv: line 1: no column to compare: ..."; "results.csv: ..."
+  std::string format(const std::string& file) const;
+};
+
+// ---------------------------------------------------------------------------
+// CSV.
+
+struct CsvLimits {
+  std::size_t max_file_bytes = 64u << 20;  // 64 MiB
+  std::size_t max_columns = 1000;
+  std::size_t max_errors = 50;             // further errors are counted, not listed
+};
+
+struct CsvRow {
+  std::size_t line = 0;  // line on which the record starts
+  std::vector<std::string> fields;
+};
+
+struct CsvTable {
+  std::size_t header_line = 0;
+  std::vector<std::string> header;
+  std::vector<CsvRow> rows;
+};
+
+struct CsvRead {
+  CsvTable table;
+  std::vector<Error> errors;
+  bool ok() const { return errors.empty(); }
+};
+
+// Reads CSV text: a header row, then one record per row. Fields separated
+// by commas; a field may be quoted ("a, b" and "say ""x""" are one field,
+// a quoted field may span lines); CRLF or LF line ends; lines whose first
+// non-blank character is '#' and blank lines are skipped (outside quotes).
+// Unquoted fields are trimmed of spaces and tabs. Every record must have as
+// many fields as the header.
+CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits = {});
+// The same from a file; a file over limits.max_file_bytes is refused.
+CsvRead read_csv_file(const std::string& path, const CsvLimits& limits = {});
+
+// ---------------------------------------------------------------------------
+// Options: how the other program wrote its file.
+
+enum class MomentSign { SaggingPositive, HoggingPositive };
+enum class DeflectionSign { DownPositive, UpPositive };
+enum class ShearSign { Ours, Opposite };  // Ours: V = dM/dx
+enum class ReactionSign { UpPositive, DownPositive };
+enum class ReactionMomentSign { CounterClockwisePositive, ClockwisePositive };
+
+struct Options {
+  // Our column name -> the file's ("moment" -> "Mz", "x" -> "Dist"). Keys:
+  // x, span, x_local, shear, moment, deflection, support, force. In a
+  // reaction table "moment" is the reaction couple.
+  std::map<std::string, std::string> columns;
+  // The file's units (names of units.h); empty: the beam file's units.
+  std::string force_unit;
+  std::string length_unit;
+  MomentSign moment_sign = MomentSign::SaggingPositive;
+  DeflectionSign deflection_sign = DeflectionSign::DownPositive;
+  ShearSign shear_sign = ShearSign::Ours;
+  ReactionSign reaction_sign = ReactionSign::UpPositive;
+  ReactionMomentSign reaction_moment_sign = ReactionMomentSign::CounterClockwisePositive;
+  // Empty: the beam file's claims tolerance (default 1% of the largest
+  // magnitude of the kind). An absolute tolerance is in the beam file's units.
+  std::optional<input::Tolerance> tolerance;
+  // The load case compared; empty: the beam's only one (an error if several).
+  std::string load_case;
+  CsvLimits limits;
+};
+
+// Sets one option from command-line text. Names and values:
+//   column           "moment=Mz" or "moment=Mz,x=Dist" (may be repeated)
+//   units            "force=N,length=mm" (either part alone is fine)
+//   force-unit       N, kN, MN, lbf, kip
+//   length-unit      mm, cm, m, in, ft
+//   moment-sign      sagging-positive | hogging-positive
+//   deflection-sign  down-positive | up-positive
+//   shear-sign       ours | opposite
+//   reaction-sign    up-positive | down-positive
+//   reaction-moment-sign  counter-clockwise-positive | clockwise-positive
+//   tolerance        "1%" or an absolute value in the beam file's units
+//   case             a load case name
+// Returns an empty string when set, else the reason it is refused.
+std::string set_option(Options& options, const std::string& name, const std::string& value);
+// The names set_option knows, in that order.
+const std::vector<std::string>& option_names();
+
+// ---------------------------------------------------------------------------
+// Results.
+
+enum class TableKind { Stations, Reactions };
+const char* table_kind_name(TableKind k);  // "stations", "reactions"
+
+enum class Quantity { Shear, Moment, Deflection, ReactionForce, ReactionMoment };
+constexpr std::size_t kQuantities = 5;
+const char* quantity_name(Quantity q);   // "shear", "moment", "deflection", "reaction", "reaction moment"
+const char* quantity_plural(Quantity q); // "shears", "moments", "deflections", "reactions", "reaction moments"
+
+// Which limit of a value that jumps at the row's position was compared.
+enum class Side { Continuous, Left, Right };
+const char* side_name(Side s);  // "", "left", "right"
+
+struct Cell {
+  Quantity quantity = Quantity::Moment;
+  double raw = 0;         // as written in the file
+  double theirs = 0;      // converted to the beam file's units and our signs
+  double ours = 0;        // consensus of the methods (0 if the node is not in the beam)
+  double difference = 0;  // theirs - ours
+  double tolerance = 0;   // absolute, beam file's units
+  bool holds = false;
+  Side side = Side::Continuous;
+  bool side_from_pair = false;  // the side came from a repeated position
+  std::string reason;           // why it could not be compared ("no node 5 in the beam")
+};
+
+struct RowResult {
+  std::size_t line = 0;
+  std::string where;  // "x = 2.5 m", "span 2, x_local = 1 m", "support B"
+  std::vector<Cell> cells;
+};
+
+enum class Mistake { OppositeSign, UnitsFactor, RightToLeft, LocalAsGlobal, SupportShift };
+const char* mistake_name(Mistake m);  // "opposite-sign", "units-factor", "right-to-left", "local-x", "support-shift"
+
+// A correction that makes every row of a quantity hold.
+struct Finding {
+  Quantity quantity = Quantity::Moment;
+  std::vector<Mistake> mistakes;  // one, or a combination
+  double factor = 1;              // UnitsFactor: their value is multiplied by this
+  int shift = 0;                  // SupportShift: their node k is our node k + shift
+  double residual = 0;            // worst |difference| after the correction, beam file units
+  double residual_relative = 0;   // residual / the largest magnitude of the kind
+  std::string text;  // "the moments match to 0.02% of the largest moment if read as hogging-positive"
+};
+
+struct Summary {
+  Quantity quantity = Quantity::Moment;
+  std::size_t compared = 0;
+  std::size_t failing = 0;
+  double worst_difference = 0;  // signed, largest magnitude
+  double tolerance = 0;
+  std::size_t worst_line = 0;
+  std::string worst_where;
+  std::optional<Finding> finding;  // only when failing > 0
+  std::string note;  // when failing and no single finding: why (e.g. no correction holds)
+};
+
+struct Comparison {
+  std::string file;
+  TableKind kind = TableKind::Stations;
+  std::string load_case;
+  input::Units their_units;  // as declared (or the beam file's)
+  input::Units units;        // the beam file's: theirs/ours/difference are in these
+  std::vector<RowResult> rows;
+  std::vector<Summary> summary;  // one per quantity compared, in Quantity order
+  std::vector<Error> errors;     // nothing was compared when not empty
+  std::size_t errors_not_listed = 0;
+  bool ok() const { return errors.empty(); }
+  // True when the file was read and every compared value holds.
+  bool holds() const;
+  std::size_t failing() const;  // cells that do not hold
+};
+
+// Compares a table with the checked beam. `file` is the beam file that
+// `result` came from (for its tolerance); `display` names the CSV in errors.
+Comparison compare_table(const input::BeamFile& file, const BeamResult& result,
+                         const CsvTable& table, const std::string& display,
+                         const Options& options = {});
+// Reads `path` and compares it; `display` (default: path) names it.
+Comparison compare_file(const input::BeamFile& file, const BeamResult& result,
+                        const std::string& path, const Options& options = {},
+                        const std::string& display = "");
+// The same from CSV text.
+Comparison compare_text(const input::BeamFile& file, const BeamResult& result,
+                        const std::string& text, const std::string& display,
+                        const Options& options = {});
+
+// The factors tried for a units mistake, each with plain words, e.g.
+// {1000, "1000 (N for kN, or mm for m)"}: the products of at most two of
+// 1000, 10^6, 10^9, 12, 144, 1728, 4.4482216152605 (lbf to N), 0.3048,
+// 0.0254, 25.4, 304.8, and their inverses, without repeats and without 1.
+struct UnitsFactor {
+  double factor;      // their value / ours
+  std::string words;
+};
+const std::vector<UnitsFactor>& units_factors();
+
+}  // namespace trivet::compare::against

@@ -1,0 +1,133 @@
+// trivet: the cross-check. Runs the methods on each load set of a beam,
+// measures their agreement and equilibrium, and tests the claims against
+// their consensus. Results are plain data; reports/ writes them.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "harness/input/reader.h"
+#include "methods/beam/beam.h"
+
+namespace trivet::compare {
+
+// The kinds of quantity compared, each scaled by its own largest magnitude.
+enum class Kind { Moment, Shear, Reaction, Deflection, Rotation };
+constexpr std::size_t kKinds = 5;
+const char* kind_name(Kind k);  // "moment", "shear", "reaction", "deflection", "rotation"
+
+// A method, chosen by name ("three-moment", "slope-deflection", "stiffness").
+struct Method {
+  std::string name;
+  Solution (*solve)(const Beam&, const std::vector<Station>&);
+};
+// All methods in report order.
+const std::vector<Method>& methods();
+const Method* find_method(const std::string& name);
+
+struct StationValues {
+  double x = 0;
+  double shear = 0, moment = 0, deflection = 0, rotation = 0;
+};
+
+// Equilibrium of one method's solution: the vertical forces (reactions and
+// spring forces against the applied loads) and the moments about the left
+// end, each as a residual relative to the sum of the magnitudes involved.
+struct Equilibrium {
+  double force_residual = 0;
+  double moment_residual = 0;
+};
+
+struct MethodResult {
+  std::string name;
+  MethodStatus status = MethodStatus::Failed;
+  std::string reason;
+  std::vector<NodeResult> nodes;
+  std::vector<StationValues> stations;  // one per load set station
+  Equilibrium equilibrium;
+  Solution solution;  // for evaluation between stations
+};
+
+// The extreme values of one span (from the consensus of the methods).
+struct SpanExtremes {
+  double max_moment = 0, max_moment_x = 0;
+  double min_moment = 0, min_moment_x = 0;
+  double max_deflection = 0, max_deflection_x = 0;  // signed, largest magnitude
+};
+
+enum class Verdict { Agree, Disagree, Unconfirmed };
+const char* verdict_name(Verdict v);  // "agree", "disagree", "unconfirmed"
+
+// Where two methods differ most.
+struct Worst {
+  Kind kind = Kind::Moment;
+  std::string where;   // "node B" or "x = 3.25"
+  double x = 0;
+  std::vector<std::pair<std::string, double>> values;  // method, value
+};
+
+struct LoadSet {
+  std::string name;
+  Beam beam;  // the beam with this set's loads only
+  std::vector<Station> stations;
+  std::vector<MethodResult> methods;
+  Verdict verdict = Verdict::Unconfirmed;
+  double scale[kKinds] = {0, 0, 0, 0, 0};           // largest magnitude per kind
+  double max_difference[kKinds] = {0, 0, 0, 0, 0};  // relative to scale
+  std::optional<Worst> worst;                       // where agreement is worst
+  std::string odd_one_out;                          // method that disagrees with the others
+  std::string problem;                              // plain words when not agree
+  std::vector<SpanExtremes> extremes;               // per span
+  std::vector<NodeResult> consensus_nodes;          // median of ok methods
+  std::vector<StationValues> consensus_stations;
+  std::size_t ok_count() const;
+};
+
+struct ClaimResult {
+  input::Claim claim;
+  std::string label;        // "node B", "x = 2.4 m", "span 2"
+  std::string load_case;
+  bool evaluated = false;   // false: `reason` says why it could not be
+  double computed = 0;
+  double difference = 0;
+  double tolerance = 0;
+  bool holds = false;
+  std::string reason;
+};
+
+enum class BeamStatus { Agree, Disagree, Unconfirmed, Invalid };
+const char* beam_status_name(BeamStatus s);
+
+struct BeamResult {
+  std::string file;
+  std::string title;
+  input::Units units;
+  BeamStatus status = BeamStatus::Invalid;
+  std::vector<input::Error> errors;
+  std::vector<LoadSet> sets;
+  std::vector<ClaimResult> claims;
+  std::size_t claims_failed() const;
+};
+
+struct Options {
+  std::vector<std::string> methods;  // empty: all
+  // The methods to choose from (default: methods()); tests put a
+  // deliberately broken method here.
+  const std::vector<Method>* method_set = nullptr;
+  double agreement = 1e-6;
+  std::optional<int> stations_per_span;
+};
+
+// Checks one file that has been read (invalid files give an Invalid result
+// carrying their errors).
+BeamResult check(const input::BeamFile& file, const Options& options);
+
+// The loads of one load case.
+Beam beam_for_case(const Beam& beam, const std::string& load_case);
+
+// The caution every report carries.
+const char* caution_text();
+
+}  // namespace trivet::compare

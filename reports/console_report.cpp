@@ -1,0 +1,232 @@
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+
+#include "reports/reports.h"
+
+namespace trivet::reports {
+
+using namespace trivet::compare;
+
+std::string fixed(double v, int decimals) {
+  if (!std::isfinite(v)) return "n/a";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  std::string s = buf;
+  // No "-0.000".
+  if (s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos) s = s.substr(1);
+  return s;
+}
+
+int decimals_for(double largest) {
+  if (!(largest > 0) || !std::isfinite(largest)) return 3;
+  const int mag = static_cast<int>(std::floor(std::log10(largest)));
+  return std::clamp(3 - mag, 0, 9);
+}
+
+namespace {
+
+const char* kReset = "\033[0m";
+const char* kRed = "\033[1;31m";
+const char* kGreen = "\033[32m";
+const char* kYellow = "\033[33m";
+
+std::string paint(const std::string& s, const char* c, bool on) { return on ? std::string(c) + s + kReset : s; }
+
+std::string status_word(BeamStatus s, bool color) {
+  const std::string w = beam_status_name(s);
+  switch (s) {
+    case BeamStatus::Agree: return paint(w, kGreen, color);
+    case BeamStatus::Unconfirmed: return paint(w, kYellow, color);
+    default: return paint(w, kRed, color);
+  }
+}
+
+// A plain text table with right-aligned numeric columns.
+struct Table {
+  std::vector<std::string> head;
+  std::vector<std::vector<std::string>> rows;
+  void print(std::ostream& out, const std::string& indent) const {
+    std::vector<std::size_t> w(head.size(), 0);
+    for (std::size_t c = 0; c < head.size(); ++c) w[c] = head[c].size();
+    for (const auto& r : rows)
+      for (std::size_t c = 0; c < r.size() && c < w.size(); ++c) w[c] = std::max(w[c], r[c].size());
+    auto line = [&](const std::vector<std::string>& r) {
+      out << indent;
+      for (std::size_t c = 0; c < r.size(); ++c) {
+        const std::string& s = r[c];
+        const std::size_t pad = w[c] > s.size() ? w[c] - s.size() : 0;
+        if (c == 0) out << s << std::string(pad, ' ');
+        else out << "  " << std::string(pad, ' ') << s;
+      }
+      out << "\n";
+    };
+    line(head);
+    std::size_t total = 0;
+    for (std::size_t c = 0; c < w.size(); ++c) total += w[c] + (c ? 2 : 0);
+    out << indent << std::string(total, '-') << "\n";
+    for (const auto& r : rows) {
+      if (r.size() == 1) out << indent << r[0] << "\n";
+      else line(r);
+    }
+  }
+};
+
+std::string sci(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.1e", v);
+  return buf;
+}
+
+}  // namespace
+
+void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions& opt) {
+  out << b.file;
+  if (!b.title.empty()) out << " - " << b.title;
+  out << "  [" << status_word(b.status, opt.color) << "]\n";
+  if (b.status == BeamStatus::Invalid) {
+    for (const auto& e : b.errors) out << "  " << paint("error", kRed, opt.color) << ": " << e.format(b.file) << "\n";
+    out << "\n";
+    return;
+  }
+  const std::string F = b.units.force, L = b.units.length;
+  const std::string FL = F + "*" + L;
+  for (const auto& set : b.sets) {
+    out << "  load set: " << set.name << "   units: " << F << ", " << L << "\n";
+    out << "  methods:";
+    for (std::size_t i = 0; i < set.methods.size(); ++i) {
+      const auto& m = set.methods[i];
+      out << (i ? "," : "") << " " << m.name << " ";
+      if (m.status == MethodStatus::Ok) out << "ok";
+      else out << paint(method_status_name(m.status), m.status == MethodStatus::Failed ? kRed : kYellow, opt.color)
+               << " (" << m.reason << ")";
+    }
+    out << "\n";
+    {
+      std::ostringstream d;
+      d << "  verdict: ";
+      const std::string v = verdict_name(set.verdict);
+      d << paint(v, set.verdict == Verdict::Agree ? kGreen : set.verdict == Verdict::Disagree ? kRed : kYellow, opt.color);
+      if (set.ok_count() >= 2) {
+        d << "   largest difference between methods:";
+        for (std::size_t k = 0; k < 4; ++k) d << " " << kind_name(static_cast<Kind>(k)) << " " << sci(set.max_difference[k]);
+        d << " (of the largest value)";
+      }
+      out << d.str() << "\n";
+      if (!set.problem.empty()) out << "  " << paint(set.problem, set.verdict == Verdict::Disagree ? kRed : kYellow, opt.color) << "\n";
+    }
+    if (set.consensus_nodes.empty()) { out << "\n"; continue; }
+    double worst_f = 0, worst_m = 0;
+    for (const auto& m : set.methods)
+      if (m.status == MethodStatus::Ok) {
+        worst_f = std::max(worst_f, m.equilibrium.force_residual);
+        worst_m = std::max(worst_m, m.equilibrium.moment_residual);
+      }
+    out << "  equilibrium (worst method): vertical forces " << sci(worst_f) << ", moments about the left end " << sci(worst_m) << "\n";
+
+    const int dm = decimals_for(set.scale[static_cast<int>(Kind::Moment)]);
+    const int dr = decimals_for(std::max(set.scale[static_cast<int>(Kind::Reaction)], 1e-300));
+    const int dd = decimals_for(set.scale[static_cast<int>(Kind::Deflection)]);
+    const int dt = decimals_for(set.scale[static_cast<int>(Kind::Rotation)]);
+    double xmax = 0;
+    for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(n.x));
+    const int dx = std::max(2, decimals_for(xmax) - 1);
+    Table t;
+    t.head = {"node", "x [" + L + "]", "M left [" + FL + "]", "M right [" + FL + "]", "reaction [" + F + "]",
+              "reaction moment [" + FL + "]", "deflection [" + L + "]", "rotation [rad]"};
+    const std::size_t n = set.consensus_nodes.size();
+    const bool cut = !opt.all_rows && n > opt.max_rows;
+    for (std::size_t i = 0; i < n; ++i) {
+      if (cut && i == opt.max_rows / 2) {
+        t.rows.push_back({"  ... " + std::to_string(n - opt.max_rows) + " nodes not shown (--all-rows shows every node) ..."});
+        i = n - opt.max_rows / 2;
+      }
+      const NodeResult& c = set.consensus_nodes[i];
+      t.rows.push_back({set.beam.labels[i], fixed(c.x, dx), c.moment_left ? fixed(*c.moment_left, dm) : "-",
+                        c.moment_right ? fixed(*c.moment_right, dm) : "-", fixed(c.reaction_force, dr),
+                        fixed(c.reaction_moment, dm), fixed(c.deflection, dd),
+                        i == 0 ? fixed(c.rotation_right, dt)
+                               : (std::abs(c.rotation_left - c.rotation_right) > 1e-9 * set.scale[4]
+                                      ? fixed(c.rotation_left, dt) + " / " + fixed(c.rotation_right, dt)
+                                      : fixed(c.rotation_left, dt))});
+    }
+    t.print(out, "  ");
+    // Span extremes.
+    Table e;
+    e.head = {"span", "max sagging [" + FL + "]", "at x [" + L + "]", "max hogging [" + FL + "]", "at x [" + L + "]",
+              "max deflection [" + L + "]", "at x [" + L + "]"};
+    const std::size_t ns = set.extremes.size();
+    const bool cut_s = !opt.all_rows && ns > opt.max_rows;
+    for (std::size_t i = 0; i < ns; ++i) {
+      if (cut_s && i == opt.max_rows / 2) {
+        e.rows.push_back({"  ... " + std::to_string(ns - opt.max_rows) + " spans not shown ..."});
+        i = ns - opt.max_rows / 2;
+      }
+      const SpanExtremes& x = set.extremes[i];
+      e.rows.push_back({std::to_string(i + 1), x.max_moment > 0 ? fixed(x.max_moment, dm) : "-",
+                        x.max_moment > 0 ? fixed(x.max_moment_x, dx) : "",
+                        x.min_moment < 0 ? fixed(x.min_moment, dm) : "-",
+                        x.min_moment < 0 ? fixed(x.min_moment_x, dx) : "", fixed(x.max_deflection, dd),
+                        fixed(x.max_deflection_x, dx)});
+    }
+    out << "\n";
+    e.print(out, "  ");
+    if (cut_s) {
+      // The governing values over the whole beam.
+      const SpanExtremes* smax = &set.extremes[0];
+      const SpanExtremes* smin = &set.extremes[0];
+      const SpanExtremes* sdef = &set.extremes[0];
+      for (const auto& x : set.extremes) {
+        if (x.max_moment > smax->max_moment) smax = &x;
+        if (x.min_moment < smin->min_moment) smin = &x;
+        if (std::abs(x.max_deflection) > std::abs(sdef->max_deflection)) sdef = &x;
+      }
+      out << "  whole beam: max sagging " << fixed(smax->max_moment, dm) << " " << FL << " at x = " << fixed(smax->max_moment_x, dx)
+          << ", max hogging " << fixed(smin->min_moment, dm) << " " << FL << " at x = " << fixed(smin->min_moment_x, dx)
+          << ", max deflection " << fixed(sdef->max_deflection, dd) << " " << L << " at x = " << fixed(sdef->max_deflection_x, dx) << "\n";
+    }
+    out << "\n";
+  }
+  if (!b.claims.empty()) {
+    Table c;
+    c.head = {"claim", "quantity", "where", "case", "claimed", "computed", "difference", "tolerance", "holds"};
+    for (std::size_t i = 0; i < b.claims.size(); ++i) {
+      const ClaimResult& r = b.claims[i];
+      const Kind k = [&] {
+        using Q = input::Quantity;
+        switch (r.claim.quantity) {
+          case Q::Shear: return Kind::Shear;
+          case Q::Reaction: return Kind::Reaction;
+          case Q::Deflection: case Q::MaxDeflection: return Kind::Deflection;
+          case Q::Rotation: return Kind::Rotation;
+          default: return Kind::Moment;
+        }
+      }();
+      const int d = decimals_for(std::max(std::abs(r.claim.value), std::abs(r.computed))) + 1;
+      (void)k;
+      std::string where = r.label;
+      if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
+      const std::string unit = input::Units{b.units}.of(input::quantity_dimension(r.claim.quantity));
+      c.rows.push_back({std::to_string(i + 1), std::string(input::quantity_name(r.claim.quantity)) + " [" + unit + "]", where,
+                        r.load_case, fixed(r.claim.value, d), r.evaluated ? fixed(r.computed, d) : "-",
+                        r.evaluated ? fixed(r.difference, d) : "-", fixed(r.tolerance, d),
+                        r.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
+      if (!r.reason.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": " + r.reason});
+    }
+    c.print(out, "  ");
+    out << "\n";
+  }
+}
+
+void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOptions& opt) {
+  out << "summary: " << s.beams << (s.beams == 1 ? " beam" : " beams") << ": "
+      << paint(std::to_string(s.agree) + " agree", kGreen, opt.color && s.agree) << ", "
+      << paint(std::to_string(s.disagree) + " disagree", kRed, opt.color && s.disagree) << ", "
+      << paint(std::to_string(s.unconfirmed) + " unconfirmed", kYellow, opt.color && s.unconfirmed) << ", "
+      << paint(std::to_string(s.invalid) + " invalid", kRed, opt.color && s.invalid) << "; "
+      << s.claims_failed << (s.claims_failed == 1 ? " claim fails" : " claims fail") << "\n";
+  out << "caution: " << caution_text() << "\n";
+}
+
+}  // namespace trivet::reports

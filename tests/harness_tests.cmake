@@ -1,0 +1,16 @@
+# Tests of the harness: reader, units, comparison, reports and the program.
+trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_input)
+trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
+trivet_add_test(compare_test ${CMAKE_CURRENT_SOURCE_DIR}/compare_test.cpp trivet_compare)
+trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp
+  trivet_three_moment trivet_slope_deflection trivet_stiffness)
+trivet_add_test(reports_test ${CMAKE_CURRENT_SOURCE_DIR}/reports_test.cpp trivet_reports nlohmann_json::nlohmann_json)
+
+# The program end to end, on the bundled examples and on invalid input.
+add_test(NAME cli_examples_agree COMMAND trivet check ${PROJECT_SOURCE_DIR}/examples --jobs 2)
+add_test(NAME cli_example_is_valid
+  COMMAND ${CMAKE_COMMAND} -DTRIVET=$<TARGET_FILE:trivet> -DOUT=${CMAKE_CURRENT_BINARY_DIR}/starter.json
+          -P ${CMAKE_CURRENT_SOURCE_DIR}/cli_example.cmake)
+add_test(NAME cli_invalid_exits_2 COMMAND trivet check ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
+set_tests_properties(cli_invalid_exits_2 PROPERTIES WILL_FAIL TRUE)
+add_test(NAME cli_exit_codes COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_exit_codes.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)

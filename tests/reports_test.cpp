@@ -1,0 +1,101 @@
+// Report writers: the JSON report has the contract's shape and its numbers
+// read back to the same doubles; the console report shows units and the
+// caution.
+#include <gtest/gtest.h>
+
+#include <sstream>
+
+#include <nlohmann/json.hpp>
+
+#include "reports/reports.h"
+
+namespace trivet::reports {
+namespace {
+
+compare::BeamResult sample() {
+  input::BeamFile f = input::parse_beam_text(R"({"title": "two spans", "units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 30000}, {"length": 7, "EI": 30000}], "supports": ["fixed", "roller", "free"],
+    "loads": [{"type": "udl", "span": 1, "w": 9.3}, {"type": "point", "span": 2, "P": 4.1, "at": 2.2}],
+    "claims": {"values": [{"quantity": "reaction", "node": "A", "value": 1}]}})", "s.json");
+  EXPECT_TRUE(f.ok());
+  return compare::check(f, {});
+}
+
+TEST(JsonReport, HasTheContractShape) {
+  std::vector<compare::BeamResult> beams = {sample()};
+  beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
+  std::ostringstream out;
+  write_json(out, beams, {"9.9.9", {}, 1e-6});
+  auto j = nlohmann::json::parse(out.str());
+  EXPECT_EQ(j["tool"]["name"], "trivet");
+  EXPECT_EQ(j["tool"]["version"], "9.9.9");
+  EXPECT_EQ(j["summary"]["beams"], 2);
+  EXPECT_EQ(j["summary"]["invalid"], 1);
+  EXPECT_EQ(j["summary"]["claims_failed"], 1);
+  EXPECT_TRUE(j["caution"].get<std::string>().find("qualified engineer") != std::string::npos);
+  const auto& b = j["beams"][0];
+  EXPECT_EQ(b["file"], "s.json");
+  EXPECT_EQ(b["units"]["force"], "kN");
+  EXPECT_EQ(b["status"], "disagree");  // the claim of 1 kN fails
+  const auto& set = b["results"]["loads"];
+  EXPECT_EQ(set["verdict"], "agree");
+  for (const char* k : {"moment", "shear", "reaction", "deflection"}) EXPECT_TRUE(set["max_difference"][k].is_number()) << k;
+  for (const char* m : {"three-moment", "slope-deflection", "stiffness"}) {
+    const auto& mj = set["methods"][m];
+    EXPECT_EQ(mj["status"], "ok") << m;
+    ASSERT_EQ(mj["nodes"].size(), 3u);
+    EXPECT_TRUE(mj["nodes"][0]["moment_left"].is_null());
+    EXPECT_TRUE(mj["nodes"][2]["moment_right"].is_null());
+    for (const char* k : {"label", "x", "moment_right", "reaction_force", "reaction_moment", "deflection", "rotation"})
+      EXPECT_TRUE(mj["nodes"][0].contains(k)) << k;
+    EXPECT_GT(mj["stations"].size(), 20u);
+    double last = -1;
+    for (const auto& s : mj["stations"]) {
+      EXPECT_GE(s["x"].get<double>(), last);
+      last = s["x"].get<double>();
+    }
+  }
+  const auto& c = b["claims"][0];
+  EXPECT_EQ(c["quantity"], "reaction");
+  EXPECT_EQ(c["node"], "A");
+  EXPECT_EQ(c["holds"], false);
+  EXPECT_EQ(j["beams"][1]["status"], "invalid");
+  EXPECT_FALSE(j["beams"][1]["errors"].empty());
+}
+
+TEST(JsonReport, NumbersReadBackToTheSameDouble) {
+  std::vector<compare::BeamResult> beams = {sample()};
+  std::ostringstream out;
+  write_json(out, beams, {"0", {}, 1e-6});
+  auto j = nlohmann::json::parse(out.str());
+  const auto& stations = j["beams"][0]["results"]["loads"]["methods"]["stiffness"]["stations"];
+  const auto& mine = beams[0].sets[0].methods[2].stations;
+  ASSERT_EQ(stations.size(), mine.size());
+  for (std::size_t i = 0; i < mine.size(); ++i) {
+    // Exact equality is the point here: the text must round-trip bit for bit.
+    EXPECT_EQ(stations[i]["moment"].get<double>(), mine[i].moment) << i;
+    EXPECT_EQ(stations[i]["deflection"].get<double>(), mine[i].deflection) << i;
+  }
+}
+
+TEST(ConsoleReport, ShowsUnitsTablesAndCaution) {
+  std::vector<compare::BeamResult> beams = {sample()};
+  std::ostringstream out;
+  write_console(out, beams[0], {});
+  write_console_summary(out, summarize(beams), {});
+  const std::string s = out.str();
+  for (const char* want : {"two spans", "M left [kN*m]", "reaction [kN]", "deflection [m]", "max sagging [kN*m]",
+                           "NO", "summary: 1 beam", "caution:", "qualified engineer"})
+    EXPECT_NE(s.find(want), std::string::npos) << want << "\n" << s;
+  EXPECT_EQ(s.find("\033["), std::string::npos) << "no colour unless asked";
+}
+
+TEST(ConsoleReport, RoundsForAPerson) {
+  EXPECT_EQ(fixed(-0.0001, 2), "0.00");
+  EXPECT_EQ(fixed(31.6449, 2), "31.64");
+  EXPECT_EQ(decimals_for(31.6), 2);
+  EXPECT_EQ(decimals_for(0.0041), 6);
+}
+
+}  // namespace
+}  // namespace trivet::reports
