@@ -272,44 +272,47 @@ struct Var {
   R value{0};
 };
 
-// The banded system: rows 0..n-1, half-bandwidth hb, full band stored.
+// The banded system, symmetric: rows 0..n-1, half-bandwidth hb, only the
+// diagonal and the hb entries right of it stored (the assembly is symmetric
+// by construction; entries left of the diagonal are not kept).
 template <class R>
 struct Banded {
   std::size_t n = 0, hb = 0, w = 1;
-  std::vector<R> a;  // row r, column c at r * w + (c + hb - r)
+  std::vector<R> a;  // row r, column c >= r at r * w + (c - r)
   std::vector<R> rhs;
   void init(std::size_t rows, std::size_t half) {
     n = rows;
     hb = half;
-    w = 2 * half + 1;
+    w = half + 1;
     a.assign(n * w, R(0));
     rhs.assign(n, R(0));
   }
-  R& at(std::size_t r, std::size_t c) { return a[r * w + (c + hb - r)]; }
+  R& at(std::size_t r, std::size_t c) { return a[r * w + (c - r)]; }
 };
 
-// Gaussian elimination without row exchanges on a banded matrix: O(n hb^2).
-// The matrix is symmetric positive definite for a stable beam, so every
-// pivot must be positive; returns the first row whose pivot is not, or -1.
+// Gaussian elimination without row exchanges on the symmetric band (the
+// lower entry of row i, column k is the upper one of row k, column i):
+// O(n hb^2). The matrix is positive definite for a stable beam, so every
+// pivot must be positive; returns the first row whose pivot is not (or is
+// mostly rounding), or -1.
 template <class R>
 long banded_solve(Banded<R>& m, std::vector<R>& x) {
   const std::size_t n = m.n, hb = m.hb;
   const R tol = pivot_tolerance<R>();
-  std::vector<R> diag(n);
-  for (std::size_t k = 0; k < n; ++k) diag[k] = m.at(k, k);
+  x.resize(n);
+  for (std::size_t k = 0; k < n; ++k) x[k] = m.at(k, k);  // original diagonal, for the tolerance
   for (std::size_t k = 0; k < n; ++k) {
     const R p = m.at(k, k);
-    if (!(p > diag[k] * tol) || !(p > R(0)) || !is_finite(p)) return static_cast<long>(k);
+    if (!(p > x[k] * tol) || !(p > R(0)) || !is_finite(p)) return static_cast<long>(k);
     const std::size_t end = std::min(n, k + hb + 1);
     for (std::size_t i = k + 1; i < end; ++i) {
-      const R& lik = m.at(i, k);
+      const R& lik = m.at(k, i);
       if (is_zero(lik)) continue;
       const R f = lik / p;
-      for (std::size_t j = k; j < end; ++j) m.at(i, j) -= f * m.at(k, j);
+      for (std::size_t j = i; j < end; ++j) m.at(i, j) -= f * m.at(k, j);
       m.rhs[i] -= f * m.rhs[k];
     }
   }
-  x.assign(n, R(0));
   for (std::size_t kk = n; kk-- > 0;) {
     R s = m.rhs[kk];
     const std::size_t end = std::min(n, kk + hb + 1);
@@ -341,8 +344,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
 
   // Node loads.
   std::vector<R> nodeP(N, R(0)), nodeC(N, R(0));
-  // Span loads: count, then fill (counting sort), with the fixed-end moments.
-  std::vector<std::size_t> offs(n + 1, 0);
+  // The solved state is filled as we go. Before the solve, three of its
+  // slots hold other values of the span: MA the fixed-end moment FEM_ij,
+  // DA the fixed-end moment FEM_ji, MB the simple-beam right reaction RB0.
+  auto state = std::make_shared<SolvedState<R>>();
+  state->spans.resize(n);
+  auto& spans = state->spans;
+  // Span loads: count (in `first`), then fill (counting sort, cursor in
+  // `last`), summing the fixed-end moments.
   for (const auto& l : beam.loads) {
     if (l.on_node) {
       if (l.index >= N) return give_up<R>(MS::NotApplicable, "load on a node outside the beam");
@@ -351,14 +360,17 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       else return give_up<R>(MS::NotApplicable, std::string(load_type_name(l.type)) + " load on node " + name(l.index));
     } else {
       if (l.index >= n) return give_up<R>(MS::NotApplicable, "load on a span outside the beam");
-      ++offs[l.index + 1];
+      ++spans[l.index].first;
     }
   }
-  for (std::size_t s = 0; s < n; ++s) offs[s + 1] += offs[s];
-  std::vector<Term<R>> terms(offs[n]);
-  std::vector<detail::EndPair<R>> fem(n);
+  std::size_t total = 0;
+  for (std::size_t s = 0; s < n; ++s) {
+    const std::size_t c = spans[s].first;
+    spans[s].first = spans[s].last = total;
+    total += c;
+  }
+  std::vector<Term<R>> terms(total);
   {
-    std::vector<std::size_t> fill(offs.begin(), offs.end() - 1);
     for (const auto& l : beam.loads) {
       if (l.on_node) continue;
       const std::size_t s = l.index;
@@ -386,9 +398,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
           break;
       }
       const detail::EndPair<R> e = fem_of<R>(l.type, L, l.P, l.C, l.w1, l.w2, l.at, l.from, l.to);
-      fem[s].left += e.left;
-      fem[s].right += e.right;
-      terms[fill[s]++] = t;
+      spans[s].MA += e.left;
+      spans[s].DA += e.right;
+      terms[spans[s].last++] = t;
     }
   }
 
@@ -443,30 +455,25 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
   }
 
-  // Per-span simple-beam data, straight into the solved state; RB0 (the
-  // simple-beam right reaction) is kept for now in the MB slot.
-  auto state = std::make_shared<SolvedState<R>>();
-  state->spans.resize(n);
+  // Per-span simple-beam data.
   for (std::size_t s = 0; s < n; ++s) {
-    SpanState<R>& ss = state->spans[s];
+    SpanState<R>& ss = spans[s];
     ss.L = beam.spans[s].length;
     ss.EI = beam.spans[s].EI;
-    ss.first = offs[s];
-    ss.last = offs[s + 1];
     SpanMath<R>::simple_beam(terms.data() + ss.first, ss.last - ss.first, ss.L, ss.RA0, ss.FL);
     LoadParts<R> end;
     for (std::size_t k = ss.first; k < ss.last; ++k) SpanMath<R>::add(terms[k], ss.L, true, end);
     ss.MB = -end.shear - ss.RA0;  // total load minus the left reaction
   }
-  offs.clear();
-  offs.shrink_to_fit();
 
   Banded<R> sys;
   sys.init(nu, hb);
   // row += c * var
   auto put = [&](long row, const R& c, const Var<R>& v) {
     if (row < 0) return;
-    if (v.idx >= 0) sys.at(static_cast<std::size_t>(row), static_cast<std::size_t>(v.idx)) += c;
+    if (v.idx >= 0) {
+      if (v.idx >= row) sys.at(static_cast<std::size_t>(row), static_cast<std::size_t>(v.idx)) += c;
+    }
     else if (!is_zero(v.value)) sys.rhs[static_cast<std::size_t>(row)] -= c * v.value;
   };
   auto put_const = [&](long row, const R& c) {
@@ -482,12 +489,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const Var<R> di = defl(s), dj = defl(s + 1);
     // M_ij = k(2 ti + tj) + kL (di - dj) + FEM_ij, on the row of ti.
     const long ri = ti.idx, rj = tj.idx;
-    put(ri, R(2) * k, ti); put(ri, k, tj); put(ri, kL, di); put(ri, -kL, dj); put_const(ri, fem[s].left);
+    const R& femI = spans[s].MA;
+    const R& femJ = spans[s].DA;
+    put(ri, R(2) * k, ti); put(ri, k, tj); put(ri, kL, di); put(ri, -kL, dj); put_const(ri, femI);
     // M_ji = k(ti + 2 tj) + kL (di - dj) + FEM_ji, on the row of tj.
-    put(rj, k, ti); put(rj, R(2) * k, tj); put(rj, kL, di); put(rj, -kL, dj); put_const(rj, fem[s].right);
+    put(rj, k, ti); put(rj, R(2) * k, tj); put(rj, kL, di); put(rj, -kL, dj); put_const(rj, femJ);
     // (M_ij + M_ji)/L = kL (ti + tj) + kLL (di - dj) + (FEM_ij + FEM_ji)/L.
     // Y_i = RA0 - (M_ij + M_ji)/L; row of di gets -Y_i.
-    const R femL = (fem[s].left + fem[s].right) / L;
+    const R femL = (femI + femJ) / L;
     const long rdi = di.idx, rdj = dj.idx;
     const R& RA0 = state->spans[s].RA0;
     const R& RB0 = state->spans[s].MB;
@@ -532,22 +541,31 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
 
   // End moments (member-end convention) into the state as sagging moments:
   // MA = M_ij, MB = -M_ji. The end forces on the member follow from them:
-  // Y_i = RA0 + (MB - MA)/L, Y_j = (total load - RA0) - (MB - MA)/L.
+  // Y_i = RA0 + (MB - MA)/L, Y_j = RB0 - (MB - MA)/L. The sums over the
+  // member ends at each node are added to the node loads for the reactions:
+  // nodeP becomes P + sum of Y, nodeC becomes C - sum of member-end moments.
+  std::vector<R>& Yends = nodeP;
+  std::vector<R>& Cnet = nodeC;
   for (std::size_t s = 0; s < n; ++s) {
     SpanState<R>& ss = state->spans[s];
     const R& L = ss.L;
     const R k = R(2) * ss.EI / L;
     const R ti = value(rot(thR[s])), tj = value(rot(thL[s + 1]));
+    const R femI = ss.MA, femJ = ss.DA;
     ss.DA = value(defl(s));
     ss.DB = value(defl(s + 1));
     const R psi = (ss.DB - ss.DA) / L;
-    ss.MA = k * (R(2) * ti + tj - R(3) * psi) + fem[s].left;
-    const R Mji = k * (ti + R(2) * tj - R(3) * psi) + fem[s].right;
+    ss.MA = k * (R(2) * ti + tj - R(3) * psi) + femI;
+    const R Mji = k * (ti + R(2) * tj - R(3) * psi) + femJ;
+    const R RB0 = ss.MB;
     ss.MB = -Mji;
     if (!is_finite(ss.MA) || !is_finite(ss.MB)) return give_up<R>(MS::Failed, "non-finite end moment");
+    const R dV = (ss.MB - ss.MA) / L;
+    Yends[s] += ss.RA0 + dV;
+    Yends[s + 1] += RB0 - dV;
+    Cnet[s] -= ss.MA;
+    Cnet[s + 1] -= Mji;
   }
-  fem.clear();
-  fem.shrink_to_fit();
   state->terms = std::move(terms);
 
   BasicSolution<R> out;
@@ -563,25 +581,30 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const R rr = value(rot(thR[i]));
     nr.rotation_left = (i == 0) ? rr : rl;
     nr.rotation_right = (i == n) ? rl : rr;
-    if (i > 0) nr.moment_left = SpanMath<R>::evaluate(*state, i - 1, beam.spans[i - 1].length, false).moment;
-    if (i < n) nr.moment_right = SpanMath<R>::evaluate(*state, i, R(0), true).moment;
-    // Member ends meeting at the node: end forces from the end shears
-    // (Y_i = V(0+) of the span, Y_j = -V(L-)), end moments M_ij = MA,
-    // M_ji = -MB.
-    R Yends{0}, Mends{0};
+    // Inside limits of the moment: the end moment, plus a span couple at
+    // local 0 (it acts before the limit from inside the span at 0); a
+    // couple at local L acts after the limit at L.
     if (i > 0) {
       const SpanState<R>& ss = state->spans[i - 1];
-      Yends -= SpanMath<R>::evaluate(*state, i - 1, ss.L, false).shear;
-      Mends -= ss.MB;
+      R m = ss.MB;
+      for (std::size_t k = ss.first; k < ss.last; ++k) {
+        const Term<R>& t = state->terms[k];
+        if (t.kind == TermKind::Couple && !(t.a < ss.L)) m -= t.p;
+      }
+      nr.moment_left = m;
     }
     if (i < n) {
       const SpanState<R>& ss = state->spans[i];
-      Yends += SpanMath<R>::evaluate(*state, i, R(0), true).shear;
-      Mends += ss.MA;
+      R m = ss.MA;
+      for (std::size_t k = ss.first; k < ss.last; ++k) {
+        const Term<R>& t = state->terms[k];
+        if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
+      }
+      nr.moment_right = m;
     }
-    if (restrains_deflection(sp.type)) nr.reaction_force = nodeP[i] + Yends;
+    if (restrains_deflection(sp.type)) nr.reaction_force = Yends[i];
     else if (sp.type == SupportType::Spring) nr.reaction_force = sp.k * (nr.deflection - sp.settlement);
-    if (restrains_rotation(sp.type)) nr.reaction_moment = nodeC[i] - Mends;
+    if (restrains_rotation(sp.type)) nr.reaction_moment = Cnet[i];
     else if (sp.type == SupportType::Spring) nr.reaction_moment = sp.kr * rr;
   }
 
