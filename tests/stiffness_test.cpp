@@ -541,6 +541,10 @@ TEST(Reciprocity, MaxwellBettiOnRandomBeams) {
     expect_equilibrium(ci, c_i);
   }
   // The draw must have covered the features the law is meant to test.
+  RecordProperty("springs", seen.spring);
+  RecordProperty("rotational_springs", seen.rot_spring);
+  RecordProperty("hinges", seen.hinge);
+  RecordProperty("guided", seen.guided);
   EXPECT_GT(seen.spring, 0);
   EXPECT_GT(seen.rot_spring, 0);
   EXPECT_GT(seen.hinge, 0);

@@ -127,6 +127,16 @@ void stiffness_times(const R& EI, const R& h, const R u[4], R out[4]) {
   out[3] = c * (R(6) * h * u[0] + R(2) * h2 * u[1] - R(6) * h * u[2] + R(4) * h2 * u[3]);
 }
 
+// The element stiffness matrix itself (symmetric).
+template <class R>
+void element_matrix(const R& EI, const R& h, R k[4][4]) {
+  const R c = EI / (h * h * h);
+  const R a = R(12) * c, b = R(6) * h * c, d = R(4) * h * h * c, e = R(2) * h * h * c;
+  const R m[4][4] = {{a, b, -a, b}, {b, d, -b, e}, {-a, -b, a, -b}, {b, e, -b, d}};
+  for (int i = 0; i < 4; ++i)
+    for (int j = 0; j < 4; ++j) k[i][j] = m[i][j];
+}
+
 // Work-equivalent loads of a linear load wa..wb over an element of length h.
 template <class R>
 void consistent_loads(const R& wa, const R& wb, const R& h, R f[4]) {
@@ -159,7 +169,7 @@ struct Element {
 
 template <class R>
 struct State {
-  std::vector<R> length, EI;          // per span
+  std::vector<R> EI;                  // per span (its length: its last node's p)
   std::vector<std::size_t> first;     // per span (+1): first element node of the span
   std::vector<ElementNode<R>> nodes;  // span by span, m_s + 1 nodes for m_s elements
   std::vector<Element<R>> elems;      // element j of span s: first[s] - s + j
@@ -168,12 +178,12 @@ struct State {
 template <class R>
 BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, bool after) {
   BasicPointValues<R> out;
-  if (s >= st.length.size()) return out;
+  if (s >= st.EI.size()) return out;
   const ElementNode<R>* p = st.nodes.data() + st.first[s];
   const std::size_t m = st.first[s + 1] - st.first[s] - 1;  // elements in the span
   R x = local;
   if (x < R(0)) x = R(0);
-  if (st.length[s] < x) x = st.length[s];
+  if (p[m].p < x) x = p[m].p;  // the last element node is at the span's length
   const ElementNode<R>* it =
       std::lower_bound(p, p + m + 1, x, [](const ElementNode<R>& n, const R& v) { return n.p < v; });
   const std::size_t idx = static_cast<std::size_t>(it - p);
@@ -318,24 +328,24 @@ std::string check_scope(const BasicBeam<R>& beam) {
   }
   for (std::size_t i = 0; i <= n; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
-    const std::string where = node_name(beam, i);
+    auto where = [&] { return node_name(beam, i); };  // built only on failure
     switch (sp.type) {
       case SupportType::Fixed: case SupportType::Pinned: case SupportType::Roller:
       case SupportType::Free: case SupportType::Guided: case SupportType::Spring:
         break;
       default:
-        return "unknown support type at " + where;
+        return "unknown support type at " + where();
     }
     if (sp.type == SupportType::Spring) {
-      if (sp.k < R(0) || !is_finite(sp.k)) return "spring with negative stiffness at " + where;
-      if (sp.kr < R(0) || !is_finite(sp.kr)) return "rotational spring with negative stiffness at " + where;
+      if (sp.k < R(0) || !is_finite(sp.k)) return "spring with negative stiffness at " + where();
+      if (sp.kr < R(0) || !is_finite(sp.kr)) return "rotational spring with negative stiffness at " + where();
     }
     if ((sp.type == SupportType::Free || sp.type == SupportType::Guided) && nonzero(sp.settlement))
-      return std::string("settlement on a ") + support_type_name(sp.type) + " node at " + where;
+      return std::string("settlement on a ") + support_type_name(sp.type) + " node at " + where();
     if (sp.hinge) {
-      if (i == 0 || i == n) return "hinge at end " + where;
-      if (restrains_rotation(sp.type)) return std::string("hinge on a ") + support_type_name(sp.type) + " support at " + where;
-      if (sp.type == SupportType::Spring && R(0) < sp.kr) return "hinge on a rotational spring at " + where;
+      if (i == 0 || i == n) return "hinge at end " + where();
+      if (restrains_rotation(sp.type)) return std::string("hinge on a ") + support_type_name(sp.type) + " support at " + where();
+      if (sp.type == SupportType::Spring && R(0) < sp.kr) return "hinge on a rotational spring at " + where();
     }
   }
   for (const BasicLoad<R>& l : beam.loads) {
@@ -349,20 +359,72 @@ std::string check_scope(const BasicBeam<R>& beam) {
     }
     if (l.index >= n) return "load on a span beyond the beam";
     const R L = beam.spans[l.index].length;
-    const std::string where = "span " + std::to_string(l.index + 1);
+    auto where = [&] { return "span " + std::to_string(l.index + 1); };
     switch (l.type) {
       case LoadType::Point: case LoadType::Couple:
-        if (l.at < R(0) || L < l.at || !is_finite(l.at)) return "load position outside " + where;
+        if (l.at < R(0) || L < l.at || !is_finite(l.at)) return "load position outside " + where();
         break;
       case LoadType::Udl: case LoadType::Linear:
-        if (l.from < R(0) || L < l.to || !(l.from < l.to)) return "load extent outside " + where;
+        if (l.from < R(0) || L < l.to || !(l.from < l.to)) return "load extent outside " + where();
         break;
       default:
-        return "unknown load type on " + where;
+        return "unknown load type on " + where();
     }
   }
   return {};
 }
+
+// Items of a list grouped by span. When the items come in span order (the
+// usual case) nothing is copied: only the offsets into the list are kept.
+// `span_of(item)` gives the span, or n for an item of no span.
+template <class Item>
+struct Buckets {
+  const std::vector<Item>& items;
+  bool in_order = true;
+  std::vector<std::size_t> off;         // per span + 1 (empty when there are no items)
+  std::vector<const Item*> regrouped;  // only when not in span order
+
+  template <class SpanOf>
+  Buckets(const std::vector<Item>& list, std::size_t n, SpanOf span_of) : items(list) {
+    if (items.empty()) return;
+    std::size_t last = 0;
+    for (const Item& it : items) {
+      const std::size_t s = span_of(it);
+      if (s == n) continue;
+      if (s < last) in_order = false;
+      last = s;
+    }
+    off.assign(n + 1, 0);
+    if (in_order) {
+      std::size_t s = 0;
+      for (std::size_t i = 0; i < items.size(); ++i) {
+        const std::size_t sp = span_of(items[i]);
+        if (sp == n) continue;
+        while (s <= sp) off[s++] = i;
+      }
+      while (s <= n) off[s++] = items.size();
+      return;
+    }
+    for (const Item& it : items)
+      if (span_of(it) < n) ++off[span_of(it) + 1];
+    for (std::size_t s = 0; s < n; ++s) off[s + 1] += off[s];
+    regrouped.resize(off[n]);
+    std::vector<std::size_t> fill(off.begin(), off.end() - 1);
+    for (const Item& it : items)
+      if (span_of(it) < n) regrouped[fill[span_of(it)]++] = &it;
+  }
+
+  template <class SpanOf, class Fn>
+  void each(std::size_t s, SpanOf span_of, Fn fn) const {
+    if (off.empty()) return;
+    if (in_order) {
+      for (std::size_t i = off[s]; i < off[s + 1]; ++i)
+        if (span_of(items[i]) == s) fn(items[i]);
+    } else {
+      for (std::size_t k = off[s]; k < off[s + 1]; ++k) fn(*regrouped[k]);
+    }
+  }
+};
 
 // --- The solver -------------------------------------------------------------------
 
@@ -371,56 +433,36 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
   if (std::string why = check_scope(beam); !why.empty()) return not_applicable<R>(why);
   const std::size_t n = beam.spans.size();
   auto st = std::make_shared<State<R>>();
-  st->length.resize(n);
   st->EI.resize(n);
-  for (std::size_t s = 0; s < n; ++s) {
-    st->length[s] = beam.spans[s].length;
-    st->EI[s] = beam.spans[s].EI;
-  }
+  for (std::size_t s = 0; s < n; ++s) st->EI[s] = beam.spans[s].EI;
 
-  // Bucket span loads and stations by span (compressed rows).
-  std::vector<std::size_t> load_off(n + 1, 0), stat_off(n + 1, 0);
-  for (const auto& l : beam.loads)
-    if (!l.on_node) ++load_off[l.index + 1];
-  for (const auto& t : stations)
-    if (t.span < n) ++stat_off[t.span + 1];
-  for (std::size_t s = 0; s < n; ++s) {
-    load_off[s + 1] += load_off[s];
-    stat_off[s + 1] += stat_off[s];
-  }
-  std::vector<const BasicLoad<R>*> loads_by_span(load_off[n]);
-  std::vector<const R*> stations_by_span(stat_off[n]);
-  {
-    std::vector<std::size_t> fill(load_off.begin(), load_off.end() - 1);
-    for (const auto& l : beam.loads)
-      if (!l.on_node) loads_by_span[fill[l.index]++] = &l;
-    std::vector<std::size_t> sfill(stat_off.begin(), stat_off.end() - 1);
-    for (const auto& t : stations)
-      if (t.span < n) stations_by_span[sfill[t.span]++] = &t.local;
-  }
+  // Span loads and stations grouped by span.
+  auto load_span = [n](const BasicLoad<R>& l) { return l.on_node ? n : l.index; };
+  auto station_span = [n](const BasicStation<R>& t) { return t.span < n ? t.span : n; };
+  const Buckets<BasicLoad<R>> loads_of(beam.loads, n, load_span);
+  const Buckets<BasicStation<R>> stations_of(stations, n, station_span);
 
   // Element nodes of every span.
   st->first.resize(n + 1);
   st->nodes.reserve(2 * n + 1 + stations.size() + 2 * beam.loads.size());
   std::vector<R> pts;
   for (std::size_t s = 0; s < n; ++s) {
-    const R L = st->length[s];
+    const R L = beam.spans[s].length;
     pts.clear();
     pts.push_back(R(0));
     pts.push_back(L);
     auto inside = [&](const R& x) {
       if (R(0) < x && x < L) pts.push_back(x);
     };
-    for (std::size_t k = load_off[s]; k < load_off[s + 1]; ++k) {
-      const BasicLoad<R>& l = *loads_by_span[k];
+    loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
       if (l.type == LoadType::Point || l.type == LoadType::Couple) {
         inside(l.at);
       } else {
         inside(l.from);
         inside(l.to);
       }
-    }
-    for (std::size_t k = stat_off[s]; k < stat_off[s + 1]; ++k) inside(*stations_by_span[k]);
+    });
+    stations_of.each(s, station_span, [&](const BasicStation<R>& t) { inside(t.local); });
     std::sort(pts.begin(), pts.end());
     st->first[s] = st->nodes.size();
     for (std::size_t k = 0; k < pts.size(); ++k)
@@ -429,125 +471,138 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
   st->first[n] = st->nodes.size();
   st->elems.assign(st->nodes.size() - n, Element<R>{});
 
-  // Degrees of freedom: at beam node i, v then theta (left side) then, at a
-  // hinge, theta of the right side; then the interior nodes of span i.
-  std::vector<std::size_t> bv(n + 1), bthL(n + 1), bthR(n + 1);
-  std::vector<std::size_t> dv(st->nodes.size()), dth(st->nodes.size());
+  // Degrees of freedom: only the free ones are numbered. At beam node i:
+  // v, theta (left side), and at a hinge theta of the right side, each
+  // unless restrained; then v, theta of every interior node of span i. A
+  // restrained DOF has no number; its prescribed value goes to the
+  // right-hand side during assembly.
+  constexpr std::size_t kNone = static_cast<std::size_t>(-1);
+  std::vector<std::size_t> base(n + 1);  // first DOF number at beam node i
   std::size_t ndof = 0;
   for (std::size_t i = 0; i <= n; ++i) {
-    bv[i] = ndof++;
-    bthL[i] = ndof++;
-    bthR[i] = beam.supports[i].hinge ? ndof++ : bthL[i];
-    if (i == n) break;
-    for (std::size_t k = st->first[i] + 1; k + 1 < st->first[i + 1]; ++k) {
-      dv[k] = ndof++;
-      dth[k] = ndof++;
+    const BasicSupport<R>& sp = beam.supports[i];
+    base[i] = ndof;
+    ndof += (restrains_deflection(sp.type) ? 0 : 1) + (restrains_rotation(sp.type) ? 0 : 1) + (sp.hinge ? 1 : 0);
+    if (i < n) ndof += 2 * (st->first[i + 1] - st->first[i] - 2);
+  }
+  struct Dofs { std::size_t v, thL, thR, interior; };
+  auto beam_dofs = [&](std::size_t i) {
+    const BasicSupport<R>& sp = beam.supports[i];
+    std::size_t c = base[i];
+    Dofs d;
+    d.v = restrains_deflection(sp.type) ? kNone : c++;
+    d.thL = restrains_rotation(sp.type) ? kNone : c++;
+    d.thR = sp.hinge ? c++ : d.thL;
+    d.interior = c;
+    return d;
+  };
+  // DOFs (kNone if restrained) and prescribed values of node j of span s.
+  auto node_dofs = [&](std::size_t s, std::size_t j, std::size_t& dv, std::size_t& dth, R& gv) {
+    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
+    gv = R(0);
+    if (j == 0 || j == m) {
+      const std::size_t i = j == 0 ? s : s + 1;
+      const Dofs d = beam_dofs(i);
+      dv = d.v;
+      dth = j == 0 ? d.thR : d.thL;
+      if (dv == kNone) gv = beam.supports[i].settlement;
+    } else {
+      dv = beam_dofs(s).interior + 2 * (j - 1);
+      dth = dv + 1;
     }
-  }
-  for (std::size_t s = 0; s < n; ++s) {
-    dv[st->first[s]] = bv[s];
-    dth[st->first[s]] = bthR[s];
-    dv[st->first[s + 1] - 1] = bv[s + 1];
-    dth[st->first[s + 1] - 1] = bthL[s + 1];
-  }
+  };
 
   // Distributed loads onto the elements they cover; concentrated loads onto
-  // the DOFs (fn: applied nodal actions, down + / clockwise +).
-  std::vector<R> fn(ndof, R(0));
+  // the right-hand side. The node results start with the applied actions at
+  // the beam nodes (down +, clockwise +); element end forces are subtracted
+  // below, which leaves the reactions (beam.h signs) where restrained.
+  BasicSolution<R> sol;
+  sol.nodes.resize(n + 1);
+  std::vector<R> f(ndof, R(0));
+  auto add_force = [&](std::size_t dof, std::size_t node, const R& P) {
+    if (dof != kNone) f[dof] += P;
+    if (node != kNone) sol.nodes[node].reaction_force += P;
+  };
+  auto add_couple = [&](std::size_t dof, std::size_t node, const R& C) {
+    if (dof != kNone) f[dof] += C;
+    if (node != kNone) sol.nodes[node].reaction_moment += C;
+  };
   for (const BasicLoad<R>& l : beam.loads) {
     if (!l.on_node) continue;
-    if (l.type == LoadType::Point) fn[bv[l.index]] += l.P;
-    else fn[bthL[l.index]] += l.C;  // not at a hinge (checked), so one rotation
+    const Dofs d = beam_dofs(l.index);
+    if (l.type == LoadType::Point) add_force(d.v, l.index, l.P);
+    else add_couple(d.thL, l.index, l.C);  // not at a hinge (checked), so one rotation
   }
   for (std::size_t s = 0; s < n; ++s) {
     const ElementNode<R>* p = st->nodes.data() + st->first[s];
     const ElementNode<R>* pend = st->nodes.data() + st->first[s + 1];
-    auto node_at = [&](const R& x) {
-      const ElementNode<R>* it =
-          std::lower_bound(p, pend, x, [](const ElementNode<R>& a, const R& v) { return a.p < v; });
-      return static_cast<std::size_t>(it - st->nodes.data());
+    const std::size_t m = static_cast<std::size_t>(pend - p) - 1;
+    auto node_at = [&](const R& x) {  // local index of the element node at x
+      return static_cast<std::size_t>(
+          std::lower_bound(p, pend, x, [](const ElementNode<R>& a, const R& v) { return a.p < v; }) - p);
     };
-    const R L = st->length[s];
-    for (std::size_t k = load_off[s]; k < load_off[s + 1]; ++k) {
-      const BasicLoad<R>& l = *loads_by_span[k];
-      switch (l.type) {
-        case LoadType::Point:
-          fn[dv[node_at(l.at)]] += l.P;
-          break;
-        case LoadType::Couple:
-          if (!(R(0) < l.at)) fn[bthR[s]] += l.C;
-          else if (!(l.at < L)) fn[bthL[s + 1]] += l.C;
-          else fn[dth[node_at(l.at)]] += l.C;
-          break;
-        default: {
-          const R w1 = l.w1;
-          const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
-          const R slope = (w2 - w1) / (l.to - l.from);
-          const std::size_t a = node_at(l.from), b = node_at(l.to);
-          for (std::size_t k2 = a; k2 < b; ++k2) {
-            Element<R>& e = st->elems[k2 - s];
-            e.wa += w1 + slope * (st->nodes[k2].p - l.from);
-            e.wb += w1 + slope * (st->nodes[k2 + 1].p - l.from);
-          }
-        }
+    auto beam_node = [&](std::size_t j) { return j == 0 ? s : (j == m ? s + 1 : kNone); };
+    loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
+      if (l.type == LoadType::Point || l.type == LoadType::Couple) {
+        const std::size_t j = node_at(l.at);
+        std::size_t dv, dth;
+        R gv;
+        node_dofs(s, j, dv, dth, gv);
+        if (l.type == LoadType::Point) add_force(dv, beam_node(j), l.P);
+        else add_couple(dth, beam_node(j), l.C);
+        return;
       }
-    }
+      const R w1 = l.w1;
+      const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+      const R slope = (w2 - w1) / (l.to - l.from);
+      const std::size_t a = node_at(l.from), b = node_at(l.to);
+      for (std::size_t j = a; j < b; ++j) {
+        Element<R>& e = st->elems[st->first[s] - s + j];
+        e.wa += w1 + slope * (p[j].p - l.from);
+        e.wb += w1 + slope * (p[j + 1].p - l.from);
+      }
+    });
   }
 
-  // Assembly.
+  // Assembly; prescribed displacements move to the right-hand side.
   Band<R> K(ndof);
-  std::vector<R> f = fn;
   for (std::size_t s = 0; s < n; ++s) {
     const R EI = st->EI[s];
-    for (std::size_t k = st->first[s]; k + 1 < st->first[s + 1]; ++k) {
+    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
+    for (std::size_t j = 0; j < m; ++j) {
+      const std::size_t k = st->first[s] + j;
       const R h = st->nodes[k + 1].p - st->nodes[k].p;
-      const std::size_t d[4] = {dv[k], dth[k], dv[k + 1], dth[k + 1]};
+      std::size_t d[4];
+      R g[4] = {R(0), R(0), R(0), R(0)};
+      node_dofs(s, j, d[0], d[1], g[0]);
+      node_dofs(s, j + 1, d[2], d[3], g[2]);
+      R ke[4][4];
+      element_matrix(EI, h, ke);
       for (int c = 0; c < 4; ++c) {
-        R u[4] = {R(0), R(0), R(0), R(0)};
-        u[c] = R(1);
-        R col[4];
-        stiffness_times(EI, h, u, col);
-        for (int r = c; r < 4; ++r) K.at(d[r], d[c]) += col[r];
+        const bool known = d[c] == kNone;
+        if (known && !nonzero(g[c])) continue;
+        for (int r = 0; r < 4; ++r) {
+          if (d[r] == kNone) continue;
+          if (known) f[d[r]] -= ke[r][c] * g[c];
+          else if (d[c] <= d[r]) K.at(d[r], d[c]) += ke[r][c];
+        }
       }
       const Element<R>& e = st->elems[k - s];
       if (nonzero(e.wa) || nonzero(e.wb)) {
         R fe[4];
         consistent_loads(e.wa, e.wb, h, fe);
-        for (int r = 0; r < 4; ++r) f[d[r]] += fe[r];
+        for (int r = 0; r < 4; ++r)
+          if (d[r] != kNone) f[d[r]] += fe[r];
       }
     }
   }
   for (std::size_t i = 0; i <= n; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
     if (sp.type != SupportType::Spring) continue;
-    K.at(bv[i], bv[i]) += sp.k;
-    f[bv[i]] += sp.k * sp.settlement;
-    K.at(bthL[i], bthL[i]) += sp.kr;  // no hinge here when kr > 0 (checked)
-  }
-
-  // Prescribed displacements: move their columns to the right-hand side and
-  // leave an identity row, so the solve returns them exactly.
-  std::vector<char> fixed(ndof, 0);
-  std::vector<R> value(ndof, R(0));
-  for (std::size_t i = 0; i <= n; ++i) {
-    const SupportType t = beam.supports[i].type;
-    if (restrains_deflection(t)) {
-      fixed[bv[i]] = 1;
-      value[bv[i]] = beam.supports[i].settlement;
-    }
-    if (restrains_rotation(t)) fixed[bthL[i]] = 1;
-  }
-  for (std::size_t j = 0; j < ndof; ++j) {
-    if (!fixed[j]) continue;
-    const std::size_t lo = j >= kBand ? j - kBand : 0;
-    const std::size_t hi = std::min(ndof - 1, j + kBand);
-    for (std::size_t i = lo; i <= hi; ++i) {
-      if (i == j) continue;
-      if (!fixed[i] && nonzero(value[j])) f[i] -= K.at(i, j) * value[j];
-      K.at(i, j) = R(0);
-    }
-    K.at(j, j) = R(1);
-    f[j] = value[j];
+    const Dofs d = beam_dofs(i);  // a spring restrains nothing outright
+    K.at(d.v, d.v) += sp.k;
+    f[d.v] += sp.k * sp.settlement;
+    K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
   }
 
   if (const std::size_t bad = factor(K); bad < ndof)
@@ -558,18 +613,25 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
   for (std::size_t i = 0; i < ndof; ++i)
     if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
 
-  // Nodal values, element end forces, residual forces at the DOFs.
-  for (std::size_t k = 0; k < st->nodes.size(); ++k) {
-    st->nodes[k].v = u[dv[k]];
-    st->nodes[k].th = u[dth[k]];
-  }
-  std::vector<R> resid(ndof, R(0));  // sum of element end forces at each DOF
+  // Nodal values, element end forces F = k u - f; at the beam nodes the
+  // reactions are the applied actions minus the sum of F (= f - K u).
   for (std::size_t s = 0; s < n; ++s) {
     const R EI = st->EI[s];
-    for (std::size_t k = st->first[s]; k + 1 < st->first[s + 1]; ++k) {
-      const R h = st->nodes[k + 1].p - st->nodes[k].p;
-      const std::size_t d[4] = {dv[k], dth[k], dv[k + 1], dth[k + 1]};
-      const R ue[4] = {u[d[0]], u[d[1]], u[d[2]], u[d[3]]};
+    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
+    for (std::size_t j = 0; j <= m; ++j) {
+      std::size_t dv, dth;
+      R gv;
+      node_dofs(s, j, dv, dth, gv);
+      ElementNode<R>& nd = st->nodes[st->first[s] + j];
+      nd.v = dv == kNone ? gv : u[dv];
+      nd.th = dth == kNone ? R(0) : u[dth];
+    }
+    for (std::size_t j = 0; j < m; ++j) {
+      const std::size_t k = st->first[s] + j;
+      const ElementNode<R>& a = st->nodes[k];
+      const ElementNode<R>& b = st->nodes[k + 1];
+      const R h = b.p - a.p;
+      const R ue[4] = {a.v, a.th, b.v, b.th};
       R F[4];
       stiffness_times(EI, h, ue, F);
       Element<R>& e = st->elems[k - s];
@@ -580,26 +642,33 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
       }
       e.V0 = -F[0];
       e.M0 = F[1];
-      for (int r = 0; r < 4; ++r) resid[d[r]] += F[r];
+      if (j == 0) {
+        sol.nodes[s].reaction_force -= F[0];
+        sol.nodes[s].reaction_moment -= F[1];
+      }
+      if (j + 1 == m) {
+        sol.nodes[s + 1].reaction_force -= F[2];
+        sol.nodes[s + 1].reaction_moment -= F[3];
+      }
     }
   }
 
-  BasicSolution<R> sol;
   sol.status = MethodStatus::Ok;
-  sol.nodes.resize(n + 1);
   R x(0);
   for (std::size_t i = 0; i <= n; ++i) {
     BasicNodeResult<R>& r = sol.nodes[i];
     const BasicSupport<R>& sp = beam.supports[i];
     r.x = x;
-    if (i < n) x += st->length[i];
-    r.deflection = u[bv[i]];
-    r.rotation_left = u[bthL[i]];
-    r.rotation_right = u[bthR[i]];
-    if (i > 0) r.moment_left = evaluate(*st, i - 1, st->length[i - 1], false).moment;
+    if (i < n) x += beam.spans[i].length;
+    const ElementNode<R>& left = st->nodes[i == 0 ? 0 : st->first[i] - 1];
+    const ElementNode<R>& right = st->nodes[i == n ? st->first[n] - 1 : st->first[i]];
+    r.deflection = i < n ? right.v : left.v;
+    r.rotation_left = i > 0 ? left.th : right.th;
+    r.rotation_right = i < n ? right.th : left.th;
+    if (i > 0) r.moment_left = evaluate(*st, i - 1, beam.spans[i - 1].length, false).moment;
     if (i < n) r.moment_right = evaluate(*st, i, R(0), false).moment;
-    if (restrains_deflection(sp.type)) r.reaction_force = fn[bv[i]] - resid[bv[i]];
-    if (restrains_rotation(sp.type)) r.reaction_moment = fn[bthL[i]] - resid[bthL[i]];
+    if (!restrains_deflection(sp.type)) r.reaction_force = R(0);
+    if (!restrains_rotation(sp.type)) r.reaction_moment = R(0);
     if (sp.type == SupportType::Spring) {
       r.reaction_force = sp.k * (r.deflection - sp.settlement);
       r.reaction_moment = sp.kr * r.rotation_left;
