@@ -376,20 +376,22 @@ TEST(ThreeMomentSingleSpan, FixedFixedUniformExact) {
 // given in the task brief): coefficients of wL^2 (moments) and wL
 // (reactions). Tolerance: half a unit of the last printed digit times the
 // multiplier.
+struct Coef {
+  double value, tol;  // tol: half a unit of the last printed place
+};
 struct HicksRow {
   int spans;
-  std::vector<double> M;   // support moments, B, C, ... (hogging, printed +)
-  std::vector<double> Rx;  // reactions A, B, C, ...
-  double tolM, tolR;       // half a unit of the last printed place
+  std::vector<Coef> M;   // support moments B, C, ... (hogging, printed +)
+  std::vector<Coef> Rx;  // reactions A, B, C, ...
 };
 
 TEST(ThreeMomentContinuous, HicksTable21) {
   const double L = 5, w = 3, EI = 1;
   const std::vector<HicksRow> rows = {
-      {2, {0.125}, {0.375, 1.25}, 0.0005, 0.005},
-      {3, {0.100}, {0.4, 1.1}, 0.0005, 0.05},
-      {4, {0.1071, 0.0714}, {0.393, 1.143, 0.929}, 0.00005, 0.0005},
-      {5, {0.1053, 0.0789}, {0.395, 1.132, 0.974}, 0.00005, 0.0005},
+      {2, {{0.125, 0.0005}}, {{0.375, 0.0005}, {1.25, 0.005}}},
+      {3, {{0.100, 0.0005}}, {{0.4, 0.05}, {1.1, 0.05}}},
+      {4, {{0.1071, 0.00005}, {0.0714, 0.00005}}, {{0.393, 0.0005}, {1.143, 0.0005}, {0.929, 0.0005}}},
+      {5, {{0.1053, 0.00005}, {0.0789, 0.00005}}, {{0.395, 0.0005}, {1.132, 0.0005}, {0.974, 0.0005}}},
   };
   for (const auto& row : rows) {
     std::vector<ST> t(row.spans + 1, ST::Roller);
@@ -398,14 +400,15 @@ TEST(ThreeMomentContinuous, HicksTable21) {
     for (int sp = 0; sp < row.spans; ++sp) add_udl(b, sp, w);
     const Solution s = run(b);
     check_laws(b, s, 1e-9);
+    const double wL2 = w * L * L, wL = w * L;
     for (std::size_t k = 0; k < row.M.size(); ++k) {
-      EXPECT_NEAR(*s.nodes[k + 1].moment_left, -row.M[k] * w * L * L, row.tolM * w * L * L) << row.spans;
+      EXPECT_NEAR(*s.nodes[k + 1].moment_left, -row.M[k].value * wL2, row.M[k].tol * wL2) << row.spans;
       // The table covers half the beam; the other half is its mirror image.
-      EXPECT_NEAR(*s.nodes[row.spans - 1 - k].moment_left, -row.M[k] * w * L * L, row.tolM * w * L * L);
+      EXPECT_NEAR(*s.nodes[row.spans - 1 - k].moment_left, -row.M[k].value * wL2, row.M[k].tol * wL2);
     }
     for (std::size_t k = 0; k < row.Rx.size(); ++k) {
-      EXPECT_NEAR(s.nodes[k].reaction_force, row.Rx[k] * w * L, row.tolR * w * L) << row.spans;
-      EXPECT_NEAR(s.nodes[row.spans - k].reaction_force, row.Rx[k] * w * L, row.tolR * w * L);
+      EXPECT_NEAR(s.nodes[k].reaction_force, row.Rx[k].value * wL, row.Rx[k].tol * wL) << row.spans;
+      EXPECT_NEAR(s.nodes[row.spans - k].reaction_force, row.Rx[k].value * wL, row.Rx[k].tol * wL);
     }
   }
 }
@@ -800,6 +803,25 @@ TEST(ThreeMomentScope, NotApplicable) {
     const Solution s = run(b);
     EXPECT_EQ(s.status, MethodStatus::NotApplicable);
     EXPECT_NE(s.reason.find("hinge at unsupported node B"), std::string::npos) << s.reason;
+  }
+}
+
+// Internal faults and mechanisms come back as Failed with a reason, never
+// as numbers.
+TEST(ThreeMomentScope, Failed) {
+  {
+    Beam b = make_beam<double>({3, 3}, {ST::Pinned, ST::Roller, ST::Roller});
+    add_point(b, 0, std::nan(""), 1.0);
+    const Solution s = run(b);
+    EXPECT_EQ(s.status, MethodStatus::Failed);
+    EXPECT_FALSE(s.reason.empty());
+  }
+  {
+    Beam b = make_beam<double>({2, 3}, {ST::Free, ST::Pinned, ST::Free});  // one pin: a mechanism
+    add_node_point(b, 0, 1.0);
+    const Solution s = run(b);
+    EXPECT_EQ(s.status, MethodStatus::Failed);
+    EXPECT_NE(s.reason.find("mechanism"), std::string::npos) << s.reason;
   }
 }
 

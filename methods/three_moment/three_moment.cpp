@@ -131,6 +131,8 @@ template <class R>
 struct State {
   std::vector<Segment<R>> seg;
   std::vector<SpanLoad<R>> loads;
+  // Filled only when unsupported interior nodes were merged (else a span
+  // is its own segment):
   std::vector<std::size_t> span_seg;  // original span -> segment
   std::vector<R> span_off;            // original span -> offset in its segment
   std::vector<R> span_len;
@@ -251,37 +253,16 @@ BasicPointValues<R> eval(const State<R>& st, std::size_t g, const R& x, bool aft
 // Values in ORIGINAL span `span` at `local`.
 template <class R>
 BasicPointValues<R> eval_span(const State<R>& st, std::size_t span, const R& local, bool after) {
+  if (st.span_seg.empty()) {  // nothing merged: spans are the segments
+    if (span >= st.seg.size()) return BasicPointValues<R>{};
+    return eval(st, span, local, after);
+  }
   if (span >= st.span_seg.size()) return BasicPointValues<R>{};
   const R& off = st.span_off[span];
   // At a merged (unsupported) node the limit from inside this span.
   if (is_zero(local) && off > R(0)) after = true;
   if (same(local, st.span_len[span]) && !st.span_last[span]) after = false;
   return eval(st, st.span_seg[span], R(off + local), after);
-}
-
-// Thomas algorithm for a tridiagonal system: sub a, diagonal b, super c,
-// right-hand side d (overwritten by the solution). False on a zero or
-// non-finite pivot. O(n), no pivoting: the three-moment system is strictly
-// diagonally dominant by rows (2(f1+f2) > f1+f2; fixed rows 2f > f;
-// known rows 1 > 0).
-template <class R>
-bool thomas(const std::vector<R>& a, const std::vector<R>& b, std::vector<R>& c, std::vector<R>& d) {
-  const std::size_t n = b.size();
-  if (n == 0) return true;
-  R piv = b[0];
-  if (is_zero(piv) || !finite(piv)) return false;
-  c[0] = c[0] / piv;
-  d[0] = d[0] / piv;
-  for (std::size_t i = 1; i < n; ++i) {
-    piv = b[i] - a[i] * c[i - 1];
-    if (is_zero(piv) || !finite(piv)) return false;
-    c[i] = c[i] / piv;
-    d[i] = (d[i] - a[i] * d[i - 1]) / piv;
-  }
-  for (std::size_t i = n - 1; i-- > 0;) d[i] = d[i] - c[i] * d[i + 1];
-  for (std::size_t i = 0; i < n; ++i)
-    if (!finite(d[i])) return false;
-  return true;
 }
 
 template <class R>
@@ -334,15 +315,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       return not_applicable<R>("unsupported " + label(i) + " between spans of different EI");
   }
 
-  // ---- Node loads (summed) and validation of all loads.
-  std::vector<R> nodeP(n + 1, R(0)), nodeC(n + 1, R(0));
-  std::vector<std::size_t> per_span(n, 0);
+  // ---- Loads: validation; node loads summed (stored only if there are any).
+  bool any_node_load = false;
   for (const auto& l : beam.loads) {
     if (l.on_node) {
       if (l.index > n) return failed<R>("node load on a node that does not exist");
-      if (l.type == LoadType::Point) nodeP[l.index] += l.P;
-      else if (l.type == LoadType::Couple) nodeC[l.index] += l.C;
-      else return not_applicable<R>(std::string(load_type_name(l.type)) + " load on " + label(l.index));
+      if (l.type != LoadType::Point && l.type != LoadType::Couple)
+        return not_applicable<R>(std::string(load_type_name(l.type)) + " load on " + label(l.index));
+      any_node_load = true;
     } else {
       if (l.index >= n) return failed<R>("span load on a span that does not exist");
       const R& L = beam.spans[l.index].length;
@@ -351,52 +331,74 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       } else if (l.from < R(0) || !(l.from < l.to) || L < l.to) {
         return failed<R>("load extent outside span " + std::to_string(l.index + 1));
       }
-      ++per_span[l.index];
     }
   }
+  std::vector<R> nodeP, nodeC;
+  if (any_node_load) {
+    nodeP.assign(n + 1, R(0));
+    nodeC.assign(n + 1, R(0));
+    for (const auto& l : beam.loads) {
+      if (!l.on_node) continue;
+      if (l.type == LoadType::Point) nodeP[l.index] += l.P;
+      else nodeC[l.index] += l.C;
+    }
+  }
+  auto node_P = [&](std::size_t i) { return nodeP.empty() ? R(0) : nodeP[i]; };
+  auto node_C = [&](std::size_t i) { return nodeC.empty() ? R(0) : nodeC[i]; };
   for (std::size_t i = 1; i < n; ++i)
-    if (sup[i].hinge && !is_zero(nodeC[i])) return not_applicable<R>("couple at hinge " + label(i));
+    if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>("couple at hinge " + label(i));
 
   // ---- Segments: merge spans across unsupported interior nodes.
   auto st = std::make_shared<State<R>>();
-  std::vector<std::size_t> real;  // original node of each segment end
+  std::vector<std::size_t> real;  // original node at each segment end
+  real.reserve(n + 1);
   real.push_back(0);
   for (std::size_t i = 1; i < n; ++i)
     if (sup[i].type != SupportType::Free) real.push_back(i);
   real.push_back(n);
   const std::size_t m = real.size() - 1;  // segments
+  const bool merged = m != n;
   st->seg.resize(m);
-  st->span_seg.resize(n);
-  st->span_off.resize(n);
-  st->span_len.resize(n);
-  st->span_last.resize(n);
-  std::vector<std::size_t> seg_loads(m, 0);
+  if (merged) {
+    st->span_seg.resize(n);
+    st->span_off.resize(n);
+    st->span_len.resize(n);
+    st->span_last.resize(n);
+  }
   for (std::size_t g = 0; g < m; ++g) {
     R off{0};
     for (std::size_t s = real[g]; s < real[g + 1]; ++s) {
-      st->span_seg[s] = g;
-      st->span_off[s] = off;
-      st->span_len[s] = beam.spans[s].length;
-      st->span_last[s] = s + 1 == real[g + 1];
+      if (merged) {
+        st->span_seg[s] = g;
+        st->span_off[s] = off;
+        st->span_len[s] = beam.spans[s].length;
+        st->span_last[s] = s + 1 == real[g + 1];
+      }
       off += beam.spans[s].length;
-      seg_loads[g] += per_span[s];
-      if (s + 1 < real[g + 1]) seg_loads[g] += 2;  // room for node P and C
     }
     st->seg[g].L = off;
     st->seg[g].EI = beam.spans[real[g]].EI;
   }
-  // Bucket the loads by segment (one pass to count, one to fill).
+  auto seg_of = [&](std::size_t span) { return merged ? st->span_seg[span] : span; };
+  auto off_of = [&](std::size_t span) { return merged ? st->span_off[span] : R(0); };
+  // Bucket the loads by segment: count (in `last`), offsets, fill.
+  for (const auto& l : beam.loads)
+    if (!l.on_node) ++st->seg[seg_of(l.index)].last;
+  if (merged)
+    for (std::size_t i = 1; i < n; ++i)
+      if (sup[i].type == SupportType::Free)
+        st->seg[seg_of(i)].last += (is_zero(node_P(i)) ? 0 : 1) + (is_zero(node_C(i)) ? 0 : 1);
   std::size_t total = 0;
-  for (std::size_t g = 0; g < m; ++g) {
-    st->seg[g].first = st->seg[g].last = total;
-    total += seg_loads[g];
+  for (auto& sg : st->seg) {
+    const std::size_t count = sg.last;
+    sg.first = sg.last = total;
+    total += count;
   }
   st->loads.resize(total);
   auto push = [&](std::size_t g, const SpanLoad<R>& sl) { st->loads[st->seg[g].last++] = sl; };
   for (const auto& l : beam.loads) {
     if (l.on_node) continue;
-    const std::size_t g = st->span_seg[l.index];
-    const R& off = st->span_off[l.index];
+    const R off = off_of(l.index);
     SpanLoad<R> sl;
     switch (l.type) {
       case LoadType::Point: sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; break;
@@ -413,144 +415,162 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
         break;
       }
     }
-    push(g, sl);
+    push(seg_of(l.index), sl);
   }
   // Loads on unsupported interior nodes become loads of the merged span.
-  for (std::size_t i = 1; i < n; ++i) {
-    if (sup[i].type != SupportType::Free) continue;
-    const std::size_t g = st->span_seg[i];
-    SpanLoad<R> sl;
-    sl.a = st->span_off[i];
-    if (!is_zero(nodeP[i])) { sl.kind = Kind::Point; sl.p = nodeP[i]; push(g, sl); }
-    if (!is_zero(nodeC[i])) { sl.kind = Kind::Couple; sl.p = nodeC[i]; push(g, sl); }
-  }
+  if (merged)
+    for (std::size_t i = 1; i < n; ++i) {
+      if (sup[i].type != SupportType::Free) continue;
+      SpanLoad<R> sl;
+      sl.a = st->span_off[i];
+      if (!is_zero(node_P(i))) { sl.kind = Kind::Point; sl.p = node_P(i); push(seg_of(i), sl); }
+      if (!is_zero(node_C(i))) { sl.kind = Kind::Couple; sl.p = node_C(i); push(seg_of(i), sl); }
+    }
 
-  // ---- Unknowns: per real node one moment, two at an interior fixed node.
+  // ---- The tridiagonal system. Unknowns, in order along the beam: one
+  // node-side moment per real node (MA of the segment to its right and MB
+  // of the segment to its left are then tied by MA = MB + C), two at an
+  // interior fixed node (MB left, MA right: the reaction couple takes the
+  // difference). Each row is built and eliminated at once (Thomas forward
+  // sweep), so no matrix is stored.
   auto type_of = [&](std::size_t k) { return sup[real[k]].type; };
-  std::vector<std::size_t> varL(m + 1, 0), varR(m + 1, 0);
-  std::size_t nv = 0;
-  for (std::size_t k = 0; k <= m; ++k) {
-    if (k > 0) varL[k] = nv++;
-    if (k < m) varR[k] = (k > 0 && type_of(k) != SupportType::Fixed) ? varL[k] : nv++;
-  }
-  // MA of segment g = x[varR[g]] + offA[g]; MB = x[varL[g+1]].
-  std::vector<R> offA(m, R(0));
-  for (std::size_t g = 1; g < m; ++g)
-    if (type_of(g) != SupportType::Fixed) offA[g] = nodeC[real[g]];
-
-  std::vector<R> FL(m), FR(m), psi(m), f(m);
-  for (std::size_t g = 0; g < m; ++g) {
-    const auto fm = free_moments(*st, st->seg[g]);
-    FL[g] = fm.first;
-    FR[g] = fm.second;
-    f[g] = st->seg[g].L / st->seg[g].EI;
-    psi[g] = (sup[real[g + 1]].settlement - sup[real[g]].settlement) / st->seg[g].L;
-  }
-
-  std::vector<R> A(nv, R(0)), B(nv, R(0)), Cc(nv, R(0)), D(nv, R(0));
-  std::vector<bool> set(nv, false);
-  auto known = [&](std::size_t v, const R& value) {
-    if (set[v]) return false;
-    B[v] = R(1);
-    D[v] = value;
-    set[v] = true;
-    return true;
+  auto offA = [&](std::size_t g) {  // MA_g = (unknown at node g) + offA(g)
+    return g > 0 && type_of(g) != SupportType::Fixed ? node_C(real[g]) : R(0);
+  };
+  struct Terms {
+    R gl, gr;  // FL/(EI L), FR/(EI L)
+    R f;       // L/EI
+    R psi;     // chord rotation (vB - vA)/L
+  };
+  auto terms = [&](std::size_t g) {
+    const Segment<R>& sg = st->seg[g];
+    const auto fm = free_moments(*st, sg);
+    return Terms{fm.first / (sg.EI * sg.L), fm.second / (sg.EI * sg.L), sg.L / sg.EI,
+                 (sup[real[g + 1]].settlement - sup[real[g]].settlement) / sg.L};
   };
 
   const bool left_free = type_of(0) == SupportType::Free;
   const bool right_free = type_of(m) == SupportType::Free;
   if (m == 1 && left_free && right_free) return failed<R>("mechanism: no support");
-  R V0_left{0}, V0_right{0};
+  R V0_left{0}, V0_right{0}, MB_left{0}, MA_right{0};
   if (left_free) {
-    // Overhang to the left: from the free end, MA = C0, V0 = -P0.
+    // Overhang to the left, by statics from the free end: MA = C0, V0 = -P0.
+    if (sup[real[1]].hinge) return failed<R>("mechanism: hinge at " + label(real[1]) + " next to a free end");
     const Segment<R>& sg = st->seg[0];
     const Sums<R> s = sums(*st, sg, sg.L, true);
-    V0_left = R(0) - nodeP[real[0]];
-    const R MB = nodeC[real[0]] + V0_left * sg.L + s.M;
-    if (sup[real[1]].hinge) return failed<R>("mechanism: hinge at " + label(real[1]) + " next to a free end");
-    known(varR[0], nodeC[real[0]]);
-    if (!known(varL[1], MB)) return failed<R>("mechanism near " + label(real[1]));
+    V0_left = R(0) - node_P(real[0]);
+    MB_left = node_C(real[0]) + V0_left * sg.L + s.M;
   }
   if (right_free) {
     // Overhang to the right: MB = -Cm, V(L) = Pm.
-    const Segment<R>& sg = st->seg[m - 1];
-    const Sums<R> s = sums(*st, sg, sg.L, true);
-    const R MB = R(0) - nodeC[real[m]];
-    V0_right = nodeP[real[m]] - s.V;
-    const R MA = MB - V0_right * sg.L - s.M;
     if (m > 1 && sup[real[m - 1]].hinge)
       return failed<R>("mechanism: hinge at " + label(real[m - 1]) + " next to a free end");
-    known(varL[m], MB);
-    if (!known(varR[m - 1], R(MA - offA[m - 1]))) return failed<R>("mechanism near " + label(real[m - 1]));
-  }
-  // Remaining rows.
-  for (std::size_t k = 0; k <= m; ++k) {
-    const bool fixed = type_of(k) == SupportType::Fixed;
-    if (k == 0 || k == m) {
-      const std::size_t v = k == 0 ? varR[0] : varL[m];
-      if (set[v]) continue;
-      if (!fixed) {
-        known(v, k == 0 ? nodeC[real[0]] : R(R(0) - nodeC[real[m]]));
-      } else if (k == 0) {  // theta(0) = 0 of segment 0
-        B[v] = R(2) * f[0];
-        Cc[v] = f[0];
-        D[v] = R(-6) * FR[0] / (st->seg[0].EI * st->seg[0].L) - R(6) * psi[0];
-        set[v] = true;
-      } else {  // theta(L) = 0 of segment m-1
-        const std::size_t g = m - 1;
-        A[v] = f[g];
-        B[v] = R(2) * f[g];
-        D[v] = R(-6) * FL[g] / (st->seg[g].EI * st->seg[g].L) + R(6) * psi[g] - f[g] * offA[g];
-        set[v] = true;
-      }
-      continue;
-    }
-    if (fixed) {
-      const std::size_t vl = varL[k], vr = varR[k];
-      if (!set[vl]) {  // theta(L) = 0 of segment k-1
-        const std::size_t g = k - 1;
-        A[vl] = f[g];
-        B[vl] = R(2) * f[g];
-        D[vl] = R(-6) * FL[g] / (st->seg[g].EI * st->seg[g].L) + R(6) * psi[g] - f[g] * offA[g];
-        set[vl] = true;
-      }
-      if (!set[vr]) {  // theta(0) = 0 of segment k
-        const std::size_t g = k;
-        B[vr] = R(2) * f[g];
-        Cc[vr] = f[g];
-        D[vr] = R(-6) * FR[g] / (st->seg[g].EI * st->seg[g].L) - R(6) * psi[g];
-        set[vr] = true;
-      }
-      continue;
-    }
-    const std::size_t v = varL[k];
-    if (set[v]) continue;
-    if (sup[real[k]].hinge) {
-      known(v, R(0));
-      continue;
-    }
-    // Three-moment equation at support k.
-    const std::size_t g1 = k - 1, g2 = k;
-    A[v] = f[g1];
-    B[v] = R(2) * (f[g1] + f[g2]);
-    Cc[v] = f[g2];
-    D[v] = R(-6) * FL[g1] / (st->seg[g1].EI * st->seg[g1].L) -
-           R(6) * FR[g2] / (st->seg[g2].EI * st->seg[g2].L) + R(6) * (psi[g1] - psi[g2]) -
-           f[g1] * offA[g1] - R(2) * f[g2] * offA[g2];
-    set[v] = true;
-  }
-  if (!thomas(A, B, Cc, D)) return failed<R>("zero or non-finite pivot in the three-moment system");
-
-  // ---- Span statics.
-  for (std::size_t g = 0; g < m; ++g) {
-    Segment<R>& sg = st->seg[g];
-    sg.MA = D[varR[g]] + offA[g];
-    sg.MB = D[varL[g + 1]];
+    const Segment<R>& sg = st->seg[m - 1];
     const Sums<R> s = sums(*st, sg, sg.L, true);
-    if (g == 0 && left_free) sg.V0 = V0_left;
-    else if (g == m - 1 && right_free) sg.V0 = V0_right;
-    else sg.V0 = (sg.MB - sg.MA - s.M) / sg.L;
+    V0_right = node_P(real[m]) - s.V;
+    MA_right = R(0) - node_C(real[m]) - V0_right * sg.L - s.M;
   }
+
+  std::size_t nv = m + 1;
+  for (std::size_t k = 1; k < m; ++k)
+    if (type_of(k) == SupportType::Fixed) ++nv;
+  std::vector<R> cp, dp;  // Thomas: modified super-diagonal, right-hand side
+  cp.reserve(nv);
+  dp.reserve(nv);
+  bool ok = true;
+  // One row a x[i-1] + b x[i] + c x[i+1] = d. No pivoting: the rows are
+  // strictly diagonally dominant (2(f1+f2) > f1+f2; fixed rows 2f > f;
+  // known rows 1 > 0), so no pivot vanishes.
+  auto emit = [&](const R& a, const R& b, const R& c, const R& d) {
+    const R piv = cp.empty() ? b : R(b - a * cp.back());
+    if (is_zero(piv) || !finite(piv)) {
+      ok = false;
+      cp.push_back(R(0));
+      dp.push_back(R(0));
+      return;
+    }
+    const R rhs = dp.empty() ? d : R(d - a * dp.back());
+    cp.push_back(c / piv);
+    dp.push_back(rhs / piv);
+  };
+  auto known = [&](const R& value) { emit(R(0), R(1), R(0), value); };
+  // theta(0) = 0 of segment g (fixed at its left end), unknown MA then MB.
+  auto fixed_left_row = [&](std::size_t g) {
+    const Terms t = terms(g);
+    emit(R(0), R(2) * t.f, t.f, R(-6) * t.gr - R(6) * t.psi);
+  };
+  // theta(L) = 0 of segment g (fixed at its right end), unknown MA then MB.
+  auto fixed_right_row = [&](std::size_t g) {
+    const Terms t = terms(g);
+    emit(t.f, R(2) * t.f, R(0), R(-6) * t.gl + R(6) * t.psi - t.f * offA(g));
+  };
+  // Node 0.
+  if (type_of(0) != SupportType::Fixed) known(node_C(real[0]));  // beyond the end M = 0
+  else if (m == 1 && right_free) known(MA_right);                   // cantilever
+  else fixed_left_row(0);
+  for (std::size_t k = 1; k < m; ++k) {
+    const bool lt = left_free && k == 1, rt = right_free && k == m - 1;
+    if (type_of(k) == SupportType::Fixed) {
+      if (lt) known(MB_left);
+      else fixed_right_row(k - 1);
+      if (rt) known(MA_right);
+      else fixed_left_row(k);
+      continue;
+    }
+    if (lt && rt) return failed<R>("mechanism: overhangs either side of " + label(real[k]));
+    if (lt) {
+      known(MB_left);
+    } else if (rt) {
+      known(R(MA_right - node_C(real[k])));
+    } else if (sup[real[k]].hinge) {
+      known(R(0));
+    } else {  // the three-moment equation at support k
+      const Terms t1 = terms(k - 1), t2 = terms(k);
+      emit(t1.f, R(2) * (t1.f + t2.f), t2.f,
+           R(-6) * t1.gl - R(6) * t2.gr + R(6) * (t1.psi - t2.psi) - t1.f * offA(k - 1) -
+               R(2) * t2.f * offA(k));
+    }
+  }
+  // Node m.
+  if (type_of(m) != SupportType::Fixed) known(R(R(0) - node_C(real[m])));
+  else if (m == 1 && left_free) known(MB_left);
+  else fixed_right_row(m - 1);
+  if (!ok || dp.size() != nv) return failed<R>("zero or non-finite pivot in the three-moment system");
+  for (std::size_t i = nv - 1; i-- > 0;) dp[i] = dp[i] - cp[i] * dp[i + 1];
+  for (const R& v : dp)
+    if (!finite(v)) return failed<R>("non-finite support moment");
+  std::vector<R>().swap(cp);
+
+  // ---- Span statics from the support moments.
+  auto finish = [&](std::size_t g, const R& MB) {  // MA of g already set
+    Segment<R>& sg = st->seg[g];
+    sg.MB = MB;
+    if (g == 0 && left_free) {
+      sg.V0 = V0_left;
+    } else if (g == m - 1 && right_free) {
+      sg.V0 = V0_right;
+    } else {
+      const Sums<R> s = sums(*st, sg, sg.L, true);
+      sg.V0 = (MB - sg.MA - s.M) / sg.L;
+    }
+  };
+  {
+    std::size_t v = 0;
+    st->seg[0].MA = dp[v++];
+    for (std::size_t k = 1; k < m; ++k) {
+      if (type_of(k) == SupportType::Fixed) {
+        finish(k - 1, dp[v++]);
+        st->seg[k].MA = dp[v++];
+      } else {
+        const R u = dp[v++];
+        finish(k - 1, u);
+        st->seg[k].MA = u + node_C(real[k]);
+      }
+    }
+    finish(m - 1, dp[v]);
+  }
+  std::vector<R>().swap(dp);
+
   // ---- Rotations and deflections, supported spans first.
   auto end_rotation = [&](const Segment<R>& sg) {
     const Sums<R> s = sums(*st, sg, sg.L, true);
@@ -562,10 +582,11 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     Segment<R>& sg = st->seg[g];
     const Sums<R> s = sums(*st, sg, sg.L, true);
     const R I2 = sg.MA * sg.L * sg.L / R(2) + sg.V0 * sg.L * sg.L * sg.L / R(6) + s.I2;
+    const R psi = (sup[real[g + 1]].settlement - sup[real[g]].settlement) / sg.L;
     sg.v0 = sup[real[g]].settlement;
-    sg.theta0 = psi[g] + I2 / (sg.EI * sg.L);
+    sg.theta0 = psi + I2 / (sg.EI * sg.L);  // from v(L) = settlement at the right end
   }
-  if (right_free) {
+  if (right_free) {  // integrate outward from the support's rotation
     const std::size_t g = m - 1;
     R th{0};
     if (type_of(g) != SupportType::Fixed) {
@@ -575,7 +596,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     st->seg[g].theta0 = th;
     st->seg[g].v0 = sup[real[g]].settlement;
   }
-  if (left_free) {
+  if (left_free) {  // integrate back from the support's rotation
     R th{0};
     if (type_of(1) != SupportType::Fixed) {
       if (m == 1 || (m == 2 && right_free)) return failed<R>("mechanism near " + label(real[1]));
@@ -594,8 +615,6 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   BasicSolution<R> out;
   out.nodes.resize(n + 1);
   R x{0};
-  std::vector<std::size_t> node_real(n + 1, m + 1);  // original node -> real index
-  for (std::size_t k = 0; k <= m; ++k) node_real[real[k]] = k;
   for (std::size_t i = 0; i <= n; ++i) {
     BasicNodeResult<R>& nr = out.nodes[i];
     nr.x = x;
@@ -617,14 +636,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       nr.deflection = sup[i].settlement;
       const R Vl = i > 0 ? left.shear : R(0);
       const R Vr = i < n ? right.shear : R(0);
-      nr.reaction_force = Vr - Vl + nodeP[i];  // V jumps by +R - P
+      nr.reaction_force = Vr - Vl + node_P(i);  // V jumps by +R - P
     }
     if (t == SupportType::Fixed) {
       nr.rotation_left = nr.rotation_right = R(0);
-      const std::size_t k = node_real[i];
+      const std::size_t k = i < n ? seg_of(i) : m;  // a fixed node ends segments
       const R Ml = k > 0 ? st->seg[k - 1].MB : R(0);
       const R Mr = k < m ? st->seg[k].MA : R(0);
-      nr.reaction_moment = Ml + nodeC[i] - Mr;  // M jumps by +C - reaction couple
+      nr.reaction_moment = Ml + node_C(i) - Mr;  // M jumps by +C - reaction couple
     }
   }
   for (const auto& nr : out.nodes)
