@@ -385,9 +385,9 @@ TEST(Supports, SpringBaseSettlement) {
 }
 
 TEST(Supports, RotationalSpringReaction) {
-  // A cantilever-like span: A pinned with a rotational spring kr... here a
-  // general law only: the reported couple is kr * rotation (beam.h), and
-  // equilibrium holds. Spring at A with k and kr, roller at B, UDL.
+  // Spring at A with both k and kr, roller at B, UDL. Checked against the
+  // definitions in beam.h only (force k v, couple kr * rotation, the jump
+  // rule at A) and equilibrium: no published value is used here.
   const double L = 6, EI = 1e4, w = 3;
   Beam b = make_beam<double>({L}, EI, {T::Spring, T::Roller});
   b.supports[0].k = 1e3;
