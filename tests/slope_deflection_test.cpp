@@ -200,6 +200,25 @@ TEST(FixedEndMoments, TableFormulas) {
   EXPECT_NEAR(e.right, C * a * (2 * b - a) / (L * L), tol);
 }
 
+// The same table in exact arithmetic: the fractions themselves.
+TEST(FixedEndMoments, TableFormulasExact) {
+  using X = Exact;
+  const X L = 7, w = 3, P = 5, a = 2, b = L - a, C = 11;
+  auto fem = [&](const BasicLoad<X>& l) { return sd::detail::fixed_end_moments(l, L); };
+  auto e = fem(span_udl<X>(0, X(0), L, w));
+  EXPECT_TRUE(e.left == -w * L * L / X(12));
+  EXPECT_TRUE(e.right == w * L * L / X(12));
+  e = fem(span_point<X>(0, a, P));
+  EXPECT_TRUE(e.left == -P * a * b * b / (L * L));
+  EXPECT_TRUE(e.right == P * a * a * b / (L * L));
+  e = fem(span_linear<X>(0, X(0), L, X(0), w));
+  EXPECT_TRUE(e.left == -w * L * L / X(30));
+  EXPECT_TRUE(e.right == w * L * L / X(20));
+  e = fem(span_couple<X>(0, a, C));
+  EXPECT_TRUE(e.left == C * b * (X(2) * a - b) / (L * L));
+  EXPECT_TRUE(e.right == C * a * (X(2) * b - a) / (L * L));
+}
+
 // Compatibility (law): a fixed-fixed span is the simple span plus end
 // moments that cancel its end rotations, so FEM_ij = -(2EI/L)(2 t_i + t_j)
 // and FEM_ji = -(2EI/L)(t_i + 2 t_j) with t the simple-span end rotations.
@@ -564,11 +583,18 @@ struct RandomBeams {
 
 TEST(RandomBeams, EquilibriumJumpsAndDifferentialRelations) {
   RandomBeams gen;
+  int points = 0, hinges = 0, springs = 0, guided = 0, free_inside = 0;
   for (int trial = 0; trial < 300; ++trial) {
     Beam b = gen.beam();
     gen.load(b);
     const Solution s = sd::solve(b, build_stations(b, 10));
     ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    for (std::size_t i = 0; i < b.supports.size(); ++i) {
+      hinges += b.supports[i].hinge;
+      springs += b.supports[i].type == T::Spring;
+      guided += b.supports[i].type == T::Guided;
+      free_inside += b.supports[i].type == T::Free && i > 0 && i + 1 < b.supports.size();
+    }
     expect_equilibrium(b, s, 1e-8);
     expect_node_consistency(b, s, 1e-8);
     // V = dM/dx, theta = dv/dx, EI dtheta/dx = -M by central differences
@@ -589,7 +615,37 @@ TEST(RandomBeams, EquilibriumJumpsAndDifferentialRelations) {
       const double vs = 1e-6 + std::fabs(m.deflection) + std::fabs(p.deflection);
       EXPECT_NEAR((p.deflection - m.deflection) / (2 * h), c.rotation, 1e-6 * vs / L * 100) << "trial " << trial;
       EXPECT_NEAR(b.spans[sp].EI * (p.rotation - m.rotation) / (2 * h), -c.moment, 1e-6 * Ms) << "trial " << trial;
+      ++points;
     }
+  }
+  // The generator did reach the features it is meant to exercise.
+  EXPECT_GT(points, 1000);
+  EXPECT_GT(hinges, 50);
+  EXPECT_GT(springs, 50);
+  EXPECT_GT(guided, 50);
+  EXPECT_GT(free_inside, 50);
+}
+
+// Maxwell-Betti in exact arithmetic: the two sides agree exactly. The
+// random double beams are converted exactly (each double is a binary
+// fraction).
+TEST(RandomBeams, MaxwellBettiExact) {
+  using X = Exact;
+  RandomBeams gen;
+  for (int trial = 0; trial < 25; ++trial) {
+    const Beam b = gen.beam();
+    auto [s1, x1] = gen.point(b);
+    auto [s2, x2] = gen.point(b);
+    auto b1 = beam_cast<X>(b), b2 = beam_cast<X>(b), bc = beam_cast<X>(b);
+    b1.loads = {span_point<X>(s1, X(x1), X(1))};
+    b2.loads = {span_point<X>(s2, X(x2), X(1))};
+    bc.loads = {span_couple<X>(s1, X(x1), X(1))};
+    const auto r1 = sd::solve(b1, {}), r2 = sd::solve(b2, {}), rc = sd::solve(bc, {});
+    ASSERT_EQ(r1.status, MethodStatus::Ok) << r1.reason;
+    ASSERT_EQ(r2.status, MethodStatus::Ok) << r2.reason;
+    ASSERT_EQ(rc.status, MethodStatus::Ok) << rc.reason;
+    EXPECT_TRUE(r1.at(s2, X(x2), false).deflection == r2.at(s1, X(x1), false).deflection) << "trial " << trial;
+    EXPECT_TRUE(r2.at(s1, X(x1), false).rotation == rc.at(s2, X(x2), false).deflection) << "trial " << trial;
   }
 }
 
