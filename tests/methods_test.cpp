@@ -369,8 +369,12 @@ void expect_agree(const Beam& b, const Solution& A, const Solution& B, const std
     EXPECT_NEAR(x.rotation_right, y.rotation_right, tol * st) << what << " rotation right at node " << j << ", seed " << seed;
     ASSERT_EQ(x.moment_left.has_value(), y.moment_left.has_value());
     ASSERT_EQ(x.moment_right.has_value(), y.moment_right.has_value());
-    if (x.moment_left) EXPECT_NEAR(*x.moment_left, *y.moment_left, tol * sm) << what << " moment left at node " << j << ", seed " << seed;
-    if (x.moment_right) EXPECT_NEAR(*x.moment_right, *y.moment_right, tol * sm) << what << " moment right at node " << j << ", seed " << seed;
+    if (x.moment_left) {
+      EXPECT_NEAR(*x.moment_left, *y.moment_left, tol * sm) << what << " moment left at node " << j << ", seed " << seed;
+    }
+    if (x.moment_right) {
+      EXPECT_NEAR(*x.moment_right, *y.moment_right, tol * sm) << what << " moment right at node " << j << ", seed " << seed;
+    }
   }
 }
 
