@@ -223,8 +223,9 @@ Comparison compare_text(const input::BeamFile& file, const BeamResult& result,
 // 1000, 10^6, 10^9, 12, 144, 1728, 4.4482216152605 (lbf to N), 0.3048,
 // 0.0254, 25.4, 304.8, and their inverses, without repeats and without 1.
 struct UnitsFactor {
-  double factor;      // their value / ours
-  std::string words;
+  double factor = 1;  // their value / ours: `base` or 1 / `base`
+  double base = 1;    // a product of the listed factors
+  std::string words;  // `base` in plain words: "1000 (between N and kN, or mm and m)"
 };
 const std::vector<UnitsFactor>& units_factors();
 

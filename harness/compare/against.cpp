@@ -1,0 +1,1195 @@
+// trivet: comparing another program's exported results (CSV) with the
+// consensus of the methods. See against.h.
+#include "harness/compare/against.h"
+
+#include <algorithm>
+#include <array>
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+#include <cerrno>
+#include <cstring>
+#include <fstream>
+#include <functional>
+#include <limits>
+#include <sstream>
+
+namespace trivet::compare::against {
+
+// ---------------------------------------------------------------------------
+// Names.
+
+std::string Error::format(const std::string& file) const {
+  std::string s = file;
+  if (line > 0) {
+    s += ": line " + std::to_string(line);
+    if (column > 0) {
+      s += ", column " + std::to_string(column);
+      if (!column_name.empty()) s += " (" + column_name + ")";
+    }
+  }
+  return s + ": " + reason;
+}
+
+const char* table_kind_name(TableKind k) {
+  return k == TableKind::Stations ? "stations" : "reactions";
+}
+
+const char* quantity_name(Quantity q) {
+  switch (q) {
+    case Quantity::Shear: return "shear";
+    case Quantity::Moment: return "moment";
+    case Quantity::Deflection: return "deflection";
+    case Quantity::ReactionForce: return "reaction";
+    case Quantity::ReactionMoment: return "reaction moment";
+  }
+  return "?";
+}
+
+const char* quantity_plural(Quantity q) {
+  switch (q) {
+    case Quantity::Shear: return "shears";
+    case Quantity::Moment: return "moments";
+    case Quantity::Deflection: return "deflections";
+    case Quantity::ReactionForce: return "reactions";
+    case Quantity::ReactionMoment: return "reaction moments";
+  }
+  return "?";
+}
+
+const char* side_name(Side s) {
+  switch (s) {
+    case Side::Continuous: return "";
+    case Side::Left: return "left";
+    case Side::Right: return "right";
+  }
+  return "";
+}
+
+const char* mistake_name(Mistake m) {
+  switch (m) {
+    case Mistake::OppositeSign: return "opposite-sign";
+    case Mistake::UnitsFactor: return "units-factor";
+    case Mistake::RightToLeft: return "right-to-left";
+    case Mistake::LocalAsGlobal: return "local-x";
+    case Mistake::SupportShift: return "support-shift";
+  }
+  return "?";
+}
+
+bool Comparison::holds() const { return ok() && failing() == 0; }
+
+std::size_t Comparison::failing() const {
+  std::size_t n = 0;
+  for (const auto& r : rows)
+    for (const auto& c : r.cells) n += !c.holds;
+  return n;
+}
+
+namespace {
+
+std::string lower(std::string s) {
+  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return s;
+}
+
+bool blank(char c) { return c == ' ' || c == '\t'; }
+
+std::string trim(const std::string& s) {
+  std::size_t a = 0, b = s.size();
+  while (a < b && blank(s[a])) ++a;
+  while (b > a && blank(s[b - 1])) --b;
+  return s.substr(a, b - a);
+}
+
+// A short number for messages: up to 6 significant digits.
+std::string nice(double v) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.6g", v);
+  return buf;
+}
+
+// Adds an error unless the list is full (then only counts it).
+struct ErrorList {
+  std::vector<Error>* list;
+  std::size_t max;
+  std::size_t* dropped;
+  void add(std::size_t line, std::size_t column, const std::string& name, const std::string& reason) {
+    if (list->size() < max) list->push_back({line, column, name, reason});
+    else if (dropped) ++*dropped;
+  }
+};
+
+}  // namespace
+
+// ---------------------------------------------------------------------------
+// CSV.
+
+CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
+  CsvRead out;
+  std::size_t dropped = 0;
+  ErrorList errs{&out.errors, std::max<std::size_t>(limits.max_errors, 1), &dropped};
+  const std::size_t n = text.size();
+  std::size_t i = 0, line = 1;
+  if (n > limits.max_file_bytes) {
+    errs.add(0, 0, "", "the file is " + std::to_string(n) + " bytes, over the limit of " +
+                           std::to_string(limits.max_file_bytes) + " bytes");
+    return out;
+  }
+  if (n >= 3 && text.compare(0, 3, "\xEF\xBB\xBF") == 0) i = 3;  // UTF-8 byte order mark
+  if (const auto z = text.find('\0'); z != std::string::npos) {
+    errs.add(static_cast<std::size_t>(std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(z), '\n')) + 1, 0, "",
+             "the file holds a NUL byte: it is not a text (CSV) file");
+    return out;
+  }
+  bool have_header = false;
+  auto end_of_line = [&](std::size_t k) {  // index of the '\n' ending this line, or n
+    const std::size_t e = text.find('\n', k);
+    return e == std::string::npos ? n : e;
+  };
+  auto skip_line = [&]() {
+    const std::size_t e = end_of_line(i);
+    i = e < n ? e + 1 : n;
+    ++line;
+  };
+  while (i < n) {
+    // Blank lines and comments, at the start of a record only.
+    {
+      std::size_t k = i;
+      while (k < n && (blank(text[k]) || text[k] == '\r')) ++k;
+      if (k >= n) break;
+      if (text[k] == '\n' || text[k] == '#') { skip_line(); continue; }
+    }
+    CsvRow row;
+    row.line = line;
+    bool bad = false;
+    std::size_t field = 1;
+    while (true) {
+      while (i < n && blank(text[i])) ++i;
+      std::string value;
+      if (i < n && text[i] == '"') {
+        const std::size_t open_line = line;
+        ++i;
+        bool closed = false;
+        while (i < n) {
+          const char c = text[i];
+          if (c == '"') {
+            if (i + 1 < n && text[i + 1] == '"') { value += '"'; i += 2; continue; }
+            ++i;
+            closed = true;
+            break;
+          }
+          if (c == '\n') ++line;
+          if (c == '\r' && i + 1 < n && text[i + 1] == '\n') { ++i; continue; }  // CRLF inside quotes -> LF
+          value += c;
+          ++i;
+        }
+        if (!closed) {
+          errs.add(open_line, field, "", "a quoted field is not closed (it opens on this line)");
+          out.table.rows.clear();
+          return out;
+        }
+        while (i < n && blank(text[i])) ++i;
+        if (i < n && text[i] != ',' && text[i] != '\n' && text[i] != '\r') {
+          errs.add(line, field, "", std::string("unexpected text after a closing quote (got '") + text[i] +
+                                        "'; a quote inside a quoted field is written twice: \"\")");
+          bad = true;
+        }
+      } else {
+        const std::size_t start = i;
+        while (i < n && text[i] != ',' && text[i] != '\n' && text[i] != '\r') ++i;
+        value = trim(text.substr(start, i - start));
+        if (value.find('"') != std::string::npos && !bad) {
+          errs.add(line, field, "", "a quote inside an unquoted field (quote the whole field, and write a quote inside it twice)");
+          bad = true;
+        }
+      }
+      if (bad) break;
+      row.fields.push_back(std::move(value));
+      if (row.fields.size() > limits.max_columns) {
+        errs.add(line, field, "", "more than " + std::to_string(limits.max_columns) + " fields");
+        bad = true;
+        break;
+      }
+      if (i < n && text[i] == ',') { ++i; ++field; continue; }
+      // End of the record.
+      if (i < n && text[i] == '\r') ++i;
+      if (i < n && text[i] == '\n') ++i;
+      ++line;
+      break;
+    }
+    if (bad) {
+      // Recover at the next line.
+      if (i < n) skip_line();
+      continue;
+    }
+    if (!have_header) {
+      out.table.header = std::move(row.fields);
+      out.table.header_line = row.line;
+      have_header = true;
+      for (std::size_t c = 0; c < out.table.header.size(); ++c)
+        if (out.table.header[c].empty())
+          errs.add(row.line, c + 1, "", "the header gives this column no name");
+      continue;
+    }
+    if (row.fields.size() != out.table.header.size()) {
+      errs.add(row.line, 0, "", "has " + std::to_string(row.fields.size()) + (row.fields.size() == 1 ? " field" : " fields") +
+                                    ", the header has " + std::to_string(out.table.header.size()));
+      continue;
+    }
+    out.table.rows.push_back(std::move(row));
+  }
+  if (!have_header && out.errors.empty()) errs.add(0, 0, "", "the file is empty (no header row)");
+  if (dropped) out.errors.back().reason += " (and " + std::to_string(dropped) + " more errors)";
+  return out;
+}
+
+CsvRead read_csv_file(const std::string& path, const CsvLimits& limits) {
+  CsvRead out;
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    out.errors.push_back({0, 0, "", std::string("cannot open the file (") + std::strerror(errno) + ")"});
+    return out;
+  }
+  in.seekg(0, std::ios::end);
+  const std::streamoff size = in.tellg();
+  if (size < 0) {
+    out.errors.push_back({0, 0, "", "cannot read the file"});
+    return out;
+  }
+  if (static_cast<unsigned long long>(size) > limits.max_file_bytes) {
+    out.errors.push_back({0, 0, "", "the file is " + std::to_string(size) + " bytes, over the limit of " +
+                                        std::to_string(limits.max_file_bytes) + " bytes"});
+    return out;
+  }
+  in.seekg(0, std::ios::beg);
+  std::string text(static_cast<std::size_t>(size), '\0');
+  if (size > 0 && !in.read(&text[0], size)) {
+    out.errors.push_back({0, 0, "", "cannot read the file"});
+    return out;
+  }
+  return parse_csv_text(text, limits);
+}
+
+// ---------------------------------------------------------------------------
+// Options.
+
+const std::vector<std::string>& option_names() {
+  static const std::vector<std::string> names = {
+      "column", "units", "force-unit", "length-unit", "moment-sign", "deflection-sign",
+      "shear-sign", "reaction-sign", "reaction-moment-sign", "tolerance", "case"};
+  return names;
+}
+
+namespace {
+
+const std::vector<std::string> kColumnKeys = {"x", "span", "x_local", "shear", "moment", "deflection", "support", "force"};
+
+std::vector<std::string> split(const std::string& s, char sep) {
+  std::vector<std::string> out;
+  std::string cur;
+  for (char c : s) {
+    if (c == sep) { out.push_back(trim(cur)); cur.clear(); }
+    else cur += c;
+  }
+  out.push_back(trim(cur));
+  return out;
+}
+
+template <class E>
+std::string choose(E& out, const std::string& value, const std::string& name,
+                   const std::vector<std::pair<std::string, E>>& choices) {
+  for (const auto& [word, e] : choices)
+    if (lower(trim(value)) == word) { out = e; return ""; }
+  std::string list;
+  for (std::size_t k = 0; k < choices.size(); ++k) list += (k ? (k + 1 == choices.size() ? " or " : ", ") : "") + choices[k].first;
+  return name + " must be " + list + " (got \"" + value + "\")";
+}
+
+}  // namespace
+
+std::string set_option(Options& o, const std::string& name, const std::string& value) {
+  if (name == "column") {
+    for (const auto& part : split(value, ',')) {
+      const auto eq = part.find('=');
+      if (eq == std::string::npos) return "a column mapping is ours=theirs, e.g. moment=Mz (got \"" + part + "\")";
+      const std::string ours = lower(trim(part.substr(0, eq)));
+      const std::string theirs = trim(part.substr(eq + 1));
+      if (std::find(kColumnKeys.begin(), kColumnKeys.end(), ours) == kColumnKeys.end()) {
+        std::string reason = "no column of ours is called \"" + ours + "\"";
+        if (auto m = input::did_you_mean(ours, kColumnKeys)) reason += " (did you mean \"" + *m + "\"?)";
+        return reason + "; ours are x, span, x_local, shear, moment, deflection, support, force";
+      }
+      if (theirs.empty()) return "the column mapping for " + ours + " names no column";
+      o.columns[ours] = theirs;
+    }
+    return "";
+  }
+  if (name == "units") {
+    for (const auto& part : split(value, ',')) {
+      const auto eq = part.find('=');
+      const std::string key = eq == std::string::npos ? "" : lower(trim(part.substr(0, eq)));
+      const std::string unit = eq == std::string::npos ? "" : trim(part.substr(eq + 1));
+      if (key == "force") { if (auto r = set_option(o, "force-unit", unit); !r.empty()) return r; }
+      else if (key == "length") { if (auto r = set_option(o, "length-unit", unit); !r.empty()) return r; }
+      else return "units are given as force=UNIT,length=UNIT, e.g. force=N,length=mm (got \"" + part + "\")";
+    }
+    return "";
+  }
+  if (name == "force-unit") {
+    if (!input::force_unit(value)) return "the force unit must be N, kN, MN, lbf or kip (got \"" + value + "\")";
+    o.force_unit = value;
+    return "";
+  }
+  if (name == "length-unit") {
+    if (!input::length_unit(value)) return "the length unit must be mm, cm, m, in or ft (got \"" + value + "\")";
+    o.length_unit = value;
+    return "";
+  }
+  if (name == "moment-sign")
+    return choose(o.moment_sign, value, "the moment sign",
+                  {{"sagging-positive", MomentSign::SaggingPositive}, {"hogging-positive", MomentSign::HoggingPositive}});
+  if (name == "deflection-sign")
+    return choose(o.deflection_sign, value, "the deflection sign",
+                  {{"down-positive", DeflectionSign::DownPositive}, {"up-positive", DeflectionSign::UpPositive}});
+  if (name == "shear-sign")
+    return choose(o.shear_sign, value, "the shear sign", {{"ours", ShearSign::Ours}, {"opposite", ShearSign::Opposite}});
+  if (name == "reaction-sign")
+    return choose(o.reaction_sign, value, "the reaction sign",
+                  {{"up-positive", ReactionSign::UpPositive}, {"down-positive", ReactionSign::DownPositive}});
+  if (name == "reaction-moment-sign")
+    return choose(o.reaction_moment_sign, value, "the reaction moment sign",
+                  {{"counter-clockwise-positive", ReactionMomentSign::CounterClockwisePositive},
+                   {"clockwise-positive", ReactionMomentSign::ClockwisePositive}});
+  if (name == "tolerance") {
+    std::string reason;
+    auto t = input::parse_tolerance_text(value, &reason);
+    if (!t) return "the tolerance: " + reason;
+    o.tolerance = *t;
+    return "";
+  }
+  if (name == "case") {
+    if (trim(value).empty()) return "the load case name is empty";
+    o.load_case = trim(value);
+    return "";
+  }
+  return "no option \"" + name + "\"";
+}
+
+// ---------------------------------------------------------------------------
+// Units factors.
+
+const std::vector<UnitsFactor>& units_factors() {
+  static const std::vector<UnitsFactor> all = [] {
+    struct Base { double v; const char* number; const char* gloss; };
+    const std::vector<Base> base = {
+        {1e3, "1000", "N and kN, or mm and m, or kN and MN"},
+        {1e6, "10^6", "N*mm and kN*m"},
+        {1e9, "10^9", "N*mm^2 and kN*m^2"},
+        {12.0, "12", "in and ft"},
+        {144.0, "144", "in^2 and ft^2"},
+        {1728.0, "1728", "in^3 and ft^3"},
+        {4.4482216152605, "4.448", "N and lbf"},
+        {0.3048, "0.3048", "ft and m"},
+        {0.0254, "0.0254", "in and m"},
+        {25.4, "25.4", "mm and in"},
+        {304.8, "304.8", "mm and ft"},
+    };
+    std::vector<UnitsFactor> bases;
+    for (const auto& b : base) bases.push_back({b.v, b.v, std::string(b.number) + " (between " + b.gloss + ")"});
+    for (std::size_t a = 0; a < base.size(); ++a)
+      for (std::size_t b = a; b < base.size(); ++b)
+        bases.push_back({base[a].v * base[b].v, base[a].v * base[b].v,
+                         std::string(base[a].number) + " x " + base[b].number + " (between " + base[a].gloss +
+                             "; and between " + base[b].gloss + ")"});
+    std::vector<UnitsFactor> out;
+    auto known = [&](double f) {
+      if (std::abs(f - 1.0) <= 1e-9) return true;
+      for (const auto& u : out)
+        if (std::abs(u.factor - f) <= 1e-9 * std::max(std::abs(f), std::abs(u.factor))) return true;
+      return false;
+    };
+    for (const auto& b : bases) {
+      if (!known(b.base)) out.push_back({b.base, b.base, b.words});
+      if (!known(1.0 / b.base)) out.push_back({1.0 / b.base, b.base, b.words});
+    }
+    return out;
+  }();
+  return all;
+}
+
+// ---------------------------------------------------------------------------
+// The comparison.
+
+namespace {
+
+constexpr std::size_t kNone = std::numeric_limits<std::size_t>::max();
+
+std::size_t qi(Quantity q) { return static_cast<std::size_t>(q); }
+
+Kind kind_of(Quantity q) {
+  switch (q) {
+    case Quantity::Shear: return Kind::Shear;
+    case Quantity::Moment: return Kind::Moment;
+    case Quantity::Deflection: return Kind::Deflection;
+    case Quantity::ReactionForce: return Kind::Reaction;
+    case Quantity::ReactionMoment: return Kind::Moment;
+  }
+  return Kind::Moment;
+}
+
+input::Dimension dimension_of(Quantity q) {
+  switch (q) {
+    case Quantity::Shear: case Quantity::ReactionForce: return {1, 0};
+    case Quantity::Moment: case Quantity::ReactionMoment: return {1, 1};
+    case Quantity::Deflection: return {0, 1};
+  }
+  return {0, 0};
+}
+
+double median(std::vector<double>& v) {
+  if (v.empty()) return 0.0;
+  std::sort(v.begin(), v.end());
+  const std::size_t n = v.size();
+  return n % 2 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
+}
+
+// A number cell: decimal, optional sign and exponent, nothing else.
+std::optional<double> number(const std::string& cell) {
+  std::string s = trim(cell);
+  if (s.empty()) return std::nullopt;
+  for (char c : s)
+    if (!(std::isdigit(static_cast<unsigned char>(c)) || c == '+' || c == '-' || c == '.' || c == 'e' || c == 'E'))
+      return std::nullopt;
+  const char* b = s.data();
+  const char* e = s.data() + s.size();
+  if (*b == '+') ++b;
+  double v = 0;
+  auto [p, ec] = std::from_chars(b, e, v);
+  if (ec != std::errc() || p != e || !std::isfinite(v)) return std::nullopt;
+  return v;
+}
+
+// Our values at one position: the two limits where the value jumps.
+struct Probe {
+  bool exists = true;   // false: the position is not in the beam (a support beyond the ends)
+  std::array<std::optional<double>, kQuantities> left, right;
+  int forced = 0;       // -1: compare with the left limit; +1: the right one; 0: either
+};
+
+// A position in the beam: a node, or a point inside (or at the end of) a span.
+struct Pos {
+  bool node = false;
+  std::size_t index = 0;  // node or span
+  double local = 0;
+  bool jump = false;      // inside a span where a point force or couple acts
+};
+
+struct Geometry {
+  const Beam& beam;
+  std::vector<double> node_x;                     // n + 1
+  std::vector<std::vector<double>> jumps;         // per span: locals of point forces / couples, sorted
+  double total = 0;
+  double eps = 0;
+
+  explicit Geometry(const Beam& b) : beam(b) {
+    node_x.assign(b.spans.size() + 1, 0.0);
+    for (std::size_t s = 0; s < b.spans.size(); ++s) node_x[s + 1] = node_x[s] + b.spans[s].length;
+    total = node_x.back();
+    eps = 1e-6 * total;
+    jumps.resize(b.spans.size());
+    for (const auto& l : b.loads)
+      if (!l.on_node && l.index < jumps.size() && (l.type == LoadType::Point || l.type == LoadType::Couple))
+        jumps[l.index].push_back(l.at);
+    for (auto& j : jumps) std::sort(j.begin(), j.end());
+  }
+  std::size_t spans() const { return beam.spans.size(); }
+  double length(std::size_t s) const { return beam.spans[s].length; }
+
+  // Inside span s at `local` (clamped), snapped to a point load nearby.
+  Pos inside(std::size_t s, double local) const {
+    Pos p;
+    p.index = s;
+    p.local = std::min(std::max(local, 0.0), length(s));
+    const auto& j = jumps[s];
+    auto it = std::lower_bound(j.begin(), j.end(), p.local - eps);
+    if (it != j.end() && std::abs(*it - p.local) <= eps && *it > 0.0 && *it < length(s)) {
+      p.local = *it;
+      p.jump = true;
+    }
+    return p;
+  }
+  // A global x (clamped to the beam): a node if within eps of one.
+  Pos global(double x) const {
+    x = std::min(std::max(x, 0.0), total);
+    auto it = std::lower_bound(node_x.begin(), node_x.end(), x - eps);
+    if (it != node_x.end() && std::abs(*it - x) <= eps) {
+      Pos p;
+      p.node = true;
+      p.index = static_cast<std::size_t>(it - node_x.begin());
+      return p;
+    }
+    auto up = std::upper_bound(node_x.begin(), node_x.end(), x);
+    std::size_t s = static_cast<std::size_t>(up - node_x.begin());
+    s = s == 0 ? 0 : std::min(s - 1, spans() - 1);
+    return inside(s, x - node_x[s]);
+  }
+};
+
+// The raw position of a station row, before any correction.
+struct RawStation {
+  bool global = true;
+  double x = 0;          // global, beam file units
+  std::size_t span = 0;  // 0-based, with local
+  double local = 0;
+};
+
+struct Row {
+  std::size_t line = 0;
+  std::string where;
+  RawStation pos;
+  long node = 0;  // reactions: 0-based node as written (may be one beyond the ends)
+  std::array<std::optional<double>, kQuantities> raw, theirs;
+  int forced = 0;
+};
+
+class Consensus {
+ public:
+  explicit Consensus(const LoadSet& set) : set_(set) {
+    for (const auto& m : set.methods)
+      if (m.status == MethodStatus::Ok && m.solution.at) ok_.push_back(&m);
+  }
+  bool empty() const { return ok_.empty(); }
+  std::array<double, 3> at(std::size_t span, double local, bool after) const {
+    std::array<std::vector<double>, 3> v;
+    for (auto* m : ok_) {
+      const PointValues p = m->solution.at(span, local, after);
+      v[0].push_back(p.shear);
+      v[1].push_back(p.moment);
+      v[2].push_back(p.deflection);
+    }
+    return {median(v[0]), median(v[1]), median(v[2])};
+  }
+  Probe probe(const Geometry& g, const Pos& p) const {
+    Probe r;
+    auto put = [](std::array<std::optional<double>, kQuantities>& to, const std::array<double, 3>& v) {
+      to[qi(Quantity::Shear)] = v[0];
+      to[qi(Quantity::Moment)] = v[1];
+      to[qi(Quantity::Deflection)] = v[2];
+    };
+    if (p.node) {
+      if (p.index > 0) put(r.left, at(p.index - 1, g.length(p.index - 1), false));
+      if (p.index < g.spans()) put(r.right, at(p.index, 0.0, false));
+    } else {
+      put(r.left, at(p.index, p.local, false));
+      if (p.jump) put(r.right, at(p.index, p.local, true));
+    }
+    return r;
+  }
+  Probe reaction(long node) const {
+    Probe r;
+    if (node < 0 || static_cast<std::size_t>(node) >= set_.consensus_nodes.size()) {
+      r.exists = false;
+      return r;
+    }
+    const NodeResult& n = set_.consensus_nodes[static_cast<std::size_t>(node)];
+    r.left[qi(Quantity::ReactionForce)] = n.reaction_force;
+    r.left[qi(Quantity::ReactionMoment)] = n.reaction_moment;
+    return r;
+  }
+
+ private:
+  const LoadSet& set_;
+  std::vector<const MethodResult*> ok_;
+};
+
+struct Match {
+  bool exists = false;
+  double ours = 0;
+  Side side = Side::Continuous;
+  bool from_pair = false;
+};
+
+// Our value to compare `theirs` with at a probe.
+Match match(const Probe& p, std::size_t q, double theirs, double scale) {
+  Match m;
+  if (!p.exists) return m;
+  const auto& L = p.left[q];
+  const auto& R = p.right[q];
+  if (!L && !R) return m;
+  m.exists = true;
+  if (L && R && std::abs(*L - *R) > 1e-9 * scale + 1e-300) {
+    if (p.forced != 0) {
+      m.side = p.forced < 0 ? Side::Left : Side::Right;
+      m.from_pair = true;
+    } else {
+      m.side = std::abs(theirs - *L) <= std::abs(theirs - *R) ? Side::Left : Side::Right;
+    }
+    m.ours = m.side == Side::Left ? *L : *R;
+  } else {
+    m.ours = L ? *L : *R;
+  }
+  return m;
+}
+
+bool within(double difference, double tolerance, double scale) {
+  // A tolerance is a closed bound; allow for rounding of the tolerance itself.
+  return std::abs(difference) <= tolerance * (1 + 1e-12) + 1e-15 * scale;
+}
+
+std::string percent(double relative) {
+  const double pct = 100.0 * relative;
+  if (pct < 0.001) return "within 0.001%";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.2g%%", pct);
+  return buf;
+}
+
+// The column of a key in the header, by the user's mapping or our name.
+struct Columns {
+  std::vector<std::string> header;
+  std::map<std::string, std::size_t> by_name;  // lower-case header name -> index
+  const Options* options = nullptr;
+  // kNone when absent. `mapped_missing` is set when the user named it and it is not there.
+  std::size_t find(const std::string& key, bool* mapped_missing = nullptr) const {
+    auto m = options->columns.find(key);
+    const std::string name = lower(m == options->columns.end() ? key : m->second);
+    auto it = by_name.find(name);
+    if (it == by_name.end()) {
+      if (mapped_missing) *mapped_missing = m != options->columns.end();
+      return kNone;
+    }
+    return it->second;
+  }
+  std::string name_of(const std::string& key) const {
+    auto m = options->columns.find(key);
+    return m == options->columns.end() ? key : m->second;
+  }
+};
+
+struct Hypothesis {
+  int geometry = 0;   // stations: 0 as read, 1 right to left, 2 local x; reactions: 0, 1 right to left, 3 shift +1, 4 shift -1
+  int sign = 1;
+  const UnitsFactor* factor = nullptr;
+  std::size_t mistakes() const { return (geometry != 0) + (sign < 0) + (factor != nullptr); }
+};
+
+std::string sign_words(Quantity q, const Options& o) {
+  switch (q) {
+    case Quantity::Moment:
+      return o.moment_sign == MomentSign::SaggingPositive ? "read as hogging-positive" : "read as sagging-positive";
+    case Quantity::Deflection:
+      return o.deflection_sign == DeflectionSign::DownPositive ? "read as up-positive" : "read as down-positive";
+    case Quantity::Shear:
+      return o.shear_sign == ShearSign::Ours ? "read with the opposite shear sign (V = -dM/dx)"
+                                             : "read with our shear sign (V = dM/dx)";
+    case Quantity::ReactionForce:
+      return o.reaction_sign == ReactionSign::UpPositive ? "read as down-positive" : "read as up-positive";
+    case Quantity::ReactionMoment:
+      return o.reaction_moment_sign == ReactionMomentSign::CounterClockwisePositive ? "read as clockwise-positive"
+                                                                                    : "read as counter-clockwise-positive";
+  }
+  return "";
+}
+
+std::string geometry_words(int g) {
+  switch (g) {
+    case 1: return "the beam is taken as read right to left (x -> L - x, shear sign reversed)";
+    case 2: return "x is taken as the position within each span (x_local, a new span where x falls back)";
+    case 3: return "each support is taken as the next node (labels one behind, as when nodes are counted from 0)";
+    case 4: return "each support is taken as the node before (labels one ahead)";
+  }
+  return "";
+}
+
+}  // namespace
+
+Comparison compare_table(const input::BeamFile& file, const BeamResult& result, const CsvTable& table,
+                         const std::string& display, const Options& options) {
+  Comparison out;
+  out.file = display;
+  out.units = result.units;
+  std::size_t dropped = 0;
+  ErrorList errs{&out.errors, std::max<std::size_t>(options.limits.max_errors, 1), &dropped};
+  auto finish = [&]() -> Comparison& {
+    if (dropped && !out.errors.empty()) out.errors_not_listed = dropped;
+    return out;
+  };
+
+  // The load set.
+  if (result.status == BeamStatus::Invalid || result.sets.empty()) {
+    errs.add(0, 0, "", "the beam file is not valid, so there is nothing to compare with");
+    return finish();
+  }
+  const LoadSet* set = nullptr;
+  if (!options.load_case.empty()) {
+    for (const auto& s : result.sets)
+      if (s.name == options.load_case) set = &s;
+    if (!set) {
+      std::string names;
+      for (const auto& s : result.sets) names += (names.empty() ? "" : ", ") + s.name;
+      errs.add(0, 0, "", "the beam has no load case \"" + options.load_case + "\" (it has " + names + ")");
+      return finish();
+    }
+  } else if (result.sets.size() > 1) {
+    std::string names;
+    for (const auto& s : result.sets) names += (names.empty() ? "" : ", ") + s.name;
+    errs.add(0, 0, "", "the beam has several load cases (" + names + "): name the one this file holds");
+    return finish();
+  } else {
+    set = &result.sets.front();
+  }
+  out.load_case = set->name;
+  const Consensus consensus(*set);
+  if (consensus.empty()) {
+    errs.add(0, 0, "", "no method could analyse the beam, so there is nothing to compare with");
+    return finish();
+  }
+  const Beam& beam = set->beam;
+  const Geometry geo(beam);
+
+  // Units.
+  out.their_units = result.units;
+  if (!options.force_unit.empty()) {
+    auto f = input::force_unit(options.force_unit);
+    if (!f) { errs.add(0, 0, "", "unknown force unit \"" + options.force_unit + "\""); return finish(); }
+    out.their_units.force = options.force_unit;
+    out.their_units.newtons = *f;
+  }
+  if (!options.length_unit.empty()) {
+    auto l = input::length_unit(options.length_unit);
+    if (!l) { errs.add(0, 0, "", "unknown length unit \"" + options.length_unit + "\""); return finish(); }
+    out.their_units.length = options.length_unit;
+    out.their_units.metres = *l;
+  }
+  const double kf = out.their_units.newtons / result.units.newtons;
+  const double kl = out.their_units.metres / result.units.metres;
+  const std::string& lu = out.their_units.length;
+  std::array<double, kQuantities> factor{}, sign{};
+  factor[qi(Quantity::Shear)] = kf;
+  factor[qi(Quantity::Moment)] = kf * kl;
+  factor[qi(Quantity::Deflection)] = kl;
+  factor[qi(Quantity::ReactionForce)] = kf;
+  factor[qi(Quantity::ReactionMoment)] = kf * kl;
+  sign[qi(Quantity::Shear)] = options.shear_sign == ShearSign::Ours ? 1 : -1;
+  sign[qi(Quantity::Moment)] = options.moment_sign == MomentSign::SaggingPositive ? 1 : -1;
+  sign[qi(Quantity::Deflection)] = options.deflection_sign == DeflectionSign::DownPositive ? 1 : -1;
+  sign[qi(Quantity::ReactionForce)] = options.reaction_sign == ReactionSign::UpPositive ? 1 : -1;
+  sign[qi(Quantity::ReactionMoment)] =
+      options.reaction_moment_sign == ReactionMomentSign::CounterClockwisePositive ? 1 : -1;
+
+  // Tolerances.
+  const input::Tolerance tol = options.tolerance.value_or(file.claim_tolerance);
+  std::array<double, kQuantities> scale{}, tolerance{};
+  for (std::size_t q = 0; q < kQuantities; ++q) {
+    scale[q] = set->scale[static_cast<std::size_t>(kind_of(static_cast<Quantity>(q)))];
+    tolerance[q] = tol.relative ? tol.value * scale[q] : tol.value;
+  }
+
+  // The header.
+  Columns cols;
+  cols.header = table.header;
+  cols.options = &options;
+  const std::size_t hl = table.header_line;
+  for (std::size_t c = 0; c < table.header.size(); ++c) {
+    const std::string key = lower(trim(table.header[c]));
+    auto [it, fresh] = cols.by_name.emplace(key, c);
+    if (!fresh)
+      errs.add(hl, c + 1, table.header[c],
+               "the column name appears twice (columns " + std::to_string(it->second + 1) + " and " +
+                   std::to_string(c + 1) + ")");
+  }
+  for (const auto& [key, theirs] : options.columns) {
+    bool missing = false;
+    if (cols.find(key, &missing) == kNone && missing) {
+      std::string have;
+      for (const auto& h : table.header) have += (have.empty() ? "" : ", ") + h;
+      errs.add(hl, 0, "", "no column \"" + theirs + "\" (given for " + key + "); the header has " + have);
+    }
+  }
+  if (!out.errors.empty()) return finish();
+
+  const std::size_t c_support = cols.find("support"), c_x = cols.find("x"), c_span = cols.find("span"),
+                    c_local = cols.find("x_local");
+  if (c_support != kNone && (c_x != kNone || c_span != kNone)) {
+    errs.add(hl, c_support + 1, table.header[c_support],
+             "the header has both a support column and a position column (" + cols.name_of(c_x != kNone ? "x" : "span") +
+                 "); a file holds either stations or reactions");
+    return finish();
+  }
+  if (c_support == kNone && c_x == kNone && c_span == kNone) {
+    std::string reason = "cannot tell what the file holds: the header has no \"" + cols.name_of("x") + "\" or \"" +
+                         cols.name_of("span") + "\" column (stations) and no \"" + cols.name_of("support") +
+                         "\" column (reactions)";
+    if (table.header.size() == 1 && (table.header[0].find(';') != std::string::npos || table.header[0].find('\t') != std::string::npos))
+      reason += "; the header is one field: is the file separated by ';' or tabs? trivet reads commas";
+    errs.add(hl, 0, "", reason);
+    return finish();
+  }
+  out.kind = c_support != kNone ? TableKind::Reactions : TableKind::Stations;
+  const bool stations = out.kind == TableKind::Stations;
+
+  std::vector<std::pair<Quantity, std::string>> wanted;
+  if (stations) wanted = {{Quantity::Shear, "shear"}, {Quantity::Moment, "moment"}, {Quantity::Deflection, "deflection"}};
+  else wanted = {{Quantity::ReactionForce, "force"}, {Quantity::ReactionMoment, "moment"}};
+  std::array<std::size_t, kQuantities> c_value;
+  c_value.fill(kNone);
+  bool any = false;
+  for (const auto& [q, key] : wanted) {
+    c_value[qi(q)] = cols.find(key);
+    any = any || c_value[qi(q)] != kNone;
+  }
+  if (!any) {
+    std::string names;
+    for (std::size_t k = 0; k < wanted.size(); ++k)
+      names += (k ? (k + 1 == wanted.size() ? " or " : ", ") : "") + ("\"" + cols.name_of(wanted[k].second) + "\"");
+    errs.add(hl, 0, "", std::string("no column to compare: a ") + (stations ? "station" : "reaction") +
+                            " file needs at least one of " + names);
+    return finish();
+  }
+  bool global = true;
+  if (stations && c_x == kNone) {
+    global = false;
+    if (c_local == kNone) {
+      errs.add(hl, c_span + 1, table.header[c_span],
+               "a \"" + cols.name_of("span") + "\" column needs an \"" + cols.name_of("x_local") + "\" column beside it");
+      return finish();
+    }
+  }
+
+  // The rows.
+  const std::size_t n = geo.spans();
+  std::vector<Row> rows;
+  rows.reserve(table.rows.size());
+  bool beyond = false;
+  for (const auto& tr : table.rows) {
+    Row r;
+    r.line = tr.line;
+    bool row_ok = true;
+    auto cell_error = [&](std::size_t c, const std::string& reason) {
+      errs.add(tr.line, c + 1, table.header[c], reason);
+      row_ok = false;
+    };
+    auto read_number = [&](std::size_t c, bool required) -> std::optional<double> {
+      const std::string& s = tr.fields[c];
+      if (trim(s).empty()) {
+        if (required) cell_error(c, "the cell is empty");
+        return std::nullopt;
+      }
+      auto v = number(s);
+      if (!v) cell_error(c, "not a number (got \"" + s + "\")");
+      return v;
+    };
+    if (stations) {
+      if (global) {
+        if (auto x = read_number(c_x, true)) {
+          const double xs = *x * kl;
+          if (xs < -geo.eps || xs > geo.total + geo.eps)
+            cell_error(c_x, "x = " + input::format_number(*x) + " " + lu + " is outside the beam (0 to " +
+                                nice(geo.total / kl) + " " + lu + ")");
+          r.pos.global = true;
+          r.pos.x = std::min(std::max(xs, 0.0), geo.total);
+          r.where = "x = " + input::format_number(*x) + " " + lu;
+        }
+      } else {
+        auto sp = read_number(c_span, true);
+        auto lo = read_number(c_local, true);
+        if (sp) {
+          const double s = *sp;
+          if (std::abs(s - std::round(s)) > 0 || s < 1)
+            cell_error(c_span, "a span number is a whole number from 1 to " + std::to_string(n) + " (got " +
+                                   tr.fields[c_span] + ")");
+          else if (s > static_cast<double>(n))
+            cell_error(c_span, "span " + input::format_number(s) + " does not exist (the beam has " + std::to_string(n) +
+                                   (n == 1 ? " span)" : " spans)"));
+          else if (lo) {
+            const std::size_t si = static_cast<std::size_t>(s) - 1;
+            const double L = geo.length(si);
+            const double xl = *lo * kl;
+            if (xl < -geo.eps || xl > L + geo.eps)
+              cell_error(c_local, "x_local = " + input::format_number(*lo) + " " + lu + " is outside span " +
+                                      std::to_string(si + 1) + " (0 to " + nice(L / kl) + " " + lu + ")");
+            r.pos.global = false;
+            r.pos.span = si;
+            r.pos.local = std::min(std::max(xl, 0.0), L);
+            r.where = "span " + std::to_string(si + 1) + ", x_local = " + input::format_number(*lo) + " " + lu;
+          }
+        }
+      }
+    } else {
+      const std::string text = trim(tr.fields[c_support]);
+      r.where = "support " + text;
+      long node = -2;
+      bool found = false;
+      for (std::size_t k = 0; k < beam.labels.size() && !found; ++k)
+        if (beam.labels[k] == text) { node = static_cast<long>(k); found = true; }
+      for (std::size_t k = 0; k < beam.labels.size() && !found; ++k)
+        if (lower(beam.labels[k]) == lower(text)) { node = static_cast<long>(k); found = true; }
+      if (!found) {
+        auto v = number(text);
+        if (text.empty()) {
+          cell_error(c_support, "the cell is empty");
+        } else if (v && std::abs(*v - std::round(*v)) <= 0 && std::abs(*v) < 1e9) {
+          node = static_cast<long>(std::lround(*v)) - 1;
+          found = true;
+        } else {
+          cell_error(c_support, "no node \"" + text + "\" in the beam (nodes " + beam.labels.front() + " to " +
+                                    beam.labels.back() + ", or numbers 1 to " + std::to_string(beam.node_count()) + ")");
+        }
+      }
+      r.node = node;
+      if (found && (node < 0 || node >= static_cast<long>(beam.node_count()))) beyond = true;
+    }
+    for (const auto& [q, key] : wanted) {
+      const std::size_t c = c_value[qi(q)];
+      if (c == kNone) continue;
+      if (auto v = read_number(c, false)) {
+        r.raw[qi(q)] = *v;
+        r.theirs[qi(q)] = *v * factor[qi(q)] * sign[qi(q)];
+      }
+    }
+    if (row_ok) rows.push_back(std::move(r));
+  }
+  // Support numbers beyond the ends: kept (and failing) only when one shift
+  // by one node brings every row into the beam, which the diagnosis tests.
+  if (!stations && beyond) {
+    const long nn = static_cast<long>(beam.node_count());
+    bool fits_plus = true, fits_minus = true;
+    for (const auto& r : rows) {
+      fits_plus = fits_plus && r.node + 1 >= 0 && r.node + 1 < nn;
+      fits_minus = fits_minus && r.node - 1 >= 0 && r.node - 1 < nn;
+    }
+    if (!fits_plus && !fits_minus)
+      for (const auto& r : rows)
+        if (r.node < 0 || r.node >= nn)
+          errs.add(r.line, c_support + 1, table.header[c_support],
+                   "no node " + std::to_string(r.node + 1) + " in the beam (nodes 1 to " + std::to_string(nn) + ", " +
+                       beam.labels.front() + " to " + beam.labels.back() + ")");
+  }
+  if (!out.errors.empty()) return finish();
+  if (rows.empty()) {
+    errs.add(hl, 0, "", "the file has a header but no rows");
+    return finish();
+  }
+
+  // A position given twice in a row: the first is the left limit, the second the right.
+  if (stations) {
+    auto same = [&](const RawStation& a, const RawStation& b) {
+      if (a.global != b.global) return false;
+      if (a.global) return std::abs(a.x - b.x) <= geo.eps;
+      return a.span == b.span && std::abs(a.local - b.local) <= geo.eps;
+    };
+    for (std::size_t i = 0; i + 1 < rows.size(); ++i)
+      if (rows[i].forced == 0 && same(rows[i].pos, rows[i + 1].pos)) {
+        rows[i].forced = -1;
+        rows[i + 1].forced = +1;
+      }
+  }
+
+  // Our values at the rows, under each reading of their positions.
+  // Geometries: 0 as read; 1 right to left; 2 local x as global (global
+  // tables); 3, 4 support labels shifted by +1 / -1 (reactions).
+  std::map<int, std::optional<std::vector<Probe>>> probes;
+  auto probes_for = [&](int g) -> const std::optional<std::vector<Probe>>& {
+    auto it = probes.find(g);
+    if (it != probes.end()) return it->second;
+    std::optional<std::vector<Probe>> ps;
+    std::vector<Probe> v;
+    v.reserve(rows.size());
+    bool applicable = true;
+    if (stations) {
+      std::size_t seg = 0;
+      for (std::size_t i = 0; i < rows.size() && applicable; ++i) {
+        const RawStation& p = rows[i].pos;
+        Pos pos;
+        if (g == 0) {
+          pos = p.global ? geo.global(p.x) : geo.inside(p.span, p.local);
+        } else if (g == 1) {
+          pos = p.global ? geo.global(geo.total - p.x) : geo.inside(n - 1 - p.span, geo.length(p.span) - p.local);
+        } else if (g == 2) {
+          if (!p.global) { applicable = false; break; }
+          if (i > 0 && p.x < rows[i - 1].pos.x - geo.eps) ++seg;
+          if (seg >= n || p.x > geo.length(seg) + geo.eps) { applicable = false; break; }
+          pos = geo.inside(seg, p.x);
+        } else {
+          applicable = false;
+          break;
+        }
+        Probe pr = consensus.probe(geo, pos);
+        pr.forced = rows[i].forced;
+        if (g == 1) {
+          pr.forced = -pr.forced;
+          for (auto* side : {&pr.left, &pr.right})
+            if ((*side)[qi(Quantity::Shear)]) (*side)[qi(Quantity::Shear)] = -*(*side)[qi(Quantity::Shear)];
+        }
+        v.push_back(pr);
+      }
+    } else {
+      const long nn = static_cast<long>(beam.node_count());
+      for (const auto& r : rows) {
+        long k = r.node;
+        if (g == 1) k = nn - 1 - k;
+        else if (g == 3) k = k + 1;
+        else if (g == 4) k = k - 1;
+        else if (g != 0) { applicable = false; break; }
+        v.push_back(consensus.reaction(k));
+      }
+    }
+    if (applicable) ps = std::move(v);
+    return probes.emplace(g, std::move(ps)).first->second;
+  };
+
+  // Compare as read.
+  const auto& base = *probes_for(0);
+  std::array<Summary, kQuantities> sums;
+  std::array<bool, kQuantities> present{};
+  for (std::size_t i = 0; i < rows.size(); ++i) {
+    RowResult rr;
+    rr.line = rows[i].line;
+    rr.where = rows[i].where;
+    for (const auto& [q, key] : wanted) {
+      const std::size_t k = qi(q);
+      if (!rows[i].theirs[k]) continue;
+      present[k] = true;
+      Cell c;
+      c.quantity = q;
+      c.raw = *rows[i].raw[k];
+      c.theirs = *rows[i].theirs[k];
+      c.tolerance = tolerance[k];
+      const Match m = match(base[i], k, c.theirs, scale[k]);
+      Summary& s = sums[k];
+      s.quantity = q;
+      s.tolerance = tolerance[k];
+      ++s.compared;
+      if (!m.exists) {
+        c.reason = "no node " + std::to_string(rows[i].node + 1) + " in the beam";
+        c.difference = c.theirs;
+      } else {
+        c.ours = m.ours;
+        c.side = m.side;
+        c.side_from_pair = m.from_pair;
+        c.difference = c.theirs - c.ours;
+        c.holds = within(c.difference, c.tolerance, scale[k]);
+      }
+      if (!c.holds) ++s.failing;
+      if (s.worst_line == 0 || std::abs(c.difference) > std::abs(s.worst_difference)) {
+        s.worst_difference = c.difference;
+        s.worst_line = rr.line;
+        s.worst_where = rr.where;
+      }
+      rr.cells.push_back(c);
+    }
+    out.rows.push_back(std::move(rr));
+  }
+
+  // Diagnosis.
+  std::vector<int> geometries = stations ? std::vector<int>{0, 1, 2} : std::vector<int>{0, 1, 3, 4};
+  std::vector<const UnitsFactor*> factors = {nullptr};
+  for (const auto& u : units_factors()) factors.push_back(&u);
+  for (std::size_t k = 0; k < kQuantities; ++k) {
+    if (!present[k]) continue;
+    Summary& s = sums[k];
+    const Quantity q = static_cast<Quantity>(k);
+    if (s.failing > 0) {
+      std::optional<Hypothesis> best;
+      double best_residual = 0;
+      for (int g : geometries) {
+        const auto& ps = probes_for(g);
+        if (!ps) continue;
+        for (int sg : {1, -1})
+          for (const UnitsFactor* f : factors) {
+            Hypothesis h{g, sg, f};
+            if (h.mistakes() == 0) continue;
+            if (best && h.mistakes() > best->mistakes()) continue;
+            const double m = sg / (f ? f->factor : 1.0);
+            double worst = 0;
+            bool all = true, meaningful = false;
+            for (std::size_t i = 0; i < rows.size() && all; ++i) {
+              if (!rows[i].theirs[k]) continue;
+              const double t = *rows[i].theirs[k] * m;
+              const Match mt = match((*ps)[i], k, t, scale[k]);
+              if (!mt.exists) { all = false; break; }
+              const double d = t - mt.ours;
+              if (!within(d, tolerance[k], scale[k])) { all = false; break; }
+              worst = std::max(worst, std::abs(d));
+              meaningful = meaningful || std::abs(mt.ours) > 2 * tolerance[k];
+            }
+            if (!all) continue;
+            if (!meaningful) continue;
+            if (!best || h.mistakes() < best->mistakes() || worst < best_residual) {
+              best = h;
+              best_residual = worst;
+            }
+          }
+      }
+      if (best) {
+        Finding f;
+        f.quantity = q;
+        std::vector<std::string> words;
+        if (best->geometry != 0) {
+          f.mistakes.push_back(best->geometry == 1 ? Mistake::RightToLeft
+                               : best->geometry == 2 ? Mistake::LocalAsGlobal
+                                                     : Mistake::SupportShift);
+          if (best->geometry >= 3) f.shift = best->geometry == 3 ? 1 : -1;
+          words.push_back(geometry_words(best->geometry));
+        }
+        if (best->sign < 0) {
+          f.mistakes.push_back(Mistake::OppositeSign);
+          words.push_back(sign_words(q, options));
+        }
+        if (best->factor) {
+          f.mistakes.push_back(Mistake::UnitsFactor);
+          f.factor = best->factor->factor;
+          const bool divide = best->factor->factor > 1.0;
+          words.push_back(std::string(divide ? "divided by " : "multiplied by ") + best->factor->words);
+        }
+        f.residual = best_residual;
+        f.residual_relative = scale[k] > 0 ? best_residual / scale[k] : best_residual;
+        std::string joined;
+        for (std::size_t w = 0; w < words.size(); ++w) joined += (w ? " and " : "") + words[w];
+        const std::string kind = kind_name(kind_of(q));
+        f.text = std::string("the ") + quantity_plural(q) + " match to " +
+                 (scale[k] > 0 ? percent(f.residual_relative) + " of the largest " + kind
+                               : "within " + nice(best_residual) + " " + result.units.of(dimension_of(q))) +
+                 " if " + joined;
+        s.finding = std::move(f);
+      } else {
+        s.note = stations ? "no usual mistake (opposite sign, a units factor, the beam read right to left, local x "
+                            "taken as global) makes every row hold"
+                          : "no usual mistake (opposite sign, a units factor, support labels shifted by one, nodes "
+                            "counted from the right) makes every row hold";
+      }
+    }
+    out.summary.push_back(std::move(s));
+  }
+  return finish();
+}
+
+Comparison compare_text(const input::BeamFile& file, const BeamResult& result, const std::string& text,
+                        const std::string& display, const Options& options) {
+  CsvRead csv = parse_csv_text(text, options.limits);
+  if (!csv.ok()) {
+    Comparison out;
+    out.file = display;
+    out.units = result.units;
+    out.errors = std::move(csv.errors);
+    return out;
+  }
+  return compare_table(file, result, csv.table, display, options);
+}
+
+Comparison compare_file(const input::BeamFile& file, const BeamResult& result, const std::string& path,
+                        const Options& options, const std::string& display) {
+  const std::string name = display.empty() ? path : display;
+  CsvRead csv = read_csv_file(path, options.limits);
+  if (!csv.ok()) {
+    Comparison out;
+    out.file = name;
+    out.units = result.units;
+    out.errors = std::move(csv.errors);
+    return out;
+  }
+  return compare_table(file, result, csv.table, name, options);
+}
+
+}  // namespace trivet::compare::against

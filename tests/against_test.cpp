@@ -1,0 +1,587 @@
+// Tests of the comparison with another program's exported results.
+#include "harness/compare/against.h"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <functional>
+#include <sstream>
+
+namespace trivet::compare::against {
+namespace {
+
+using input::format_number;
+
+// Three spans, fixed at A, a point force inside span 2 (x = 8), udls on 1 and 3.
+const char* kBeam = R"({
+  "title": "three spans",
+  "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 5.0, "EI": 52000}, {"length": 6.5, "EI": 52000}, {"length": 4.0, "EI": 52000}],
+  "supports": ["fixed", "roller", "roller", "pinned"],
+  "loads": [{"type": "udl", "span": 1, "w": 8.0},
+            {"type": "point", "span": 2, "P": 20.0, "at": 3.0},
+            {"type": "udl", "span": 3, "w": 5.0}]
+})";
+
+constexpr double kTotal = 15.5;
+
+class Against : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    file_ = new input::BeamFile(input::parse_beam_text(kBeam, "beam.json"));
+    ASSERT_TRUE(file_->ok());
+    result_ = new BeamResult(check(*file_, Options0()));
+    ASSERT_EQ(result_->sets.size(), 1u);
+    ASSERT_EQ(result_->sets[0].ok_count(), 3u);
+  }
+  static void TearDownTestSuite() {
+    delete result_;
+    delete file_;
+  }
+  static compare::Options Options0() { return {}; }
+
+  static const LoadSet& set() { return result_->sets[0]; }
+
+  struct StationRow {
+    double x, shear, moment, deflection;
+  };
+  // The consensus at the shared station grid (left limit first at a jump).
+  static std::vector<StationRow> truth() {
+    std::vector<StationRow> v;
+    for (const auto& s : set().consensus_stations) v.push_back({s.x, s.shear, s.moment, s.deflection});
+    return v;
+  }
+  static std::string csv(const std::vector<StationRow>& rows, const std::string& eol = "\n",
+                         const std::string& header = "x,shear,moment,deflection") {
+    std::string s = header + eol;
+    for (const auto& r : rows)
+      s += format_number(r.x) + "," + format_number(r.shear) + "," + format_number(r.moment) + "," +
+           format_number(r.deflection) + eol;
+    return s;
+  }
+  static Comparison run(const std::string& text, const Options& o = {}) {
+    return compare_text(*file_, *result_, text, "r.csv", o);
+  }
+  static const Summary* summary(const Comparison& c, Quantity q) {
+    for (const auto& s : c.summary)
+      if (s.quantity == q) return &s;
+    return nullptr;
+  }
+  static bool names(const Finding& f, Mistake m) {
+    return std::find(f.mistakes.begin(), f.mistakes.end(), m) != f.mistakes.end();
+  }
+  static std::vector<std::string> messages(const Comparison& c) {
+    std::vector<std::string> m;
+    for (const auto& e : c.errors) m.push_back(e.format(c.file));
+    return m;
+  }
+  static std::string only_error(const std::string& text, const Options& o = {}) {
+    Comparison c = run(text, o);
+    EXPECT_EQ(c.errors.size(), 1u) << ::testing::PrintToString(messages(c));
+    return c.errors.empty() ? "" : c.errors.front().format(c.file);
+  }
+
+  static input::BeamFile* file_;
+  static BeamResult* result_;
+};
+
+input::BeamFile* Against::file_ = nullptr;
+BeamResult* Against::result_ = nullptr;
+
+// ---------------------------------------------------------------------------
+// CSV syntax.
+
+TEST(Csv, QuotedFieldsCommasQuotesCrlfCommentsBlankLines) {
+  const std::string text =
+      "# exported\r\n"
+      "\r\n"
+      "name, \"a, b\" ,c\r\n"
+      "  # a comment line\r\n"
+      "\"say \"\"hi\"\"\",2,\"two\r\nlines\"\r\n"
+      "   \r\n"
+      "x , y,z";
+  CsvRead r = parse_csv_text(text);
+  ASSERT_TRUE(r.ok()) << r.errors.front().format("t.csv");
+  EXPECT_EQ(r.table.header_line, 3u);
+  EXPECT_EQ(r.table.header, (std::vector<std::string>{"name", "a, b", "c"}));
+  ASSERT_EQ(r.table.rows.size(), 2u);
+  EXPECT_EQ(r.table.rows[0].line, 5u);
+  EXPECT_EQ(r.table.rows[0].fields, (std::vector<std::string>{"say \"hi\"", "2", "two\nlines"}));
+  EXPECT_EQ(r.table.rows[1].line, 8u);
+  EXPECT_EQ(r.table.rows[1].fields, (std::vector<std::string>{"x", "y", "z"}));
+}
+
+TEST(Csv, EmptyTrailingField) {
+  CsvRead r = parse_csv_text("a,b\n1,\n");
+  ASSERT_TRUE(r.ok());
+  ASSERT_EQ(r.table.rows.size(), 1u);
+  EXPECT_EQ(r.table.rows[0].fields, (std::vector<std::string>{"1", ""}));
+}
+
+std::string first_error(const std::string& text, const CsvLimits& l = {}) {
+  CsvRead r = parse_csv_text(text, l);
+  EXPECT_FALSE(r.ok());
+  return r.errors.empty() ? "" : r.errors.front().format("t.csv");
+}
+
+TEST(Csv, Errors) {
+  EXPECT_EQ(first_error("a,b\n1,\"open\n2,3\n"), "t.csv: line 2, column 2: a quoted field is not closed (it opens on this line)");
+  EXPECT_EQ(first_error("a,b\n1,2\"3\n"),
+            "t.csv: line 2, column 2: a quote inside an unquoted field (quote the whole field, and write a quote inside it twice)");
+  EXPECT_EQ(first_error("a,b\n\"1\"x,2\n"),
+            "t.csv: line 2, column 1: unexpected text after a closing quote (got 'x'; a quote inside a quoted field is written twice: \"\")");
+  EXPECT_EQ(first_error("a,b,c\n1,2\n"), "t.csv: line 2: has 2 fields, the header has 3");
+  EXPECT_EQ(first_error("a,,c\n1,2,3\n"), "t.csv: line 1, column 2: the header gives this column no name");
+  EXPECT_EQ(first_error("# only a comment\n\n"), "t.csv: the file is empty (no header row)");
+  EXPECT_EQ(first_error(std::string("a,b\n1,\0\n", 8)), "t.csv: line 2: the file holds a NUL byte: it is not a text (CSV) file");
+  CsvLimits small;
+  small.max_file_bytes = 10;
+  EXPECT_EQ(first_error("x,moment\n1,2\n", small), "t.csv: the file is 13 bytes, over the limit of 10 bytes");
+}
+
+TEST(Csv, KeepsGoingAfterABadLineAndCapsTheList) {
+  CsvLimits l;
+  l.max_errors = 2;
+  CsvRead r = parse_csv_text("a,b\n1\n2\n3\n4,5\n", l);
+  ASSERT_EQ(r.errors.size(), 2u);
+  EXPECT_EQ(r.errors[1].format("t.csv"), "t.csv: line 3: has 1 field, the header has 2 (and 1 more errors)");
+}
+
+TEST(Csv, FileTooLargeAndMissingFile) {
+  const auto path = std::filesystem::temp_directory_path() / "trivet_against_big.csv";
+  {
+    std::ofstream f(path, std::ios::binary);
+    f << "x,moment\n1,2\n";
+  }
+  CsvLimits l;
+  l.max_file_bytes = 5;
+  CsvRead r = read_csv_file(path.string(), l);
+  ASSERT_EQ(r.errors.size(), 1u);
+  EXPECT_EQ(r.errors[0].format("big.csv"), "big.csv: the file is 13 bytes, over the limit of 5 bytes");
+  CsvRead ok = read_csv_file(path.string());
+  EXPECT_TRUE(ok.ok());
+  EXPECT_EQ(ok.table.rows.size(), 1u);
+  std::filesystem::remove(path);
+  CsvRead none = read_csv_file((std::filesystem::temp_directory_path() / "trivet_no_such_file.csv").string());
+  ASSERT_EQ(none.errors.size(), 1u);
+  EXPECT_EQ(none.errors[0].format("n.csv"), "n.csv: cannot open the file (No such file or directory)");
+}
+
+// ---------------------------------------------------------------------------
+// Options.
+
+TEST(AgainstOptions, SetOption) {
+  Options o;
+  EXPECT_EQ(set_option(o, "column", "moment=Mz, x=Dist"), "");
+  EXPECT_EQ(o.columns.at("moment"), "Mz");
+  EXPECT_EQ(o.columns.at("x"), "Dist");
+  EXPECT_EQ(set_option(o, "units", "force=N,length=mm"), "");
+  EXPECT_EQ(o.force_unit, "N");
+  EXPECT_EQ(o.length_unit, "mm");
+  EXPECT_EQ(set_option(o, "moment-sign", "hogging-positive"), "");
+  EXPECT_EQ(o.moment_sign, MomentSign::HoggingPositive);
+  EXPECT_EQ(set_option(o, "deflection-sign", "up-positive"), "");
+  EXPECT_EQ(o.deflection_sign, DeflectionSign::UpPositive);
+  EXPECT_EQ(set_option(o, "shear-sign", "opposite"), "");
+  EXPECT_EQ(o.shear_sign, ShearSign::Opposite);
+  EXPECT_EQ(set_option(o, "reaction-sign", "down-positive"), "");
+  EXPECT_EQ(o.reaction_sign, ReactionSign::DownPositive);
+  EXPECT_EQ(set_option(o, "tolerance", "0.5%"), "");
+  ASSERT_TRUE(o.tolerance);
+  EXPECT_TRUE(o.tolerance->relative);
+  EXPECT_NEAR(o.tolerance->value, 0.005, 1e-15);
+  EXPECT_EQ(set_option(o, "moment-sign", "upside"),
+            "the moment sign must be sagging-positive or hogging-positive (got \"upside\")");
+  EXPECT_EQ(set_option(o, "force-unit", "Nm"), "the force unit must be N, kN, MN, lbf or kip (got \"Nm\")");
+  EXPECT_EQ(set_option(o, "column", "momnet=Mz"),
+            "no column of ours is called \"momnet\" (did you mean \"moment\"?); ours are x, span, x_local, shear, "
+            "moment, deflection, support, force");
+  EXPECT_EQ(set_option(o, "column", "Mz"), "a column mapping is ours=theirs, e.g. moment=Mz (got \"Mz\")");
+  EXPECT_EQ(set_option(o, "units", "N"), "units are given as force=UNIT,length=UNIT, e.g. force=N,length=mm (got \"N\")");
+  EXPECT_EQ(set_option(o, "colour", "red"), "no option \"colour\"");
+}
+
+TEST(AgainstOptions, UnitsFactorsHaveNoRepeatsAndIncludeTheListed) {
+  const auto& f = units_factors();
+  for (std::size_t a = 0; a < f.size(); ++a) {
+    EXPECT_GT(std::abs(f[a].factor - 1.0), 1e-6);
+    for (std::size_t b = a + 1; b < f.size(); ++b)
+      EXPECT_GT(std::abs(f[a].factor - f[b].factor), 1e-9 * std::abs(f[a].factor)) << f[a].words << " / " << f[b].words;
+  }
+  for (double want : {1e3, 1e-3, 1e6, 1e9, 12.0, 144.0, 1728.0, 4.4482216152605, 0.3048, 0.0254, 25.4, 304.8,
+                      1.0 / 304.8, 4.4482216152605 * 0.3048, 1e3 * 4.4482216152605}) {
+    bool found = false;
+    for (const auto& u : f) found = found || std::abs(u.factor - want) <= 1e-9 * want;
+    EXPECT_TRUE(found) << want;
+  }
+}
+
+// ---------------------------------------------------------------------------
+// The correct file, and each usual mistake.
+
+TEST_F(Against, CorrectFilePasses) {
+  const auto rows = truth();
+  Comparison c = run(csv(rows));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_EQ(c.kind, TableKind::Stations);
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(c.failing(), 0u);
+  ASSERT_EQ(c.summary.size(), 3u);
+  for (const auto& s : c.summary) {
+    EXPECT_EQ(s.compared, rows.size());
+    EXPECT_EQ(s.failing, 0u);
+    EXPECT_FALSE(s.finding);
+    EXPECT_LE(std::abs(s.worst_difference), 1e-9 * std::max(1.0, s.tolerance));
+  }
+  ASSERT_EQ(c.rows.size(), rows.size());
+  EXPECT_EQ(c.rows[0].where, "x = 0 m");
+  EXPECT_EQ(c.rows[0].line, 2u);
+}
+
+TEST_F(Against, CorrectFileWithCrlfAndQuotedMappedHeaders) {
+  Options o;
+  ASSERT_EQ(set_option(o, "column", "moment=M (kN*m)"), "");
+  o.columns["x"] = "Dist, m";
+  std::string text = csv(truth(), "\r\n", "\"Dist, m\",shear,\"M (kN*m)\",deflection");
+  Comparison c = run("# from another program\r\n" + text, o);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(c.rows[0].line, 3u);
+}
+
+TEST_F(Against, MomentsSignFlippedIsFoundAsHogging) {
+  auto rows = truth();
+  for (auto& r : rows) r.moment = -r.moment;
+  Comparison c = run(csv(rows));
+  ASSERT_TRUE(c.ok());
+  EXPECT_FALSE(c.holds());
+  const Summary* m = summary(c, Quantity::Moment);
+  ASSERT_NE(m, nullptr);
+  EXPECT_GT(m->failing, 0u);
+  ASSERT_TRUE(m->finding);
+  EXPECT_EQ(m->finding->mistakes, std::vector<Mistake>{Mistake::OppositeSign});
+  EXPECT_EQ(m->finding->text, "the moments match to within 0.001% of the largest moment if read as hogging-positive");
+  EXPECT_EQ(summary(c, Quantity::Shear)->failing, 0u);
+  EXPECT_EQ(summary(c, Quantity::Deflection)->failing, 0u);
+  // Declared as hogging-positive, the same file passes.
+  Options o;
+  o.moment_sign = MomentSign::HoggingPositive;
+  EXPECT_TRUE(run(csv(rows), o).holds());
+}
+
+TEST_F(Against, DeflectionAndShearSignFlips) {
+  auto rows = truth();
+  for (auto& r : rows) { r.deflection = -r.deflection; r.shear = -r.shear; }
+  Comparison c = run(csv(rows));
+  ASSERT_TRUE(c.ok());
+  const Summary* d = summary(c, Quantity::Deflection);
+  ASSERT_TRUE(d->finding);
+  EXPECT_EQ(d->finding->text, "the deflections match to within 0.001% of the largest deflection if read as up-positive");
+  const Summary* v = summary(c, Quantity::Shear);
+  ASSERT_TRUE(v->finding);
+  EXPECT_EQ(v->finding->mistakes, std::vector<Mistake>{Mistake::OppositeSign});
+  EXPECT_EQ(v->finding->text,
+            "the shears match to within 0.001% of the largest shear if read with the opposite shear sign (V = -dM/dx)");
+}
+
+TEST_F(Against, MomentsTimes1000IsAUnitsFactor) {
+  auto rows = truth();
+  for (auto& r : rows) r.moment *= 1000;
+  Comparison c = run(csv(rows));
+  ASSERT_TRUE(c.ok());
+  EXPECT_FALSE(c.holds());
+  const Summary* m = summary(c, Quantity::Moment);
+  ASSERT_TRUE(m->finding);
+  EXPECT_EQ(m->finding->mistakes, std::vector<Mistake>{Mistake::UnitsFactor});
+  EXPECT_NEAR(m->finding->factor, 1000.0, 1e-9);
+  EXPECT_EQ(m->finding->text,
+            "the moments match to within 0.001% of the largest moment if divided by 1000 (between N and kN, or mm "
+            "and m, or kN and MN)");
+}
+
+TEST_F(Against, MomentsInKipFeetDeclaredAsKilonewtonMetres) {
+  auto rows = truth();
+  const double kip_ft = 4448.2216152605 * 0.3048 / 1000.0;  // kN*m per kip*ft
+  for (auto& r : rows) r.moment /= kip_ft;
+  Comparison c = run(csv(rows));
+  const Summary* m = summary(c, Quantity::Moment);
+  ASSERT_TRUE(m->finding);
+  EXPECT_EQ(m->finding->mistakes, std::vector<Mistake>{Mistake::UnitsFactor});
+  EXPECT_NEAR(m->finding->factor, 1.0 / kip_ft, 1e-9);
+}
+
+TEST_F(Against, RightToLeftIsFound) {
+  auto rows = truth();
+  std::vector<StationRow> mirrored;
+  for (auto it = rows.rbegin(); it != rows.rend(); ++it)
+    mirrored.push_back({kTotal - it->x, -it->shear, it->moment, it->deflection});
+  Comparison c = run(csv(mirrored));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_FALSE(c.holds());
+  for (Quantity q : {Quantity::Shear, Quantity::Moment, Quantity::Deflection}) {
+    const Summary* s = summary(c, q);
+    ASSERT_GT(s->failing, 0u) << quantity_name(q);
+    ASSERT_TRUE(s->finding) << quantity_name(q);
+    EXPECT_EQ(s->finding->mistakes, std::vector<Mistake>{Mistake::RightToLeft}) << quantity_name(q);
+  }
+  EXPECT_EQ(summary(c, Quantity::Moment)->finding->text,
+            "the moments match to within 0.001% of the largest moment if the beam is taken as read right to left "
+            "(x -> L - x, shear sign reversed)");
+}
+
+TEST_F(Against, LocalXTakenAsGlobalIsFound) {
+  std::vector<StationRow> rows;
+  const auto& st = set().stations;
+  const auto& cs = set().consensus_stations;
+  for (std::size_t i = 0; i < st.size(); ++i) rows.push_back({st[i].local, cs[i].shear, cs[i].moment, cs[i].deflection});
+  Comparison c = run(csv(rows));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_FALSE(c.holds());
+  const Summary* m = summary(c, Quantity::Moment);
+  ASSERT_GT(m->failing, 0u);
+  ASSERT_TRUE(m->finding);
+  EXPECT_EQ(m->finding->mistakes, std::vector<Mistake>{Mistake::LocalAsGlobal});
+  EXPECT_EQ(m->finding->text,
+            "the moments match to within 0.001% of the largest moment if x is taken as the position within each "
+            "span (x_local, a new span where x falls back)");
+}
+
+TEST_F(Against, SpanAndLocalColumnsPass) {
+  const auto& st = set().stations;
+  const auto& cs = set().consensus_stations;
+  std::string text = "span,x_local,moment,shear\n";
+  for (std::size_t i = 0; i < st.size(); ++i)
+    text += std::to_string(st[i].span + 1) + "," + format_number(st[i].local) + "," + format_number(cs[i].moment) +
+            "," + format_number(cs[i].shear) + "\n";
+  Comparison c = run(text);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(c.rows[1].where, "span 1, x_local = 0.5 m");
+}
+
+TEST_F(Against, TheirUnitsNewtonsAndMillimetres) {
+  std::string text = "x,shear,moment,deflection\n";
+  for (const auto& r : truth())
+    text += format_number(r.x * 1000) + "," + format_number(r.shear * 1000) + "," + format_number(r.moment * 1e6) + "," +
+            format_number(r.deflection * 1000) + "\n";
+  Options o;
+  ASSERT_EQ(set_option(o, "units", "force=N,length=mm"), "");
+  Comparison c = run(text, o);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(c.rows.back().where, "x = 15500 mm");
+  // Values are reported in the beam file's units.
+  const Cell& last = c.rows[5].cells[1];
+  EXPECT_NEAR(last.theirs, truth()[5].moment, 1e-9 * std::abs(truth()[5].moment) + 1e-12);
+  EXPECT_NEAR(last.raw, truth()[5].moment * 1e6, 1e-6 * std::abs(last.raw) + 1e-9);
+  // Read as kN and m, the same numbers fail everywhere (x is then outside the beam).
+  EXPECT_FALSE(run(text).ok());
+}
+
+// ---------------------------------------------------------------------------
+// Tolerance and the two sides of a jump.
+
+TEST_F(Against, JustInsideAndJustOutsideTheTolerance) {
+  const double tol = 0.01 * set().scale[static_cast<int>(Kind::Moment)];
+  ASSERT_GT(tol, 0);
+  const std::size_t k = 7;  // x = 3.5 in span 1
+  auto rows = truth();
+  ASSERT_LT(rows[k].x, 5.0);
+  auto inside = rows;
+  inside[k].moment += 0.99 * tol;
+  Comparison a = run(csv(inside));
+  ASSERT_TRUE(a.ok());
+  EXPECT_TRUE(a.holds());
+  EXPECT_NEAR(a.rows[k].cells[1].difference, 0.99 * tol, 1e-9 * tol);
+  EXPECT_NEAR(a.rows[k].cells[1].tolerance, tol, 1e-12 * tol);
+  auto outside = rows;
+  outside[k].moment += 1.01 * tol;
+  Comparison b = run(csv(outside));
+  ASSERT_TRUE(b.ok());
+  EXPECT_FALSE(b.holds());
+  const Summary* m = summary(b, Quantity::Moment);
+  EXPECT_EQ(m->failing, 1u);
+  EXPECT_EQ(m->worst_line, k + 2);
+  EXPECT_EQ(m->worst_where, "x = " + format_number(rows[k].x) + " m");
+  EXPECT_NEAR(m->worst_difference, 1.01 * tol, 1e-9 * tol);
+  EXPECT_FALSE(m->finding);  // one row off: no usual mistake explains it
+  EXPECT_FALSE(m->note.empty());
+  EXPECT_FALSE(b.rows[k].cells[1].holds);
+  // An absolute tolerance.
+  Options o;
+  o.tolerance = input::Tolerance{false, 2.0 * tol};
+  EXPECT_TRUE(run(csv(outside), o).holds());
+}
+
+TEST_F(Against, AJumpMatchesEitherSideAndSaysWhich) {
+  // The point force at x = 8: the shear jumps by 20.
+  const auto& st = set().stations;
+  const auto& cs = set().consensus_stations;
+  std::size_t left = st.size();
+  for (std::size_t i = 0; i + 1 < st.size(); ++i)
+    if (std::abs(st[i].x - 8.0) < 1e-12 && !st[i].after && st[i + 1].after) left = i;
+  ASSERT_LT(left, st.size());
+  const double vl = cs[left].shear, vr = cs[left + 1].shear;
+  ASSERT_NEAR(vl - vr, 20.0, 1e-6);
+  auto one = [&](double v) { return run("x,shear\n8," + format_number(v) + "\n"); };
+  Comparison a = one(vr);
+  ASSERT_TRUE(a.ok());
+  EXPECT_TRUE(a.holds());
+  EXPECT_EQ(a.rows[0].cells[0].side, Side::Right);
+  EXPECT_FALSE(a.rows[0].cells[0].side_from_pair);
+  Comparison b = one(vl);
+  EXPECT_TRUE(b.holds());
+  EXPECT_EQ(b.rows[0].cells[0].side, Side::Left);
+  EXPECT_FALSE(one(0.5 * (vl + vr)).holds());
+  // Given twice in a row, the first is the left limit and the second the right:
+  // swapped, both fail.
+  Comparison p = run("x,shear\n8," + format_number(vl) + "\n8," + format_number(vr) + "\n");
+  EXPECT_TRUE(p.holds());
+  EXPECT_EQ(p.rows[0].cells[0].side, Side::Left);
+  EXPECT_TRUE(p.rows[0].cells[0].side_from_pair);
+  EXPECT_EQ(p.rows[1].cells[0].side, Side::Right);
+  Comparison s = run("x,shear\n8," + format_number(vr) + "\n8," + format_number(vl) + "\n");
+  EXPECT_EQ(s.failing(), 2u);
+  // At an interior support the shear jumps by the reaction.
+  std::size_t end1 = st.size();
+  for (std::size_t i = 0; i + 1 < st.size(); ++i)
+    if (st[i].span == 0 && st[i + 1].span == 1) end1 = i;
+  ASSERT_LT(end1, st.size());
+  const double jump = cs[end1 + 1].shear - cs[end1].shear;
+  EXPECT_NEAR(jump, set().consensus_nodes[1].reaction_force, 1e-6);
+  Comparison n = run("x,shear\n5," + format_number(cs[end1 + 1].shear) + "\n");
+  EXPECT_TRUE(n.holds());
+  EXPECT_EQ(n.rows[0].cells[0].side, Side::Right);
+  // A span end given by span and x_local has one side only.
+  Comparison e = run("span,x_local,shear\n1,5," + format_number(cs[end1 + 1].shear) + "\n");
+  EXPECT_FALSE(e.holds());
+}
+
+// ---------------------------------------------------------------------------
+// Reactions.
+
+TEST_F(Against, ReactionsPassAndShiftedLabelsAreFound) {
+  const auto& nodes = set().consensus_nodes;
+  ASSERT_EQ(nodes.size(), 4u);
+  std::string good = "support,force,moment\n";
+  const char* labels[] = {"A", "B", "C", "D"};
+  for (std::size_t k = 0; k < 4; ++k)
+    good += std::string(labels[k]) + "," + format_number(nodes[k].reaction_force) + "," +
+            (k == 0 ? format_number(nodes[k].reaction_moment) : std::string()) + "\n";
+  Comparison a = run(good);
+  ASSERT_TRUE(a.ok()) << ::testing::PrintToString(messages(a));
+  EXPECT_EQ(a.kind, TableKind::Reactions);
+  EXPECT_TRUE(a.holds());
+  ASSERT_EQ(a.summary.size(), 2u);
+  EXPECT_EQ(summary(a, Quantity::ReactionForce)->compared, 4u);
+  EXPECT_EQ(summary(a, Quantity::ReactionMoment)->compared, 1u);  // empty cells are not compared
+  EXPECT_GT(std::abs(nodes[0].reaction_moment), 1.0);
+
+  // Numbered from 0: every label one behind.
+  std::string zero = "support,force\n";
+  for (std::size_t k = 0; k < 4; ++k) zero += std::to_string(k) + "," + format_number(nodes[k].reaction_force) + "\n";
+  Comparison b = run(zero);
+  ASSERT_TRUE(b.ok()) << ::testing::PrintToString(messages(b));
+  EXPECT_FALSE(b.holds());
+  const Summary* r = summary(b, Quantity::ReactionForce);
+  ASSERT_TRUE(r->finding);
+  EXPECT_EQ(r->finding->mistakes, std::vector<Mistake>{Mistake::SupportShift});
+  EXPECT_EQ(r->finding->shift, 1);
+  EXPECT_EQ(r->finding->text,
+            "the reactions match to within 0.001% of the largest reaction if each support is taken as the next node "
+            "(labels one behind, as when nodes are counted from 0)");
+  EXPECT_EQ(b.rows[0].cells[0].reason, "no node 0 in the beam");
+
+  // Letters one ahead (B..D carry A..C): shift -1 on the rows given.
+  std::string ahead = "support,force\n";
+  for (std::size_t k = 0; k < 3; ++k) ahead += std::string(labels[k + 1]) + "," + format_number(nodes[k].reaction_force) + "\n";
+  Comparison c = run(ahead);
+  ASSERT_TRUE(c.ok());
+  const Summary* rc = summary(c, Quantity::ReactionForce);
+  ASSERT_TRUE(rc->finding);
+  EXPECT_EQ(rc->finding->shift, -1);
+
+  // Down-positive reactions.
+  std::string down = "support,force\n";
+  for (std::size_t k = 0; k < 4; ++k) down += std::string(labels[k]) + "," + format_number(-nodes[k].reaction_force) + "\n";
+  Comparison d = run(down);
+  const Summary* rd = summary(d, Quantity::ReactionForce);
+  ASSERT_TRUE(rd->finding);
+  EXPECT_EQ(rd->finding->text, "the reactions match to within 0.001% of the largest reaction if read as down-positive");
+  Options o;
+  o.reaction_sign = ReactionSign::DownPositive;
+  EXPECT_TRUE(run(down, o).holds());
+}
+
+// ---------------------------------------------------------------------------
+// Errors, each with its line and column.
+
+TEST_F(Against, Errors) {
+  EXPECT_EQ(only_error("x,moment\n1,1.2.3\n"), "r.csv: line 2, column 2 (moment): not a number (got \"1.2.3\")");
+  EXPECT_EQ(only_error("x,moment\n1,abc\n"), "r.csv: line 2, column 2 (moment): not a number (got \"abc\")");
+  EXPECT_EQ(only_error("x,moment\n1,nan\n"), "r.csv: line 2, column 2 (moment): not a number (got \"nan\")");
+  EXPECT_EQ(only_error("x,moment\n1,1\n18,2\n"),
+            "r.csv: line 3, column 1 (x): x = 18 m is outside the beam (0 to 15.5 m)");
+  EXPECT_EQ(only_error("x,moment\n-0.5,2\n"), "r.csv: line 2, column 1 (x): x = -0.5 m is outside the beam (0 to 15.5 m)");
+  EXPECT_EQ(only_error("x,moment\n,2\n"), "r.csv: line 2, column 1 (x): the cell is empty");
+  EXPECT_EQ(only_error("span,x_local,moment\n4,1,2\n"),
+            "r.csv: line 2, column 1 (span): span 4 does not exist (the beam has 3 spans)");
+  EXPECT_EQ(only_error("span,x_local,moment\n1.5,1,2\n"),
+            "r.csv: line 2, column 1 (span): a span number is a whole number from 1 to 3 (got 1.5)");
+  EXPECT_EQ(only_error("span,x_local,moment\n2,7,2\n"),
+            "r.csv: line 2, column 2 (x_local): x_local = 7 m is outside span 2 (0 to 6.5 m)");
+  EXPECT_EQ(only_error("span,moment\n2,2\n"),
+            "r.csv: line 1, column 1 (span): a \"span\" column needs an \"x_local\" column beside it");
+  EXPECT_EQ(only_error("x,rotation\n2,2\n"),
+            "r.csv: line 1: no column to compare: a station file needs at least one of \"shear\", \"moment\" or "
+            "\"deflection\"");
+  EXPECT_EQ(only_error("pos,moment\n2,2\n"),
+            "r.csv: line 1: cannot tell what the file holds: the header has no \"x\" or \"span\" column (stations) "
+            "and no \"support\" column (reactions)");
+  EXPECT_EQ(only_error("x;moment\n2;2\n"),
+            "r.csv: line 1: cannot tell what the file holds: the header has no \"x\" or \"span\" column (stations) "
+            "and no \"support\" column (reactions); the header is one field: is the file separated by ';' or tabs? "
+            "trivet reads commas");
+  EXPECT_EQ(only_error("support,force\nQ,2\n"),
+            "r.csv: line 2, column 1 (support): no node \"Q\" in the beam (nodes A to D, or numbers 1 to 4)");
+  EXPECT_EQ(only_error("support,force\n9,2\n"),
+            "r.csv: line 2, column 1 (support): no node 9 in the beam (nodes 1 to 4, A to D)");
+  EXPECT_EQ(only_error("x,moment,X\n1,2,3\n"), "r.csv: line 1, column 3 (X): the column name appears twice (columns 1 and 3)");
+  EXPECT_EQ(only_error("x,moment\n"), "r.csv: line 1: the file has a header but no rows");
+  EXPECT_EQ(only_error("\n# header next\nx,moment\n1,2,3\n"), "r.csv: line 4: has 3 fields, the header has 2");
+  Options o;
+  o.columns["moment"] = "Mz";
+  EXPECT_EQ(only_error("x,M\n1,2\n", o), "r.csv: line 1: no column \"Mz\" (given for moment); the header has x, M");
+  Options c;
+  c.load_case = "wind";
+  EXPECT_EQ(only_error("x,moment\n1,2\n", c), "r.csv: the beam has no load case \"wind\" (it has loads)");
+}
+
+TEST_F(Against, CompareFileReadsFromDisk) {
+  const auto path = std::filesystem::temp_directory_path() / "trivet_against_ok.csv";
+  {
+    std::ofstream f(path, std::ios::binary);
+    f << csv(truth(), "\r\n");
+  }
+  Comparison c = compare_file(*file_, *result_, path.string(), {}, "ok.csv");
+  std::filesystem::remove(path);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_EQ(c.file, "ok.csv");
+  EXPECT_TRUE(c.holds());
+}
+
+TEST(AgainstInvalid, InvalidBeamIsAnError) {
+  input::BeamFile bad = input::parse_beam_text("{\"spans\": []}", "bad.json");
+  ASSERT_FALSE(bad.ok());
+  BeamResult r = check(bad, compare::Options{});
+  Comparison c = compare_text(bad, r, "x,moment\n1,2\n", "r.csv");
+  ASSERT_EQ(c.errors.size(), 1u);
+  EXPECT_EQ(c.errors[0].format("r.csv"), "r.csv: the beam file is not valid, so there is nothing to compare with");
+}
+
+}  // namespace
+}  // namespace trivet::compare::against
