@@ -12,6 +12,7 @@
 #include <cmath>
 #include <random>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "methods/beam/stability.h"
@@ -470,6 +471,22 @@ TEST(Springs, CentralSpringUnderUdl) {
   expect_node_consistency(bm, s);
 }
 
+// Settlement of a spring's base under a statically determinate beam
+// (pinned - spring), no load: the beam turns as a rigid body, the spring
+// stays unstrained (law of statics: no load, no reaction).
+TEST(Springs, SettlementOfASpringBaseUnderADeterminateBeam) {
+  const double L = 4.0, s0 = 0.02;
+  Beam bm = make({T::Pinned, T::Spring}, {L});
+  bm.supports[1].k = 250.0;
+  bm.supports[1].settlement = s0;
+  const Solution s = run(bm);
+  EXPECT_NEAR(s.nodes[1].reaction_force, 0.0, 1e-12);
+  EXPECT_NEAR(s.nodes[1].deflection, s0, 1e-15);
+  EXPECT_NEAR(s.at(0, L / 4, false).deflection, s0 / 4, 1e-15);
+  EXPECT_NEAR(s.at(0, L / 4, false).rotation, s0 / L, 1e-15);
+  EXPECT_NEAR(s.at(0, L / 2, false).moment, 0.0, 1e-12);
+}
+
 // Fixed at A, guided at B (no rotation, free to translate), tip load P:
 // tip deflection PL^3/12EI, end moments PL/2 (Roark, as above, from memory).
 TEST(Springs, FixedGuidedTipLoad) {
@@ -678,6 +695,33 @@ TEST(RandomBeams, MaxwellBettiReciprocity) {
     ++compared;
   }
   EXPECT_EQ(compared, 300);
+}
+
+// `at` is pure: calls from several threads give the serial answers.
+TEST(RandomBeams, AtIsThreadSafe) {
+  RandomBeams gen;
+  Beam b = gen.beam();
+  while (b.spans.size() < 3) b = gen.beam();
+  gen.load(b);
+  const Solution s = sd::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  std::vector<std::pair<std::size_t, double>> pts;
+  for (int k = 0; k < 2000; ++k) pts.push_back(gen.point(b));
+  std::vector<PointValues> serial;
+  for (const auto& p : pts) serial.push_back(s.at(p.first, p.second, false));
+  std::vector<PointValues> out1(pts.size()), out2(pts.size());
+  auto work = [&](std::vector<PointValues>& out) {
+    for (int rep = 0; rep < 20; ++rep)
+      for (std::size_t k = 0; k < pts.size(); ++k) out[k] = s.at(pts[k].first, pts[k].second, false);
+  };
+  std::thread t1(work, std::ref(out1)), t2(work, std::ref(out2));
+  t1.join();
+  t2.join();
+  for (std::size_t k = 0; k < pts.size(); ++k) {
+    // Same code, same inputs: the results are the same to the last bit.
+    EXPECT_NEAR(out1[k].moment, serial[k].moment, 0.0);
+    EXPECT_NEAR(out2[k].deflection, serial[k].deflection, 0.0);
+  }
 }
 
 // ---------------------------------------------------------------------------
