@@ -1,0 +1,288 @@
+#include "references/selfcheck.h"
+
+#include <algorithm>
+#include <cmath>
+
+namespace trivet::references {
+
+std::size_t CaseResult::values_failed() const {
+  std::size_t n = 0;
+  for (const auto& v : values) n += !v.holds;
+  return n;
+}
+
+std::size_t SelfcheckResult::cases_failed() const {
+  std::size_t n = 0;
+  for (const auto& c : cases) n += !c.holds;
+  return n;
+}
+
+std::size_t SelfcheckResult::values_checked() const {
+  std::size_t n = 0;
+  for (const auto& c : cases) n += c.values.size();
+  return n;
+}
+
+std::size_t SelfcheckResult::values_failed() const {
+  std::size_t n = 0;
+  for (const auto& c : cases) n += c.values_failed();
+  return n;
+}
+
+namespace {
+
+// Bisection for a sign change of g on (a, b), g(a) and g(b) of opposite signs.
+template <class G>
+double bisect(G&& g, double a, double b, double ga) {
+  for (int it = 0; it < 200 && b - a > 1e-15 * (std::abs(a) + std::abs(b) + 1e-300); ++it) {
+    const double m = 0.5 * (a + b);
+    if (!(m > a && m < b)) break;
+    const double gm = g(m);
+    if (!(std::abs(gm) > 0)) return m;
+    if ((gm > 0) == (ga > 0)) { a = m; ga = gm; }
+    else b = m;
+  }
+  return 0.5 * (a + b);
+}
+
+bool opposite(double a, double b) { return (a > 0 && b < 0) || (a < 0 && b > 0); }
+
+}  // namespace
+
+MethodExtremes span_extremes(const Solution& solution, const compare::LoadSet& set, std::size_t span) {
+  MethodExtremes e;
+  const double L = set.beam.spans[span].length;
+  // The grid: equal divisions plus every station of this span (which holds
+  // the positions of the loads: their ends, point forces and couples).
+  const int n = 240;
+  std::vector<double> pts;
+  for (int k = 0; k <= n; ++k) pts.push_back(k == n ? L : L * k / n);
+  for (const auto& st : set.stations)
+    if (st.span == span) pts.push_back(st.local);
+  std::sort(pts.begin(), pts.end());
+  std::vector<double> grid;
+  for (double p : pts)
+    if (grid.empty() || p - grid.back() > 1e-12 * L) grid.push_back(p);
+    else if (std::abs(p - L) <= 1e-12 * L) grid.back() = L;
+  bool first = true;
+  auto consider = [&](double local, const PointValues& v) {
+    if (first || v.moment > e.max_moment) { e.max_moment = v.moment; e.max_moment_at = local; }
+    if (first || v.moment < e.min_moment) { e.min_moment = v.moment; e.min_moment_at = local; }
+    if (first || std::abs(v.deflection) > std::abs(e.max_deflection)) {
+      e.max_deflection = v.deflection;
+      e.max_deflection_at = local;
+    }
+    first = false;
+  };
+  for (std::size_t k = 0; k < grid.size(); ++k) {
+    consider(grid[k], solution.at(span, grid[k], false));
+    consider(grid[k], solution.at(span, grid[k], true));
+  }
+  for (std::size_t k = 0; k + 1 < grid.size(); ++k) {
+    const double a = grid[k], b = grid[k + 1];
+    const PointValues pa = solution.at(span, a, true);   // just right of a
+    const PointValues pb = solution.at(span, b, false);  // just left of b
+    if (opposite(pa.shear, pb.shear)) {
+      const double t = bisect([&](double s) { return solution.at(span, s, false).shear; }, a, b, pa.shear);
+      consider(t, solution.at(span, t, false));
+    }
+    if (opposite(pa.rotation, pb.rotation)) {
+      const double t = bisect([&](double s) { return solution.at(span, s, false).rotation; }, a, b, pa.rotation);
+      consider(t, solution.at(span, t, false));
+    }
+  }
+  return e;
+}
+
+namespace {
+
+std::optional<std::size_t> node_at(const Beam& beam, double x) {
+  double x0 = 0, total = 0;
+  for (const auto& s : beam.spans) total += s.length;
+  const double eps = 1e-12 * std::max(total, 1e-300);
+  for (std::size_t i = 0; i <= beam.spans.size(); ++i) {
+    if (std::abs(x - x0) <= eps) return i;
+    if (i < beam.spans.size()) x0 += beam.spans[i].length;
+  }
+  return std::nullopt;
+}
+
+std::pair<std::size_t, double> locate(const Beam& beam, double x) {
+  double x0 = 0;
+  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
+    const double L = beam.spans[s].length;
+    if (x <= x0 + L || s + 1 == beam.spans.size()) return {s, std::min(std::max(x - x0, 0.0), L)};
+    x0 += L;
+  }
+  return {0, 0.0};
+}
+
+// The value of `ex` on one method's result; nothing and a reason when the
+// point is ambiguous (a jump without a side).
+std::optional<double> value_on(const Expected& ex, const compare::MethodResult& m,
+                               const compare::LoadSet& set, std::string* reason) {
+  const Beam& beam = set.beam;
+  const Solution& sol = m.solution;
+  if (ex.span) {
+    const MethodExtremes e = span_extremes(sol, set, *ex.span);
+    switch (ex.quantity) {
+      case Quantity::MaxMoment: return e.max_moment;
+      case Quantity::MinMoment: return e.min_moment;
+      case Quantity::MaxDeflection: return e.max_deflection;
+      case Quantity::MaxMomentAt: return e.max_moment_at;
+      case Quantity::MinMomentAt: return e.min_moment_at;
+      case Quantity::MaxDeflectionAt: return e.max_deflection_at;
+      default: break;
+    }
+    *reason = "not a span quantity";
+    return std::nullopt;
+  }
+  std::optional<std::size_t> node = ex.node;
+  if (!node && ex.x) node = node_at(beam, *ex.x);
+  std::optional<double> left, right;
+  auto pick = [](const PointValues& p, Quantity q) {
+    switch (q) {
+      case Quantity::Moment: return p.moment;
+      case Quantity::Shear: return p.shear;
+      case Quantity::Deflection: return p.deflection;
+      default: return p.rotation;
+    }
+  };
+  if (node) {
+    const std::size_t j = *node;
+    const NodeResult& nr = m.nodes[j];
+    switch (ex.quantity) {
+      case Quantity::Reaction: return nr.reaction_force;
+      case Quantity::ReactionMoment: return nr.reaction_moment;
+      case Quantity::Deflection: return nr.deflection;
+      case Quantity::Moment: left = nr.moment_left; right = nr.moment_right; break;
+      case Quantity::Rotation:
+        if (j > 0) left = nr.rotation_left;
+        if (j < beam.spans.size()) right = nr.rotation_right;
+        break;
+      case Quantity::Shear:
+        if (j > 0) left = sol.at(j - 1, beam.spans[j - 1].length, false).shear;
+        if (j < beam.spans.size()) right = sol.at(j, 0.0, false).shear;
+        break;
+      default: *reason = "not a point quantity"; return std::nullopt;
+    }
+  } else {
+    auto [s, local] = locate(beam, *ex.x);
+    left = pick(sol.at(s, local, false), ex.quantity);
+    right = pick(sol.at(s, local, true), ex.quantity);
+  }
+  if (ex.side == input::Side::Left) {
+    if (!left) { *reason = "there is no beam to the left of this point"; return std::nullopt; }
+    return left;
+  }
+  if (ex.side == input::Side::Right) {
+    if (!right) { *reason = "there is no beam to the right of this point"; return std::nullopt; }
+    return right;
+  }
+  if (left && right && std::abs(*left - *right) > ex.tolerance) {
+    *reason = std::string("the ") + quantity_name(ex.quantity) + " jumps here (" + input::format_number(*left) +
+              " just left, " + input::format_number(*right) + " just right): the case must give \"side\"";
+    return std::nullopt;
+  }
+  return left ? left : right;
+}
+
+}  // namespace
+
+CaseResult run_case(const ReferenceCase& ref, const compare::Options& options) {
+  CaseResult r;
+  r.file = ref.file;
+  r.id = ref.id;
+  r.title = ref.title;
+  r.source = ref.source;
+  r.citation = format_citation(ref.source);
+  r.errors = ref.errors;
+  if (!ref.ok()) return r;
+
+  const compare::BeamResult br = compare::check(ref.beam, options);
+  if (br.status == compare::BeamStatus::Invalid || br.sets.empty()) {
+    r.errors = br.errors;
+    if (r.errors.empty()) r.errors.push_back({"/beam", "", "the beam could not be checked"});
+    return r;
+  }
+  // The verdict: the worst over the load sets.
+  r.verdict = compare::Verdict::Agree;
+  for (const auto& s : br.sets) {
+    if (s.verdict == compare::Verdict::Disagree ||
+        (s.verdict == compare::Verdict::Unconfirmed && r.verdict == compare::Verdict::Agree)) {
+      r.verdict = s.verdict;
+      r.verdict_problem = s.problem;
+    }
+  }
+  for (const auto& m : br.sets.front().methods) {
+    if (m.status == MethodStatus::Ok) r.methods_ok.push_back(m.name);
+    else if (m.status == MethodStatus::NotApplicable) r.methods_skipped.emplace_back(m.name, m.reason);
+    else r.methods_failed.emplace_back(m.name, m.reason);
+  }
+
+  bool all_hold = true;
+  for (const auto& ex : ref.expected) {
+    ValueResult v;
+    v.pointer = ex.pointer;
+    v.quantity = quantity_name(ex.quantity);
+    v.where = ex.where(ref.beam);
+    v.published = ex.published;
+    v.multiplier = ex.multiplier;
+    v.published_number = ex.number.value;
+    v.multiplier_value = ex.multiplier_value;
+    v.expected = ex.value;
+    v.tolerance = ex.tolerance;
+    v.tolerance_rule = ex.number.rule;
+    v.form = form_name(ex.number.form);
+    v.note = ex.note;
+    const compare::LoadSet* set = &br.sets.front();
+    for (const auto& s : br.sets)
+      if (!ex.load_case.empty() && s.name == ex.load_case) set = &s;
+    v.load_case = set->name;
+    bool any = false, holds = true;
+    for (const auto& m : set->methods) {
+      MethodValue mv;
+      mv.method = m.name;
+      mv.status = m.status;
+      if (m.status == MethodStatus::NotApplicable) {
+        mv.holds = true;
+        mv.reason = "not applicable: " + m.reason;
+      } else if (m.status == MethodStatus::Failed) {
+        mv.holds = false;
+        mv.reason = "failed: " + m.reason;
+        holds = false;
+      } else {
+        std::string reason;
+        if (auto c = value_on(ex, m, *set, &reason)) {
+          mv.evaluated = true;
+          mv.computed = *c;
+          mv.difference = *c - ex.value;
+          // The tolerance is a closed bound; allow for the rounding of the
+          // tolerance itself and of the multiplier.
+          mv.holds = std::abs(mv.difference) <= ex.tolerance * (1 + 1e-12) + 1e-14 * std::abs(ex.multiplier_value);
+          any = true;
+        } else {
+          mv.reason = reason;
+          mv.holds = false;
+        }
+        holds = holds && mv.holds;
+      }
+      v.methods.push_back(mv);
+    }
+    v.holds = holds && any;
+    all_hold = all_hold && v.holds;
+    r.values.push_back(std::move(v));
+  }
+  r.holds = all_hold && !r.values.empty() && r.methods_failed.empty() && !r.methods_ok.empty() &&
+            r.verdict == compare::Verdict::Agree;
+  return r;
+}
+
+SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& options) {
+  SelfcheckResult out;
+  out.directory = dir;
+  for (const auto& c : load_cases(dir)) out.cases.push_back(run_case(c, options));
+  return out;
+}
+
+}  // namespace trivet::references
