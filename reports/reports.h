@@ -23,6 +23,11 @@ struct RunInfo {
 // The full report (CONTRACT section 4) as JSON.
 void write_json(std::ostream& out, const std::vector<compare::BeamResult>& beams, const RunInfo& run);
 
+// JUnit XML: a testsuite per beam file, a testcase per load set and check
+// (method agreement, each method's equilibrium, each claim).
+// `equilibrium_bound`: the largest relative residual that passes.
+void write_junit(std::ostream& out, const std::vector<compare::BeamResult>& beams, double equilibrium_bound);
+
 struct ConsoleOptions {
   bool color = false;
   bool all_rows = false;     // every node and span, however many

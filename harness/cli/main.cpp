@@ -3,7 +3,10 @@
 //   0 every method agrees and every claim holds; 1 a disagreement, a failed
 //   claim or an unconfirmed beam; 2 a file or the command line is invalid;
 //   3 an internal failure.
+#include <algorithm>
 #include <atomic>
+#include <cstdint>
+#include <fstream>
 #include <cstdio>
 #include <cstdlib>
 #include <iostream>
@@ -14,6 +17,7 @@
 #include <unistd.h>
 
 #include <CLI/CLI.hpp>
+#include <nlohmann/json.hpp>
 
 #include "harness/cli/files.h"
 #include "harness/compare/compare.h"
@@ -57,6 +61,17 @@ const char* kExample = R"({
 }
 )";
 
+// The shard (0-based) a file belongs to: a hash of its path (FNV-1a), so
+// that adding a file does not move the others between shards.
+unsigned shard_of(const std::string& path, unsigned n) {
+  std::uint64_t h = 1469598103934665603ull;
+  for (unsigned char c : path) {
+    h ^= c;
+    h *= 1099511628211ull;
+  }
+  return static_cast<unsigned>(h % n);
+}
+
 bool use_color(int fd) {
   return isatty(fd) && std::getenv("NO_COLOR") == nullptr;
 }
@@ -74,7 +89,7 @@ std::vector<std::string> split_list(const std::string& s) {
 
 struct CheckArgs {
   std::vector<std::string> paths;
-  std::string json, methods;
+  std::string json, junit, methods, shard;
   double agreement = 1e-6;
   int stations_per_span = 0;
   unsigned jobs = 0;
@@ -99,7 +114,20 @@ int run_check(const CheckArgs& a) {
     }
   }
   std::vector<std::pair<std::string, std::string>> problems;
-  const std::vector<std::string> files = collect_beam_files(a.paths, &problems);
+  std::vector<std::string> files = collect_beam_files(a.paths, &problems);
+  if (!a.shard.empty()) {
+    unsigned k = 0, n = 0;
+    char slash = 0;
+    std::istringstream in(a.shard);
+    if (!(in >> k >> slash >> n) || slash != '/' || n == 0 || k < 1 || k > n || !in.eof()) {
+      std::cerr << "trivet: --shard: expected K/N with 1 <= K <= N, e.g. 2/8 (got '" << a.shard << "')\n";
+      return kExitInvalid;
+    }
+    std::vector<std::string> mine;
+    for (const auto& f : files)
+      if (shard_of(f, n) == k - 1) mine.push_back(f);
+    files.swap(mine);
+  }
 
   std::vector<compare::BeamResult> results(files.size());
   std::atomic<std::size_t> next{0}, done{0};
@@ -164,7 +192,14 @@ int run_check(const CheckArgs& a) {
       code = kExitInvalid;
     }
   }
-  if (files.empty() && problems.empty()) {
+  if (!a.junit.empty()) {
+    const std::string err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_junit(o, results, opt.agreement); });
+    if (!err.empty()) {
+      std::cerr << "trivet: --junit: " << err << "\n";
+      code = kExitInvalid;
+    }
+  }
+  if (files.empty() && problems.empty() && a.shard.empty()) {
     std::cerr << "trivet: no beam files found\n";
     return kExitInvalid;
   }
@@ -174,6 +209,51 @@ int run_check(const CheckArgs& a) {
   if (s.invalid > 0) verdict = kExitInvalid;
   if (internal_error) verdict = kExitInternal;
   return std::max(code, verdict);
+}
+
+// Joins the JSON reports of several shards: beams in order of file name,
+// the summary recounted. Exit code as for check.
+int run_merge(const std::vector<std::string>& inputs, const std::string& out_path) {
+  nlohmann::ordered_json merged;
+  std::vector<nlohmann::ordered_json> beams;
+  for (const auto& path : inputs) {
+    std::ifstream in(path);
+    nlohmann::ordered_json j;
+    try {
+      if (!in) throw std::runtime_error("cannot open the file");
+      j = nlohmann::ordered_json::parse(in);
+      if (!j.is_object() || !j.contains("beams") || !j["beams"].is_array()) throw std::runtime_error("not a trivet report (no \"beams\" list)");
+    } catch (const std::exception& e) {
+      std::cerr << "trivet merge: " << path << ": " << e.what() << "\n";
+      return kExitInvalid;
+    }
+    if (merged.empty()) merged = j;
+    for (auto& b : j["beams"]) beams.push_back(b);
+  }
+  std::stable_sort(beams.begin(), beams.end(), [](const auto& x, const auto& y) {
+    return x.value("file", std::string()) < y.value("file", std::string());
+  });
+  std::size_t agree = 0, disagree = 0, unconfirmed = 0, invalid = 0, claims_failed = 0;
+  for (const auto& b : beams) {
+    const std::string s = b.value("status", std::string());
+    agree += s == "agree"; disagree += s == "disagree"; unconfirmed += s == "unconfirmed"; invalid += s == "invalid";
+    if (b.contains("claims"))
+      for (const auto& c : b["claims"]) claims_failed += !c.value("holds", false);
+  }
+  merged["summary"] = {{"beams", beams.size()}, {"agree", agree}, {"disagree", disagree},
+                       {"unconfirmed", unconfirmed}, {"invalid", invalid}, {"claims_failed", claims_failed}};
+  merged["beams"] = beams;
+  const std::string err = write_report_file(out_path, [&](std::ostream& o) { o << merged.dump(1) << "\n"; });
+  if (!err.empty()) {
+    std::cerr << "trivet merge: " << err << "\n";
+    return kExitInvalid;
+  }
+  std::cerr << "merged " << inputs.size() << " reports: " << beams.size() << " beams: " << agree << " agree, "
+            << disagree << " disagree, " << unconfirmed << " unconfirmed, " << invalid << " invalid; "
+            << claims_failed << " claims fail\n";
+  if (invalid) return kExitInvalid;
+  if (disagree || unconfirmed) return kExitDisagree;
+  return kExitAgree;
 }
 
 }  // namespace
@@ -198,6 +278,14 @@ int main(int argc, char** argv) {
       ->check(CLI::Range(1, 1000));
   check->add_option("--jobs", ca.jobs, "Beams checked in parallel (default: the number of cores)")->check(CLI::Range(1u, 1024u));
   check->add_flag("--all-rows", ca.all_rows, "Print every node and span, however long the beam");
+  check->add_option("--junit", ca.junit, "Write a JUnit XML report to FILE (a test suite per beam file)");
+  check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
+
+  std::vector<std::string> merge_inputs;
+  std::string merge_json = "-", merge_junit;
+  CLI::App* merge = app.add_subcommand("merge", "Merge the JSON reports of several shards into one report");
+  merge->add_option("reports", merge_inputs, "JSON reports written by check --json")->required();
+  merge->add_option("--json", merge_json, "Write the merged report to FILE ('-' for standard output, the default)");
 
   CLI::App* example = app.add_subcommand("example", "Print a starter beam file");
 
@@ -213,6 +301,7 @@ int main(int argc, char** argv) {
   }
   try {
     if (*check) return run_check(ca);
+    if (*merge) return run_merge(merge_inputs, merge_json);
     if (*example) {
       std::cout << kExample;
       return kExitAgree;

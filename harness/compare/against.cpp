@@ -283,7 +283,7 @@ const std::vector<std::string>& option_names() {
 
 namespace {
 
-const std::vector<std::string> kColumnKeys = {"x", "span", "x_local", "shear", "moment", "deflection", "support", "force"};
+const std::vector<std::string> kColumnKeys = {"x", "span", "x_local", "shear", "moment", "deflection", "support", "force", "reaction_moment"};
 
 std::vector<std::string> split(const std::string& s, char sep) {
   std::vector<std::string> out;
@@ -318,7 +318,7 @@ std::string set_option(Options& o, const std::string& name, const std::string& v
       if (std::find(kColumnKeys.begin(), kColumnKeys.end(), ours) == kColumnKeys.end()) {
         std::string reason = "no column of ours is called \"" + ours + "\"";
         if (auto m = input::did_you_mean(ours, kColumnKeys)) reason += " (did you mean \"" + *m + "\"?)";
-        return reason + "; ours are x, span, x_local, shear, moment, deflection, support, force";
+        return reason + "; ours are x, span, x_local, shear, moment, deflection, support, force, reaction_moment";
       }
       if (theirs.empty()) return "the column mapping for " + ours + " names no column";
       o.columns[ours] = theirs;
@@ -463,7 +463,10 @@ std::optional<double> number(const std::string& cell) {
       return std::nullopt;
   const char* b = s.data();
   const char* e = s.data() + s.size();
-  if (*b == '+') ++b;
+  if (*b == '+') {
+    ++b;
+    if (b == e || *b == '-' || *b == '+') return std::nullopt;
+  }
   double v = 0;
   auto [p, ec] = std::from_chars(b, e, v);
   if (ec != std::errc() || p != e || !std::isfinite(v)) return std::nullopt;
@@ -651,8 +654,8 @@ struct Columns {
   std::map<std::string, std::size_t> by_name;  // lower-case header name -> index
   const Options* options = nullptr;
   // kNone when absent. `mapped_missing` is set when the user named it and it is not there.
-  std::size_t find(const std::string& key, bool* mapped_missing = nullptr) const {
-    auto m = options->columns.find(key);
+  std::size_t find(const std::string& key, bool* mapped_missing = nullptr, bool unmapped = false) const {
+    auto m = unmapped ? options->columns.end() : options->columns.find(key);
     const std::string name = lower(m == options->columns.end() ? key : m->second);
     auto it = by_name.find(name);
     if (it == by_name.end()) {
@@ -692,9 +695,11 @@ std::string sign_words(Quantity q, const Options& o) {
   return "";
 }
 
-std::string geometry_words(int g) {
+std::string geometry_words(int g, bool stations) {
   switch (g) {
-    case 1: return "the beam is taken as read right to left (x -> L - x, shear sign reversed)";
+    case 1:
+      if (!stations) return "the nodes are taken as numbered from the right end";
+      return "the beam is taken as read right to left (x -> L - x, shear sign reversed)";
     case 2: return "x is taken as the position within each span (x_local, a new span where x falls back)";
     case 3: return "each support is taken as the next node (labels one behind, as when nodes are counted from 0)";
     case 4: return "each support is taken as the node before (labels one ahead)";
@@ -799,14 +804,6 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
                "the column name appears twice (columns " + std::to_string(it->second + 1) + " and " +
                    std::to_string(c + 1) + ")");
   }
-  for (const auto& [key, theirs] : options.columns) {
-    bool missing = false;
-    if (cols.find(key, &missing) == kNone && missing) {
-      std::string have;
-      for (const auto& h : table.header) have += (have.empty() ? "" : ", ") + h;
-      errs.add(hl, 0, "", "no column \"" + theirs + "\" (given for " + key + "); the header has " + have);
-    }
-  }
   if (!out.errors.empty()) return finish();
 
   const std::size_t c_support = cols.find("support"), c_x = cols.find("x"), c_span = cols.find("span"),
@@ -829,16 +826,34 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   out.kind = c_support != kNone ? TableKind::Reactions : TableKind::Stations;
   const bool stations = out.kind == TableKind::Stations;
 
+  // The value columns. In a reaction table the couple is "reaction_moment"
+  // when that is mapped, else a mapped "moment" that is there, else "moment".
   std::vector<std::pair<Quantity, std::string>> wanted;
-  if (stations) wanted = {{Quantity::Shear, "shear"}, {Quantity::Moment, "moment"}, {Quantity::Deflection, "deflection"}};
-  else wanted = {{Quantity::ReactionForce, "force"}, {Quantity::ReactionMoment, "moment"}};
+  if (stations) {
+    wanted = {{Quantity::Shear, "shear"}, {Quantity::Moment, "moment"}, {Quantity::Deflection, "deflection"}};
+  } else {
+    wanted = {{Quantity::ReactionForce, "force"},
+              {Quantity::ReactionMoment, options.columns.count("reaction_moment") ? "reaction_moment" : "moment"}};
+  }
   std::array<std::size_t, kQuantities> c_value;
   c_value.fill(kNone);
   bool any = false;
   for (const auto& [q, key] : wanted) {
-    c_value[qi(q)] = cols.find(key);
+    bool missing = false;
+    c_value[qi(q)] = cols.find(key, &missing);
+    if (!stations && q == Quantity::ReactionMoment && key == "moment" && missing) {
+      // A "moment" mapping for the station file: the reaction file keeps "moment".
+      c_value[qi(q)] = cols.find(key, nullptr, true);
+      missing = false;
+    }
+    if (missing) {
+      std::string have;
+      for (const auto& h : table.header) have += (have.empty() ? "" : ", ") + h;
+      errs.add(hl, 0, "", "no column \"" + options.columns.at(key) + "\" (given for " + key + "); the header has " + have);
+    }
     any = any || c_value[qi(q)] != kNone;
   }
+  if (!out.errors.empty()) return finish();
   if (!any) {
     std::string names;
     for (std::size_t k = 0; k < wanted.size(); ++k)
@@ -862,6 +877,9 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   std::vector<Row> rows;
   rows.reserve(table.rows.size());
   bool beyond = false;
+  double max_x = 0;
+  bool negative = false;
+  std::size_t first_outside = kNone;
   for (const auto& tr : table.rows) {
     Row r;
     r.line = tr.line;
@@ -884,9 +902,13 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
       if (global) {
         if (auto x = read_number(c_x, true)) {
           const double xs = *x * kl;
-          if (xs < -geo.eps || xs > geo.total + geo.eps)
+          max_x = std::max(max_x, *x);
+          negative = negative || xs < -geo.eps;
+          if (xs < -geo.eps || xs > geo.total + geo.eps) {
+            if (first_outside == kNone) first_outside = out.errors.size();
             cell_error(c_x, "x = " + input::format_number(*x) + " " + lu + " is outside the beam (0 to " +
                                 nice(geo.total / kl) + " " + lu + ")");
+          }
           r.pos.global = true;
           r.pos.x = std::min(std::max(xs, 0.0), geo.total);
           r.where = "x = " + input::format_number(*x) + " " + lu;
@@ -949,6 +971,17 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
       }
     }
     if (row_ok) rows.push_back(std::move(r));
+  }
+  // Positions past the end that would fit in another length unit.
+  if (first_outside != kNone && first_outside < out.errors.size() && !negative) {
+    for (const char* unit : {"mm", "cm", "m", "in", "ft"}) {
+      if (unit == lu) continue;
+      const double f = *input::length_unit(unit) / result.units.metres;
+      if (max_x * f <= geo.total + geo.eps && max_x * f >= 0.5 * geo.total) {
+        out.errors[first_outside].reason += "; the positions would fit the beam in " + std::string(unit);
+        break;
+      }
+    }
   }
   // Support numbers beyond the ends: kept (and failing) only when one shift
   // by one node brings every row into the beam, which the diagnosis tests.
@@ -1131,7 +1164,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
                                : best->geometry == 2 ? Mistake::LocalAsGlobal
                                                      : Mistake::SupportShift);
           if (best->geometry >= 3) f.shift = best->geometry == 3 ? 1 : -1;
-          words.push_back(geometry_words(best->geometry));
+          words.push_back(geometry_words(best->geometry, stations));
         }
         if (best->sign < 0) {
           f.mistakes.push_back(Mistake::OppositeSign);

@@ -92,8 +92,11 @@ enum class ReactionMomentSign { CounterClockwisePositive, ClockwisePositive };
 
 struct Options {
   // Our column name -> the file's ("moment" -> "Mz", "x" -> "Dist"). Keys:
-  // x, span, x_local, shear, moment, deflection, support, force. In a
-  // reaction table "moment" is the reaction couple.
+  // x, span, x_local, shear, moment, deflection, support, force,
+  // reaction_moment. In a reaction table the couple's column is
+  // "reaction_moment" when that is mapped, else "moment" (a "moment" mapping
+  // that names a column the reaction file lacks is then not used), so one
+  // set of options can serve a station file and a reaction file.
   std::map<std::string, std::string> columns;
   // The file's units (names of units.h); empty: the beam file's units.
   std::string force_unit;

@@ -337,7 +337,19 @@ void compare_methods(LoadSet& set, double agreement) {
 
   double worst_all = 0;
   for (double d : set.max_difference) worst_all = std::max(worst_all, d);
-  if (any_failed) {
+  // A method out of equilibrium is wrong whatever the others say.
+  std::string unbalanced;
+  for (auto* m : ok)
+    if (m->equilibrium.force_residual > agreement || m->equilibrium.moment_residual > agreement) {
+      unbalanced = m->name;
+      set.problem = m->name + " is out of equilibrium (vertical force residual " + fmt(m->equilibrium.force_residual) +
+                    ", moment residual " + fmt(m->equilibrium.moment_residual) + ")";
+      break;
+    }
+  if (!unbalanced.empty()) {
+    set.verdict = Verdict::Disagree;
+    set.odd_one_out = unbalanced;
+  } else if (any_failed) {
     set.verdict = Verdict::Disagree;
     for (const auto& m : set.methods)
       if (m.status == MethodStatus::Failed) { set.odd_one_out = m.name; break; }

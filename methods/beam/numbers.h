@@ -1,8 +1,17 @@
 // trivet: the number types the methods are instantiated on.
 #pragma once
 
+// GCC 12 warns falsely ("may be used uninitialized") inside Boost's
+// rational arithmetic; the warning is about Boost's code, not ours.
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#endif
 #include <boost/multiprecision/cpp_bin_float.hpp>
 #include <boost/multiprecision/cpp_int.hpp>
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic pop
+#endif
 
 namespace trivet {
 

@@ -1,0 +1,124 @@
+// JUnit XML for CI systems: testsuites / testsuite (one per beam file) /
+// testcase (one per load set and check), counts in attributes, failure
+// elements carrying the numbers.
+#include <cmath>
+#include <sstream>
+
+#include "reports/reports.h"
+
+namespace trivet::reports {
+
+using namespace trivet::compare;
+
+namespace {
+
+std::string xml(const std::string& s) {
+  std::string r;
+  r.reserve(s.size());
+  for (unsigned char c : s) {
+    switch (c) {
+      case '&': r += "&amp;"; break;
+      case '<': r += "&lt;"; break;
+      case '>': r += "&gt;"; break;
+      case '"': r += "&quot;"; break;
+      case '\'': r += "&apos;"; break;
+      default:
+        // XML 1.0 allows no control characters but tab, LF and CR.
+        if (c < 0x20 && c != '\t' && c != '\n' && c != '\r') r += '?';
+        else r += static_cast<char>(c);
+    }
+  }
+  return r;
+}
+
+std::string num(double v) { return input::format_number(v); }
+
+struct Case {
+  std::string name;
+  std::string failure;  // empty: passed
+  bool error = false;   // an invalid input rather than a failed check
+};
+
+std::vector<Case> cases_of(const BeamResult& b, double equilibrium_bound) {
+  std::vector<Case> out;
+  if (b.status == BeamStatus::Invalid) {
+    std::string msg;
+    for (const auto& e : b.errors) msg += e.format(b.file) + "\n";
+    out.push_back({"beam file is valid", msg, true});
+    return out;
+  }
+  for (const auto& set : b.sets) {
+    const std::string p = set.name + ": ";
+    Case agree{p + "methods agree", "", false};
+    if (set.verdict != Verdict::Agree) {
+      std::ostringstream m;
+      m << verdict_name(set.verdict) << ": " << set.problem;
+      if (set.worst) {
+        m << "\nvalues at " << set.worst->where << ":";
+        for (const auto& [name, v] : set.worst->values) m << " " << name << " = " << num(v);
+      }
+      agree.failure = m.str();
+    }
+    out.push_back(agree);
+    for (const auto& m : set.methods) {
+      if (m.status != MethodStatus::Ok) continue;
+      Case eq{p + "equilibrium (" + m.name + ")", "", false};
+      if (m.equilibrium.force_residual > equilibrium_bound || m.equilibrium.moment_residual > equilibrium_bound)
+        eq.failure = "vertical force residual " + num(m.equilibrium.force_residual) + ", moment residual " +
+                     num(m.equilibrium.moment_residual) + " (bound " + num(equilibrium_bound) + ")";
+      out.push_back(eq);
+    }
+  }
+  for (std::size_t i = 0; i < b.claims.size(); ++i) {
+    const ClaimResult& c = b.claims[i];
+    Case k{"claim " + std::to_string(i + 1) + ": " + input::quantity_name(c.claim.quantity) + " at " + c.label +
+               " (" + c.load_case + ")",
+           "", false};
+    if (!c.holds) {
+      k.failure = c.evaluated ? "claimed " + num(c.claim.value) + ", computed " + num(c.computed) + ", difference " +
+                                    num(c.difference) + ", tolerance " + num(c.tolerance)
+                              : "claimed " + num(c.claim.value) + ": " + c.reason;
+    }
+    out.push_back(k);
+  }
+  return out;
+}
+
+}  // namespace
+
+void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double equilibrium_bound) {
+  std::vector<std::vector<Case>> all;
+  std::size_t tests = 0, failures = 0, errors = 0;
+  for (const auto& b : beams) {
+    all.push_back(cases_of(b, equilibrium_bound));
+    for (const auto& c : all.back()) {
+      ++tests;
+      if (!c.failure.empty()) (c.error ? errors : failures)++;
+    }
+  }
+  out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
+  out << "<testsuites name=\"trivet\" tests=\"" << tests << "\" failures=\"" << failures << "\" errors=\"" << errors
+      << "\">\n";
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    const BeamResult& b = beams[i];
+    std::size_t f = 0, e = 0;
+    for (const auto& c : all[i])
+      if (!c.failure.empty()) (c.error ? e : f)++;
+    out << "  <testsuite name=\"" << xml(b.file) << "\" tests=\"" << all[i].size() << "\" failures=\"" << f
+        << "\" errors=\"" << e << "\" skipped=\"0\">\n";
+    for (const auto& c : all[i]) {
+      out << "    <testcase classname=\"" << xml(b.file) << "\" name=\"" << xml(c.name) << "\"";
+      if (c.failure.empty()) {
+        out << "/>\n";
+        continue;
+      }
+      const std::string first = c.failure.substr(0, c.failure.find('\n'));
+      out << ">\n      <" << (c.error ? "error" : "failure") << " message=\"" << xml(first) << "\">"
+          << xml(c.failure) << "</" << (c.error ? "error" : "failure") << ">\n    </testcase>\n";
+    }
+    out << "  </testsuite>\n";
+  }
+  out << "</testsuites>\n";
+}
+
+}  // namespace trivet::reports
