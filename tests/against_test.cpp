@@ -66,10 +66,13 @@ class Against : public ::testing::Test {
   static Comparison run(const std::string& text, const Options& o = {}) {
     return compare_text(*file_, *result_, text, "r.csv", o);
   }
+  // The summary of a quantity; a failure (and an empty summary) if there is none.
   static const Summary* summary(const Comparison& c, Quantity q) {
     for (const auto& s : c.summary)
       if (s.quantity == q) return &s;
-    return nullptr;
+    ADD_FAILURE() << "no summary for " << quantity_name(q);
+    static const Summary none;
+    return &none;
   }
   static bool names(const Finding& f, Mistake m) {
     return std::find(f.mistakes.begin(), f.mistakes.end(), m) != f.mistakes.end();
@@ -199,7 +202,7 @@ TEST(AgainstOptions, SetOption) {
   EXPECT_EQ(set_option(o, "force-unit", "Nm"), "the force unit must be N, kN, MN, lbf or kip (got \"Nm\")");
   EXPECT_EQ(set_option(o, "column", "momnet=Mz"),
             "no column of ours is called \"momnet\" (did you mean \"moment\"?); ours are x, span, x_local, shear, "
-            "moment, deflection, support, force");
+            "moment, deflection, support, force, reaction_moment");
   EXPECT_EQ(set_option(o, "column", "Mz"), "a column mapping is ours=theirs, e.g. moment=Mz (got \"Mz\")");
   EXPECT_EQ(set_option(o, "units", "N"), "units are given as force=UNIT,length=UNIT, e.g. force=N,length=mm (got \"N\")");
   EXPECT_EQ(set_option(o, "colour", "red"), "no option \"colour\"");
@@ -260,7 +263,6 @@ TEST_F(Against, MomentsSignFlippedIsFoundAsHogging) {
   ASSERT_TRUE(c.ok());
   EXPECT_FALSE(c.holds());
   const Summary* m = summary(c, Quantity::Moment);
-  ASSERT_NE(m, nullptr);
   EXPECT_GT(m->failing, 0u);
   ASSERT_TRUE(m->finding);
   EXPECT_EQ(m->finding->mistakes, std::vector<Mistake>{Mistake::OppositeSign});
@@ -301,6 +303,29 @@ TEST_F(Against, MomentsTimes1000IsAUnitsFactor) {
   EXPECT_EQ(m->finding->text,
             "the moments match to within 0.001% of the largest moment if divided by 1000 (between N and kN, or mm "
             "and m, or kN and MN)");
+}
+
+TEST_F(Against, SignAndUnitsTogetherAreOneFinding) {
+  auto rows = truth();
+  for (auto& r : rows) r.moment *= -1000;
+  Comparison c = run(csv(rows));
+  const Summary* m = summary(c, Quantity::Moment);
+  ASSERT_TRUE(m->finding);
+  EXPECT_EQ(m->finding->mistakes, (std::vector<Mistake>{Mistake::OppositeSign, Mistake::UnitsFactor}));
+  EXPECT_EQ(m->finding->text,
+            "the moments match to within 0.001% of the largest moment if read as hogging-positive and divided by "
+            "1000 (between N and kN, or mm and m, or kN and MN)");
+}
+
+TEST_F(Against, GarbageHasNoFinding) {
+  auto rows = truth();
+  for (std::size_t i = 0; i < rows.size(); ++i) rows[i].moment = (i % 2 ? 1.0 : -1.0) * 10.0 + 0.37 * static_cast<double>(i);
+  Comparison c = run(csv(rows));
+  const Summary* m = summary(c, Quantity::Moment);
+  EXPECT_GT(m->failing, 0u);
+  EXPECT_FALSE(m->finding);
+  EXPECT_EQ(m->note, "no usual mistake (opposite sign, a units factor, the beam read right to left, local x taken "
+                     "as global) makes every row hold");
 }
 
 TEST_F(Against, MomentsInKipFeetDeclaredAsKilonewtonMetres) {
@@ -378,8 +403,12 @@ TEST_F(Against, TheirUnitsNewtonsAndMillimetres) {
   const Cell& last = c.rows[5].cells[1];
   EXPECT_NEAR(last.theirs, truth()[5].moment, 1e-9 * std::abs(truth()[5].moment) + 1e-12);
   EXPECT_NEAR(last.raw, truth()[5].moment * 1e6, 1e-6 * std::abs(last.raw) + 1e-9);
-  // Read as kN and m, the same numbers fail everywhere (x is then outside the beam).
-  EXPECT_FALSE(run(text).ok());
+  // Read as kN and m, x is outside the beam, and the message says why.
+  Comparison m = run(text);
+  ASSERT_FALSE(m.ok());
+  EXPECT_EQ(m.errors[0].format("r.csv"),
+            "r.csv: line 3, column 1 (x): x = 500 m is outside the beam (0 to 15.5 m); the positions would fit the "
+            "beam in mm");
 }
 
 // ---------------------------------------------------------------------------
@@ -515,6 +544,37 @@ TEST_F(Against, ReactionsPassAndShiftedLabelsAreFound) {
   Options o;
   o.reaction_sign = ReactionSign::DownPositive;
   EXPECT_TRUE(run(down, o).holds());
+}
+
+TEST_F(Against, OneSetOfOptionsServesStationsAndReactions) {
+  Options o;
+  ASSERT_EQ(set_option(o, "column", "moment=Mz,x=Dist"), "");
+  const auto& nodes = set().consensus_nodes;
+  // The reaction file has "moment", not "Mz": the station mapping is not used there.
+  const std::string reactions = "support,force,moment\nA," + format_number(nodes[0].reaction_force) + "," +
+                                format_number(nodes[0].reaction_moment) + "\n";
+  Comparison r = run(reactions, o);
+  ASSERT_TRUE(r.ok()) << ::testing::PrintToString(messages(r));
+  EXPECT_TRUE(r.holds());
+  EXPECT_EQ(summary(r, Quantity::ReactionMoment)->compared, 1u);
+  // Its own mapping, and a wrong couple there fails.
+  ASSERT_EQ(set_option(o, "column", "reaction_moment=Mr"), "");
+  Comparison w = run("support,Mr\nA," + format_number(nodes[0].reaction_moment + 5.0) + "\n", o);
+  ASSERT_TRUE(w.ok()) << ::testing::PrintToString(messages(w));
+  EXPECT_EQ(w.failing(), 1u);
+  // The station file uses Dist and Mz.
+  std::string text = "Dist,Mz\n";
+  for (const auto& row : truth()) text += format_number(row.x) + "," + format_number(row.moment) + "\n";
+  EXPECT_TRUE(run(text, o).holds());
+}
+
+TEST_F(Against, NumbersAreStrict) {
+  EXPECT_EQ(only_error("x,moment\n1,+-2\n"), "r.csv: line 2, column 2 (moment): not a number (got \"+-2\")");
+  EXPECT_EQ(only_error("x,moment\n1,0x10\n"), "r.csv: line 2, column 2 (moment): not a number (got \"0x10\")");
+  EXPECT_EQ(only_error("x,moment\n1,\"1,5\"\n"), "r.csv: line 2, column 2 (moment): not a number (got \"1,5\")");
+  Comparison c = run("x,moment\n+1.5e0," + format_number(set().consensus_stations[3].moment) + "\n");
+  ASSERT_TRUE(c.ok());
+  EXPECT_TRUE(c.holds());
 }
 
 // ---------------------------------------------------------------------------
