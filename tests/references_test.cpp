@@ -238,6 +238,19 @@ TEST(Library, EveryCaseLoads) {
   }
 }
 
+TEST(Library, ToleranceOfAPrintedTableValue) {
+  // Hicks, 4 equal spans: M_B printed "-0.1071" against w L^2 (w = 10, L = 6).
+  const ReferenceCase c = read_case_file(default_directory() + "/hicks-continuous-4-spans-udl.json");
+  ASSERT_TRUE(c.ok()) << errors_of(c);
+  const Expected& mb = c.expected.at(0);
+  EXPECT_EQ(mb.published, "-0.1071");
+  EXPECT_EQ(mb.multiplier, "w*L^2");
+  EXPECT_NEAR(mb.multiplier_value, 360.0, 1e-12);
+  EXPECT_NEAR(mb.value, -0.1071 * 360.0, 1e-12);
+  EXPECT_NEAR(mb.tolerance, 5e-5 * 360.0, 1e-12);
+  EXPECT_EQ(mb.number.rule, "half a unit in the 4th decimal place");
+}
+
 TEST(Library, EveryCaseHoldsOnEveryMethod) {
   const SelfcheckResult r = run_selfcheck(default_directory());
   ASSERT_GE(r.cases.size(), 32u);
