@@ -3,6 +3,7 @@
 #include <cstdio>
 #include <sstream>
 
+#include "harness/compare/against.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -215,6 +216,39 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
       if (!r.reason.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": " + r.reason});
     }
     c.print(out, "  ");
+    out << "\n";
+  }
+  for (const auto& cmp : b.against) {
+    namespace ag = compare::against;
+    out << "  against " << cmp->file << " (" << ag::table_kind_name(cmp->kind) << ", load set " << cmp->load_case << ")";
+    if (!cmp->ok()) {
+      out << ": " << paint("cannot be compared", kRed, opt.color) << "\n";
+      for (const auto& e : cmp->errors) out << "    " << e.format(cmp->file) << "\n";
+      if (cmp->errors_not_listed) out << "    ... and " << cmp->errors_not_listed << " more errors\n";
+      out << "\n";
+      continue;
+    }
+    out << ": " << (cmp->holds() ? paint("every value holds", kGreen, opt.color) : paint("values fail", kRed, opt.color)) << "\n";
+    Table t;
+    t.head = {"quantity", "rows", "failing", "worst difference", "at", "tolerance"};
+    for (const auto& q : cmp->summary) {
+      t.rows.push_back({ag::quantity_name(q.quantity), std::to_string(q.compared), std::to_string(q.failing),
+                        input::format_number(q.worst_difference), q.worst_where, input::format_number(q.tolerance)});
+      if (q.finding) t.rows.push_back({"    " + paint("finding: " + q.finding->text, kYellow, opt.color)});
+      else if (!q.note.empty()) t.rows.push_back({"    note: " + q.note});
+    }
+    t.print(out, "  ");
+    std::size_t shown = 0;
+    for (const auto& r : cmp->rows)
+      for (const auto& c : r.cells) {
+        if (c.holds || shown >= 10) continue;
+        ++shown;
+        out << "    line " << r.line << ", " << r.where << ": " << ag::quantity_name(c.quantity) << " theirs "
+            << input::format_number(c.theirs) << ", ours " << input::format_number(c.ours) << ", difference "
+            << input::format_number(c.difference) << " (tolerance " << input::format_number(c.tolerance) << ")"
+            << (c.reason.empty() ? "" : ": " + c.reason) << "\n";
+      }
+    if (cmp->failing() > shown) out << "    ... " << cmp->failing() - shown << " more failing values in the JSON report\n";
     out << "\n";
   }
 }

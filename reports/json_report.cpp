@@ -2,6 +2,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "harness/compare/against.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -149,6 +150,68 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
       claims.push_back(std::move(o));
     }
     jb["claims"] = std::move(claims);
+    if (!b.against.empty()) {
+      namespace ag = compare::against;
+      ordered_json list_ag = ordered_json::array();
+      for (const auto& c : b.against) {
+        ordered_json a;
+        a["file"] = c->file;
+        a["kind"] = ag::table_kind_name(c->kind);
+        a["case"] = c->load_case;
+        a["their_units"] = {{"force", c->their_units.force}, {"length", c->their_units.length}};
+        a["holds"] = c->holds();
+        ordered_json errs = ordered_json::array();
+        for (const auto& e : c->errors) errs.push_back(e.format(c->file));
+        a["errors"] = std::move(errs);
+        ordered_json sum = ordered_json::array();
+        for (const auto& q : c->summary) {
+          ordered_json o;
+          o["quantity"] = ag::quantity_name(q.quantity);
+          o["compared"] = q.compared;
+          o["failing"] = q.failing;
+          o["worst_difference"] = num(q.worst_difference);
+          o["worst_line"] = q.worst_line;
+          o["worst_where"] = q.worst_where;
+          o["tolerance"] = num(q.tolerance);
+          if (q.finding) {
+            ordered_json mist = ordered_json::array();
+            for (auto m : q.finding->mistakes) mist.push_back(ag::mistake_name(m));
+            o["finding"] = {{"mistakes", mist}, {"factor", num(q.finding->factor)}, {"shift", q.finding->shift},
+                            {"residual", num(q.finding->residual)}, {"text", q.finding->text}};
+          } else {
+            o["finding"] = nullptr;
+          }
+          o["note"] = q.note;
+          sum.push_back(std::move(o));
+        }
+        a["summary"] = std::move(sum);
+        ordered_json rows = ordered_json::array();
+        for (const auto& r : c->rows) {
+          ordered_json row;
+          row["line"] = r.line;
+          row["where"] = r.where;
+          ordered_json cells = ordered_json::array();
+          for (const auto& cell : r.cells) {
+            ordered_json o;
+            o["quantity"] = ag::quantity_name(cell.quantity);
+            o["raw"] = num(cell.raw);
+            o["theirs"] = num(cell.theirs);
+            o["ours"] = num(cell.ours);
+            o["difference"] = num(cell.difference);
+            o["tolerance"] = num(cell.tolerance);
+            o["holds"] = cell.holds;
+            if (cell.side != ag::Side::Continuous) o["side"] = ag::side_name(cell.side);
+            if (!cell.reason.empty()) o["reason"] = cell.reason;
+            cells.push_back(std::move(o));
+          }
+          row["values"] = std::move(cells);
+          rows.push_back(std::move(row));
+        }
+        a["rows"] = std::move(rows);
+        list_ag.push_back(std::move(a));
+      }
+      jb["against"] = std::move(list_ag);
+    }
     list.push_back(std::move(jb));
   }
   root["beams"] = std::move(list);

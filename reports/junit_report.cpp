@@ -4,6 +4,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "harness/compare/against.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -80,6 +81,25 @@ std::vector<Case> cases_of(const BeamResult& b, double equilibrium_bound) {
                               : "claimed " + num(c.claim.value) + ": " + c.reason;
     }
     out.push_back(k);
+  }
+  for (const auto& c : b.against) {
+    namespace ag = compare::against;
+    if (!c->ok()) {
+      std::string msg;
+      for (const auto& e : c->errors) msg += e.format(c->file) + "\n";
+      out.push_back({"against " + c->file + ": file is readable", msg, true});
+      continue;
+    }
+    for (const auto& q : c->summary) {
+      Case k{"against " + c->file + ": " + ag::quantity_plural(q.quantity) + " (" + c->load_case + ")", "", false};
+      if (q.failing > 0) {
+        k.failure = std::to_string(q.failing) + " of " + std::to_string(q.compared) + " values fail; worst difference " +
+                    num(q.worst_difference) + " at " + q.worst_where + " (tolerance " + num(q.tolerance) + ")";
+        if (q.finding) k.failure += "\nfinding: " + q.finding->text;
+        else if (!q.note.empty()) k.failure += "\n" + q.note;
+      }
+      out.push_back(k);
+    }
   }
   return out;
 }

@@ -1,9 +1,11 @@
 # Tests of the harness: reader, units, comparison, reports and the program.
 trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_input)
 trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
+trivet_add_test(against_test ${CMAKE_CURRENT_SOURCE_DIR}/against_test.cpp trivet_compare)
 trivet_add_test(compare_test ${CMAKE_CURRENT_SOURCE_DIR}/compare_test.cpp trivet_compare)
 trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp
   trivet_three_moment trivet_slope_deflection trivet_stiffness)
+trivet_add_test(references_test ${CMAKE_CURRENT_SOURCE_DIR}/references_test.cpp trivet_references nlohmann_json::nlohmann_json)
 trivet_add_test(reports_test ${CMAKE_CURRENT_SOURCE_DIR}/reports_test.cpp trivet_reports nlohmann_json::nlohmann_json)
 
 # The program end to end, on the bundled examples and on invalid input.
@@ -14,3 +16,7 @@ add_test(NAME cli_example_is_valid
 add_test(NAME cli_invalid_exits_2 COMMAND trivet check ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
 set_tests_properties(cli_invalid_exits_2 PROPERTIES WILL_FAIL TRUE)
 add_test(NAME cli_exit_codes COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_exit_codes.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
+
+# The verification record: every cited reference case on every method.
+add_test(NAME selfcheck COMMAND trivet selfcheck)
+add_test(NAME cli_against COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_against.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)

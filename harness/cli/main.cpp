@@ -20,8 +20,10 @@
 #include <nlohmann/json.hpp>
 
 #include "harness/cli/files.h"
+#include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
+#include "references/selfcheck.h"
 #include "reports/reports.h"
 
 #ifndef TRIVET_VERSION
@@ -94,6 +96,9 @@ struct CheckArgs {
   int stations_per_span = 0;
   unsigned jobs = 0;
   bool all_rows = false;
+  // --against and how to read the other program's tables.
+  std::vector<std::string> against, columns;
+  std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
 };
 
 int run_check(const CheckArgs& a) {
@@ -162,6 +167,41 @@ int run_check(const CheckArgs& a) {
   for (auto& t : pool) t.join();
   if (progress) std::cerr << "\r" << std::string(40, ' ') << "\r";
 
+  bool against_invalid = false;
+  if (!a.against.empty()) {
+    namespace ag = compare::against;
+    ag::Options ao;
+    std::vector<std::pair<std::string, std::string>> settings;
+    for (const auto& c : a.columns) settings.push_back({"column", c});
+    if (!a.their_units.empty()) settings.push_back({"units", a.their_units});
+    if (!a.their_moment.empty()) settings.push_back({"moment-sign", a.their_moment});
+    if (!a.their_deflection.empty()) settings.push_back({"deflection-sign", a.their_deflection});
+    if (!a.their_shear.empty()) settings.push_back({"shear-sign", a.their_shear});
+    if (!a.their_reaction.empty()) settings.push_back({"reaction-sign", a.their_reaction});
+    if (!a.their_reaction_moment.empty()) settings.push_back({"reaction-moment-sign", a.their_reaction_moment});
+    if (!a.against_case.empty()) settings.push_back({"case", a.against_case});
+    for (const auto& [name, value] : settings) {
+      const std::string err = ag::set_option(ao, name, value);
+      if (!err.empty()) {
+        std::cerr << "trivet: --" << (name == "column" ? "column" : name) << ": " << err << "\n";
+        return kExitInvalid;
+      }
+    }
+    if (files.size() != 1 || !problems.empty()) {
+      std::cerr << "trivet: --against compares one beam file with another program's results; give exactly one beam file\n";
+      return kExitInvalid;
+    }
+    if (results[0].status != compare::BeamStatus::Invalid) {
+      const input::BeamFile f = input::read_beam_file(files[0]);
+      for (const auto& path : a.against) {
+        auto cmp = std::make_shared<ag::Comparison>(ag::compare_file(f, results[0], path, ao));
+        if (!cmp->ok()) against_invalid = true;
+        else if (!cmp->holds()) results[0].status = compare::BeamStatus::Disagree;
+        results[0].against.push_back(cmp);
+      }
+    }
+  }
+
   for (const auto& [path, why] : problems) {
     compare::BeamResult r;
     r.file = path;
@@ -206,9 +246,147 @@ int run_check(const CheckArgs& a) {
   const bool single_method = opt.methods.size() == 1;
   int verdict = kExitAgree;
   if (s.disagree > 0 || (s.unconfirmed > 0 && !single_method)) verdict = kExitDisagree;
-  if (s.invalid > 0) verdict = kExitInvalid;
+  if (s.invalid > 0 || against_invalid) verdict = kExitInvalid;
   if (internal_error) verdict = kExitInternal;
   return std::max(code, verdict);
+}
+
+struct SelfcheckArgs {
+  std::string json, junit, methods, dir;
+};
+
+std::string xml_escape(const std::string& s) {
+  std::string r;
+  for (char c : s) {
+    switch (c) {
+      case '&': r += "&amp;"; break;
+      case '<': r += "&lt;"; break;
+      case '>': r += "&gt;"; break;
+      case '"': r += "&quot;"; break;
+      default: r += c;
+    }
+  }
+  return r;
+}
+
+// `trivet selfcheck`: every cited case on every method, a table, and exit 0
+// only when every published value holds on every applicable method.
+int run_selfcheck(const SelfcheckArgs& a) {
+  compare::Options opt;
+  if (!a.methods.empty()) {
+    opt.methods = split_list(a.methods);
+    for (const auto& m : opt.methods)
+      if (!compare::find_method(m)) {
+        std::cerr << "trivet: --methods: unknown method '" << m << "' (one of three-moment, slope-deflection, stiffness)\n";
+        return kExitInvalid;
+      }
+  }
+  const references::SelfcheckResult r =
+      a.dir.empty() ? references::run_selfcheck(references::directory(), opt) : references::run_selfcheck(a.dir, opt);
+  const bool to_stdout = a.json == "-";
+  std::ostream& human = to_stdout ? std::cerr : std::cout;
+  const bool color = !to_stdout && use_color(1);
+  auto paint = [&](const std::string& t, bool good) {
+    return color ? std::string(good ? "\033[32m" : "\033[1;31m") + t + "\033[0m" : t;
+  };
+  if (!to_stdout) {
+    for (const auto& c : r.cases) {
+      std::cout << c.id << "  [" << paint(c.holds ? "holds" : "FAILS", c.holds) << "]  " << c.title << "\n";
+      std::cout << "  source: " << c.citation << "\n";
+      for (const auto& e : c.errors) std::cout << "  error: " << e.format(c.file) << "\n";
+      for (const auto& [m, why] : c.methods_skipped) std::cout << "  " << m << ": not applicable (" << why << ")\n";
+      for (const auto& [m, why] : c.methods_failed) std::cout << "  " << m << ": " << paint("failed", false) << " (" << why << ")\n";
+      if (!c.verdict_problem.empty()) std::cout << "  " << c.verdict_problem << "\n";
+      auto g = [](double x, int digits) {
+        char buf[48];
+        std::snprintf(buf, sizeof buf, "%.*g", digits, x);
+        return std::string(buf);
+      };
+      for (const auto& v : c.values) {
+        std::string printed = v.published;
+        if (!v.multiplier.empty() && v.multiplier != "1")
+          printed = printed == "1" ? v.multiplier : printed == "-1" ? "-" + v.multiplier : printed + " " + v.multiplier;
+        std::cout << "  " << (v.holds ? "  ok " : paint("FAIL ", false)) << v.quantity << " at " << v.where << ": published "
+                  << printed << " = " << g(v.expected, 10) << " +- " << g(v.tolerance, 2) << "; computed";
+        for (const auto& m : v.methods) {
+          if (!m.evaluated) continue;
+          std::cout << " " << m.method << " " << g(m.computed, 10) << (m.holds ? "" : " (out)");
+        }
+        std::cout << "\n";
+      }
+    }
+  }
+  human << "selfcheck: " << r.cases.size() << " cited cases, " << r.values_checked() << " published values: "
+        << r.cases.size() - r.cases_failed() << " cases hold, " << r.cases_failed() << " fail ("
+        << r.values_failed() << " values out of tolerance)\n";
+  human << "caution: " << compare::caution_text() << "\n";
+  int code = r.holds() ? kExitAgree : kExitDisagree;
+  if (!a.json.empty()) {
+    const std::string err = write_report_file(a.json, [&](std::ostream& o) {
+      nlohmann::ordered_json j;
+      j["tool"] = {{"name", "trivet"}, {"version", TRIVET_VERSION}};
+      j["summary"] = {{"cases", r.cases.size()}, {"cases_failed", r.cases_failed()},
+                      {"values", r.values_checked()}, {"values_failed", r.values_failed()}};
+      j["caution"] = compare::caution_text();
+      nlohmann::ordered_json cases = nlohmann::ordered_json::array();
+      for (const auto& c : r.cases) {
+        nlohmann::ordered_json jc;
+        jc["id"] = c.id; jc["file"] = c.file; jc["title"] = c.title; jc["source"] = c.citation;
+        jc["holds"] = c.holds; jc["verdict"] = compare::verdict_name(c.verdict); jc["problem"] = c.verdict_problem;
+        nlohmann::ordered_json errs = nlohmann::ordered_json::array();
+        for (const auto& e : c.errors) errs.push_back(e.format(c.file));
+        jc["errors"] = errs;
+        nlohmann::ordered_json skipped = nlohmann::ordered_json::object();
+        for (const auto& [m, why] : c.methods_skipped) skipped[m] = why;
+        jc["not_applicable"] = skipped;
+        nlohmann::ordered_json vals = nlohmann::ordered_json::array();
+        for (const auto& v : c.values) {
+          nlohmann::ordered_json jv;
+          jv["quantity"] = v.quantity; jv["where"] = v.where; jv["case"] = v.load_case;
+          jv["published"] = v.published; jv["multiplier"] = v.multiplier; jv["expected"] = v.expected;
+          jv["tolerance"] = v.tolerance; jv["tolerance_rule"] = v.tolerance_rule; jv["holds"] = v.holds;
+          nlohmann::ordered_json ms = nlohmann::ordered_json::object();
+          for (const auto& m : v.methods)
+            ms[m.method] = {{"status", method_status_name(m.status)}, {"computed", m.evaluated ? nlohmann::ordered_json(m.computed) : nlohmann::ordered_json(nullptr)},
+                            {"holds", m.holds}, {"reason", m.reason}};
+          jv["methods"] = ms;
+          vals.push_back(jv);
+        }
+        jc["values"] = vals;
+        cases.push_back(jc);
+      }
+      j["cases"] = cases;
+      o << j.dump(1) << "\n";
+    });
+    if (!err.empty()) { std::cerr << "trivet: --json: " << err << "\n"; code = kExitInvalid; }
+  }
+  if (!a.junit.empty()) {
+    const std::string err = write_report_file(a.junit, [&](std::ostream& o) {
+      std::size_t tests = 0, failures = 0;
+      for (const auto& c : r.cases) { tests += c.values.size() + 1; failures += c.values_failed() + (c.holds ? 0 : 1); }
+      o << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<testsuites name=\"trivet selfcheck\" tests=\"" << tests
+        << "\" failures=\"" << failures << "\" errors=\"0\">\n";
+      for (const auto& c : r.cases) {
+        o << "  <testsuite name=\"" << xml_escape(c.id) << "\" tests=\"" << c.values.size() + 1 << "\" failures=\""
+          << c.values_failed() + (c.holds ? 0 : 1) << "\" errors=\"0\">\n";
+        o << "    <testcase classname=\"" << xml_escape(c.id) << "\" name=\"case holds (" << xml_escape(c.citation) << ")\"";
+        if (c.holds) o << "/>\n";
+        else o << "><failure message=\"" << xml_escape(c.verdict_problem.empty() ? "a published value does not hold" : c.verdict_problem) << "\"/></testcase>\n";
+        for (const auto& v : c.values) {
+          o << "    <testcase classname=\"" << xml_escape(c.id) << "\" name=\"" << xml_escape(v.quantity + " at " + v.where) << "\"";
+          if (v.holds) { o << "/>\n"; continue; }
+          std::string msg = "published " + v.published + " " + v.multiplier + " = " + input::format_number(v.expected) +
+                            " +- " + input::format_number(v.tolerance) + ";";
+          for (const auto& m : v.methods) if (m.evaluated) msg += " " + m.method + " " + input::format_number(m.computed);
+          o << "><failure message=\"" << xml_escape(msg) << "\"/></testcase>\n";
+        }
+        o << "  </testsuite>\n";
+      }
+      o << "</testsuites>\n";
+    });
+    if (!err.empty()) { std::cerr << "trivet: --junit: " << err << "\n"; code = kExitInvalid; }
+  }
+  return code;
 }
 
 // Joins the JSON reports of several shards: beams in order of file name,
@@ -281,6 +459,24 @@ int main(int argc, char** argv) {
   check->add_option("--junit", ca.junit, "Write a JUnit XML report to FILE (a test suite per beam file)");
   check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
 
+  check->add_option("--against", ca.against, "Another program's results (CSV) to compare; a second --against for a reactions table")
+      ->expected(1)->take_all();
+  check->add_option("--column", ca.columns, "Map a column name of the --against file, e.g. moment=Mz (repeatable)");
+  check->add_option("--their-units", ca.their_units, "Units of the --against file, e.g. force=N,length=mm (default: the beam file's)");
+  check->add_option("--their-moment", ca.their_moment, "sagging-positive (ours, default) or hogging-positive");
+  check->add_option("--their-deflection", ca.their_deflection, "down-positive (ours, default) or up-positive");
+  check->add_option("--their-shear", ca.their_shear, "ours (V = dM/dx, default) or opposite");
+  check->add_option("--their-reaction", ca.their_reaction, "up-positive (ours, default) or down-positive");
+  check->add_option("--their-reaction-moment", ca.their_reaction_moment, "counter-clockwise-positive (ours, default) or clockwise-positive");
+  check->add_option("--against-case", ca.against_case, "The load case the --against results belong to");
+
+  SelfcheckArgs sa;
+  CLI::App* selfcheck = app.add_subcommand("selfcheck", "Run the built-in cited handbook and textbook cases on every method");
+  selfcheck->add_option("--json", sa.json, "Write the verification record as JSON to FILE ('-' for standard output)");
+  selfcheck->add_option("--junit", sa.junit, "Write a JUnit XML report to FILE (a test suite per case)");
+  selfcheck->add_option("--methods", sa.methods, "Comma list of methods (default all)");
+  selfcheck->add_option("--cases", sa.dir, "Directory of reference cases (default: the bundled library)");
+
   std::vector<std::string> merge_inputs;
   std::string merge_json = "-", merge_junit;
   CLI::App* merge = app.add_subcommand("merge", "Merge the JSON reports of several shards into one report");
@@ -302,6 +498,7 @@ int main(int argc, char** argv) {
   try {
     if (*check) return run_check(ca);
     if (*merge) return run_merge(merge_inputs, merge_json);
+    if (*selfcheck) return run_selfcheck(sa);
     if (*example) {
       std::cout << kExample;
       return kExitAgree;

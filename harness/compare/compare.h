@@ -4,6 +4,7 @@
 #pragma once
 
 #include <cstddef>
+#include <memory>
 #include <optional>
 #include <string>
 #include <vector>
@@ -12,6 +13,10 @@
 #include "methods/beam/beam.h"
 
 namespace trivet::compare {
+
+namespace against {
+struct Comparison;  // another program's results against ours (against.h)
+}
 
 // The kinds of quantity compared, each scaled by its own largest magnitude.
 enum class Kind { Moment, Shear, Reaction, Deflection, Rotation };
@@ -108,6 +113,8 @@ struct BeamResult {
   std::vector<input::Error> errors;
   std::vector<LoadSet> sets;
   std::vector<ClaimResult> claims;
+  // Another program's exported results compared with ours (--against).
+  std::vector<std::shared_ptr<const against::Comparison>> against;
   std::size_t claims_failed() const;
 };
 

@@ -1,0 +1,136 @@
+// trivet: overlaid diagrams of one beam and one load set.
+//
+// plot_data() is pure: it gathers the exact points of every curve (one per
+// method that solved the beam, per panel), the claims as markers and the
+// values worth a label. render() hands those points to gnuplot and returns
+// the picture. Tests check the data, not pixels.
+//
+// Panels, top to bottom, sharing the x axis:
+//   sketch      the beam: spans, supports by type, hinges, loads, labels
+//   shear       V [force], positive up
+//   moment      M [force*length], sagging +, DRAWN DOWNWARD (on the
+//               tension side), so the diagram hangs below the axis where
+//               the bottom fibre is in tension
+//   deflection  v [length], down +, DRAWN DOWNWARD (the deflected shape)
+//   difference  each method minus the consensus (median of the methods),
+//               divided by the largest value of that kind in the load set
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "harness/compare/compare.h"
+
+namespace trivet::reports {
+
+enum class PanelKind { Sketch, Shear, Moment, Deflection, Difference };
+const char* panel_name(PanelKind k);  // "sketch", "shear", ...
+
+// One polyline handed to gnuplot.
+struct Curve {
+  std::string method;  // the method's name
+  std::string label;   // legend text
+  std::size_t style = 0;  // the method's index: line colour and dash pattern
+  // Difference panel only: which quantity (Kind::Shear, Moment,
+  // Deflection); it picks the point marker.
+  std::optional<compare::Kind> kind;
+  std::vector<double> x, y;
+};
+
+// A claimed value drawn at (x, y = the claimed value).
+struct ClaimMarker {
+  std::size_t claim = 0;  // 0-based index into BeamResult::claims
+  double x = 0, y = 0;
+  bool holds = false;
+  bool evaluated = false;
+  std::string text;  // "claim 1"
+};
+
+// A value written next to the diagram.
+struct ValueLabel {
+  double x = 0, y = 0;
+  std::string text;
+};
+
+struct Panel {
+  PanelKind kind = PanelKind::Shear;
+  std::string ylabel;     // with units and the sign convention
+  bool drawn_down = false;  // positive values are drawn below the axis
+  std::vector<Curve> curves;
+  std::vector<ClaimMarker> claims;
+  std::vector<ValueLabel> labels;
+};
+
+// The sketch: what the beam is, in the set's own units.
+struct SketchNode {
+  double x = 0;
+  std::string label;
+  SupportType type = SupportType::Free;
+  bool hinge = false;
+  bool rotational_spring = false;  // spring with kr > 0
+  double settlement = 0;
+  std::string reaction;            // "R = 81.2 kN; M = 169.1 kN*m" or empty
+  std::vector<std::string> claims; // reaction claims at this node: "claim 1: R = 70 (holds)"
+};
+
+struct SketchLoad {
+  LoadType type = LoadType::Point;
+  double x0 = 0, x1 = 0;  // global; x1 == x0 for point forces and couples
+  double v0 = 0, v1 = 0;  // P or C in v0; w at x0, x1 for distributed
+  std::string text;       // "P = 60 kN", "w = 24 kN/m", "C = 10 kN*m"
+};
+
+struct PlotData {
+  std::string title;     // the beam's title or file
+  std::string subtitle;  // "load set: loads; verdict: agree"
+  std::string x_label;   // "x [m]"
+  double x_min = 0, x_max = 1;
+  std::vector<SketchNode> nodes;
+  std::vector<SketchLoad> loads;
+  // Sketch, Shear, Moment, Deflection, Difference, in that order; the
+  // sketch panel has no curves.
+  std::vector<Panel> panels;
+  std::vector<std::string> notes;  // methods left out and why, claims not drawn
+  const Panel* panel(PanelKind k) const;
+};
+
+// The data of one load set. An invalid beam or a set index out of range
+// gives a PlotData with no panels and a note saying why.
+PlotData plot_data(const compare::BeamResult& beam, std::size_t set_index);
+
+// The indices of a curve's points to keep so it has at most about
+// `max_points`: always the first and last, every jump (two points at the
+// same x with different values), the largest and smallest value, and in
+// between the smallest and largest of each run, so no peak is lost. Jumps
+// are never dropped, so a curve with many of them may keep more.
+// max_points == 0 keeps everything.
+std::vector<std::size_t> thin_indices(const std::vector<double>& x, const std::vector<double>& y,
+                                      std::size_t max_points);
+// Every curve thinned so (see thin_indices).
+PlotData thinned(const PlotData& data, std::size_t max_points);
+
+enum class ImageFormat { Svg, Png };
+// ".svg" or ".png" (any case) at the end of a path.
+std::optional<ImageFormat> format_for_path(const std::string& path);
+
+struct RenderOptions {
+  ImageFormat format = ImageFormat::Svg;
+  int width = 960, height = 1100;  // pixels
+  // Empty: $TRIVET_GNUPLOT, else "gnuplot" found on PATH.
+  std::string gnuplot;
+  // Keep the generated gnuplot script here (for a person to debug), or empty.
+  std::string keep_script;
+};
+
+// Where gnuplot is: its path, or nothing if it cannot be found.
+std::optional<std::string> find_gnuplot(const std::string& preferred = "");
+
+// Runs gnuplot and returns the SVG text or the PNG bytes. On failure returns
+// "" and puts a reason in *error (e.g. "gnuplot was not found on PATH;
+// install gnuplot-nox"). Data with no panels is a failure too.
+std::string render(const PlotData& data, const RenderOptions& options, std::string* error);
+std::string render(const PlotData& data, ImageFormat format, int width, int height, std::string* error);
+
+}  // namespace trivet::reports

@@ -1,0 +1,18 @@
+#!/usr/bin/env bash
+# --against: a correct export passes; one printed with hogging-positive
+# moments fails (exit 1) and the finding says so; declaring the convention
+# makes it pass.
+set -u
+trivet="$1"; data="$2/against"
+fail=0
+"$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-ok.csv" >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 0 ] || { echo "FAIL: correct export exited $rc"; cat /tmp/trivet-against.out; fail=1; }
+"$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-hogging.csv" --column x=Dist --column moment=Mz >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 1 ] || { echo "FAIL: sign-flipped export exited $rc, expected 1"; cat /tmp/trivet-against.out; fail=1; }
+grep -q "hogging-positive" /tmp/trivet-against.out || { echo "FAIL: no finding about the sign convention"; cat /tmp/trivet-against.out; fail=1; }
+"$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-hogging.csv" --column x=Dist --column moment=Mz --their-moment hogging-positive >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 0 ] || { echo "FAIL: declared hogging-positive export exited $rc"; cat /tmp/trivet-against.out; fail=1; }
+"$trivet" check "$data/simple-udl.json" --against "$data/no-such.csv" >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 2 ] || { echo "FAIL: a missing CSV exited $rc, expected 2"; fail=1; }
+[ $fail = 0 ] && echo "against: all checks passed"
+exit $fail
