@@ -13,9 +13,12 @@
 // symmetry, compatibility.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <random>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "methods/beam/beam.h"
@@ -553,44 +556,6 @@ TEST(Reciprocity, MaxwellBettiOnRandomBeams) {
   EXPECT_GT(seen.fixed, 0);
 }
 
-// --- Exact recovery between element nodes ---------------------------------------------
-
-TEST(Recovery, BetweenNodesEqualsANodePlacedThere) {
-  // Evaluating inside an element must give what a solve with an element
-  // node at that very point gives (the element solution is exact).
-  const double EI = 1.5e4;
-  Beam b = make_beam<double>({4, 6, 3}, EI, {T::Fixed, T::Spring, T::Roller, T::Free});
-  b.supports[1].k = 2e3;
-  b.supports[1].kr = 5e3;
-  b.loads = {span_linear<double>(0, 0.5, 3.5, 2, 7), span_udl<double>(1, 0, 6, 3),
-             span_point<double>(1, 2.2, 10), span_couple<double>(1, 4.1, -6),
-             span_linear<double>(2, 0, 3, 5, 1), node_point<double>(3, 2)};
-  const Solution coarse = stiffness::solve(b, {});
-  ASSERT_EQ(coarse.status, MethodStatus::Ok) << coarse.reason;
-  std::mt19937 rng(7u);
-  for (int k = 0; k < 30; ++k) {
-    const std::size_t span = static_cast<std::size_t>(k % 3);
-    const double L = b.spans[span].length;
-    const double x = std::uniform_real_distribution<double>(0.01, 0.99)(rng) * L;
-    std::vector<Station> st = {{b.node_x(span) + x, span, x, false}};
-    const Solution fine = stiffness::solve(b, st);
-    ASSERT_EQ(fine.status, MethodStatus::Ok) << fine.reason;
-    const PointValues c = coarse.at(span, x, false), f = fine.at(span, x, false);
-    // Rounding only: the two solves differ in element layout.
-    EXPECT_NEAR(c.deflection, f.deflection, 1e-11 * (std::fabs(f.deflection) + 1e-3));
-    EXPECT_NEAR(c.rotation, f.rotation, 1e-11 * (std::fabs(f.rotation) + 1e-3));
-    EXPECT_NEAR(c.moment, f.moment, 1e-10 * (std::fabs(f.moment) + 10));
-    EXPECT_NEAR(c.shear, f.shear, 1e-10 * (std::fabs(f.shear) + 10));
-    expect_equilibrium(b, fine);
-  }
-  // Moment from statics agrees with -EI v'' (central difference of the
-  // recovered rotation, a consistency law): tolerance from the difference step.
-  const double x = 1.234, h = 1e-4;
-  const double vpp = (coarse.at(1, x + h, false).rotation - coarse.at(1, x - h, false).rotation) / (2 * h);
-  EXPECT_NEAR(coarse.at(1, x, false).moment, -EI * vpp, 1e-5 * std::fabs(coarse.at(1, x, false).moment) + 1e-6);
-  expect_equilibrium(b, coarse);
-}
-
 // --- Extended precision -------------------------------------------------------------
 
 using X = Extended;
@@ -641,6 +606,438 @@ TEST(ExtendedPrecision, UdlAndTriangularLoadsUseGaussInFullPrecision) {
   }
 }
 
+// --- Double against Extended: the rounding of this method ------------------------------
+//
+// These compare the method in double with the same method in 50 digits on
+// the same beam (beam_cast gives the exact binary values). They measure
+// rounding, not correctness: correctness is checked above against published
+// values and laws, and against the other methods elsewhere. "Of each kind":
+// forces (reactions and shears), moments (reaction couples and bending
+// moments), deflections, rotations; each difference is taken relative to the
+// largest value of its kind on the beam (of the whole solution: every node
+// result and the values at the sample points).
+
+struct Values { std::vector<double> force, moment, deflection, rotation; };
+
+template <class R>
+Values collect(const BasicSolution<R>& s, const std::vector<Station>& pts) {
+  Values v;
+  auto d = [](const R& x) { return static_cast<double>(x); };
+  for (const BasicNodeResult<R>& n : s.nodes) {
+    v.force.push_back(d(n.reaction_force));
+    v.moment.push_back(d(n.reaction_moment));
+    v.moment.push_back(n.moment_left ? d(*n.moment_left) : 0.0);
+    v.moment.push_back(n.moment_right ? d(*n.moment_right) : 0.0);
+    v.deflection.push_back(d(n.deflection));
+    v.rotation.push_back(d(n.rotation_left));
+    v.rotation.push_back(d(n.rotation_right));
+  }
+  for (const Station& p : pts) {
+    const BasicPointValues<R> q = s.at(p.span, static_cast<R>(p.local), p.after);
+    v.force.push_back(d(q.shear));
+    v.moment.push_back(d(q.moment));
+    v.deflection.push_back(d(q.deflection));
+    v.rotation.push_back(d(q.rotation));
+  }
+  return v;
+}
+
+struct Spread {
+  double force = 0, moment = 0, deflection = 0, rotation = 0;
+  double worst() const { return std::max(std::max(force, moment), std::max(deflection, rotation)); }
+};
+
+// max |got - want| over one kind, divided by `big`.
+double spread_of(const std::vector<double>& got, const std::vector<double>& want, double big) {
+  double diff = 0;
+  for (std::size_t i = 0; i < got.size() && i < want.size(); ++i) diff = std::max(diff, std::fabs(got[i] - want[i]));
+  return diff / std::max(big, 1e-300);
+}
+
+double largest(const std::vector<double>& v) {
+  double m = 0;
+  for (double x : v) m = std::max(m, std::fabs(x));
+  return m;
+}
+
+// The grid stations (before and after every point load) plus `extra`
+// evenly spaced points along the whole beam.
+std::vector<Station> sample_points(const Beam& b, int extra) {
+  std::vector<Station> pts = build_stations(b, 10);
+  const double total = b.node_x(b.spans.size());
+  std::size_t s = 0;
+  double x0 = 0;
+  for (int k = 0; k < extra; ++k) {
+    const double x = total * k / (extra - 1);
+    while (s + 1 < b.spans.size() && x0 + b.spans[s].length < x) x0 += b.spans[s++].length;
+    const double local = std::min(std::max(x - x0, 0.0), b.spans[s].length);
+    pts.push_back({x, s, local, false});
+  }
+  return pts;
+}
+
+// Solves `b` in double and in Extended and returns the spread per kind.
+Spread double_vs_extended(const Beam& b, int extra_points, Solution* out = nullptr) {
+  const Solution sd = stiffness::solve(b, build_stations(b, 10));
+  const BasicBeam<X> bx = beam_cast<X>(b);
+  const BasicSolution<X> sx = stiffness::solve(bx, build_stations(bx, 10));
+  Spread r;
+  r.force = r.moment = r.deflection = r.rotation = 1e300;  // reported if a solve fails
+  EXPECT_EQ(sd.status, MethodStatus::Ok) << sd.reason;
+  EXPECT_EQ(sx.status, MethodStatus::Ok) << sx.reason;
+  if (sd.status != MethodStatus::Ok || sx.status != MethodStatus::Ok) return r;
+  const std::vector<Station> pts = sample_points(b, extra_points);
+  const Values vd = collect(sd, pts), vx = collect(sx, pts);
+  // The largest value of each kind; a kind that is zero throughout (say,
+  // no shear anywhere under couples alone) is measured against its partner
+  // kind through the beam's length instead (moment / length, and so on).
+  const double length = b.node_x(b.spans.size());
+  const double bf = largest(vx.force), bm = largest(vx.moment);
+  const double bv = largest(vx.deflection), br = largest(vx.rotation);
+  r.force = spread_of(vd.force, vx.force, std::max(bf, bm / length));
+  r.moment = spread_of(vd.moment, vx.moment, std::max(bm, bf * length));
+  r.deflection = spread_of(vd.deflection, vx.deflection, std::max(bv, br * length));
+  r.rotation = spread_of(vd.rotation, vx.rotation, std::max(br, bv / length));
+  if (out) *out = sd;
+  return r;
+}
+
+std::string describe(const Spread& s) {
+  char buf[200];
+  std::snprintf(buf, sizeof buf, "force %.2e, moment %.2e, deflection %.2e, rotation %.2e", s.force,
+                s.moment, s.deflection, s.rotation);
+  return buf;
+}
+
+TEST(Rounding, FreeOverhangCloseCouples) {
+  // tests/data/accuracy/free-overhang-close-couples.json (kN, m), copied:
+  // four spans, free - free - pinned (settled) - free - pinned, two couples
+  // 0.053 m apart in span 4. With an element node at every station (the
+  // earlier mesh) double differed from Extended here by 2.5e-6 in forces,
+  // 2.3e-8 in moments, 2.7e-9 in deflections (relative to the largest of
+  // each kind); with one element per span, by a few 1e-14 or less.
+  const double EI = 73432.872784448671;
+  Beam b = make_beam<double>({9.2277585535571021, 7.1065350784265453, 5.1236612350712143, 2.3306022189715261}, EI,
+                             {T::Free, T::Free, T::Pinned, T::Free, T::Pinned});
+  b.supports[2].settlement = 0.0045764700000000;
+  b.loads = {span_couple<double>(3, 1.62697, 7.19583), span_couple<double>(3, 1.67999, -5.82176)};
+  Solution s;
+  const Spread sp = double_vs_extended(b, 50, &s);
+  std::printf("[ measured ] free-overhang-close-couples, double vs Extended: %s\n", describe(sp).c_str());
+  RecordProperty("spread", describe(sp));
+  EXPECT_LT(sp.force, 1e-11);
+  EXPECT_LT(sp.moment, 1e-11);
+  EXPECT_LT(sp.deflection, 1e-11);
+  EXPECT_LT(sp.rotation, 1e-11);
+  expect_equilibrium(b, s, 1e-12);
+}
+
+struct Drawn {
+  int spring = 0, rot_spring = 0, hinge = 0, guided = 0, free = 0, fixed = 0, settlement = 0;
+  int point = 0, couple = 0, udl = 0, linear = 0, node_point = 0, node_couple = 0, close = 0, end_couple = 0;
+};
+
+// A random beam of up to 6 spans with every support kind and load type,
+// including clusters of loads very close together.
+Beam random_loaded_beam(std::mt19937& rng, Drawn& seen) {
+  std::uniform_int_distribution<int> spans(1, 6), type(0, 5), count(0, 3), kind(0, 3);
+  std::uniform_real_distribution<double> u(0.0, 1.0);
+  auto logu = [&](double lo, double hi) { return lo * std::pow(hi / lo, u(rng)); };
+  const T types[] = {T::Fixed, T::Pinned, T::Roller, T::Free, T::Spring, T::Guided};
+  for (;;) {
+    const int n = spans(rng);
+    Beam b;
+    const double EI0 = logu(1e3, 1e6);
+    for (int i = 0; i < n; ++i) b.spans.push_back({logu(0.3, 12.0), EI0 * logu(0.2, 5.0)});
+    for (int i = 0; i <= n; ++i) {
+      Support s;
+      s.type = types[type(rng)];
+      const Span& near = b.spans[std::min<std::size_t>(static_cast<std::size_t>(i), b.spans.size() - 1)];
+      if (s.type == T::Spring) {
+        s.k = near.EI / (near.length * near.length * near.length) * logu(0.01, 100.0);
+        if (u(rng) < 0.5) s.kr = near.EI / near.length * logu(0.01, 100.0);
+      }
+      if ((restrains_deflection(s.type) || s.type == T::Spring) && u(rng) < 0.3)
+        s.settlement = (u(rng) < 0.5 ? -1 : 1) * logu(1e-4, 2e-2);
+      const bool can_hinge = i > 0 && i < n && !restrains_rotation(s.type) && !(s.type == T::Spring && s.kr > 0);
+      s.hinge = can_hinge && u(rng) < 0.3;
+      b.supports.push_back(s);
+      b.labels.push_back(std::string(1, static_cast<char>('A' + i)));
+    }
+    if (find_mechanism(b)) continue;
+    auto value = [&] { return (u(rng) < 0.2 ? -1 : 1) * logu(0.5, 50.0); };
+    for (int i = 0; i < n; ++i) {
+      const double L = b.spans[i].length;
+      const std::size_t si = static_cast<std::size_t>(i);
+      const int m = count(rng);
+      for (int k = 0; k < m; ++k) {
+        const double a = L * (0.001 + 0.998 * u(rng));
+        switch (kind(rng)) {
+          case 0: b.loads.push_back(span_point<double>(si, a, value())); ++seen.point; break;
+          case 1: {
+            const double at = u(rng) < 0.15 ? (u(rng) < 0.5 ? 0.0 : L) : a;
+            seen.end_couple += at <= 0 || at >= L;
+            b.loads.push_back(span_couple<double>(si, at, value() * L));
+            ++seen.couple;
+            break;
+          }
+          case 2: {
+            const double c = u(rng) < 0.3 ? L : L * u(rng);
+            const double from = (L - c) * u(rng);
+            b.loads.push_back(span_udl<double>(si, from, std::min(from + c, L), value() / L));
+            ++seen.udl;
+            break;
+          }
+          default: {
+            const double c = L * logu(1e-3, 1.0), from = (L - c) * u(rng);
+            b.loads.push_back(span_linear<double>(si, from, std::min(from + c, L), value() / L, value() / L));
+            ++seen.linear;
+          }
+        }
+      }
+      if (u(rng) < 0.3) {  // a cluster: loads within 1e-6 .. 1e-2 of a span apart
+        const double gap = L * logu(1e-6, 1e-2), a = L * (0.05 + 0.85 * u(rng));
+        b.loads.push_back(span_point<double>(si, a, value()));
+        b.loads.push_back(span_couple<double>(si, a + gap, value() * L));
+        b.loads.push_back(span_couple<double>(si, a + 2 * gap, -value() * L));
+        b.loads.push_back(span_linear<double>(si, a + gap, a + 3 * gap, value() / L, value() / L));
+        b.loads.push_back(span_point<double>(si, a + 3.5 * gap, value()));
+        ++seen.close;
+      }
+    }
+    for (int i = 0; i <= n; ++i) {
+      const std::size_t ni = static_cast<std::size_t>(i);
+      if (u(rng) < 0.2) { b.loads.push_back(node_point<double>(ni, value())); ++seen.node_point; }
+      if (!b.supports[ni].hinge && u(rng) < 0.2) { b.loads.push_back(node_couple<double>(ni, value())); ++seen.node_couple; }
+    }
+    bool any = false;
+    for (const Support& s : b.supports) any = any || s.settlement > 0 || s.settlement < 0;
+    if (b.loads.empty() && !any) b.loads.push_back(span_point<double>(0, b.spans[0].length / 3, 10.0));
+    for (const Support& s : b.supports) {
+      seen.spring += s.type == T::Spring;
+      seen.rot_spring += s.type == T::Spring && s.kr > 0;
+      seen.hinge += s.hinge;
+      seen.guided += s.type == T::Guided;
+      seen.free += s.type == T::Free;
+      seen.fixed += s.type == T::Fixed;
+      seen.settlement += s.settlement > 0 || s.settlement < 0;
+    }
+    return b;
+  }
+}
+
+TEST(Rounding, RandomBeamsDoubleAgreesWithExtended) {
+  std::mt19937 rng(914271u);
+  Drawn seen;
+  Spread worst;
+  int worst_trial = -1;
+  for (int trial = 0; trial < 200; ++trial) {
+    const Beam b = random_loaded_beam(rng, seen);
+    Solution s;
+    const Spread sp = double_vs_extended(b, 50, &s);
+    EXPECT_LT(sp.worst(), 1e-10) << "trial " << trial << ": " << describe(sp);
+    if (worst_trial < 0 || worst.worst() < sp.worst()) worst_trial = trial;
+    worst.force = std::max(worst.force, sp.force);
+    worst.moment = std::max(worst.moment, sp.moment);
+    worst.deflection = std::max(worst.deflection, sp.deflection);
+    worst.rotation = std::max(worst.rotation, sp.rotation);
+    if (s.status == MethodStatus::Ok) expect_equilibrium(b, s, 1e-12);
+  }
+  std::printf("[ measured ] 200 random beams, worst double vs Extended: %s (worst trial %d)\n",
+              describe(worst).c_str(), worst_trial);
+  RecordProperty("worst_spread", describe(worst));
+  // The draw must have covered what it is meant to.
+  EXPECT_GT(seen.spring, 0);
+  EXPECT_GT(seen.rot_spring, 0);
+  EXPECT_GT(seen.hinge, 0);
+  EXPECT_GT(seen.guided, 0);
+  EXPECT_GT(seen.free, 0);
+  EXPECT_GT(seen.fixed, 0);
+  EXPECT_GT(seen.settlement, 0);
+  EXPECT_GT(seen.point, 0);
+  EXPECT_GT(seen.couple, 0);
+  EXPECT_GT(seen.end_couple, 0);
+  EXPECT_GT(seen.udl, 0);
+  EXPECT_GT(seen.linear, 0);
+  EXPECT_GT(seen.node_point, 0);
+  EXPECT_GT(seen.node_couple, 0);
+  EXPECT_GT(seen.close, 0);
+}
+
+// --- Exact recovery inside a span ------------------------------------------------------
+
+// The same beam with a free node (no support, no hinge) inserted at local x
+// of span s: the same structure, with the loads of span s shared out.
+Beam split_at(const Beam& b, std::size_t s, double x) {
+  Beam r;
+  const std::size_t n = b.spans.size();
+  for (std::size_t i = 0; i < n; ++i) {
+    if (i == s) {
+      r.spans.push_back({x, b.spans[i].EI});
+      r.spans.push_back({b.spans[i].length - x, b.spans[i].EI});
+    } else {
+      r.spans.push_back(b.spans[i]);
+    }
+  }
+  for (std::size_t i = 0; i <= n; ++i) {
+    r.supports.push_back(b.supports[i]);
+    r.labels.push_back(b.labels[i]);
+    if (i == s) {
+      Support f;
+      f.type = T::Free;
+      r.supports.push_back(f);
+      r.labels.push_back("split");
+    }
+  }
+  for (const Load& l : b.loads) {
+    Load t = l;
+    if (l.on_node || l.index != s) {
+      if (l.index > s) ++t.index;
+      r.loads.push_back(t);
+      continue;
+    }
+    if (l.type == LoadType::Point || l.type == LoadType::Couple) {
+      if (x < l.at) { t.index = s + 1; t.at = l.at - x; }
+      r.loads.push_back(t);
+      continue;
+    }
+    const double w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+    const double wx = l.w1 + (w2 - l.w1) * (x - l.from) / (l.to - l.from);
+    if (l.from < x) {  // the part left of x
+      Load p = span_linear<double>(s, l.from, std::min(l.to, x), l.w1, l.to < x ? w2 : wx);
+      r.loads.push_back(p);
+    }
+    if (x < l.to) {  // the part right of x
+      Load p = span_linear<double>(s + 1, std::max(l.from, x) - x, l.to - x, x < l.from ? l.w1 : wx, w2);
+      r.loads.push_back(p);
+    }
+  }
+  return r;
+}
+
+Beam recovery_beam() {
+  Beam b = make_beam<double>({4, 6, 3}, 1.5e4, {T::Fixed, T::Spring, T::Roller, T::Free});
+  b.supports[1].k = 2e3;
+  b.supports[1].kr = 5e3;
+  b.loads = {span_linear<double>(0, 0.5, 3.5, 2, 7), span_udl<double>(1, 0, 6, 3),
+             span_point<double>(1, 2.2, 10),          span_couple<double>(1, 4.1, -6),
+             span_point<double>(1, 4.15, 3),          span_linear<double>(1, 2.0, 5.0, -2, 4),
+             span_couple<double>(1, 0, 2.5),          span_linear<double>(2, 0, 3, 5, 1),
+             node_point<double>(3, 2)};
+  return b;
+}
+
+TEST(Recovery, InsideSpanEqualsAFreeNodeInsertedThere) {
+  // The solution inside a span is exact (Hermite interpolation plus the
+  // clamped-clamped particular solution of the span's loads), so it must
+  // equal, to rounding, the solution of the same structure with a free node
+  // inserted at that point, which is solved there as a node. Several point
+  // loads, a couple and partial loads share span 2, so the recovery handles
+  // more than one load inside one element.
+  const Beam b = recovery_beam();
+  const Solution coarse = stiffness::solve(b, {});
+  ASSERT_EQ(coarse.status, MethodStatus::Ok) << coarse.reason;
+  // Scales per kind, from the coarse solution at many points.
+  const Values all = collect(coarse, sample_points(b, 200));
+  const double sv = largest(all.deflection), sr = largest(all.rotation), sm = largest(all.moment),
+               sf = largest(all.force);
+  std::mt19937 rng(7u);
+  for (int k = 0; k < 30; ++k) {
+    const std::size_t span = static_cast<std::size_t>(k % 3);
+    const double L = b.spans[span].length;
+    const double x = std::uniform_real_distribution<double>(0.01, 0.99)(rng) * L;
+    const Beam split = split_at(b, span, x);
+    ASSERT_FALSE(find_mechanism(split));
+    const Solution fine = stiffness::solve(split, {});
+    ASSERT_EQ(fine.status, MethodStatus::Ok) << fine.reason;
+    const NodeResult& at_x = fine.nodes[span + 1];
+    const PointValues c = coarse.at(span, x, false);
+    const double t = 1e-11;
+    EXPECT_NEAR(c.deflection, at_x.deflection, t * sv) << "k " << k;
+    EXPECT_NEAR(c.rotation, at_x.rotation_left, t * sr) << "k " << k;
+    EXPECT_NEAR(c.moment, *at_x.moment_left, t * sm) << "k " << k;
+    EXPECT_NEAR(c.shear, fine.at(span, x, false).shear, t * sf) << "k " << k;
+    // And at points on either side, now in two different spans.
+    for (double f : {0.1, 0.5, 0.9}) {
+      const double y1 = f * x, y2 = x + f * (L - x);
+      const PointValues c1 = coarse.at(span, y1, false), f1 = fine.at(span, y1, false);
+      const PointValues c2 = coarse.at(span, y2, false), f2 = fine.at(span + 1, y2 - x, false);
+      EXPECT_NEAR(c1.deflection, f1.deflection, t * sv);
+      EXPECT_NEAR(c2.deflection, f2.deflection, t * sv);
+      EXPECT_NEAR(c1.rotation, f1.rotation, t * sr);
+      EXPECT_NEAR(c2.rotation, f2.rotation, t * sr);
+      EXPECT_NEAR(c1.moment, f1.moment, t * sm);
+      EXPECT_NEAR(c2.moment, f2.moment, t * sm);
+      EXPECT_NEAR(c1.shear, f1.shear, t * sf);
+      EXPECT_NEAR(c2.shear, f2.shear, t * sf);
+    }
+    expect_equilibrium(split, fine);
+  }
+  expect_equilibrium(b, coarse);
+}
+
+TEST(Recovery, LimitsAtPointLoadsAndCouples) {
+  // Jump rules of beam.h at loads inside one element: across a force P the
+  // shear jumps by -P, across a clockwise couple C the moment jumps by +C;
+  // deflection, rotation (and the other quantity) are continuous.
+  const Beam b = recovery_beam();
+  const Solution s = stiffness::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const PointValues p0 = s.at(1, 2.2, false), p1 = s.at(1, 2.2, true);
+  EXPECT_NEAR(p1.shear - p0.shear, -10.0, 1e-11 * 100);
+  EXPECT_NEAR(p1.moment - p0.moment, 0.0, 1e-11 * 100);
+  EXPECT_NEAR(p1.deflection - p0.deflection, 0.0, 1e-15);
+  EXPECT_NEAR(p1.rotation - p0.rotation, 0.0, 1e-15);
+  const PointValues c0 = s.at(1, 4.1, false), c1 = s.at(1, 4.1, true);
+  EXPECT_NEAR(c1.moment - c0.moment, -6.0, 1e-11 * 100);
+  EXPECT_NEAR(c1.shear - c0.shear, 0.0, 1e-11 * 100);
+  // The limit just beside a load equals the value a little way off.
+  const double e = 1e-7;
+  EXPECT_NEAR(s.at(1, 2.2 - e, false).shear, p0.shear, 1e-4);
+  EXPECT_NEAR(s.at(1, 2.2 + e, false).shear, p1.shear, 1e-4);
+  EXPECT_NEAR(s.at(1, 4.1 - e, false).moment, c0.moment, 1e-4);
+  EXPECT_NEAR(s.at(1, 4.1 + e, false).moment, c1.moment, 1e-4);
+  // The couple at local 0 of span 2 is inside the span's limit at 0
+  // (beam.h): moment_right of node B is the moment after it, and the moment
+  // jumps across node B by +2.5 - (reaction couple of the spring).
+  EXPECT_NEAR(*s.nodes[1].moment_right - *s.nodes[1].moment_left, 2.5 - s.nodes[1].reaction_moment, 1e-10 * 100);
+}
+
+TEST(Recovery, MomentIsMinusEIv2) {
+  // Moment from statics agrees with -EI v'' (central difference of the
+  // recovered rotation, a consistency law): tolerance from the difference step.
+  const Beam b = recovery_beam();
+  const Solution s = stiffness::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const double EI = b.spans[1].EI, h = 1e-4;
+  for (double x : {1.234, 3.0, 4.5}) {
+    const double vpp = (s.at(1, x + h, false).rotation - s.at(1, x - h, false).rotation) / (2 * h);
+    EXPECT_NEAR(s.at(1, x, false).moment, -EI * vpp, 1e-5 * std::fabs(s.at(1, x, false).moment) + 1e-6) << x;
+  }
+  // And the shear is dM/dx.
+  const double x = 3.3;
+  const double dm = (s.at(1, x + h, false).moment - s.at(1, x - h, false).moment) / (2 * h);
+  EXPECT_NEAR(s.at(1, x, false).shear, dm, 1e-5 * std::fabs(dm) + 1e-6);
+}
+
+TEST(Recovery, AtIsPureAcrossThreads) {
+  // at() is pure: several threads evaluating at once get the serial values.
+  const Beam b = recovery_beam();
+  const Solution s = stiffness::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  const std::vector<Station> pts = sample_points(b, 500);
+  const Values serial = collect(s, pts);
+  std::vector<Values> got(4);
+  std::vector<std::thread> threads;
+  for (std::size_t t = 0; t < got.size(); ++t) threads.emplace_back([&, t] { got[t] = collect(s, pts); });
+  for (std::thread& t : threads) t.join();
+  for (const Values& g : got) {
+    ASSERT_EQ(g.moment.size(), serial.moment.size());
+    for (std::size_t i = 0; i < g.moment.size(); ++i) EXPECT_DOUBLE_EQ(g.moment[i], serial.moment[i]);
+    for (std::size_t i = 0; i < g.deflection.size(); ++i) EXPECT_DOUBLE_EQ(g.deflection[i], serial.deflection[i]);
+  }
+}
+
 // --- Size -------------------------------------------------------------------------------
 
 TEST(Size, HundredThousandSpans) {
@@ -667,6 +1064,34 @@ TEST(Size, HundredThousandSpans) {
   expect_equilibrium(b, s, 1e-9);
   EXPECT_NEAR(*s.nodes[n / 2].moment_left, -w * L * L / 12, 1e-9 * w * L * L);
   EXPECT_NEAR(s.nodes[n / 2].reaction_force, w * L, 1e-9 * w * L);
+}
+
+TEST(Size, MillionSpansMixed) {
+  // 1,000,000 spans of varied length and EI with springs, hinges and every
+  // load type: it solves, and the reactions balance the loads (equilibrium,
+  // a general law). No time is asserted (speed is for the benchmarks).
+  const std::size_t n = 1000000;
+  Beam b;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double L = 2 + 0.75 * static_cast<double>(i % 5);
+    b.spans.push_back({L, 1e4 * static_cast<double>(1 + i % 3)});
+    b.loads.push_back(span_udl<double>(i, 0, L, 2));
+    if (i % 3 == 0) b.loads.push_back(span_point<double>(i, L / 3, 7));
+    if (i % 7 == 0) b.loads.push_back(span_couple<double>(i, L / 2, 4));
+    if (i % 11 == 0) b.loads.push_back(span_linear<double>(i, 0.2 * L, 0.8 * L, 1, 3));
+  }
+  for (std::size_t i = 0; i <= n; ++i) {
+    Support s;
+    s.type = i == 0 ? T::Pinned : T::Roller;
+    if (i % 10 == 5) { s.type = T::Spring; s.k = 5e3; }
+    else if (i % 13 == 0 && i > 0 && i < n) s.hinge = true;
+    b.supports.push_back(s);
+    b.labels.push_back("N" + std::to_string(i));
+    if (i % 17 == 0) b.loads.push_back(node_point<double>(i, 3));
+  }
+  const Solution s = stiffness::solve(b, {});
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  expect_equilibrium(b, s, 1e-9);
 }
 
 // --- Out of scope and faults --------------------------------------------------------------

@@ -6,10 +6,13 @@
 // element stiffness is the usual EI/h^3 [12 6h -12 6h; 6h 4h^2 -6h 2h^2;
 // -12 -6h 12 -6h; 6h 2h^2 -6h 4h^2], and EI v'''' = w (load down +).
 //
-// Element end forces F = k u - f (f: work-equivalent loads) are the actions
-// of the nodes ON the element (down +, clockwise +), so by the jump rules of
-// beam.h the shear and moment just inside the element's left end are
-// V0 = -F1 and M0 = +F2.
+// One element per span. Its end forces F = k u - f (f: the work-equivalent
+// loads of all the span's loads) are the actions of the nodes ON the element
+// (down +, clockwise +), so by the jump rules of beam.h the shear and moment
+// just inside the span's left end, before any load at local 0, are
+// V0 = -F1 and M0 = +F2; statics of the span carries them to any x. With
+// Hermite cubics (the exact homogeneous solutions of EI v'''' = 0) these end
+// forces are exact, not approximations: -f are the exact fixed-end forces.
 #include "methods/stiffness/stiffness.h"
 
 #include <algorithm>
@@ -137,95 +140,178 @@ void element_matrix(const R& EI, const R& h, R k[4][4]) {
     for (int j = 0; j < 4; ++j) k[i][j] = m[i][j];
 }
 
-// Work-equivalent loads of a linear load wa..wb over an element of length h.
-template <class R>
-void consistent_loads(const R& wa, const R& wb, const R& h, R f[4]) {
-  const GaussRule<R>& g = gauss_rule<R>();
-  for (int i = 0; i < 4; ++i) f[i] = R(0);
-  for (int q = 0; q < kGaussPoints; ++q) {
-    const R s = (R(1) + g.x[q]) / R(2);
-    const R w = wa + (wb - wa) * s;
-    R N[4];
-    hermite(s, h, N);
-    const R c = g.w[q] * h / R(2) * w;
-    for (int i = 0; i < 4; ++i) f[i] += c * N[i];
-  }
-}
+// --- Solved state ---------------------------------------------------------------
 
-// --- Solved state --------------------------------------------------------------
-
+// One load inside a span, local coordinates. Point: `value` = P at `a`.
+// Couple: `value` = C at `a`. Distributed (Udl and Linear alike): wa at
+// `a` varying linearly to wb at `b`.
 template <class R>
-struct ElementNode {
-  R p;   // local position in its span
-  R v;   // deflection
-  R th;  // rotation (of this span's side, at a hinge)
+struct SpanLoad {
+  LoadType type = LoadType::Point;
+  R value{0}, a{0}, b{0}, wa{0}, wb{0};
+  bool distributed() const { return type == LoadType::Udl || type == LoadType::Linear; }
 };
 
 template <class R>
-struct Element {
-  R wa{0}, wb{0};  // distributed load intensity at its two ends (down +)
-  R V0{0}, M0{0};  // shear and moment just inside its left end
+struct SpanState {
+  R L{1}, EI{1};
+  R v0{0}, th0{0}, v1{0}, th1{0};  // end displacements (this span's side at a hinge)
+  R V0{0}, M0{0};                  // shear and moment from the left end force (before loads at 0)
 };
 
 template <class R>
 struct State {
-  std::vector<R> EI;                  // per span (its length: its last node's p)
-  std::vector<std::size_t> first;     // per span (+1): first element node of the span
-  std::vector<ElementNode<R>> nodes;  // span by span, m_s + 1 nodes for m_s elements
-  std::vector<Element<R>> elems;      // element j of span s: first[s] - s + j
+  std::vector<SpanState<R>> spans;
+  std::vector<std::size_t> first;  // per span + 1: the span's loads are loads[first[s] .. first[s+1])
+  std::vector<SpanLoad<R>> loads;
 };
+
+// Work-equivalent (consistent) loads of one span load on the element of
+// length L: f_i = integral of w N_i over the load's own [a, b] by the Gauss
+// rule (degree 1 x 3 = 4 <= 5: exact), P N_i(a) for a force, C N_i'(a)
+// for a couple. Added to f.
+template <class R>
+void add_consistent(const SpanLoad<R>& l, const R& L, R f[4]) {
+  R N[4];
+  if (l.type == LoadType::Point) {
+    hermite(l.a / L, L, N);
+    for (int i = 0; i < 4; ++i) f[i] += l.value * N[i];
+    return;
+  }
+  if (l.type == LoadType::Couple) {
+    hermite_slope(l.a / L, L, N);
+    for (int i = 0; i < 4; ++i) f[i] += l.value * N[i];
+    return;
+  }
+  const GaussRule<R>& g = gauss_rule<R>();
+  const R half = (l.b - l.a) / R(2), mid = (l.a + l.b) / R(2);
+  for (int q = 0; q < kGaussPoints; ++q) {
+    const R xi = g.x[q];
+    const R t = mid + half * xi;
+    const R w = (l.wa + l.wb) / R(2) + (l.wb - l.wa) / R(2) * xi;
+    hermite(t / L, L, N);
+    const R c = g.w[q] * half * w;
+    for (int i = 0; i < 4; ++i) f[i] += c * N[i];
+  }
+}
+
+// The clamped-clamped Green's function of a span of length L (EI = 1):
+// G(x, t) is the deflection (down +) at x due to a unit downward force at
+// t, zero with zero slope at both ends. For x <= t ([Roark] Table 8.1
+// case 1d, from memory; b = L - t):
+//   G = b^2 x^2 (3 t L - (2 t + L) x) / (6 L^3),
+// and G(x, t) = G(L - x, L - t) for x >= t (mirror image). Returned with
+// dG/dx, dG/dt and d2G/dxdt: a clockwise couple C at t deflects the beam by
+// C dG/dt (a downward force just right of t and an upward one just left).
+template <class R>
+struct Green {
+  R g, gx, gt, gxt;
+};
+
+template <class R>
+Green<R> green_left(const R& x, const R& t, const R& L) {  // x <= t
+  const R b = L - t, L3 = L * L * L, two_t_L = R(2) * t + L, tL = t * L;
+  Green<R> r;
+  r.g = b * b * x * x * (R(3) * tL - two_t_L * x) / (R(6) * L3);
+  r.gx = b * b * x * (R(2) * tL - two_t_L * x) / (R(2) * L3);
+  r.gt = b * x * x * (L * L - R(3) * tL + R(2) * t * x) / (R(2) * L3);
+  r.gxt = b * x * (L * L - R(3) * tL + R(3) * t * x) / L3;
+  return r;
+}
+
+template <class R>
+Green<R> green(const R& x, const R& t, const R& L) {
+  if (!(t < x)) return green_left(x, t, L);
+  Green<R> m = green_left(L - x, L - t, L);
+  m.gx = -m.gx;
+  m.gt = -m.gt;
+  return m;
+}
+
+// Adds EI v and EI v' at x of the clamped-clamped span under a linear load
+// wa..wb over [p, q] (a sub-interval of the load [a, b] lying on one side
+// of x), by the Gauss rule: G is cubic in t on each side of x, the load
+// linear, so degree 4 is integrated exactly.
+template <class R>
+void add_distributed_particular(const SpanLoad<R>& l, const R& p, const R& q, const R& x, const R& L, R& v,
+                                R& th) {
+  if (!(p < q)) return;
+  const GaussRule<R>& g = gauss_rule<R>();
+  const R half = (q - p) / R(2), mid = (p + q) / R(2);
+  const R slope = (l.wb - l.wa) / (l.b - l.a);
+  for (int k = 0; k < kGaussPoints; ++k) {
+    const R t = mid + half * g.x[k];
+    const R w = l.wa + slope * (t - l.a);
+    const Green<R> G = green(x, t, L);
+    const R c = g.w[k] * half * w;
+    v += c * G.g;
+    th += c * G.gx;
+  }
+}
+
+// True when a point force or couple at `a` is on the near (left) side of
+// the limit asked for at x: before x, or at x when the limit is the one
+// after it (always at local 0, never at L; beam.h).
+template <class R>
+bool included(const R& a, const R& x, const R& L, bool after) {
+  if (a < x) return true;
+  if (x < a) return false;
+  return !(R(0) < x) || (after && x < L);
+}
 
 template <class R>
 BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, bool after) {
   BasicPointValues<R> out;
-  if (s >= st.EI.size()) return out;
-  const ElementNode<R>* p = st.nodes.data() + st.first[s];
-  const std::size_t m = st.first[s + 1] - st.first[s] - 1;  // elements in the span
+  if (s >= st.spans.size()) return out;
+  const SpanState<R>& sp = st.spans[s];
+  const R& L = sp.L;
   R x = local;
   if (x < R(0)) x = R(0);
-  if (p[m].p < x) x = p[m].p;  // the last element node is at the span's length
-  const ElementNode<R>* it =
-      std::lower_bound(p, p + m + 1, x, [](const ElementNode<R>& n, const R& v) { return n.p < v; });
-  const std::size_t idx = static_cast<std::size_t>(it - p);
-  std::size_t j;
-  if (idx == 0) {
-    j = 0;
-  } else if (idx > m) {
-    j = m - 1;
-  } else if (!(x < p[idx].p)) {  // exactly on element node idx
-    j = (idx == m) ? m - 1 : (after ? idx : idx - 1);
-  } else {
-    j = idx - 1;
+  if (L < x) x = L;
+
+  // Statics from the left end: the end force, then every load to the left.
+  R V = sp.V0, M = sp.M0 + sp.V0 * x;
+  // Clamped-clamped particular solution (times EI) of the span's loads.
+  R vp(0), thp(0);
+  for (std::size_t k = st.first[s]; k < st.first[s + 1]; ++k) {
+    const SpanLoad<R>& l = st.loads[k];
+    if (l.distributed()) {
+      if (l.a < x) {
+        const R e = x < l.b ? x : l.b;
+        const R c = e - l.a;
+        const R we = l.wa + (l.wb - l.wa) * (c / (l.b - l.a));
+        const R W = (l.wa + we) / R(2) * c;
+        V -= W;
+        M -= (x - e) * W + c * c * (R(2) * l.wa + we) / R(6);
+      }
+      add_distributed_particular(l, l.a, x < l.b ? x : l.b, x, L, vp, thp);
+      add_distributed_particular(l, l.a < x ? x : l.a, l.b, x, L, vp, thp);
+      continue;
+    }
+    const Green<R> G = green(x, l.a, L);
+    if (l.type == LoadType::Point) {
+      if (included(l.a, x, L, after)) {
+        V -= l.value;
+        M -= l.value * (x - l.a);
+      }
+      vp += l.value * G.g;
+      thp += l.value * G.gx;
+    } else {
+      if (included(l.a, x, L, after)) M += l.value;
+      vp += l.value * G.gt;
+      thp += l.value * G.gxt;
+    }
   }
-  const ElementNode<R>& a = p[j];
-  const ElementNode<R>& b = p[j + 1];
-  const Element<R>& e = st.elems[st.first[s] - s + j];
-  const R h = b.p - a.p;
-  const R xi = x - a.p;
-  const R sN = xi / h;
-  const R EI = st.EI[s];
-  const R dw = e.wb - e.wa;
+  out.shear = V;
+  out.moment = M;
 
-  // Statics from the element's left end.
-  out.shear = e.V0 - (e.wa * xi + dw * xi * xi / (R(2) * h));
-  out.moment = e.M0 + e.V0 * xi - (e.wa * xi * xi / R(2) + dw * xi * xi * xi / (R(6) * h));
-
-  // Hermite interpolation plus the clamped-clamped particular solution
-  // vp = g - N3 g(h) - N4 g'(h), g the quartic/quintic with EI g'''' = w.
+  // Hermite interpolation of the end values plus the particular solution.
   R N[4], D[4];
-  hermite(sN, h, N);
-  hermite_slope(sN, h, D);
-  auto g = [&](const R& t) {
-    const R t2 = t * t;
-    return (e.wa * t2 * t2 / R(24) + dw * t2 * t2 * t / (R(120) * h)) / EI;
-  };
-  auto gd = [&](const R& t) {
-    const R t2 = t * t;
-    return (e.wa * t2 * t / R(6) + dw * t2 * t2 / (R(24) * h)) / EI;
-  };
-  const R gh = g(h), gdh = gd(h);
-  out.deflection = N[0] * a.v + N[1] * a.th + N[2] * b.v + N[3] * b.th + g(xi) - N[2] * gh - N[3] * gdh;
-  out.rotation = D[0] * a.v + D[1] * a.th + D[2] * b.v + D[3] * b.th + gd(xi) - D[2] * gh - D[3] * gdh;
+  const R sN = x / L;
+  hermite(sN, L, N);
+  hermite_slope(sN, L, D);
+  out.deflection = N[0] * sp.v0 + N[1] * sp.th0 + N[2] * sp.v1 + N[3] * sp.th1 + vp / sp.EI;
+  out.rotation = D[0] * sp.v0 + D[1] * sp.th0 + D[2] * sp.v1 + D[3] * sp.th1 + thp / sp.EI;
   return out;
 }
 
@@ -426,180 +512,177 @@ struct Buckets {
   }
 };
 
+// Global equilibrium of the result, a fault check: the reactions (spring
+// forces included) balance the loads, vertically and in moment about the
+// left end, to within sqrt(epsilon) of the sizes involved. Empty when they
+// do. With one element per span the residual is a few ulps; this catches a
+// fault, it is not the accuracy claim.
+template <class R>
+std::string check_equilibrium(const BasicBeam<R>& beam, const BasicSolution<R>& sol) {
+  using std::abs;
+  using std::sqrt;
+  const std::size_t n = beam.spans.size();
+  R force(0), moment(0), scale(0), mscale(0);  // loads down +, clockwise + about x = 0
+  for (const BasicLoad<R>& l : beam.loads) {
+    const R x0 = sol.nodes[l.index].x;  // the node, or the span's left end
+    switch (l.type) {
+      case LoadType::Point: {
+        const R xp = l.on_node ? x0 : x0 + l.at;
+        force += l.P;
+        moment += l.P * xp;
+        scale += abs(l.P);
+        break;
+      }
+      case LoadType::Couple:
+        moment += l.C;
+        mscale += abs(l.C);
+        break;
+      default: {
+        const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+        const R c = l.to - l.from;
+        const R W = (l.w1 + w2) / R(2) * c;
+        force += W;
+        moment += (x0 + l.from) * W + c * c * (l.w1 + R(2) * w2) / R(6);
+        scale += (abs(l.w1) + abs(w2)) * c;
+      }
+    }
+  }
+  for (const BasicNodeResult<R>& r : sol.nodes) {
+    force -= r.reaction_force;
+    moment -= r.reaction_force * r.x + r.reaction_moment;
+    scale += abs(r.reaction_force);
+    mscale += abs(r.reaction_moment);
+  }
+  const R length = sol.nodes[n].x;
+  const R tol = sqrt(std::numeric_limits<R>::epsilon());
+  const R fscale = scale + mscale / length;  // couples count as forces over the beam's length
+  if (tol * fscale < abs(force)) return "equilibrium residual in force exceeds sqrt(epsilon) of the loads";
+  if (tol * fscale * length < abs(moment))
+    return "equilibrium residual in moment exceeds sqrt(epsilon) of the loads";
+  return {};
+}
+
 // --- The solver -------------------------------------------------------------------
 
 template <class R>
-BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
+BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   if (std::string why = check_scope(beam); !why.empty()) return not_applicable<R>(why);
   const std::size_t n = beam.spans.size();
   auto st = std::make_shared<State<R>>();
-  st->EI.resize(n);
-  for (std::size_t s = 0; s < n; ++s) st->EI[s] = beam.spans[s].EI;
-
-  // Span loads and stations grouped by span.
-  auto load_span = [n](const BasicLoad<R>& l) { return l.on_node ? n : l.index; };
-  auto station_span = [n](const BasicStation<R>& t) { return t.span < n ? t.span : n; };
-  const Buckets<BasicLoad<R>> loads_of(beam.loads, n, load_span);
-  const Buckets<BasicStation<R>> stations_of(stations, n, station_span);
-
-  // Element nodes of every span.
-  st->first.resize(n + 1);
-  st->nodes.reserve(2 * n + 1 + stations.size() + 2 * beam.loads.size());
-  std::vector<R> pts;
+  st->spans.resize(n);
   for (std::size_t s = 0; s < n; ++s) {
-    const R L = beam.spans[s].length;
-    pts.clear();
-    pts.push_back(R(0));
-    pts.push_back(L);
-    auto inside = [&](const R& x) {
-      if (R(0) < x && x < L) pts.push_back(x);
-    };
-    loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
-      if (l.type == LoadType::Point || l.type == LoadType::Couple) {
-        inside(l.at);
-      } else {
-        inside(l.from);
-        inside(l.to);
-      }
-    });
-    stations_of.each(s, station_span, [&](const BasicStation<R>& t) { inside(t.local); });
-    std::sort(pts.begin(), pts.end());
-    st->first[s] = st->nodes.size();
-    for (std::size_t k = 0; k < pts.size(); ++k)
-      if (k == 0 || pts[k - 1] < pts[k]) st->nodes.push_back({pts[k], R(0), R(0)});
+    st->spans[s].L = beam.spans[s].length;
+    st->spans[s].EI = beam.spans[s].EI;
   }
-  st->first[n] = st->nodes.size();
-  st->elems.assign(st->nodes.size() - n, Element<R>{});
 
-  // Degrees of freedom: only the free ones are numbered. At beam node i:
-  // v, theta (left side), and at a hinge theta of the right side, each
-  // unless restrained; then v, theta of every interior node of span i. A
-  // restrained DOF has no number; its prescribed value goes to the
-  // right-hand side during assembly.
+  // Span loads grouped by span, in local coordinates.
+  auto load_span = [n](const BasicLoad<R>& l) { return l.on_node ? n : l.index; };
+  const Buckets<BasicLoad<R>> loads_of(beam.loads, n, load_span);
+  st->first.resize(n + 1);
+  st->loads.reserve(beam.loads.size());
+  for (std::size_t s = 0; s < n; ++s) {
+    st->first[s] = st->loads.size();
+    loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
+      SpanLoad<R> t;
+      t.type = l.type;
+      switch (l.type) {
+        case LoadType::Point: t.value = l.P; t.a = t.b = l.at; break;
+        case LoadType::Couple: t.value = l.C; t.a = t.b = l.at; break;
+        default:
+          t.a = l.from;
+          t.b = l.to;
+          t.wa = l.w1;
+          t.wb = l.type == LoadType::Udl ? l.w1 : l.w2;
+      }
+      st->loads.push_back(t);
+    });
+  }
+  st->first[n] = st->loads.size();
+
+  // Degrees of freedom, only at the beam's nodes, and only the free ones
+  // numbered: at node i v, theta (left side) and, at a hinge, theta of the
+  // right side, each unless restrained. A restrained DOF has no number; its
+  // prescribed value goes to the right-hand side during assembly.
   constexpr std::size_t kNone = static_cast<std::size_t>(-1);
-  std::vector<std::size_t> base(n + 1);  // first DOF number at beam node i
+  std::vector<std::size_t> base(n + 1);
   std::size_t ndof = 0;
   for (std::size_t i = 0; i <= n; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
     base[i] = ndof;
     ndof += (restrains_deflection(sp.type) ? 0 : 1) + (restrains_rotation(sp.type) ? 0 : 1) + (sp.hinge ? 1 : 0);
-    if (i < n) ndof += 2 * (st->first[i + 1] - st->first[i] - 2);
   }
-  struct Dofs { std::size_t v, thL, thR, interior; };
-  auto beam_dofs = [&](std::size_t i) {
+  struct Dofs { std::size_t v, thL, thR; };
+  auto node_dofs = [&](std::size_t i) {
     const BasicSupport<R>& sp = beam.supports[i];
     std::size_t c = base[i];
     Dofs d;
     d.v = restrains_deflection(sp.type) ? kNone : c++;
     d.thL = restrains_rotation(sp.type) ? kNone : c++;
     d.thR = sp.hinge ? c++ : d.thL;
-    d.interior = c;
     return d;
   };
-  // DOFs (kNone if restrained) and prescribed values of node j of span s.
-  auto node_dofs = [&](std::size_t s, std::size_t j, std::size_t& dv, std::size_t& dth, R& gv) {
-    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
-    gv = R(0);
-    if (j == 0 || j == m) {
-      const std::size_t i = j == 0 ? s : s + 1;
-      const Dofs d = beam_dofs(i);
-      dv = d.v;
-      dth = j == 0 ? d.thR : d.thL;
-      if (dv == kNone) gv = beam.supports[i].settlement;
-    } else {
-      dv = beam_dofs(s).interior + 2 * (j - 1);
-      dth = dv + 1;
-    }
+  // The element of span s: DOFs and prescribed values of (v, theta) at its
+  // left end (node s, right side) and right end (node s + 1, left side).
+  auto element_dofs = [&](std::size_t s, std::size_t d[4], R g[4]) {
+    const Dofs a = node_dofs(s), b = node_dofs(s + 1);
+    d[0] = a.v; d[1] = a.thR; d[2] = b.v; d[3] = b.thL;
+    g[0] = a.v == kNone ? beam.supports[s].settlement : R(0);
+    g[2] = b.v == kNone ? beam.supports[s + 1].settlement : R(0);
+    g[1] = g[3] = R(0);  // a restrained rotation is held at zero
+  };
+  auto element_loads = [&](std::size_t s, R fe[4]) {
+    for (int r = 0; r < 4; ++r) fe[r] = R(0);
+    for (std::size_t k = st->first[s]; k < st->first[s + 1]; ++k) add_consistent(st->loads[k], st->spans[s].L, fe);
   };
 
-  // Distributed loads onto the elements they cover; concentrated loads onto
-  // the right-hand side. The node results start with the applied actions at
-  // the beam nodes (down +, clockwise +); element end forces are subtracted
-  // below, which leaves the reactions (beam.h signs) where restrained.
+  // Node loads onto the right-hand side. The node results start with the
+  // applied actions at the nodes (down +, clockwise +); the element end
+  // forces are subtracted below, which leaves the reactions (beam.h signs)
+  // where restrained.
   BasicSolution<R> sol;
   sol.nodes.resize(n + 1);
   std::vector<R> f(ndof, R(0));
-  auto add_force = [&](std::size_t dof, std::size_t node, const R& P) {
-    if (dof != kNone) f[dof] += P;
-    if (node != kNone) sol.nodes[node].reaction_force += P;
-  };
-  auto add_couple = [&](std::size_t dof, std::size_t node, const R& C) {
-    if (dof != kNone) f[dof] += C;
-    if (node != kNone) sol.nodes[node].reaction_moment += C;
-  };
   for (const BasicLoad<R>& l : beam.loads) {
     if (!l.on_node) continue;
-    const Dofs d = beam_dofs(l.index);
-    if (l.type == LoadType::Point) add_force(d.v, l.index, l.P);
-    else add_couple(d.thL, l.index, l.C);  // not at a hinge (checked), so one rotation
-  }
-  for (std::size_t s = 0; s < n; ++s) {
-    const ElementNode<R>* p = st->nodes.data() + st->first[s];
-    const ElementNode<R>* pend = st->nodes.data() + st->first[s + 1];
-    const std::size_t m = static_cast<std::size_t>(pend - p) - 1;
-    auto node_at = [&](const R& x) {  // local index of the element node at x
-      return static_cast<std::size_t>(
-          std::lower_bound(p, pend, x, [](const ElementNode<R>& a, const R& v) { return a.p < v; }) - p);
-    };
-    auto beam_node = [&](std::size_t j) { return j == 0 ? s : (j == m ? s + 1 : kNone); };
-    loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
-      if (l.type == LoadType::Point || l.type == LoadType::Couple) {
-        const std::size_t j = node_at(l.at);
-        std::size_t dv, dth;
-        R gv;
-        node_dofs(s, j, dv, dth, gv);
-        if (l.type == LoadType::Point) add_force(dv, beam_node(j), l.P);
-        else add_couple(dth, beam_node(j), l.C);
-        return;
-      }
-      const R w1 = l.w1;
-      const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
-      const R slope = (w2 - w1) / (l.to - l.from);
-      const std::size_t a = node_at(l.from), b = node_at(l.to);
-      for (std::size_t j = a; j < b; ++j) {
-        Element<R>& e = st->elems[st->first[s] - s + j];
-        e.wa += w1 + slope * (p[j].p - l.from);
-        e.wb += w1 + slope * (p[j + 1].p - l.from);
-      }
-    });
+    const Dofs d = node_dofs(l.index);
+    if (l.type == LoadType::Point) {
+      if (d.v != kNone) f[d.v] += l.P;
+      sol.nodes[l.index].reaction_force += l.P;
+    } else {  // not at a hinge (checked), so one rotation
+      if (d.thL != kNone) f[d.thL] += l.C;
+      sol.nodes[l.index].reaction_moment += l.C;
+    }
   }
 
-  // Assembly; prescribed displacements move to the right-hand side.
+  // Assembly, one element per span; prescribed displacements move to the
+  // right-hand side, span loads enter as their consistent nodal loads.
   Band<R> K(ndof);
   for (std::size_t s = 0; s < n; ++s) {
-    const R EI = st->EI[s];
-    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
-    for (std::size_t j = 0; j < m; ++j) {
-      const std::size_t k = st->first[s] + j;
-      const R h = st->nodes[k + 1].p - st->nodes[k].p;
-      std::size_t d[4];
-      R g[4] = {R(0), R(0), R(0), R(0)};
-      node_dofs(s, j, d[0], d[1], g[0]);
-      node_dofs(s, j + 1, d[2], d[3], g[2]);
-      R ke[4][4];
-      element_matrix(EI, h, ke);
-      for (int c = 0; c < 4; ++c) {
-        const bool known = d[c] == kNone;
-        if (known && !nonzero(g[c])) continue;
-        for (int r = 0; r < 4; ++r) {
-          if (d[r] == kNone) continue;
-          if (known) f[d[r]] -= ke[r][c] * g[c];
-          else if (d[c] <= d[r]) K.at(d[r], d[c]) += ke[r][c];
-        }
+    std::size_t d[4];
+    R g[4];
+    element_dofs(s, d, g);
+    R ke[4][4];
+    element_matrix(st->spans[s].EI, st->spans[s].L, ke);
+    for (int c = 0; c < 4; ++c) {
+      const bool known = d[c] == kNone;
+      if (known && !nonzero(g[c])) continue;
+      for (int r = 0; r < 4; ++r) {
+        if (d[r] == kNone) continue;
+        if (known) f[d[r]] -= ke[r][c] * g[c];
+        else if (d[c] <= d[r]) K.at(d[r], d[c]) += ke[r][c];
       }
-      const Element<R>& e = st->elems[k - s];
-      if (nonzero(e.wa) || nonzero(e.wb)) {
-        R fe[4];
-        consistent_loads(e.wa, e.wb, h, fe);
-        for (int r = 0; r < 4; ++r)
-          if (d[r] != kNone) f[d[r]] += fe[r];
-      }
+    }
+    if (st->first[s] < st->first[s + 1]) {
+      R fe[4];
+      element_loads(s, fe);
+      for (int r = 0; r < 4; ++r)
+        if (d[r] != kNone) f[d[r]] += fe[r];
     }
   }
   for (std::size_t i = 0; i <= n; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
     if (sp.type != SupportType::Spring) continue;
-    const Dofs d = beam_dofs(i);  // a spring restrains nothing outright
+    const Dofs d = node_dofs(i);  // a spring restrains nothing outright
     K.at(d.v, d.v) += sp.k;
     f[d.v] += sp.k * sp.settlement;
     K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
@@ -613,44 +696,29 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
   for (std::size_t i = 0; i < ndof; ++i)
     if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
 
-  // Nodal values, element end forces F = k u - f; at the beam nodes the
-  // reactions are the applied actions minus the sum of F (= f - K u).
+  // End displacements and end forces F = k u - f of every element; at the
+  // nodes the reactions are the applied actions minus the sum of F.
   for (std::size_t s = 0; s < n; ++s) {
-    const R EI = st->EI[s];
-    const std::size_t m = st->first[s + 1] - st->first[s] - 1;
-    for (std::size_t j = 0; j <= m; ++j) {
-      std::size_t dv, dth;
-      R gv;
-      node_dofs(s, j, dv, dth, gv);
-      ElementNode<R>& nd = st->nodes[st->first[s] + j];
-      nd.v = dv == kNone ? gv : u[dv];
-      nd.th = dth == kNone ? R(0) : u[dth];
+    SpanState<R>& sp = st->spans[s];
+    std::size_t d[4];
+    R g[4];
+    element_dofs(s, d, g);
+    R ue[4];
+    for (int r = 0; r < 4; ++r) ue[r] = d[r] == kNone ? g[r] : u[d[r]];
+    sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
+    R F[4];
+    stiffness_times(sp.EI, sp.L, ue, F);
+    if (st->first[s] < st->first[s + 1]) {
+      R fe[4];
+      element_loads(s, fe);
+      for (int r = 0; r < 4; ++r) F[r] -= fe[r];
     }
-    for (std::size_t j = 0; j < m; ++j) {
-      const std::size_t k = st->first[s] + j;
-      const ElementNode<R>& a = st->nodes[k];
-      const ElementNode<R>& b = st->nodes[k + 1];
-      const R h = b.p - a.p;
-      const R ue[4] = {a.v, a.th, b.v, b.th};
-      R F[4];
-      stiffness_times(EI, h, ue, F);
-      Element<R>& e = st->elems[k - s];
-      if (nonzero(e.wa) || nonzero(e.wb)) {
-        R fe[4];
-        consistent_loads(e.wa, e.wb, h, fe);
-        for (int r = 0; r < 4; ++r) F[r] -= fe[r];
-      }
-      e.V0 = -F[0];
-      e.M0 = F[1];
-      if (j == 0) {
-        sol.nodes[s].reaction_force -= F[0];
-        sol.nodes[s].reaction_moment -= F[1];
-      }
-      if (j + 1 == m) {
-        sol.nodes[s + 1].reaction_force -= F[2];
-        sol.nodes[s + 1].reaction_moment -= F[3];
-      }
-    }
+    sp.V0 = -F[0];
+    sp.M0 = F[1];
+    sol.nodes[s].reaction_force -= F[0];
+    sol.nodes[s].reaction_moment -= F[1];
+    sol.nodes[s + 1].reaction_force -= F[2];
+    sol.nodes[s + 1].reaction_moment -= F[3];
   }
 
   sol.status = MethodStatus::Ok;
@@ -660,13 +728,14 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
     const BasicSupport<R>& sp = beam.supports[i];
     r.x = x;
     if (i < n) x += beam.spans[i].length;
-    const ElementNode<R>& left = st->nodes[i == 0 ? 0 : st->first[i] - 1];
-    const ElementNode<R>& right = st->nodes[i == n ? st->first[n] - 1 : st->first[i]];
-    r.deflection = i < n ? right.v : left.v;
-    r.rotation_left = i > 0 ? left.th : right.th;
-    r.rotation_right = i < n ? right.th : left.th;
-    if (i > 0) r.moment_left = evaluate(*st, i - 1, beam.spans[i - 1].length, false).moment;
-    if (i < n) r.moment_right = evaluate(*st, i, R(0), false).moment;
+    const SpanState<R>* left = i > 0 ? &st->spans[i - 1] : nullptr;
+    const SpanState<R>* right = i < n ? &st->spans[i] : nullptr;
+    r.deflection = right ? right->v0 : left->v1;
+    r.rotation_left = left ? left->th1 : right->th0;
+    r.rotation_right = right ? right->th0 : left->th1;
+    if (left) r.moment_left = evaluate(*st, i - 1, left->L, false).moment;
+    if (right) r.moment_right = evaluate(*st, i, R(0), false).moment;
+    // Where nothing restrains, the sum is the solve's residual: zero.
     if (!restrains_deflection(sp.type)) r.reaction_force = R(0);
     if (!restrains_rotation(sp.type)) r.reaction_moment = R(0);
     if (sp.type == SupportType::Spring) {
@@ -676,6 +745,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
     if (!is_finite(r.reaction_force) || !is_finite(r.reaction_moment))
       return failed<R>("non-finite reaction at " + node_name(beam, i));
   }
+  if (std::string why = check_equilibrium(beam, sol); !why.empty()) return failed<R>(why);
   std::shared_ptr<const State<R>> frozen = std::move(st);
   sol.at = [frozen](std::size_t span, const R& local, bool after) {
     return evaluate(*frozen, span, local, after);
@@ -685,10 +755,12 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, const std::vector<BasicSta
 
 }  // namespace
 
+// `stations` is not needed: the answer is exact anywhere in a span without
+// an element node there (see stiffness.h); kept for the common signature.
 template <class R>
-BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
+BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& /*stations*/) {
   try {
-    return solve_impl(beam, stations);
+    return solve_impl(beam);
   } catch (const std::exception& ex) {
     return failed<R>(std::string("internal fault in the stiffness solve: ") + ex.what());
   }
