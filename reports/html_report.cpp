@@ -1,0 +1,478 @@
+#include "reports/html_report.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <ctime>
+#include <map>
+#include <sstream>
+
+#include "reports/reports.h"
+#include "reports/sha256.h"
+
+namespace trivet::reports {
+
+using namespace trivet::compare;
+
+std::string html_escape(const std::string& s) {
+  std::string r;
+  r.reserve(s.size());
+  for (char c : s) {
+    switch (c) {
+      case '&': r += "&amp;"; break;
+      case '<': r += "&lt;"; break;
+      case '>': r += "&gt;"; break;
+      case '"': r += "&quot;"; break;
+      case '\'': r += "&#39;"; break;
+      default: r += c;
+    }
+  }
+  return r;
+}
+
+std::string utc_now_iso8601() {
+  const std::time_t t = std::time(nullptr);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[32];
+  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+  return buf;
+}
+
+std::string beam_anchor(std::size_t i) { return "beam-" + std::to_string(i + 1); }
+
+namespace {
+
+void replace_all(std::string& s, const std::string& from, const std::string& to) {
+  if (from.empty()) return;
+  std::string out;
+  out.reserve(s.size() + s.size() / 16);
+  std::size_t pos = 0;
+  for (;;) {
+    const std::size_t at = s.find(from, pos);
+    if (at == std::string::npos) break;
+    out.append(s, pos, at - pos);
+    out += to;
+    pos = at + from.size();
+  }
+  out.append(s, pos, std::string::npos);
+  s = std::move(out);
+}
+
+// Removes every attribute `name="..."` (either quote) from the text.
+void drop_attribute(std::string& s, const std::string& name) {
+  for (const char q : {'"', '\''}) {
+    const std::string key = " " + name + "=" + q;
+    for (std::size_t at = s.find(key); at != std::string::npos; at = s.find(key, at)) {
+      const std::size_t end = s.find(q, at + key.size());
+      if (end == std::string::npos) break;
+      s.erase(at, end + 1 - at);
+    }
+  }
+}
+
+}  // namespace
+
+std::string svg_for_html(const std::string& svg, const std::string& prefix) {
+  const std::size_t start = svg.find("<svg");
+  if (start == std::string::npos) return std::string();
+  std::string s = svg.substr(start);
+  drop_attribute(s, "xmlns");
+  drop_attribute(s, "xmlns:xlink");
+  replace_all(s, "xlink:href=", "href=");
+  for (const char* q : {"\"", "'"}) {
+    replace_all(s, std::string("id=") + q, std::string("id=") + q + prefix);
+    replace_all(s, std::string("href=") + q + "#", std::string("href=") + q + "#" + prefix);
+  }
+  replace_all(s, "url(#", "url(#" + prefix);
+  replace_all(s, "<title>Gnuplot</title>", "<title>diagrams</title>");
+  // Smaller: no indentation, no empty lines (text content sits on its own
+  // lines, so nothing a person reads changes).
+  std::string t;
+  t.reserve(s.size());
+  std::size_t i = 0;
+  while (i < s.size()) {
+    std::size_t e = s.find('\n', i);
+    if (e == std::string::npos) e = s.size();
+    std::size_t b = i;
+    while (b < e && (s[b] == ' ' || s[b] == '\t')) ++b;
+    if (b < e) {
+      t.append(s, b, e - b);
+      t += '\n';
+    }
+    i = e + 1;
+  }
+  s = std::move(t);
+  replace_all(s, "<svg ", "<svg class=\"plot\" role=\"img\" ");
+  return s;
+}
+
+namespace {
+
+const char* kCss = R"(
+body{font-family:sans-serif;margin:1.2em auto;max-width:72em;padding:0 1em;color:#1a1a1a;line-height:1.35}
+h1{font-size:1.5em;margin:.2em 0}h2{font-size:1.2em;margin:1.6em 0 .3em;border-top:2px solid #444;padding-top:.5em}
+h3{font-size:1.02em;margin:1em 0 .3em}
+table{border-collapse:collapse;margin:.3em 0 .8em;font-size:.88em}
+th,td{border:1px solid #bbb;padding:.15em .45em;text-align:left;vertical-align:top}
+th{background:#eee}td.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
+.st{font-weight:bold;padding:0 .35em;border:1px solid;border-radius:.2em;white-space:nowrap}
+.agree{color:#175e2b;border-color:#175e2b}.disagree,.invalid,.fails{color:#a3142c;border-color:#a3142c}
+.unconfirmed{color:#7a5600;border-color:#7a5600}
+.counts{font-size:1.05em;margin:.4em 0}.counts b{font-size:1.15em}
+.caution{border:2px solid #7a5600;background:#fff8e6;padding:.5em .8em;margin:.8em 0}
+.note{border-left:4px solid #a3142c;background:#fdf0f2;padding:.3em .7em;margin:.5em 0}
+.muted{color:#555;font-size:.9em}code,.mono{font-family:monospace;font-size:.92em;word-break:break-all}
+details{margin:.4em 0}summary{cursor:pointer;font-weight:bold}
+svg.plot{max-width:100%;height:auto;border:1px solid #ddd;background:#fff}
+@media print{details{display:block}body{max-width:none}}
+)";
+
+std::string st_badge(const std::string& word) {
+  return "<span class=\"st " + html_escape(word) + "\">" + html_escape(word) + "</span>";
+}
+
+int rank(BeamStatus s) {
+  switch (s) {
+    case BeamStatus::Invalid: return 0;
+    case BeamStatus::Disagree: return 1;
+    case BeamStatus::Unconfirmed: return 2;
+    case BeamStatus::Agree: return 3;
+  }
+  return 4;
+}
+
+std::string sci(double v) {
+  if (!std::isfinite(v)) return "n/a";
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.1e", v);
+  return buf;
+}
+
+double largest_difference(const BeamResult& b) {
+  double m = 0;
+  for (const auto& s : b.sets)
+    if (s.ok_count() >= 2)
+      for (std::size_t k = 0; k < 4; ++k) m = std::max(m, s.max_difference[k]);
+  return m;
+}
+
+std::string methods_cell(const BeamResult& b) {
+  if (b.sets.empty()) return "-";
+  // Over all load sets: how many methods were ok in the worst set.
+  std::size_t ok = b.sets[0].methods.size(), total = b.sets[0].methods.size();
+  std::vector<std::string> out;
+  for (const auto& s : b.sets) {
+    ok = std::min(ok, s.ok_count());
+    for (const auto& m : s.methods)
+      if (m.status != MethodStatus::Ok &&
+          std::find(out.begin(), out.end(), m.name + " " + method_status_name(m.status)) == out.end())
+        out.push_back(m.name + " " + method_status_name(m.status));
+  }
+  std::string r = std::to_string(ok) + "/" + std::to_string(total) + " ok";
+  for (const auto& o : out) r += "; " + o;
+  return r;
+}
+
+Kind claim_kind(input::Quantity q) {
+  using Q = input::Quantity;
+  switch (q) {
+    case Q::Shear: return Kind::Shear;
+    case Q::Reaction: return Kind::Reaction;
+    case Q::Deflection: case Q::MaxDeflection: return Kind::Deflection;
+    case Q::Rotation: return Kind::Rotation;
+    default: return Kind::Moment;
+  }
+}
+
+struct Writer {
+  std::ostream& o;
+  const HtmlOptions& opt;
+  HtmlStats stats;
+  bool no_gnuplot = false;
+  std::map<std::string, std::string> hashes;  // path -> sha256 or reason
+
+  const std::string& hash_of(const std::string& path) {
+    auto it = hashes.find(path);
+    if (it != hashes.end()) return it->second;
+    auto h = sha256_file(path);
+    return hashes[path] = h ? *h : std::string("(file not readable)");
+  }
+
+  void summary(const std::vector<BeamResult>& beams, const std::vector<std::size_t>& order) {
+    const Summary s = summarize(beams);
+    o << "<section id=\"summary\"><h2>Summary</h2>\n<p class=\"counts\"><b>" << s.beams << "</b> "
+      << (s.beams == 1 ? "beam" : "beams") << ": <b>" << s.agree << "</b> agree, <b>" << s.disagree
+      << "</b> disagree, <b>" << s.unconfirmed << "</b> unconfirmed, <b>" << s.invalid << "</b> invalid; <b>"
+      << s.claims_failed << "</b> " << (s.claims_failed == 1 ? "claim fails" : "claims fail") << ".</p>\n";
+    if (beams.empty()) {
+      o << "<p>No beams.</p></section>\n";
+      return;
+    }
+    const bool fold = beams.size() > opt.fold_agreeing_after;
+    auto head = [&] {
+      o << "<table class=\"summary\"><tr><th>#</th><th>file</th><th>title</th><th>status</th><th>methods</th>"
+           "<th>largest difference</th><th>claims failed</th></tr>\n";
+    };
+    auto row = [&](std::size_t i) {
+      const BeamResult& b = beams[i];
+      o << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\"><a href=\"#" << beam_anchor(i) << "\">"
+        << html_escape(b.file) << "</a></td><td>" << html_escape(b.title) << "</td><td>"
+        << st_badge(beam_status_name(b.status)) << "</td><td>" << html_escape(methods_cell(b)) << "</td><td class=\"n\">"
+        << (b.status == BeamStatus::Invalid ? "-" : sci(largest_difference(b))) << "</td><td class=\"n\">"
+        << b.claims_failed() << " of " << b.claims.size() << "</td></tr>\n";
+    };
+    std::size_t problems = 0;
+    for (std::size_t i : order)
+      if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0) ++problems;
+    if (!fold) {
+      head();
+      for (std::size_t i : order) row(i);
+      o << "</table>\n";
+    } else {
+      if (problems > 0) {
+        o << "<h3>Beams with a problem (" << problems << ")</h3>\n";
+        head();
+        for (std::size_t i : order)
+          if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0) row(i);
+        o << "</table>\n";
+      } else {
+        o << "<p>No beam has a problem.</p>\n";
+      }
+      o << "<details><summary>Beams whose methods agree and whose claims hold (" << beams.size() - problems
+        << ")</summary>\n";
+      head();
+      for (std::size_t i : order)
+        if (!(beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0)) row(i);
+      o << "</table></details>\n";
+    }
+    o << "<p class=\"muted\">Largest difference: the largest difference between two methods in moment, shear, "
+         "reaction or deflection, as a fraction of the largest value of that kind in the beam.</p>\n";
+    o << "</section>\n";
+  }
+
+  void plot(const BeamResult& b, std::size_t bi, std::size_t si, bool plotted, bool open) {
+    if (!opt.plots) return;
+    o << "<details class=\"plots\"" << (open ? " open" : "") << "><summary>Diagrams";
+    if (b.sets.size() > 1) o << " (load set " << html_escape(b.sets[si].name) << ")";
+    o << "</summary>\n";
+    if (!plotted) {
+      ++stats.plots_skipped;
+      o << "<p class=\"note\">Not plotted here (plots are limited to " << opt.max_plotted_beams
+        << " beams in one report, problems first); run <code>trivet plot " << html_escape(b.file)
+        << " -o plot.svg</code>.</p>\n";
+    } else if (no_gnuplot) {
+      ++stats.plots_skipped;
+      o << "<p class=\"note\">No diagrams: " << html_escape(stats.plot_error) << "</p>\n";
+    } else {
+      RenderOptions ro = opt.render;
+      ro.format = ImageFormat::Svg;
+      ro.width = opt.plot_width;
+      ro.height = opt.plot_height;
+      const PlotData data = thinned(plot_data(b, si), opt.max_points);
+      std::string err;
+      const std::string svg = render(data, ro, &err);
+      if (svg.empty()) {
+        ++stats.plots_skipped;
+        if (stats.plot_error.empty()) stats.plot_error = err;
+        o << "<p class=\"note\">No diagrams: " << html_escape(err) << "</p>\n";
+      } else {
+        ++stats.plots;
+        o << svg_for_html(svg, "b" + std::to_string(bi + 1) + "s" + std::to_string(si + 1) + "-") << "\n";
+        o << "<p class=\"muted\">Each method's curve is drawn in its own dash pattern: where they agree they "
+             "lie on one line. Moment: sagging positive, drawn below the axis (tension side). Deflection: "
+             "downward positive, drawn downward. Bottom panel: each method minus the consensus, divided by "
+             "the largest value of that kind. Every station is kept up to "
+          << opt.max_points << " points per curve; beyond that extremes and jumps are kept.</p>\n";
+        for (const auto& n : data.notes) o << "<p class=\"muted\">" << html_escape(n) << "</p>\n";
+      }
+    }
+    o << "</details>\n";
+  }
+
+  void beam(const BeamResult& b, std::size_t bi, bool plotted, bool open_plots) {
+    o << "<section class=\"beam\" id=\"" << beam_anchor(bi) << "\">\n<h2>" << bi + 1 << ". <span class=\"mono\">"
+      << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status)) << "</h2>\n";
+    if (!b.title.empty()) o << "<p><b>" << html_escape(b.title) << "</b></p>\n";
+    o << "<p class=\"muted\">input <code>" << html_escape(b.file) << "</code>, SHA-256 <code>"
+      << html_escape(hash_of(b.file)) << "</code>; units " << html_escape(b.units.force) << ", "
+      << html_escape(b.units.length) << ". <a href=\"#summary\">back to the summary</a></p>\n";
+    if (b.status == BeamStatus::Invalid) {
+      o << "<ul>\n";
+      for (const auto& e : b.errors) o << "<li class=\"fails\">" << html_escape(e.format(b.file)) << "</li>\n";
+      o << "</ul>\n</section>\n";
+      return;
+    }
+    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
+    for (std::size_t si = 0; si < b.sets.size(); ++si) {
+      const LoadSet& set = b.sets[si];
+      o << "<h3>Load set " << html_escape(set.name) << ": methods " << st_badge(verdict_name(set.verdict)) << "</h3>\n";
+      if (!set.problem.empty()) o << "<p class=\"note\">" << html_escape(set.problem) << "</p>\n";
+      // Methods and comparisons.
+      o << "<table><tr><th>method</th><th>status</th><th>equilibrium: vertical forces</th>"
+           "<th>equilibrium: moments</th><th>note</th></tr>\n";
+      for (const auto& m : set.methods) {
+        const bool ok = m.status == MethodStatus::Ok;
+        o << "<tr><td>" << html_escape(m.name) << "</td><td>" << html_escape(method_status_name(m.status))
+          << "</td><td class=\"n\">" << (ok ? sci(m.equilibrium.force_residual) : "-") << "</td><td class=\"n\">"
+          << (ok ? sci(m.equilibrium.moment_residual) : "-") << "</td><td>" << html_escape(m.reason)
+          << (m.name == set.odd_one_out ? " <b>disagrees with the others</b>" : "") << "</td></tr>\n";
+      }
+      o << "</table>\n";
+      if (set.ok_count() >= 2) {
+        o << "<table><tr><th>largest difference between methods</th>";
+        for (std::size_t k = 0; k < 4; ++k) o << "<th>" << kind_name(static_cast<Kind>(k)) << "</th>";
+        o << "</tr><tr><td>fraction of the largest value</td>";
+        for (std::size_t k = 0; k < 4; ++k) o << "<td class=\"n\">" << sci(set.max_difference[k]) << "</td>";
+        o << "</tr></table>\n";
+        if (set.worst) {
+          const Worst& w = *set.worst;
+          o << "<p>Worst agreement: " << kind_name(w.kind) << " at " << html_escape(w.where) << ":";
+          const int d = decimals_for(set.scale[static_cast<std::size_t>(w.kind)]) + 2;
+          for (std::size_t i = 0; i < w.values.size(); ++i)
+            o << (i ? ", " : " ") << html_escape(w.values[i].first) << " " << fixed(w.values[i].second, d);
+          o << ".</p>\n";
+        }
+      }
+      if (!set.consensus_nodes.empty()) {
+        const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
+        const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
+        const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
+        const int dt = decimals_for(set.scale[static_cast<std::size_t>(Kind::Rotation)]);
+        double xmax = 0;
+        for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(n.x));
+        const int dx = std::max(2, decimals_for(xmax) - 1);
+        const std::size_t n = set.consensus_nodes.size();
+        const bool fold_nodes = n > 30;
+        if (fold_nodes) o << "<details><summary>Nodes (" << n << ")</summary>\n";
+        else o << "<p class=\"muted\">Nodes: consensus of the methods (median).</p>\n";
+        o << "<table><tr><th>node</th><th>x [" << L << "]</th><th>M left [" << FL << "]</th><th>M right [" << FL
+          << "]</th><th>reaction [" << F << "]</th><th>reaction moment [" << FL << "]</th><th>deflection [" << L
+          << "]</th><th>rotation [rad]</th></tr>\n";
+        for (std::size_t i = 0; i < n; ++i) {
+          const NodeResult& c = set.consensus_nodes[i];
+          const std::string rot = std::abs(c.rotation_left - c.rotation_right) > 1e-9 * set.scale[4]
+                                      ? fixed(c.rotation_left, dt) + " / " + fixed(c.rotation_right, dt)
+                                      : fixed(i == 0 ? c.rotation_right : c.rotation_left, dt);
+          o << "<tr><td>" << html_escape(i < set.beam.labels.size() ? set.beam.labels[i] : input::default_label(i))
+            << "</td><td class=\"n\">" << fixed(c.x, dx) << "</td><td class=\"n\">"
+            << (c.moment_left ? fixed(*c.moment_left, dm) : "-") << "</td><td class=\"n\">"
+            << (c.moment_right ? fixed(*c.moment_right, dm) : "-") << "</td><td class=\"n\">"
+            << fixed(c.reaction_force, dr) << "</td><td class=\"n\">" << fixed(c.reaction_moment, dm)
+            << "</td><td class=\"n\">" << fixed(c.deflection, dd) << "</td><td class=\"n\">" << rot << "</td></tr>\n";
+        }
+        o << "</table>\n";
+        if (fold_nodes) o << "</details>\n";
+        const std::size_t ns = set.extremes.size();
+        if (ns > 30) o << "<details><summary>Span extremes (" << ns << ")</summary>\n";
+        o << "<table><tr><th>span</th><th>max sagging [" << FL << "]</th><th>at x [" << L << "]</th><th>max hogging ["
+          << FL << "]</th><th>at x [" << L << "]</th><th>max deflection [" << L << "]</th><th>at x [" << L
+          << "]</th></tr>\n";
+        for (std::size_t i = 0; i < ns; ++i) {
+          const SpanExtremes& e = set.extremes[i];
+          o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(e.max_moment, dm) : "-")
+            << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(e.max_moment_x, dx) : "") << "</td><td class=\"n\">"
+            << (e.min_moment < 0 ? fixed(e.min_moment, dm) : "-") << "</td><td class=\"n\">"
+            << (e.min_moment < 0 ? fixed(e.min_moment_x, dx) : "") << "</td><td class=\"n\">"
+            << fixed(e.max_deflection, dd) << "</td><td class=\"n\">" << fixed(e.max_deflection_x, dx) << "</td></tr>\n";
+        }
+        o << "</table>\n";
+        if (ns > 30) o << "</details>\n";
+      }
+      plot(b, bi, si, plotted, open_plots);
+    }
+    if (!b.claims.empty()) {
+      o << "<h3>Claims (" << b.claims_failed() << " of " << b.claims.size() << " fail)</h3>\n";
+      o << "<table><tr><th>claim</th><th>quantity</th><th>where</th><th>load set</th><th>claimed</th><th>computed</th>"
+           "<th>difference</th><th>tolerance</th><th>holds</th></tr>\n";
+      for (std::size_t i = 0; i < b.claims.size(); ++i) {
+        const ClaimResult& r = b.claims[i];
+        (void)claim_kind(r.claim.quantity);
+        const int d = decimals_for(std::max(std::abs(r.claim.value), std::abs(r.computed))) + 1;
+        std::string where = r.label;
+        if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
+        const std::string unit = b.units.of(input::quantity_dimension(r.claim.quantity));
+        o << "<tr><td class=\"n\">" << i + 1 << "</td><td>" << html_escape(input::quantity_name(r.claim.quantity))
+          << " [" << html_escape(unit) << "]</td><td>" << html_escape(where) << "</td><td>" << html_escape(r.load_case)
+          << "</td><td class=\"n\">" << fixed(r.claim.value, d) << "</td><td class=\"n\">"
+          << (r.evaluated ? fixed(r.computed, d) : "-") << "</td><td class=\"n\">"
+          << (r.evaluated ? fixed(r.difference, d) : "-") << "</td><td class=\"n\">" << fixed(r.tolerance, d)
+          << "</td><td>" << (r.holds ? st_badge("holds") : st_badge("fails")) << "</td></tr>\n";
+        if (!r.reason.empty())
+          o << "<tr><td></td><td colspan=\"8\">" << html_escape(r.reason) << "</td></tr>\n";
+      }
+      o << "</table>\n";
+    }
+    o << "</section>\n";
+  }
+};
+
+}  // namespace
+
+HtmlStats write_html(std::ostream& out, const std::vector<BeamResult>& beams, const HtmlOptions& opt) {
+  Writer w{out, opt, {}, false, {}};
+  const std::string date = opt.date_utc.empty() ? utc_now_iso8601() : opt.date_utc;
+  // Problems first, then file order.
+  std::vector<std::size_t> order(beams.size());
+  for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+    const int ra = rank(beams[a].status) - (beams[a].claims_failed() > 0 ? 1 : 0) * (beams[a].status == BeamStatus::Agree);
+    const int rb = rank(beams[b].status) - (beams[b].claims_failed() > 0 ? 1 : 0) * (beams[b].status == BeamStatus::Agree);
+    return ra < rb;
+  });
+  // Which beams get plots: problems first, up to the limit.
+  std::vector<char> plotted(beams.size(), 0);
+  {
+    std::size_t n = 0;
+    for (std::size_t i : order)
+      if (beams[i].status != BeamStatus::Invalid && n < opt.max_plotted_beams) {
+        plotted[i] = 1;
+        ++n;
+      }
+  }
+  const bool large = beams.size() > opt.fold_agreeing_after;
+
+  out << "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+         "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<title>"
+      << html_escape(opt.title) << "</title>\n<style>" << kCss << "</style>\n</head>\n<body>\n";
+  out << "<header><h1>" << html_escape(opt.title) << "</h1>\n<p class=\"muted\">trivet "
+      << html_escape(opt.tool_version.empty() ? "(version not given)" : opt.tool_version) << ", " << html_escape(date)
+      << (opt.command_line.empty() ? "" : ", <code>" + html_escape(opt.command_line) + "</code>") << "</p></header>\n";
+  out << "<div class=\"caution\" id=\"caution\"><b>Caution.</b> " << html_escape(caution_text()) << "</div>\n";
+  if (opt.plots && !find_gnuplot(opt.render.gnuplot)) {
+    w.no_gnuplot = true;
+    w.stats.plot_error = "gnuplot was not found, so this report has no diagrams; install it (e.g. apt-get install "
+                         "gnuplot-nox) and run again";
+    out << "<p class=\"note\" id=\"no-plots\">" << html_escape(w.stats.plot_error) << ".</p>\n";
+  }
+  w.summary(beams, order);
+  for (const auto& s : opt.extra_sections) {
+    out << "<section class=\"extra\" id=\"" << html_escape(s.id) << "\">\n<h2>" << html_escape(s.heading) << "</h2>\n"
+        << s.html << "\n</section>\n";
+  }
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    const bool problem = beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0;
+    w.beam(beams[i], i, plotted[i] != 0, !large || problem);
+  }
+  // Provenance.
+  out << "<section id=\"provenance\"><h2>Provenance</h2>\n<table>"
+      << "<tr><th>tool</th><td>trivet " << html_escape(opt.tool_version.empty() ? "(version not given)" : opt.tool_version)
+      << "</td></tr>\n<tr><th>date (UTC)</th><td>" << html_escape(date) << "</td></tr>\n<tr><th>command line</th><td><code>"
+      << html_escape(opt.command_line.empty() ? "(not given)" : opt.command_line) << "</code></td></tr>\n</table>\n";
+  if (!beams.empty()) {
+    const bool fold = beams.size() > opt.fold_agreeing_after;
+    if (fold) out << "<details><summary>Input files and their SHA-256 (" << beams.size() << ")</summary>\n";
+    out << "<table><tr><th>#</th><th>input file</th><th>SHA-256</th></tr>\n";
+    for (std::size_t i = 0; i < beams.size(); ++i)
+      out << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\">" << html_escape(beams[i].file)
+          << "</td><td class=\"mono\">" << html_escape(w.hash_of(beams[i].file)) << "</td></tr>\n";
+    out << "</table>\n";
+    if (fold) out << "</details>\n";
+  }
+  out << "</section>\n";
+  out << "<footer><p class=\"caution\"><b>Caution.</b> " << html_escape(caution_text()) << "</p></footer>\n";
+  out << "</body>\n</html>\n";
+  return w.stats;
+}
+
+}  // namespace trivet::reports

@@ -1,0 +1,63 @@
+// trivet: one self-contained HTML file for a person: a summary of every
+// beam first, then per beam its verdict, tables, claims and plots, then the
+// provenance and the caution. No scripts, no network references; CSS and
+// SVG inline. Stays usable for a library of 1,000 beams: counts and
+// problems first, agreeing beams folded away, small plots folded in
+// <details>, and plots for at most `max_plotted_beams` beams.
+#pragma once
+
+#include <cstddef>
+#include <ostream>
+#include <string>
+#include <vector>
+
+#include "harness/compare/compare.h"
+#include "reports/plot.h"
+
+namespace trivet::reports {
+
+// A section the caller adds (e.g. the verification record of selfcheck).
+// `html` is inserted as it is: the caller escapes its own text (see
+// html_escape) and must not put scripts or network references in it.
+struct HtmlSection {
+  std::string id;       // anchor, e.g. "selfcheck"; letters, digits, '-'
+  std::string heading;  // plain text
+  std::string html;
+};
+
+struct HtmlOptions {
+  std::string title = "trivet report";
+  std::string tool_version;   // e.g. "0.1.0"
+  std::string command_line;   // as typed
+  std::string date_utc;       // ISO 8601; empty: now
+  bool plots = true;
+  std::size_t max_plotted_beams = 100;  // the rest get a note (problems are plotted first)
+  std::size_t max_points = 300;         // per curve in the inline SVG
+  int plot_width = 860, plot_height = 980;
+  RenderOptions render;                 // gnuplot path, etc. (format and size are set here)
+  // Sections of the caller, after the summary and before the beams.
+  std::vector<HtmlSection> extra_sections;
+  // More beams than this: the agreeing ones are listed folded.
+  std::size_t fold_agreeing_after = 20;
+};
+
+struct HtmlStats {
+  std::size_t plots = 0;        // plots rendered
+  std::size_t plots_skipped = 0;
+  std::string plot_error;       // the first reason a plot could not be made, or empty
+};
+
+HtmlStats write_html(std::ostream& out, const std::vector<compare::BeamResult>& beams, const HtmlOptions& options);
+
+// &, <, >, " and ' as entities.
+std::string html_escape(const std::string& s);
+// The current time in UTC as ISO 8601, "2024-05-01T12:34:56Z".
+std::string utc_now_iso8601();
+// The id of beam i's section ("beam-1", ...), 0-based i.
+std::string beam_anchor(std::size_t i);
+// An SVG from gnuplot made fit to sit inside HTML: no XML prolog or
+// doctype, no namespace URIs, ids prefixed with `prefix` so that several
+// plots on one page do not clash.
+std::string svg_for_html(const std::string& svg, const std::string& prefix);
+
+}  // namespace trivet::reports

@@ -1,0 +1,929 @@
+#include "reports/plot.h"
+
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <iterator>
+#include <sstream>
+#include <utility>
+
+#include <gnuplot-iostream.h>
+
+#include "reports/reports.h"
+
+namespace trivet::reports {
+
+using namespace trivet::compare;
+
+const char* panel_name(PanelKind k) {
+  switch (k) {
+    case PanelKind::Sketch: return "sketch";
+    case PanelKind::Shear: return "shear";
+    case PanelKind::Moment: return "moment";
+    case PanelKind::Deflection: return "deflection";
+    case PanelKind::Difference: return "difference";
+  }
+  return "?";
+}
+
+const Panel* PlotData::panel(PanelKind k) const {
+  for (const auto& p : panels)
+    if (p.kind == k) return &p;
+  return nullptr;
+}
+
+namespace {
+
+std::size_t ki(Kind k) { return static_cast<std::size_t>(k); }
+
+double value_of(const StationValues& s, Kind k) {
+  switch (k) {
+    case Kind::Shear: return s.shear;
+    case Kind::Deflection: return s.deflection;
+    case Kind::Rotation: return s.rotation;
+    default: return s.moment;
+  }
+}
+
+// The usable stations of a method: ok and one per load set station.
+bool usable(const MethodResult& m, const LoadSet& set) {
+  return m.status == MethodStatus::Ok && m.stations.size() == set.stations.size() && !m.stations.empty();
+}
+
+}  // namespace
+
+PlotData plot_data(const BeamResult& b, std::size_t set_index) {
+  PlotData d;
+  d.title = b.title.empty() ? b.file : b.title;
+  if (b.status == BeamStatus::Invalid) {
+    d.notes.push_back("the beam file is invalid: nothing to plot");
+    return d;
+  }
+  if (set_index >= b.sets.size()) {
+    d.notes.push_back("no load set " + std::to_string(set_index + 1) + " (the beam has " +
+                      std::to_string(b.sets.size()) + ")");
+    return d;
+  }
+  const LoadSet& set = b.sets[set_index];
+  const Beam& beam = set.beam;
+  const std::string F = b.units.force, L = b.units.length, FL = F + "*" + L;
+  d.subtitle = b.file + "  |  load set: " + set.name + "  |  methods " + verdict_name(set.verdict);
+  d.x_label = "x [" + L + "]";
+  const std::size_t nn = beam.node_count();
+  d.x_min = 0;
+  d.x_max = nn ? beam.node_x(nn - 1) : 1;
+  if (!(d.x_max > d.x_min)) d.x_max = d.x_min + 1;
+
+  const int dm = decimals_for(set.scale[ki(Kind::Moment)]);
+  const int dv = decimals_for(set.scale[ki(Kind::Shear)]);
+  const int dr = decimals_for(std::max(set.scale[ki(Kind::Reaction)], 1e-300));
+  const int dd = decimals_for(set.scale[ki(Kind::Deflection)]);
+
+  // Node x positions, summed once.
+  std::vector<double> node_x(nn, 0.0);
+  for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + beam.spans[i - 1].length;
+
+  // The sketch.
+  for (std::size_t i = 0; i < nn; ++i) {
+    SketchNode n;
+    n.x = node_x[i];
+    n.label = i < beam.labels.size() ? beam.labels[i] : input::default_label(i);
+    const Support& s = beam.supports[i];
+    n.type = s.type;
+    n.hinge = s.hinge;
+    n.rotational_spring = s.type == SupportType::Spring && s.kr > 0;
+    n.settlement = s.settlement;
+    if (i < set.consensus_nodes.size()) {
+      const NodeResult& c = set.consensus_nodes[i];
+      std::string r;
+      if (restrains_deflection(s.type) || s.type == SupportType::Spring) r = "R = " + fixed(c.reaction_force, dr) + " " + F;
+      if (restrains_rotation(s.type) || n.rotational_spring)
+        r += (r.empty() ? "" : "; ") + std::string("M = ") + fixed(c.reaction_moment, dm) + " " + FL;
+      n.reaction = r;
+    }
+    d.nodes.push_back(std::move(n));
+  }
+  for (const Load& l : beam.loads) {
+    SketchLoad s;
+    s.type = l.type;
+    const double base = l.on_node ? (l.index < nn ? node_x[l.index] : 0.0) : (l.index < nn ? node_x[l.index] : 0.0);
+    switch (l.type) {
+      case LoadType::Point:
+        s.x0 = s.x1 = l.on_node ? base : base + l.at;
+        s.v0 = s.v1 = l.P;
+        s.text = "P = " + input::format_number(l.P) + " " + F;
+        break;
+      case LoadType::Couple:
+        s.x0 = s.x1 = l.on_node ? base : base + l.at;
+        s.v0 = s.v1 = l.C;
+        s.text = "C = " + input::format_number(l.C) + " " + FL;
+        break;
+      case LoadType::Udl:
+        s.x0 = base + l.from;
+        s.x1 = base + l.to;
+        s.v0 = l.w1;
+        s.v1 = l.w2;
+        s.text = "w = " + input::format_number(l.w1) + " " + F + "/" + L;
+        break;
+      case LoadType::Linear:
+        s.x0 = base + l.from;
+        s.x1 = base + l.to;
+        s.v0 = l.w1;
+        s.v1 = l.w2;
+        s.text = "w = " + input::format_number(l.w1) + " to " + input::format_number(l.w2) + " " + F + "/" + L;
+        break;
+    }
+    d.loads.push_back(std::move(s));
+  }
+
+  // The diagram panels.
+  Panel sketch;
+  sketch.kind = PanelKind::Sketch;
+  Panel shear, moment, defl, diff;
+  shear.kind = PanelKind::Shear;
+  shear.ylabel = "shear [" + F + "]\nup +";
+  moment.kind = PanelKind::Moment;
+  moment.ylabel = "moment [" + FL + "]\nsagging +, drawn down";
+  moment.drawn_down = true;
+  defl.kind = PanelKind::Deflection;
+  defl.ylabel = "deflection [" + L + "]\ndown +, drawn down";
+  defl.drawn_down = true;
+  diff.kind = PanelKind::Difference;
+  diff.ylabel = "(method - consensus)\n/ largest of its kind";
+
+  for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
+    const MethodResult& m = set.methods[mi];
+    if (!usable(m, set)) {
+      d.notes.push_back(m.name + ": " + method_status_name(m.status) + (m.reason.empty() ? "" : " (" + m.reason + ")") +
+                        ", not drawn");
+      continue;
+    }
+    for (Panel* p : {&shear, &moment, &defl}) {
+      const Kind k = p->kind == PanelKind::Shear ? Kind::Shear : p->kind == PanelKind::Moment ? Kind::Moment : Kind::Deflection;
+      Curve c;
+      c.method = c.label = m.name;
+      c.style = mi;
+      c.x.reserve(m.stations.size());
+      c.y.reserve(m.stations.size());
+      for (const auto& s : m.stations) {
+        c.x.push_back(s.x);
+        c.y.push_back(value_of(s, k));
+      }
+      p->curves.push_back(std::move(c));
+    }
+  }
+  if (set.ok_count() >= 2 && set.consensus_stations.size() == set.stations.size()) {
+    for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
+      const MethodResult& m = set.methods[mi];
+      if (!usable(m, set)) continue;
+      for (Kind k : {Kind::Shear, Kind::Moment, Kind::Deflection}) {
+        const double scale = set.scale[ki(k)];
+        Curve c;
+        c.method = m.name;
+        c.label = m.name + " " + kind_name(k);
+        c.style = mi;
+        c.kind = k;
+        for (std::size_t i = 0; i < m.stations.size(); ++i) {
+          c.x.push_back(m.stations[i].x);
+          const double delta = value_of(m.stations[i], k) - value_of(set.consensus_stations[i], k);
+          c.y.push_back(scale > 0 ? delta / scale : 0.0);
+        }
+        diff.curves.push_back(std::move(c));
+      }
+    }
+  } else {
+    d.notes.push_back("fewer than two methods solved the beam: no difference panel");
+  }
+
+  // Values worth a label: at the supports and at the span extremes, from
+  // the consensus. Many spans: only the governing ones.
+  const std::size_t ns = beam.spans.size();
+  const bool every_span = ns <= 8;
+  if (set.consensus_nodes.size() == nn && set.consensus_stations.size() == set.stations.size() && nn >= 2) {
+    // Shear at both ends of each span.
+    std::vector<std::pair<double, double>> ends;  // (x, V)
+    for (std::size_t i = 0; i < set.stations.size(); ++i) {
+      const bool first = i == 0 || set.stations[i - 1].span != set.stations[i].span;
+      const bool last = i + 1 == set.stations.size() || set.stations[i + 1].span != set.stations[i].span;
+      if (first || last) ends.emplace_back(set.consensus_stations[i].x, set.consensus_stations[i].shear);
+    }
+    if (!every_span && !ends.empty()) {
+      auto mx = std::max_element(ends.begin(), ends.end(), [](auto& a, auto& c) { return a.second < c.second; });
+      auto mn = std::min_element(ends.begin(), ends.end(), [](auto& a, auto& c) { return a.second < c.second; });
+      ends = {*mx, *mn};
+    }
+    const double vs = set.scale[ki(Kind::Shear)];
+    for (const auto& e : ends)
+      if (std::abs(e.second) > 1e-9 * vs) shear.labels.push_back({e.first, e.second, fixed(e.second, dv)});
+
+    // Moment at the nodes where it is not zero, and the span extremes.
+    const double ms = set.scale[ki(Kind::Moment)];
+    std::vector<double> labelled_x;
+    auto node_moment = [&](std::size_t i) {
+      const NodeResult& c = set.consensus_nodes[i];
+      return c.moment_right ? *c.moment_right : c.moment_left ? *c.moment_left : 0.0;
+    };
+    std::vector<std::size_t> nodes_to_label;
+    if (every_span) {
+      for (std::size_t i = 0; i < nn; ++i) nodes_to_label.push_back(i);
+    } else {
+      std::size_t hi = 0, lo = 0;
+      for (std::size_t i = 0; i < nn; ++i) {
+        if (node_moment(i) > node_moment(hi)) hi = i;
+        if (node_moment(i) < node_moment(lo)) lo = i;
+      }
+      nodes_to_label = {hi, lo};
+    }
+    for (std::size_t i : nodes_to_label) {
+      const double mv = node_moment(i);
+      if (std::abs(mv) > 1e-9 * ms) {
+        moment.labels.push_back({node_x[i], mv, fixed(mv, dm)});
+        labelled_x.push_back(node_x[i]);
+      }
+    }
+    const double tol_x = 0.03 * (d.x_max - d.x_min);
+    auto near_label = [&](double x) {
+      for (double lx : labelled_x)
+        if (std::abs(lx - x) < tol_x) return true;
+      return false;
+    };
+    std::vector<std::size_t> spans_to_label;
+    if (every_span) {
+      for (std::size_t s = 0; s < set.extremes.size(); ++s) spans_to_label.push_back(s);
+    } else if (!set.extremes.empty()) {
+      std::size_t hi = 0, lo = 0, df = 0;
+      for (std::size_t s = 0; s < set.extremes.size(); ++s) {
+        if (set.extremes[s].max_moment > set.extremes[hi].max_moment) hi = s;
+        if (set.extremes[s].min_moment < set.extremes[lo].min_moment) lo = s;
+        if (std::abs(set.extremes[s].max_deflection) > std::abs(set.extremes[df].max_deflection)) df = s;
+      }
+      spans_to_label = {hi, lo, df};
+    }
+    const double ds = set.scale[ki(Kind::Deflection)];
+    for (std::size_t s : spans_to_label) {
+      const SpanExtremes& e = set.extremes[s];
+      if (e.max_moment > 1e-9 * ms && !near_label(e.max_moment_x)) {
+        moment.labels.push_back({e.max_moment_x, e.max_moment, fixed(e.max_moment, dm)});
+        labelled_x.push_back(e.max_moment_x);
+      }
+      if (e.min_moment < -1e-9 * ms && !near_label(e.min_moment_x)) {
+        moment.labels.push_back({e.min_moment_x, e.min_moment, fixed(e.min_moment, dm)});
+        labelled_x.push_back(e.min_moment_x);
+      }
+      if (std::abs(e.max_deflection) > 1e-9 * ds)
+        defl.labels.push_back({e.max_deflection_x, e.max_deflection, fixed(e.max_deflection, dd)});
+    }
+  }
+
+  // Claims of this load set, on the axes of their quantity.
+  for (std::size_t ci = 0; ci < b.claims.size(); ++ci) {
+    const ClaimResult& c = b.claims[ci];
+    if (!c.load_case.empty() && c.load_case != set.name) continue;
+    if (c.load_case.empty() && b.sets.size() > 1) continue;
+    const std::string tag = "claim " + std::to_string(ci + 1);
+    using Q = input::Quantity;
+    const Q q = c.claim.quantity;
+    std::optional<double> x;
+    if (c.claim.node && *c.claim.node < nn) x = node_x[*c.claim.node];
+    else if (c.claim.x) x = *c.claim.x;
+    else if (c.claim.span && *c.claim.span < set.extremes.size()) {
+      const SpanExtremes& e = set.extremes[*c.claim.span];
+      x = q == Q::MinMoment ? e.min_moment_x : q == Q::MaxDeflection ? e.max_deflection_x : e.max_moment_x;
+    }
+    const std::string verdict = !c.evaluated ? "not evaluated" : c.holds ? "holds" : "fails";
+    if (q == Q::Reaction || q == Q::ReactionMoment) {
+      if (c.claim.node && *c.claim.node < nn) {
+        d.nodes[*c.claim.node].claims.push_back(tag + ": " + (q == Q::Reaction ? "R" : "M") + " = " +
+                                                input::format_number(c.claim.value) + " (" + verdict + ")");
+        continue;
+      }
+    }
+    Panel* p = nullptr;
+    switch (q) {
+      case Q::Moment: case Q::MaxMoment: case Q::MinMoment: p = &moment; break;
+      case Q::Shear: p = &shear; break;
+      case Q::Deflection: case Q::MaxDeflection: p = &defl; break;
+      default: break;
+    }
+    if (!p || !x) {
+      d.notes.push_back(tag + " (" + input::quantity_name(q) + ", " + c.label + ") has no axis in the plot; see the claims table");
+      continue;
+    }
+    p->claims.push_back({ci, *x, c.claim.value, c.holds, c.evaluated, tag});
+  }
+
+  d.panels.push_back(std::move(sketch));
+  d.panels.push_back(std::move(shear));
+  d.panels.push_back(std::move(moment));
+  d.panels.push_back(std::move(defl));
+  d.panels.push_back(std::move(diff));
+  return d;
+}
+
+// ---------------------------------------------------------------------------
+// Thinning.
+
+std::vector<std::size_t> thin_indices(const std::vector<double>& x, const std::vector<double>& y,
+                                      std::size_t max_points) {
+  const std::size_t n = std::min(x.size(), y.size());
+  std::vector<std::size_t> all(n);
+  for (std::size_t i = 0; i < n; ++i) all[i] = i;
+  if (max_points == 0 || n <= max_points || n <= 2) return all;
+  double xr = 0, yr = 0;
+  {
+    auto [xa, xb] = std::minmax_element(x.begin(), x.begin() + static_cast<std::ptrdiff_t>(n));
+    auto [ya, yb] = std::minmax_element(y.begin(), y.begin() + static_cast<std::ptrdiff_t>(n));
+    xr = *xb - *xa;
+    yr = *yb - *ya;
+  }
+  std::vector<char> keep(n, 0);
+  keep[0] = keep[n - 1] = 1;
+  std::size_t lo = 0, hi = 0;
+  for (std::size_t i = 0; i < n; ++i) {
+    if (y[i] < y[lo]) lo = i;
+    if (y[i] > y[hi]) hi = i;
+  }
+  keep[lo] = keep[hi] = 1;
+  for (std::size_t i = 0; i + 1 < n; ++i)
+    if (std::abs(x[i + 1] - x[i]) <= 1e-12 * xr && std::abs(y[i + 1] - y[i]) > 1e-12 * yr) keep[i] = keep[i + 1] = 1;
+  std::size_t mandatory = 0;
+  for (char k : keep) mandatory += k ? 1 : 0;
+  // The rest of the budget: the smallest and largest of each run of points.
+  if (max_points > mandatory + 1) {
+    const std::size_t runs = std::max<std::size_t>(1, (max_points - mandatory) / 2);
+    for (std::size_t r = 0; r < runs; ++r) {
+      const std::size_t a = r * n / runs, b = std::min(n, (r + 1) * n / runs);
+      if (a >= b) continue;
+      std::size_t rl = a, rh = a;
+      for (std::size_t i = a; i < b; ++i) {
+        if (y[i] < y[rl]) rl = i;
+        if (y[i] > y[rh]) rh = i;
+      }
+      keep[rl] = keep[rh] = 1;
+    }
+  }
+  std::vector<std::size_t> out;
+  for (std::size_t i = 0; i < n; ++i)
+    if (keep[i]) out.push_back(i);
+  return out;
+}
+
+PlotData thinned(const PlotData& data, std::size_t max_points) {
+  PlotData d = data;
+  if (max_points == 0) return d;
+  for (auto& p : d.panels)
+    for (auto& c : p.curves) {
+      const auto idx = thin_indices(c.x, c.y, max_points);
+      if (idx.size() == c.x.size()) continue;
+      std::vector<double> nx, ny;
+      nx.reserve(idx.size());
+      ny.reserve(idx.size());
+      for (std::size_t i : idx) {
+        nx.push_back(c.x[i]);
+        ny.push_back(c.y[i]);
+      }
+      c.x = std::move(nx);
+      c.y = std::move(ny);
+    }
+  return d;
+}
+
+std::optional<ImageFormat> format_for_path(const std::string& path) {
+  auto ends = [&](const char* ext) {
+    const std::size_t n = std::char_traits<char>::length(ext);
+    if (path.size() < n) return false;
+    for (std::size_t i = 0; i < n; ++i)
+      if (std::tolower(static_cast<unsigned char>(path[path.size() - n + i])) != ext[i]) return false;
+    return true;
+  };
+  if (ends(".svg")) return ImageFormat::Svg;
+  if (ends(".png")) return ImageFormat::Png;
+  return std::nullopt;
+}
+
+// ---------------------------------------------------------------------------
+// Rendering.
+
+namespace {
+
+bool executable(const std::string& p) { return !p.empty() && ::access(p.c_str(), X_OK) == 0; }
+
+std::string shell_quote(const std::string& s) {
+  std::string r = "'";
+  for (char c : s) {
+    if (c == '\'') r += "'\\''";
+    else r += c;
+  }
+  return r + "'";
+}
+
+// A gnuplot double-quoted string.
+std::string gq(const std::string& s) {
+  std::string r = "\"";
+  for (char c : s) {
+    if (c == '\\') r += "\\\\";
+    else if (c == '"') r += "\\\"";
+    else if (c == '\n') r += "\\n";
+    else if (c == '\r' || c == '\t') r += ' ';
+    else r += c;
+  }
+  return r + "\"";
+}
+
+std::string num(double v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.10g", v);
+  return buf;
+}
+
+// Method styles: colour, width, dash. Distinct in luminance and in dash
+// pattern, so they part in greyscale too.
+struct Style {
+  const char* color;
+  const char* width;
+  const char* dash;
+};
+constexpr Style kStyles[] = {
+    {"#111111", "2.4", "solid"},
+    {"#2b63b0", "1.9", "(9,5)"},
+    {"#d9822b", "1.9", "(2,4)"},
+    {"#4f8a3c", "1.7", "(12,4,2,4)"},
+    {"#8a3c7a", "1.7", "(4,3)"},
+};
+constexpr std::size_t kStyleCount = sizeof kStyles / sizeof kStyles[0];
+
+int kind_point(Kind k) {
+  switch (k) {
+    case Kind::Shear: return 4;       // open square
+    case Kind::Moment: return 6;      // open circle
+    default: return 8;                // open triangle
+  }
+}
+
+// The sketch: y is in pixels of the panel (beam at 0, up +), x in beam
+// units; `upx` is beam units per pixel.
+struct Sketch {
+  std::ostream& o;
+  double upx;
+  int obj = 1;
+  const char* ink = "#222222";
+
+  void line(double x0, double y0, double x1, double y1, double lw = 1.2, const char* color = nullptr) {
+    o << "set arrow from first " << num(x0) << ",first " << num(y0) << " to first " << num(x1) << ",first " << num(y1)
+      << " nohead lw " << lw << " lc rgb \"" << (color ? color : ink) << "\" front\n";
+  }
+  void arrow(double x0, double y0, double x1, double y1, double lw = 1.3) {
+    o << "set arrow from first " << num(x0) << ",first " << num(y0) << " to first " << num(x1) << ",first " << num(y1)
+      << " head filled size first " << num(7 * upx) << ",22,60 lw " << lw << " lc rgb \"" << ink << "\" front\n";
+  }
+  void poly(const std::vector<std::pair<double, double>>& pts, const char* fill, double lw = 1.2) {
+    o << "set object " << obj++ << " polygon from ";
+    for (std::size_t i = 0; i <= pts.size(); ++i) {
+      const auto& p = pts[i % pts.size()];
+      o << (i ? " to " : "") << "first " << num(p.first) << ",first " << num(p.second);
+    }
+    o << " front fc rgb \"" << fill << "\" fs solid 1.0 border lc rgb \"" << ink << "\" lw " << lw << "\n";
+  }
+  void circle(double x, double y, double rpx, const char* fill) {
+    o << "set object " << obj++ << " circle at first " << num(x) << ",first " << num(y) << " size first " << num(rpx * upx)
+      << " front fc rgb \"" << fill << "\" fs solid 1.0 border lc rgb \"" << ink << "\" lw 1.2\n";
+  }
+  void arc(double x, double y, double rpx, double a0, double a1) {
+    o << "set object " << obj++ << " circle at first " << num(x) << ",first " << num(y) << " size first " << num(rpx * upx)
+      << " arc [" << a0 << ":" << a1 << "] front fs empty border lc rgb \"" << ink << "\" lw 1.4 nowedge\n";
+  }
+  void text(double x, double y, const std::string& s, const char* align = "center", int size = 8,
+            const char* color = nullptr) {
+    o << "set label " << gq(s) << " at first " << num(x) << ",first " << num(y) << " " << align << " front font \","
+      << size << "\" textcolor rgb \"" << (color ? color : ink) << "\" noenhanced\n";
+  }
+  // Short diagonal strokes under a ground line from x0 to x1 (pixels
+  // relative to x) at height y.
+  void ground(double x, double px0, double px1, double y) {
+    line(x + px0 * upx, y, x + px1 * upx, y, 1.2);
+    for (double p = px0 + 2; p <= px1; p += 5) line(x + p * upx, y, x + (p - 5) * upx, y - 5, 0.8);
+  }
+};
+
+struct Layout {
+  int W = 960, H = 1100;
+  double left = 100, right = 200, top = 50, bottom = 56, gap = 10;
+  double sketch_h = 180;
+  double panel_h = 200;
+  double fx(double px) const { return px / W; }
+  double fy(double px_from_top) const { return 1.0 - px_from_top / H; }
+};
+
+}  // namespace
+
+std::optional<std::string> find_gnuplot(const std::string& preferred) {
+  std::string want = preferred;
+  if (want.empty()) {
+    const char* env = std::getenv("TRIVET_GNUPLOT");
+    if (env && *env) want = env;
+  }
+  if (want.empty()) want = "gnuplot";
+  if (want.find('/') != std::string::npos) {
+    if (executable(want)) return want;
+    return std::nullopt;
+  }
+  const char* path = std::getenv("PATH");
+  std::string p = path ? path : "/usr/local/bin:/usr/bin:/bin";
+  std::size_t start = 0;
+  while (start <= p.size()) {
+    std::size_t end = p.find(':', start);
+    if (end == std::string::npos) end = p.size();
+    std::string dir = p.substr(start, end - start);
+    if (dir.empty()) dir = ".";
+    const std::string cand = dir + "/" + want;
+    if (executable(cand)) return cand;
+    start = end + 1;
+  }
+  return std::nullopt;
+}
+
+namespace {
+
+// The script: settings, then the data of each panel through
+// gnuplot-iostream, written to a file that gnuplot then runs.
+void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, const std::string& out_path) {
+  Layout lay;
+  lay.W = std::max(320, opt.width);
+  lay.H = std::max(400, opt.height);
+  lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
+  lay.left = 112;
+
+  // The sketch's height in pixels: loads stacked above the beam, the
+  // supports, labels and reaction values below.
+  std::vector<std::size_t> layer(d.loads.size(), 0);
+  std::size_t layers = 0;
+  {
+    std::vector<double> layer_end;
+    std::vector<std::size_t> order;
+    for (std::size_t i = 0; i < d.loads.size(); ++i)
+      if (d.loads[i].type == LoadType::Udl || d.loads[i].type == LoadType::Linear) order.push_back(i);
+    std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return d.loads[a].x0 < d.loads[b].x0; });
+    const double eps = 1e-9 * (d.x_max - d.x_min);
+    for (std::size_t i : order) {
+      std::size_t k = 0;
+      while (k < layer_end.size() && layer_end[k] > d.loads[i].x0 + eps) ++k;
+      if (k == layer_end.size()) layer_end.push_back(d.loads[i].x1);
+      else layer_end[k] = d.loads[i].x1;
+      layer[i] = k;
+    }
+    layers = layer_end.size();
+  }
+  bool any_point = false;
+  for (const auto& l : d.loads) any_point = any_point || (l.type != LoadType::Udl && l.type != LoadType::Linear);
+  std::size_t claim_lines = 0;
+  for (const auto& n : d.nodes) claim_lines = std::max(claim_lines, n.claims.size());
+  const double layer_h = 30;
+  const double loads_top = 8 + layers * layer_h + (any_point ? 34 : 0) + 6;
+  const double below = 66 + 12 * static_cast<double>(claim_lines);
+  lay.sketch_h = std::max(0.16 * lay.H, loads_top + below + 8);
+  const std::size_t data_panels = d.panels.size() > 0 ? d.panels.size() - 1 : 0;
+  lay.panel_h = (lay.H - lay.top - lay.bottom - lay.sketch_h - lay.gap * static_cast<double>(data_panels)) /
+                std::max<std::size_t>(1, data_panels);
+  if (lay.panel_h < 60) lay.panel_h = 60;
+
+  const double span = d.x_max - d.x_min;
+  const double xlo = d.x_min - 0.035 * span, xhi = d.x_max + 0.035 * span;
+  const double plot_w = lay.W - lay.left - lay.right;
+  const double upx = (xhi - xlo) / plot_w;
+
+  if (opt.format == ImageFormat::Svg)
+    gp << "set terminal svg size " << lay.W << "," << lay.H << " font \"sans,10\" noenhanced background rgb \"white\"\n";
+  else
+    gp << "set terminal pngcairo size " << lay.W << "," << lay.H << " font \"sans,10\" noenhanced background rgb \"white\"\n";
+  gp << "set encoding utf8\n";
+  gp << "set output " << gq(out_path) << "\n";
+  for (std::size_t i = 0; i < kStyleCount; ++i)
+    gp << "set style line " << i + 1 << " lc rgb \"" << kStyles[i].color << "\" lw " << kStyles[i].width << " dt "
+       << kStyles[i].dash << "\n";
+  gp << "set style line 21 lc rgb \"#1d7a34\" lw 2 pt 6 ps 1.9\n";   // claim holds: open circle
+  gp << "set style line 22 lc rgb \"#b3122e\" lw 2.4 pt 2 ps 2.1\n"; // claim fails: cross
+  gp << "set multiplot\n";
+  gp << "set xrange [" << num(xlo) << ":" << num(xhi) << "]\n";
+  gp << "set lmargin at screen " << num(lay.fx(lay.left)) << "\n";
+  gp << "set rmargin at screen " << num(lay.fx(lay.W - lay.right)) << "\n";
+
+  double y_px = lay.top;
+  // Title.
+  std::string title = d.title;
+  const std::size_t fit = static_cast<std::size_t>(lay.W / 9.5);
+  if (title.size() > fit) {
+    std::size_t cut = fit - 3;
+    while (cut > 0 && (static_cast<unsigned char>(title[cut]) & 0xC0) == 0x80) --cut;  // whole UTF-8 characters
+    title = title.substr(0, cut) + "...";
+  }
+  gp << "set label 9001 " << gq(title) << " at screen 0.5, screen " << num(lay.fy(18))
+     << " center font \",13\" noenhanced\n";
+  gp << "set label 9002 " << gq(d.subtitle) << " at screen 0.5, screen " << num(lay.fy(38))
+     << " center font \",9\" textcolor rgb \"#444444\" noenhanced\n";
+
+  for (std::size_t pi = 0; pi < d.panels.size(); ++pi) {
+    const Panel& p = d.panels[pi];
+    const double h = p.kind == PanelKind::Sketch ? lay.sketch_h : lay.panel_h;
+    gp << "set tmargin at screen " << num(lay.fy(y_px)) << "\n";
+    gp << "set bmargin at screen " << num(lay.fy(y_px + h)) << "\n";
+    const bool last = pi + 1 == d.panels.size();
+    if (p.kind == PanelKind::Sketch) {
+      gp << "unset border\nunset xtics\nunset ytics\nunset key\nunset grid\n";
+      gp << "set yrange [" << num(-below) << ":" << num(h - below) << "]\n";
+      std::ostringstream o;
+      Sketch s{o, upx};
+      // Spans.
+      s.line(d.x_min, 0, d.x_max, 0, 4.0);
+      const bool many_nodes = d.nodes.size() > 40;
+      const std::size_t label_every = many_nodes ? (d.nodes.size() + 39) / 40 : 1;
+      for (std::size_t i = 0; i < d.nodes.size(); ++i) {
+        const SketchNode& n = d.nodes[i];
+        const double x = n.x;
+        auto X = [&](double px) { return x + px * upx; };
+        switch (n.type) {
+          case SupportType::Pinned:
+            s.poly({{x, -2}, {X(-9), -18}, {X(9), -18}}, "white");
+            s.ground(x, -13, 13, -18);
+            break;
+          case SupportType::Roller:
+            s.poly({{x, -2}, {X(-8), -14}, {X(8), -14}}, "white");
+            s.circle(X(-4.5), -17, 2.6, "white");
+            s.circle(X(4.5), -17, 2.6, "white");
+            s.ground(x, -13, 13, -20);
+            break;
+          case SupportType::Fixed: {
+            const int side = i == 0 ? -1 : (i + 1 == d.nodes.size() ? 1 : 0);
+            if (side != 0) {
+              s.line(x, -22, x, 22, 2.4);
+              for (double yy = -20; yy <= 22; yy += 6) s.line(x, yy, X(side * 7), yy - 7, 0.8);
+            } else {
+              s.poly({{X(-7), -2}, {X(7), -2}, {X(7), -16}, {X(-7), -16}}, "#cccccc");
+              s.ground(x, -13, 13, -16);
+            }
+            break;
+          }
+          case SupportType::Spring: {
+            std::vector<std::pair<double, double>> z = {{x, -2}, {x, -6}};
+            for (int k = 0; k < 6; ++k) z.emplace_back(X(k % 2 ? -6 : 6), -8 - 3 * k);
+            z.emplace_back(x, -26);
+            z.emplace_back(x, -29);
+            for (std::size_t k = 0; k + 1 < z.size(); ++k) s.line(z[k].first, z[k].second, z[k + 1].first, z[k + 1].second, 1.2);
+            s.ground(x, -11, 11, -29);
+            if (n.rotational_spring) {
+              s.arc(x, 0, 9, 200, 340);
+              s.text(X(12), -10, "kr", "left", 7);
+            }
+            break;
+          }
+          case SupportType::Guided:
+            s.line(X(-10), -25, X(-10), 4, 1.2);
+            s.line(X(10), -25, X(10), 4, 1.2);
+            s.poly({{X(-7), -3}, {X(7), -3}, {X(7), -17}, {X(-7), -17}}, "#dddddd");
+            s.ground(x, -13, 13, -25);
+            break;
+          case SupportType::Free:
+            break;
+        }
+        if (n.hinge) s.circle(x, 0, 4, "white");
+        if (i % label_every == 0 || i + 1 == d.nodes.size()) {
+          s.text(x, -42, n.label, "center", 9);
+          std::string r = n.reaction;
+          if (std::abs(n.settlement) > 0) {
+            char sb[48];
+            std::snprintf(sb, sizeof sb, "%.3g", n.settlement);
+            r += std::string(r.empty() ? "" : "; ") + "settles " + sb;
+          }
+          if (!many_nodes && !r.empty()) s.text(x, -55, r, "center", 7, "#333333");
+          for (std::size_t c = 0; c < n.claims.size(); ++c)
+            s.text(x, -67 - 12 * static_cast<double>(c), n.claims[c], "center", 7, "#555555");
+        }
+      }
+      // Loads.
+      double wmax = 0;
+      for (const auto& l : d.loads)
+        if (l.type == LoadType::Udl || l.type == LoadType::Linear) wmax = std::max({wmax, std::abs(l.v0), std::abs(l.v1)});
+      const bool label_loads = d.loads.size() <= 30;
+      for (std::size_t li = 0; li < d.loads.size(); ++li) {
+        const SketchLoad& l = d.loads[li];
+        if (l.type == LoadType::Udl || l.type == LoadType::Linear) {
+          const double base = 6 + layer[li] * layer_h;
+          auto hgt = [&](double w) { return wmax > 0 ? 3 + 15 * std::abs(w) / wmax : 3; };
+          const double h0 = hgt(l.v0), h1 = hgt(l.v1);
+          s.poly({{l.x0, base}, {l.x1, base}, {l.x1, base + h1}, {l.x0, base + h0}}, "#e6e6e6", 1.0);
+          const double len_px = (l.x1 - l.x0) / upx;
+          const int arrows = std::max(2, static_cast<int>(len_px / 22) + 1);
+          for (int k = 0; k < arrows; ++k) {
+            const double t = static_cast<double>(k) / (arrows - 1);
+            const double xx = l.x0 + t * (l.x1 - l.x0);
+            const double hh = h0 + t * (h1 - h0);
+            const double w = l.v0 + t * (l.v1 - l.v0);
+            if (hh > 5) {
+              if (w >= 0) s.arrow(xx, base + hh, xx, base, 0.9);
+              else s.arrow(xx, base, xx, base + hh, 0.9);
+            }
+          }
+          if (label_loads) s.text(0.5 * (l.x0 + l.x1), base + std::max(h0, h1) + 6, l.text, "center", 7);
+        } else if (l.type == LoadType::Point) {
+          const double tail = loads_top - 10;
+          // Labels of forces at the same place, one above the other.
+          std::size_t same = 0;
+          for (std::size_t k = 0; k < li; ++k)
+            if (d.loads[k].type == LoadType::Point && std::abs(d.loads[k].x0 - l.x0) < 40 * upx) ++same;
+          if (l.v0 >= 0) s.arrow(l.x0, tail, l.x0, 3, 1.6);
+          else s.arrow(l.x0, 3, l.x0, tail, 1.6);
+          if (label_loads) s.text(l.x0 + 3 * upx, tail + 2 - 10 * static_cast<double>(same), l.text, "left", 7);
+        } else {  // couple: an arc round the point, the head showing its sense
+          const double r = 12;
+          s.arc(l.x0, 0, r, 30, 330);
+          // Clockwise +: the head at the top end of the arc points right.
+          const double ax = l.x0 + r * std::cos(30 * M_PI / 180) * upx;
+          const double ay = r * std::sin(30 * M_PI / 180);
+          const double bx = l.x0 + r * std::cos(-30 * M_PI / 180) * upx;
+          const double by = -ay;
+          if (l.v0 >= 0) s.arrow(l.x0 + r * std::cos(60 * M_PI / 180) * upx, r * std::sin(60 * M_PI / 180), ax, ay, 1.2);
+          else s.arrow(l.x0 + r * std::cos(-60 * M_PI / 180) * upx, -r * std::sin(60 * M_PI / 180), bx, by, 1.2);
+          if (label_loads) s.text(l.x0 + 3 * upx, r + 8, l.text + (l.v0 >= 0 ? " (clockwise)" : ""), "left", 7);
+        }
+      }
+      gp << o.str();
+      gp << "plot 1/0 notitle\n";
+      gp << "unset arrow\nunset object\nunset label\n";
+      gp << "set border 3 lc rgb \"#555555\"\nset xtics nomirror out\nset ytics nomirror out\n";
+      gp << "set grid xtics ytics lc rgb \"#e2e2e2\" lw 0.6 dt 1\n";
+      gp << "set xzeroaxis lt 1 lc rgb \"#888888\" lw 1\n";
+    } else {
+      // Range, with room for labels; drawn-down panels reversed.
+      double lo = 0, hi = 0;
+      for (const auto& c : p.curves)
+        for (double v : c.y)
+          if (std::isfinite(v)) { lo = std::min(lo, v); hi = std::max(hi, v); }
+      for (const auto& c : p.claims) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
+      if (p.kind == PanelKind::Difference) {
+        const double m = std::max({std::abs(lo), std::abs(hi), 1e-16});
+        lo = -1.25 * m;
+        hi = 1.25 * m;
+        gp << "set format y \"%.1e\"\n";
+      } else {
+        double r = hi - lo;
+        if (!(r > 0)) r = 1;
+        lo -= 0.16 * r;
+        hi += 0.16 * r;
+        gp << "set format y \"%g\"\n";
+      }
+      if (p.drawn_down) gp << "set yrange [" << num(hi) << ":" << num(lo) << "]\n";
+      else gp << "set yrange [" << num(lo) << ":" << num(hi) << "]\n";
+      gp << "set ylabel " << gq(p.ylabel) << " offset 1,0 font \",9\"\n";
+      if (last) gp << "set format x \"%g\"\nset xlabel " << gq(d.x_label) << "\n";
+      else gp << "set format x \"\"\nunset xlabel\n";
+      gp << "set key at screen " << num(lay.fx(lay.W - lay.right + 14)) << ", screen " << num(lay.fy(y_px))
+         << " left top Left reverse samplen 3.2 spacing 1.05 font \",8\" noenhanced\n";
+      // Node lines, to read the diagrams against the sketch.
+      if (d.nodes.size() <= 60)
+        for (const auto& n : d.nodes)
+          gp << "set arrow from first " << num(n.x) << ", graph 0 to first " << num(n.x)
+             << ", graph 1 nohead back lc rgb \"#c8c8c8\" lw 0.8 dt (3,3)\n";
+      for (const auto& l : p.labels) {
+        const bool up = p.drawn_down ? l.y < 0 : l.y >= 0;
+        gp << "set label " << gq(l.text) << " at first " << num(l.x) << ",first " << num(l.y) << " center offset 0,"
+           << (up ? "0.8" : "-0.8") << " front font \",8\" textcolor rgb \"#222222\" noenhanced\n";
+      }
+      for (const auto& c : p.claims)
+        gp << "set label " << gq(c.text) << " at first " << num(c.x) << ",first " << num(c.y)
+           << " left offset 1.2,0.2 front font \",7\" textcolor rgb \"" << (c.holds ? "#1d7a34" : "#b3122e")
+           << "\" noenhanced\n";
+      std::vector<std::vector<std::pair<double, double>>> series;
+      std::vector<std::string> specs;
+      for (const auto& c : p.curves) {
+        std::vector<std::pair<double, double>> pts;
+        pts.reserve(c.x.size());
+        for (std::size_t i = 0; i < c.x.size() && i < c.y.size(); ++i) pts.emplace_back(c.x[i], c.y[i]);
+        if (pts.empty()) continue;
+        std::string spec = "'-' with ";
+        const std::size_t ls = c.style % kStyleCount + 1;
+        if (c.kind) {
+          const std::size_t every = std::max<std::size_t>(1, pts.size() / 10);
+          spec += "linespoints ls " + std::to_string(ls) + " pt " + std::to_string(kind_point(*c.kind)) +
+                  " ps 0.8 pi " + std::to_string(every);
+        } else {
+          spec += "lines ls " + std::to_string(ls);
+        }
+        // The difference panel's legend: one entry per method and one per
+        // quantity, added below, not one per curve.
+        spec += c.kind ? std::string(" notitle") : " title " + gq(c.label);
+        specs.push_back(spec);
+        series.push_back(std::move(pts));
+      }
+      for (int holds = 1; holds >= 0; --holds) {
+        std::vector<std::pair<double, double>> pts;
+        for (const auto& c : p.claims)
+          if (c.holds == (holds == 1)) pts.emplace_back(c.x, c.y);
+        if (pts.empty()) continue;
+        specs.push_back(std::string("'-' with points ls ") + (holds ? "21" : "22") + " title " +
+                        gq(holds ? "claim (holds)" : "claim (fails)"));
+        series.push_back(std::move(pts));
+      }
+      std::vector<std::string> dummies;  // legend entries with no data
+      if (p.kind == PanelKind::Difference && !series.empty()) {
+        std::vector<std::size_t> seen;
+        for (const auto& c : p.curves)
+          if (std::find(seen.begin(), seen.end(), c.style) == seen.end()) {
+            seen.push_back(c.style);
+            dummies.push_back("1/0 with lines ls " + std::to_string(c.style % kStyleCount + 1) + " title " + gq(c.method));
+          }
+        for (Kind k : {Kind::Shear, Kind::Moment, Kind::Deflection})
+          dummies.push_back("1/0 with points pt " + std::to_string(kind_point(k)) +
+                            " ps 0.9 lc rgb \"#444444\" title " + gq(kind_name(k)));
+      }
+      if (series.empty()) {
+        gp << "set label 9100 \"nothing to draw\" at graph 0.5, graph 0.5 center\n";
+        gp << "plot 1/0 notitle\n";
+      } else {
+        gp << "plot ";
+        for (std::size_t i = 0; i < specs.size(); ++i) gp << (i ? ", \\\n  " : "") << specs[i];
+        for (const auto& dm : dummies) gp << ", \\\n  " << dm;
+        gp << "\n";
+        for (const auto& s : series) gp.send1d(s);
+      }
+      gp << "unset arrow\nunset label\n";
+    }
+    y_px += h + lay.gap;
+  }
+  gp << "unset multiplot\nset output\n";
+  gp.flush();
+}
+
+std::string read_all(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  return std::string(std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>());
+}
+
+}  // namespace
+
+std::string render(const PlotData& data, ImageFormat format, int width, int height, std::string* error) {
+  RenderOptions o;
+  o.format = format;
+  o.width = width;
+  o.height = height;
+  return render(data, o, error);
+}
+
+std::string render(const PlotData& data, const RenderOptions& options, std::string* error) {
+  auto fail = [&](const std::string& why) {
+    if (error) *error = why;
+    return std::string();
+  };
+  if (data.panels.empty())
+    return fail("nothing to plot" + (data.notes.empty() ? std::string() : ": " + data.notes.front()));
+  const auto gnuplot = find_gnuplot(options.gnuplot);
+  if (!gnuplot)
+    return fail("gnuplot was not found (looked for " +
+                (options.gnuplot.empty() ? std::string("TRIVET_GNUPLOT or gnuplot on PATH") : options.gnuplot) +
+                "); install it, e.g. apt-get install gnuplot-nox");
+  const char* tmp = std::getenv("TMPDIR");
+  std::string dir_template = std::string(tmp && *tmp ? tmp : "/tmp") + "/trivet-plot-XXXXXX";
+  std::vector<char> buf(dir_template.begin(), dir_template.end());
+  buf.push_back('\0');
+  if (!::mkdtemp(buf.data())) return fail("cannot make a temporary directory under " + dir_template);
+  const std::string dir = buf.data();
+  const std::string script = dir + "/plot.gp";
+  const std::string out = dir + (options.format == ImageFormat::Svg ? "/plot.svg" : "/plot.png");
+  const std::string err = dir + "/gnuplot.err";
+  auto cleanup = [&] {
+    std::remove(script.c_str());
+    std::remove(out.c_str());
+    std::remove(err.c_str());
+    ::rmdir(dir.c_str());
+  };
+  try {
+    Gnuplot gp(">" + script);
+    write_script(gp, data, options, out);
+  } catch (const std::exception& e) {
+    cleanup();
+    return fail(std::string("cannot write the gnuplot script: ") + e.what());
+  }
+  if (!options.keep_script.empty()) {
+    std::ofstream keep(options.keep_script, std::ios::binary);
+    keep << read_all(script);
+  }
+  const std::string cmd = shell_quote(*gnuplot) + " " + shell_quote(script) + " </dev/null >/dev/null 2>" + shell_quote(err);
+  const int status = std::system(cmd.c_str());
+  std::string image = read_all(out);
+  std::string messages = read_all(err);
+  cleanup();
+  const bool exited_ok = status != -1 && WIFEXITED(status) && WEXITSTATUS(status) == 0;
+  if (!exited_ok || image.empty()) {
+    if (messages.size() > 2000) messages = messages.substr(0, 2000) + "...";
+    return fail("gnuplot failed (" + *gnuplot + ")" + (messages.empty() ? std::string() : ": " + messages));
+  }
+  if (options.format == ImageFormat::Svg && image.find("</svg>") == std::string::npos)
+    return fail("gnuplot wrote an incomplete SVG");
+  return image;
+}
+
+}  // namespace trivet::reports

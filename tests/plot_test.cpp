@@ -1,0 +1,244 @@
+// Plots: the data handed to gnuplot is each method's own stations, per
+// panel; the difference panel is each method minus the consensus over the
+// largest value; claims sit on their axes; thinning keeps extremes and
+// jumps; rendering gives an SVG or PNG, or a plain reason.
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <string>
+
+#include "harness/input/reader.h"
+#include "reports/plot.h"
+
+namespace trivet::reports {
+namespace {
+
+// Three spans, a point force, a UDL, a linear load and a couple; claims on
+// each plotted axis, one of them false.
+const char* kBeam = R"({"title": "three spans for the plot test", "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 6, "EI": 40000}, {"length": 8, "EI": 40000}, {"length": 5, "EI": 30000}],
+  "supports": ["pinned", "roller", "roller", "fixed"],
+  "loads": [{"type": "udl", "span": 1, "w": 12},
+            {"type": "point", "span": 2, "P": 40, "at": 3},
+            {"type": "linear", "span": 3, "w1": 0, "w2": 9, "from": 0, "to": 5},
+            {"type": "couple", "span": 2, "C": 15, "at": 6}],
+  "claims": {"tolerance": "1%", "values": [
+    {"quantity": "moment", "node": "B", "value": -60},
+    {"quantity": "max_moment", "span": 2, "value": 55},
+    {"quantity": "deflection", "x": 10, "value": 0.003},
+    {"quantity": "reaction", "node": "A", "value": 30},
+    {"quantity": "shear", "x": 2, "side": "left", "value": 1000}]}})";
+
+compare::BeamResult sample() {
+  input::BeamFile f = input::parse_beam_text(kBeam, "three-spans.json");
+  EXPECT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors[0].format("three-spans.json"));
+  return compare::check(f, {});
+}
+
+double station_value(const compare::StationValues& s, PanelKind k) {
+  switch (k) {
+    case PanelKind::Shear: return s.shear;
+    case PanelKind::Moment: return s.moment;
+    default: return s.deflection;
+  }
+}
+
+TEST(PlotData, EachCurveIsTheMethodsStations) {
+  const compare::BeamResult b = sample();
+  ASSERT_EQ(b.sets.size(), 1u);
+  const compare::LoadSet& set = b.sets[0];
+  ASSERT_EQ(set.ok_count(), 3u);
+  const PlotData d = plot_data(b, 0);
+  ASSERT_EQ(d.panels.size(), 5u);
+  EXPECT_EQ(d.panels[0].kind, PanelKind::Sketch);
+  for (PanelKind k : {PanelKind::Shear, PanelKind::Moment, PanelKind::Deflection}) {
+    const Panel* p = d.panel(k);
+    ASSERT_NE(p, nullptr) << panel_name(k);
+    ASSERT_EQ(p->curves.size(), set.methods.size()) << panel_name(k);
+    EXPECT_NE(p->ylabel.find('['), std::string::npos) << "units on the " << panel_name(k) << " axis";
+    for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
+      const compare::MethodResult& m = set.methods[mi];
+      const Curve& c = p->curves[mi];
+      EXPECT_EQ(c.method, m.name);
+      EXPECT_EQ(c.style, mi);
+      ASSERT_EQ(c.x.size(), m.stations.size()) << m.name << " " << panel_name(k);
+      ASSERT_EQ(c.y.size(), m.stations.size());
+      for (std::size_t i = 0; i < m.stations.size(); ++i) {
+        EXPECT_DOUBLE_EQ(c.x[i], m.stations[i].x) << m.name << " " << panel_name(k) << " " << i;
+        EXPECT_DOUBLE_EQ(c.y[i], station_value(m.stations[i], k)) << m.name << " " << panel_name(k) << " " << i;
+      }
+    }
+  }
+  // The sign conventions are on the axes.
+  EXPECT_NE(d.panel(PanelKind::Moment)->ylabel.find("sagging +"), std::string::npos);
+  EXPECT_TRUE(d.panel(PanelKind::Moment)->drawn_down);
+  EXPECT_NE(d.panel(PanelKind::Deflection)->ylabel.find("down +"), std::string::npos);
+  EXPECT_FALSE(d.panel(PanelKind::Shear)->drawn_down);
+  EXPECT_EQ(d.x_label, "x [m]");
+  EXPECT_DOUBLE_EQ(d.x_max, 19.0);
+}
+
+TEST(PlotData, DifferencePanelIsMethodMinusConsensusOverScale) {
+  const compare::BeamResult b = sample();
+  const compare::LoadSet& set = b.sets[0];
+  const PlotData d = plot_data(b, 0);
+  const Panel* p = d.panel(PanelKind::Difference);
+  ASSERT_NE(p, nullptr);
+  ASSERT_EQ(p->curves.size(), 3u * set.methods.size());
+  std::size_t seen_kinds[3] = {0, 0, 0};
+  for (const Curve& c : p->curves) {
+    ASSERT_TRUE(c.kind.has_value());
+    const compare::MethodResult& m = set.methods[c.style];
+    EXPECT_EQ(m.name, c.method);
+    const compare::Kind k = *c.kind;
+    const double scale = set.scale[static_cast<std::size_t>(k)];
+    ASSERT_GT(scale, 0);
+    ASSERT_EQ(c.y.size(), m.stations.size());
+    auto val = [&](const compare::StationValues& s) {
+      return k == compare::Kind::Shear ? s.shear : k == compare::Kind::Moment ? s.moment : s.deflection;
+    };
+    for (std::size_t i = 0; i < c.y.size(); ++i) {
+      EXPECT_DOUBLE_EQ(c.x[i], m.stations[i].x);
+      const double want = (val(m.stations[i]) - val(set.consensus_stations[i])) / scale;
+      EXPECT_NEAR(c.y[i], want, 1e-15) << c.label << " " << i;
+      EXPECT_LT(std::abs(c.y[i]), 1e-6) << "the methods agree on this beam";
+    }
+    seen_kinds[k == compare::Kind::Shear ? 0 : k == compare::Kind::Moment ? 1 : 2]++;
+  }
+  for (std::size_t n : seen_kinds) EXPECT_EQ(n, set.methods.size());
+}
+
+TEST(PlotData, ClaimsAreMarkersOnTheirAxes) {
+  const compare::BeamResult b = sample();
+  ASSERT_EQ(b.claims.size(), 5u);
+  const PlotData d = plot_data(b, 0);
+  const Panel* mp = d.panel(PanelKind::Moment);
+  const Panel* dp = d.panel(PanelKind::Deflection);
+  const Panel* sp = d.panel(PanelKind::Shear);
+  ASSERT_EQ(mp->claims.size(), 2u);
+  EXPECT_EQ(mp->claims[0].claim, 0u);
+  EXPECT_DOUBLE_EQ(mp->claims[0].x, 6.0);  // node B
+  EXPECT_DOUBLE_EQ(mp->claims[0].y, -60.0);
+  EXPECT_EQ(mp->claims[1].claim, 1u);
+  EXPECT_DOUBLE_EQ(mp->claims[1].x, b.sets[0].extremes[1].max_moment_x);  // where the span's largest sagging is
+  EXPECT_DOUBLE_EQ(mp->claims[1].y, 55.0);
+  ASSERT_EQ(dp->claims.size(), 1u);
+  EXPECT_DOUBLE_EQ(dp->claims[0].x, 10.0);
+  EXPECT_DOUBLE_EQ(dp->claims[0].y, 0.003);
+  ASSERT_EQ(sp->claims.size(), 1u);
+  EXPECT_DOUBLE_EQ(sp->claims[0].y, 1000.0);
+  EXPECT_FALSE(sp->claims[0].holds);  // 1000 kN is far off
+  for (const Panel* p : {mp, dp, sp})
+    for (const auto& c : p->claims) EXPECT_EQ(c.holds, b.claims[c.claim].holds) << c.text;
+  // The reaction claim is written at its support in the sketch.
+  ASSERT_EQ(d.nodes.size(), 4u);
+  ASSERT_EQ(d.nodes[0].claims.size(), 1u);
+  EXPECT_NE(d.nodes[0].claims[0].find("claim 4"), std::string::npos);
+  EXPECT_NE(d.nodes[0].reaction.find("kN"), std::string::npos);
+}
+
+TEST(PlotData, SketchHasSupportsLoadsAndLabels) {
+  const PlotData d = plot_data(sample(), 0);
+  ASSERT_EQ(d.nodes.size(), 4u);
+  EXPECT_EQ(d.nodes[0].type, SupportType::Pinned);
+  EXPECT_EQ(d.nodes[1].type, SupportType::Roller);
+  EXPECT_EQ(d.nodes[3].type, SupportType::Fixed);
+  EXPECT_EQ(d.nodes[2].label, "C");
+  EXPECT_DOUBLE_EQ(d.nodes[3].x, 19.0);
+  ASSERT_EQ(d.loads.size(), 4u);
+  EXPECT_EQ(d.loads[1].type, LoadType::Point);
+  EXPECT_DOUBLE_EQ(d.loads[1].x0, 9.0);  // span 2 starts at 6
+  EXPECT_EQ(d.loads[1].text, "P = 40 kN");
+  EXPECT_DOUBLE_EQ(d.loads[2].x0, 14.0);
+  EXPECT_DOUBLE_EQ(d.loads[2].x1, 19.0);
+  EXPECT_EQ(d.loads[3].type, LoadType::Couple);
+  EXPECT_NE(d.loads[3].text.find("kN*m"), std::string::npos);
+  // Values at the supports and the span extremes.
+  EXPECT_FALSE(d.panel(PanelKind::Moment)->labels.empty());
+  EXPECT_FALSE(d.panel(PanelKind::Deflection)->labels.empty());
+}
+
+TEST(PlotData, InvalidBeamHasNothingToPlot) {
+  const compare::BeamResult bad = compare::check(input::parse_beam_text("{}", "bad.json"), {});
+  const PlotData d = plot_data(bad, 0);
+  EXPECT_TRUE(d.panels.empty());
+  ASSERT_FALSE(d.notes.empty());
+  std::string err;
+  EXPECT_TRUE(render(d, ImageFormat::Svg, 400, 500, &err).empty());
+  EXPECT_NE(err.find("nothing to plot"), std::string::npos) << err;
+  EXPECT_TRUE(plot_data(sample(), 7).panels.empty());
+}
+
+TEST(Thinning, KeepsEndsExtremesAndJumps) {
+  std::vector<double> x, y;
+  const std::size_t n = 20000;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double t = static_cast<double>(i) / (n - 1) * 10.0;
+    x.push_back(t);
+    y.push_back(std::sin(t));
+    if (i == 7000) {  // a jump: the same x twice
+      x.push_back(t);
+      y.push_back(std::sin(t) + 3.0);
+    }
+  }
+  y[12345] = -50.0;  // a narrow spike
+  const auto idx = thin_indices(x, y, 400);
+  EXPECT_LE(idx.size(), 402u);
+  EXPECT_GT(idx.size(), 100u);
+  auto has = [&](std::size_t i) { return std::find(idx.begin(), idx.end(), i) != idx.end(); };
+  EXPECT_TRUE(has(0));
+  EXPECT_TRUE(has(x.size() - 1));
+  EXPECT_TRUE(has(7000));
+  EXPECT_TRUE(has(7001));
+  EXPECT_TRUE(has(12345));
+  EXPECT_TRUE(std::is_sorted(idx.begin(), idx.end()));
+  // Small curves are kept whole; 0 keeps everything.
+  EXPECT_EQ(thin_indices(x, y, 0).size(), x.size());
+  std::vector<double> sx = {0, 1, 2}, sy = {3, 4, 5};
+  EXPECT_EQ(thin_indices(sx, sy, 400).size(), 3u);
+  // thinned() applies it to every curve.
+  const PlotData d = thinned(plot_data(sample(), 0), 5);
+  for (const auto& p : d.panels)
+    for (const auto& c : p.curves) {
+      EXPECT_EQ(c.x.size(), c.y.size());
+      EXPECT_LT(c.x.size(), plot_data(sample(), 0).panel(p.kind)->curves[0].x.size());
+    }
+}
+
+TEST(Render, FormatFromPath) {
+  EXPECT_EQ(format_for_path("a/b.svg"), ImageFormat::Svg);
+  EXPECT_EQ(format_for_path("B.PNG"), ImageFormat::Png);
+  EXPECT_FALSE(format_for_path("b.pdf").has_value());
+  EXPECT_FALSE(format_for_path("png").has_value());
+}
+
+TEST(Render, MissingGnuplotIsAPlainError) {
+  RenderOptions o;
+  o.gnuplot = "/nonexistent/dir/gnuplot";
+  std::string err;
+  EXPECT_TRUE(render(plot_data(sample(), 0), o, &err).empty());
+  EXPECT_NE(err.find("gnuplot was not found"), std::string::npos) << err;
+}
+
+TEST(Render, SvgText) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox): SVG rendering not tested";
+  std::string err;
+  const std::string svg = render(plot_data(sample(), 0), ImageFormat::Svg, 800, 900, &err);
+  ASSERT_FALSE(svg.empty()) << err;
+  EXPECT_TRUE(svg.rfind("<?xml", 0) == 0 || svg.rfind("<svg", 0) == 0) << svg.substr(0, 80);
+  EXPECT_NE(svg.find("</svg>"), std::string::npos);
+  // The legend names the methods; the axes carry units.
+  for (const char* s : {"three-moment", "slope-deflection", "stiffness", "x [m]", "shear [kN]", "claim (fails)"})
+    EXPECT_NE(svg.find(s), std::string::npos) << s;
+}
+
+TEST(Render, PngBytes) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox): PNG rendering not tested";
+  std::string err;
+  const std::string png = render(plot_data(sample(), 0), ImageFormat::Png, 800, 900, &err);
+  ASSERT_GT(png.size(), 1000u) << err;
+  EXPECT_EQ(png.substr(0, 8), std::string("\x89PNG\r\n\x1a\n", 8));
+}
+
+}  // namespace
+}  // namespace trivet::reports
