@@ -117,6 +117,50 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
       out << d.str() << "\n";
       if (!set.problem.empty()) out << "  " << paint(set.problem, set.verdict == Verdict::Disagree ? kRed : kYellow, opt.color) << "\n";
     }
+    if (set.envelope && set.ok_count() > 0) {
+      const input::Combination& cb = *set.combination;
+      out << "  combination " << set.name << ":";
+      for (const auto& [cs, f] : cb.factors)
+        out << " " << cs << " x" << (f.range ? "[" + input::format_number(f.low) + ", " + input::format_number(f.high) + "]" : input::format_number(f.high));
+      if (!cb.pattern.empty()) {
+        out << "; patterned:";
+        for (const auto& p : cb.pattern) out << " " << p;
+        out << " (" << (cb.arrangements == input::Arrangements::All ? "every arrangement" : "all, alternate and adjacent spans") << ")";
+      }
+      if (!cb.source.empty()) out << "; " << cb.source;
+      out << "\n";
+      const Envelope& e = set.consensus_envelope;
+      const int dm = decimals_for(set.scale[static_cast<int>(Kind::Moment)]);
+      const int dr = decimals_for(set.scale[static_cast<int>(Kind::Reaction)]);
+      Table t;
+      t.head = {"node", "reaction max [" + F + "]", "governed by", "reaction min [" + F + "]", "governed by"};
+      const std::size_t n = e.reaction.size();
+      const bool cut = !opt.all_rows && n > opt.max_rows;
+      for (std::size_t i = 0; i < n; ++i) {
+        if (cut && i == opt.max_rows / 2) {
+          t.rows.push_back({"  ... " + std::to_string(n - opt.max_rows) + " nodes not shown ..."});
+          i = n - opt.max_rows / 2;
+        }
+        t.rows.push_back({set.beam.labels[i], fixed(e.reaction[i].max, dr), describe(e.reaction[i].max_by, cb),
+                          fixed(e.reaction[i].min, dr), describe(e.reaction[i].min_by, cb)});
+      }
+      t.print(out, "  ");
+      Table x;
+      x.head = {"span", "moment max [" + FL + "]", "at x [" + L + "]", "governed by", "moment min [" + FL + "]", "at x [" + L + "]", "governed by"};
+      for (std::size_t i = 0; i < set.extremes.size(); ++i) {
+        if (!opt.all_rows && set.extremes.size() > opt.max_rows && i == opt.max_rows / 2) {
+          x.rows.push_back({"  ... " + std::to_string(set.extremes.size() - opt.max_rows) + " spans not shown ..."});
+          i = set.extremes.size() - opt.max_rows / 2;
+        }
+        const SpanExtremes& se = set.extremes[i];
+        x.rows.push_back({std::to_string(i + 1), fixed(se.max_moment, dm), fixed(se.max_moment_x, 2), se.max_moment_by,
+                          fixed(se.min_moment, dm), fixed(se.min_moment_x, 2), se.min_moment_by});
+      }
+      out << "\n";
+      x.print(out, "  ");
+      out << "\n";
+      continue;
+    }
     if (set.consensus_nodes.empty()) { out << "\n"; continue; }
     double worst_f = 0, worst_m = 0;
     for (const auto& m : set.methods)

@@ -34,10 +34,61 @@ ordered_json num(double v) {
 }
 ordered_json opt(const std::optional<double>& v) { return v ? num(*v) : ordered_json(nullptr); }
 
+ordered_json governs_json(const Governs& g, const input::Combination& c) {
+  ordered_json o;
+  ordered_json spans = ordered_json::array();
+  for (auto sp : g.spans) spans.push_back(sp + 1);
+  if (!c.pattern.empty()) o["loaded_spans"] = std::move(spans);
+  ordered_json f = ordered_json::object();
+  for (std::size_t k = 0; k < c.factors.size() && k < g.factors.size(); ++k) f[c.factors[k].first] = g.factors[k];
+  o["factors"] = std::move(f);
+  return o;
+}
+
+ordered_json envelope_json(const Envelope& e, const LoadSet& set) {
+  const input::Combination& c = *set.combination;
+  ordered_json j;
+  ordered_json st = ordered_json::array();
+  for (std::size_t i = 0; i < e.moment.size(); ++i) {
+    ordered_json o;
+    o["x"] = num(set.stations[i].x);
+    o["moment_max"] = num(e.moment[i].max);
+    o["moment_min"] = num(e.moment[i].min);
+    o["shear_max"] = num(e.shear[i].max);
+    o["shear_min"] = num(e.shear[i].min);
+    o["deflection_max"] = num(e.deflection[i].max);
+    o["deflection_min"] = num(e.deflection[i].min);
+    o["governs"] = {{"moment_max", governs_json(e.moment[i].max_by, c)}, {"moment_min", governs_json(e.moment[i].min_by, c)},
+                    {"shear_max", governs_json(e.shear[i].max_by, c)}, {"shear_min", governs_json(e.shear[i].min_by, c)},
+                    {"deflection_max", governs_json(e.deflection[i].max_by, c)}, {"deflection_min", governs_json(e.deflection[i].min_by, c)}};
+    st.push_back(std::move(o));
+  }
+  j["stations"] = std::move(st);
+  ordered_json nodes = ordered_json::array();
+  for (std::size_t i = 0; i < e.reaction.size(); ++i) {
+    ordered_json o;
+    o["label"] = set.beam.labels[i];
+    o["x"] = num(set.beam.node_x(i));
+    o["reaction_max"] = num(e.reaction[i].max);
+    o["reaction_min"] = num(e.reaction[i].min);
+    o["governs"] = {{"reaction_max", governs_json(e.reaction[i].max_by, c)}, {"reaction_min", governs_json(e.reaction[i].min_by, c)}};
+    nodes.push_back(std::move(o));
+  }
+  j["nodes"] = std::move(nodes);
+  return j;
+}
+
 ordered_json method_json(const MethodResult& m, const LoadSet& set) {
   ordered_json j;
   j["status"] = method_status_name(m.status);
   j["reason"] = m.reason;
+  if (set.envelope) {
+    if (m.envelope) j["envelope"] = envelope_json(*m.envelope, set);
+    if (m.status == MethodStatus::Ok)
+      j["equilibrium"] = {{"force_residual", num(m.equilibrium.force_residual)},
+                          {"moment_residual", num(m.equilibrium.moment_residual)}};
+    return j;
+  }
   ordered_json nodes = ordered_json::array();
   for (std::size_t i = 0; i < m.nodes.size(); ++i) {
     const NodeResult& n = m.nodes[i];
@@ -99,6 +150,15 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
     for (const auto& set : b.sets) {
       ordered_json r;
       r["verdict"] = verdict_name(set.verdict);
+      if (set.combination) {
+        ordered_json f = ordered_json::object();
+        for (const auto& [cs, fac] : set.combination->factors)
+          f[cs] = fac.range ? ordered_json::array({fac.low, fac.high}) : ordered_json(fac.high);
+        r["combination"] = {{"factors", f}, {"pattern", set.combination->pattern},
+                            {"arrangements", set.combination->arrangements == input::Arrangements::All ? "all" : "adjacent-and-alternate"},
+                            {"envelope", set.envelope}};
+        if (!set.combination->source.empty()) r["combination"]["source"] = set.combination->source;
+      }
       ordered_json md;
       for (std::size_t k = 0; k < kKinds; ++k) md[kind_name(static_cast<Kind>(k))] = num(set.max_difference[k]);
       r["max_difference"] = std::move(md);
@@ -124,6 +184,10 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
                       {"max_moment", num(e.max_moment)}, {"max_moment_x", num(e.max_moment_x)},
                       {"min_moment", num(e.min_moment)}, {"min_moment_x", num(e.min_moment_x)},
                       {"max_deflection", num(e.max_deflection)}, {"max_deflection_x", num(e.max_deflection_x)}});
+        if (set.envelope) {
+          ex.back()["max_moment_governs"] = e.max_moment_by;
+          ex.back()["min_moment_governs"] = e.min_moment_by;
+        }
       }
       r["span_extremes"] = std::move(ex);
       ordered_json ms = ordered_json::object();

@@ -45,6 +45,30 @@ struct Equilibrium {
   double moment_residual = 0;
 };
 
+// Which arrangement of a combination governs an envelope value: the spans
+// (0-based) whose patterned loads are on, and the factor taken for each of
+// the combination's cases (in the combination's order).
+struct Governs {
+  std::vector<std::size_t> spans;
+  std::vector<double> factors;
+};
+
+// The largest and smallest value of a quantity over a combination's
+// arrangements and factor choices, with what governs each.
+struct Bound {
+  double max = 0, min = 0;
+  Governs max_by, min_by;
+};
+
+// Envelope of one method for a combination with a pattern or a factor
+// range: per station (moment, shear, deflection) and per node (reaction).
+struct Envelope {
+  std::vector<Bound> moment, shear, deflection;  // one per load set station
+  std::vector<Bound> reaction;                   // one per node
+};
+
+class EnvelopeModel;  // a method's unit solutions, for envelope values anywhere
+
 struct MethodResult {
   std::string name;
   MethodStatus status = MethodStatus::Failed;
@@ -53,13 +77,24 @@ struct MethodResult {
   std::vector<StationValues> stations;  // one per load set station
   Equilibrium equilibrium;
   Solution solution;  // for evaluation between stations
+  // For an envelope load set (then nodes/stations are empty): the envelope
+  // and the unit solutions it came from.
+  std::optional<Envelope> envelope;
+  std::shared_ptr<const EnvelopeModel> envelope_model;
 };
 
-// The extreme values of one span (from the consensus of the methods).
+// The value of `q` (moment_max ... reaction_min) of one method's envelope
+// at a point of a span (`after`: the right-hand limit at a jump) or, for
+// reactions, at a node (`span` is then the node).
+double envelope_value(const EnvelopeModel& model, input::Quantity q, std::size_t span, double local, bool after);
+
+// The extreme values of one span (from the consensus of the methods). For
+// an envelope: of moment_max and moment_min, with what governs them.
 struct SpanExtremes {
   double max_moment = 0, max_moment_x = 0;
   double min_moment = 0, min_moment_x = 0;
   double max_deflection = 0, max_deflection_x = 0;  // signed, largest magnitude
+  std::string max_moment_by, min_moment_by;          // envelopes only
 };
 
 enum class Verdict { Agree, Disagree, Unconfirmed };
@@ -75,6 +110,11 @@ struct Worst {
 
 struct LoadSet {
   std::string name;
+  // The combination this load set comes from, if any; `envelope` when it
+  // has a pattern or a factor range (the methods then carry envelopes).
+  std::optional<input::Combination> combination;
+  bool envelope = false;
+  Envelope consensus_envelope;
   Beam beam;  // the beam with this set's loads only
   std::vector<Station> stations;
   std::vector<MethodResult> methods;
@@ -126,6 +166,10 @@ struct Options {
   double agreement = 1e-6;
   std::optional<int> stations_per_span;
 };
+
+// Plain words for what governs an envelope value: "spans 1, 3 loaded;
+// dead x1.35, live x1.6".
+std::string describe(const Governs& g, const input::Combination& c);
 
 // Checks one file that has been read (invalid files give an Invalid result
 // carrying their errors).

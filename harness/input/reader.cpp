@@ -33,8 +33,31 @@ const char* quantity_name(Quantity q) {
     case Quantity::MaxMoment: return "max_moment";
     case Quantity::MinMoment: return "min_moment";
     case Quantity::MaxDeflection: return "max_deflection";
+    case Quantity::MomentMax: return "moment_max";
+    case Quantity::MomentMin: return "moment_min";
+    case Quantity::ShearMax: return "shear_max";
+    case Quantity::ShearMin: return "shear_min";
+    case Quantity::ReactionMax: return "reaction_max";
+    case Quantity::ReactionMin: return "reaction_min";
   }
   return "?";
+}
+
+bool is_envelope_quantity(Quantity q) {
+  return q == Quantity::MomentMax || q == Quantity::MomentMin || q == Quantity::ShearMax ||
+         q == Quantity::ShearMin || q == Quantity::ReactionMax || q == Quantity::ReactionMin;
+}
+
+bool Combination::is_envelope() const {
+  if (!pattern.empty()) return true;
+  for (const auto& f : factors)
+    if (f.second.range) return true;
+  return false;
+}
+
+const std::vector<std::string>& preset_names() {
+  static const std::vector<std::string> names = {"asce7-strength", "en1990-6.10"};
+  return names;
 }
 
 Dimension quantity_dimension(Quantity q) {
@@ -44,6 +67,8 @@ Dimension quantity_dimension(Quantity q) {
     case Quantity::Shear: case Quantity::Reaction: return {1, 0};
     case Quantity::Deflection: case Quantity::MaxDeflection: return {0, 1};
     case Quantity::Rotation: return {0, 0};
+    case Quantity::MomentMax: case Quantity::MomentMin: return {1, 1};
+    case Quantity::ShearMax: case Quantity::ShearMin: case Quantity::ReactionMax: case Quantity::ReactionMin: return {1, 0};
   }
   return {0, 0};
 }
@@ -237,12 +262,13 @@ struct Reader {
 };
 
 const std::vector<std::string> kTopKeys = {"title", "description", "units", "spans", "supports",
-                                           "labels", "loads", "stations_per_span", "claims", "$schema"};
+                                           "labels", "loads", "stations_per_span", "claims", "combinations", "$schema"};
 const std::vector<std::string> kSupportTypes = {"fixed", "pinned", "roller", "free", "spring", "guided"};
 const std::vector<std::string> kLoadTypes = {"point", "udl", "linear", "couple"};
 const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "reaction_moment",
                                               "deflection", "rotation", "max_moment",
-                                              "min_moment", "max_deflection"};
+                                              "min_moment", "max_deflection", "moment_max", "moment_min",
+                                              "shear_max", "shear_min", "reaction_max", "reaction_min"};
 
 // Tracks object keys during parsing so that a key given twice is an error
 // (nlohmann/json would otherwise keep the last one silently).
@@ -298,7 +324,7 @@ std::string where_of(const std::string& ptr) {
   // "/spans/1/..." -> "span 2", "/supports/0" -> "node 1", ...
   static const std::vector<std::pair<std::string, std::string>> prefixes = {
       {"/spans/", "span "}, {"/supports/", "node "}, {"/labels/", "node "},
-      {"/loads/", "load "}, {"/claims/values/", "claim "}};
+      {"/loads/", "load "}, {"/claims/values/", "claim "}, {"/combinations/", "combination "}};
   for (const auto& [p, w] : prefixes) {
     if (ptr.compare(0, p.size(), p) == 0) {
       std::size_t i = p.size();
@@ -760,6 +786,155 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   if (out.cases.empty()) out.cases.push_back("loads");
   (void)couple_at_node;
 
+  // combinations
+  if (auto it = root.find("combinations"); it != root.end()) {
+    if (!it->is_array()) {
+      rd.error("/combinations", "", "must be a list of combinations (" + got(*it) + ")");
+    } else {
+      std::set<std::string> names;
+      auto add = [&](Combination c, const std::string& ptr, const std::string& where) {
+        if (std::find(out.cases.begin(), out.cases.end(), c.name) != out.cases.end()) {
+          rd.error(ptr + "/name", where, "the name '" + c.name + "' is already a load case's; a combination needs a name of its own");
+          return;
+        }
+        if (!names.insert(c.name).second) {
+          rd.error(ptr + "/name", where, "the name '" + c.name + "' is used by another combination");
+          return;
+        }
+        out.combinations.push_back(std::move(c));
+      };
+      for (std::size_t i = 0; i < it->size(); ++i) {
+        const json& c = (*it)[i];
+        const std::string ptr = "/combinations/" + std::to_string(i);
+        const std::string where = "combination " + std::to_string(i + 1);
+        if (!c.is_object()) { rd.error(ptr, where, "must be an object with a name and factors (" + got(c) + ")"); continue; }
+        const std::size_t before = out.errors.size();
+        std::string name;
+        if (auto n = c.find("name"); n == c.end()) {
+          if (!c.contains("preset")) rd.error(ptr + "/name", where, "required field is missing");
+        }
+        else if (!n->is_string() || n->get<std::string>().empty()) rd.error(ptr + "/name", where, "must be a non-empty name (" + got(*n) + ")");
+        else name = n->get<std::string>();
+        auto known_case = [&](const std::string& cs, const std::string& p) {
+          if (std::find(out.cases.begin(), out.cases.end(), cs) != out.cases.end()) return true;
+          std::string reason = "there is no load case '" + cs + "'";
+          if (auto d = did_you_mean(cs, out.cases)) reason += " (did you mean '" + *d + "'?)";
+          else { reason += " (cases: "; for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k]; reason += ")"; }
+          rd.error(p, where, reason);
+          return false;
+        };
+        if (c.contains("preset")) {
+          // Factor sets of design standards, with the user's case names.
+          rd.check_keys(c, ptr, where, {"name", "preset", "cases", "arrangements"});
+          const json& pr = c["preset"];
+          const std::string preset = pr.is_string() ? pr.get<std::string>() : "";
+          const auto& pn = preset_names();
+          if (std::find(pn.begin(), pn.end(), preset) == pn.end()) {
+            std::string reason = "unknown preset '" + (pr.is_string() ? preset : std::string(type_of(pr))) + "'";
+            if (auto d = did_you_mean(preset, pn)) reason += " (did you mean '" + *d + "'?)";
+            else reason += " (one of asce7-strength, en1990-6.10)";
+            rd.error(ptr + "/preset", where, reason);
+            continue;
+          }
+          const bool asce = preset == "asce7-strength";
+          const std::vector<std::string> roles = asce ? std::vector<std::string>{"D", "L"} : std::vector<std::string>{"G", "Q"};
+          std::map<std::string, std::string> map;
+          auto cs = c.find("cases");
+          if (cs == c.end() || !cs->is_object()) {
+            rd.error(ptr + "/cases", where, std::string("required: which of your load cases is ") +
+                                                (asce ? "D (dead) and L (live), e.g. {\"D\": \"dead\", \"L\": \"live\"}"
+                                                      : "G (permanent) and Q (variable), e.g. {\"G\": \"dead\", \"Q\": \"live\"}"));
+            continue;
+          }
+          rd.check_keys(*cs, ptr + "/cases", where, roles);
+          for (const auto& r : roles) {
+            auto f = cs->find(r);
+            if (f == cs->end()) { rd.error(ptr + "/cases/" + r, where, "required field is missing (the name of your load case)"); continue; }
+            if (!f->is_string()) { rd.error(ptr + "/cases/" + r, where, "must be the name of a load case (" + got(*f) + ")"); continue; }
+            if (known_case(f->get<std::string>(), ptr + "/cases/" + r)) map[r] = f->get<std::string>();
+          }
+          Arrangements arr = Arrangements::All;
+          if (auto a = c.find("arrangements"); a != c.end()) {
+            if (a->is_string() && a->get<std::string>() == "all") arr = Arrangements::All;
+            else if (a->is_string() && a->get<std::string>() == "adjacent-and-alternate") arr = Arrangements::AdjacentAndAlternate;
+            else rd.error(ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
+          }
+          if (out.errors.size() != before) continue;
+          const std::string base = name.empty() ? preset : name;
+          if (asce) {
+            // ASCE/SEI 7-16, "Minimum Design Loads and Associated Criteria for Buildings and Other
+            // Structures", section 2.3.1, combinations 1 and 2 with dead and live load only
+            // (from memory): 1.4D; 1.2D + 1.6L.
+            const std::string src = "ASCE/SEI 7-16, section 2.3.1, combinations 1 and 2 (from memory)";
+            Combination c1{base + " 1.4D", ptr, {{map["D"], Factor{1.4, 1.4, false}}}, {}, arr, src};
+            Combination c2{base + " 1.2D+1.6L", ptr, {{map["D"], Factor{1.2, 1.2, false}}, {map["L"], Factor{1.6, 1.6, false}}}, {map["L"]}, arr, src};
+            add(c1, ptr, where);
+            add(c2, ptr, where);
+          } else {
+            // EN 1990:2002 + A1:2005, expression (6.10) with Table A1.2(B): permanent actions
+            // 1.35 unfavourable / 1.00 favourable, the leading variable action 1.5 where
+            // unfavourable, 0 where favourable (from memory).
+            const std::string src = "EN 1990:2002+A1:2005, expression (6.10), Table A1.2(B) (from memory)";
+            Combination c1{base, ptr, {{map["G"], Factor{1.0, 1.35, true}}, {map["Q"], Factor{1.5, 1.5, false}}}, {map["Q"]}, arr, src};
+            add(c1, ptr, where);
+          }
+          continue;
+        }
+        rd.check_keys(c, ptr, where, {"name", "factors", "pattern", "arrangements"});
+        Combination comb;
+        comb.name = name;
+        comb.pointer = ptr;
+        auto fs = c.find("factors");
+        if (fs == c.end()) rd.error(ptr + "/factors", where, "required field is missing (load case -> factor, e.g. {\"dead\": 1.2, \"live\": 1.6})");
+        else if (!fs->is_object() || fs->empty()) rd.error(ptr + "/factors", where, "must be an object of load case -> factor (" + got(*fs) + ")");
+        else {
+          for (auto f = fs->begin(); f != fs->end(); ++f) {
+            const std::string p = ptr + "/factors/" + escape_key(f.key());
+            if (!known_case(f.key(), p)) continue;
+            Factor fac;
+            auto number = [&](const json& v, const std::string& pp) -> std::optional<double> {
+              if (!v.is_number() || !std::isfinite(v.get<double>())) { rd.error(pp, where, "must be a number (" + got(v) + ")"); return std::nullopt; }
+              return v.get<double>();
+            };
+            if (f->is_array()) {
+              if (f->size() != 2) { rd.error(p, where, "a factor range is [low, high] (got " + std::to_string(f->size()) + " numbers)"); continue; }
+              auto lo = number((*f)[0], p + "/0"), hi = number((*f)[1], p + "/1");
+              if (!lo || !hi) continue;
+              if (*lo > *hi) { rd.error(p, where, "a factor range is [low, high]: " + format_number(*lo) + " is greater than " + format_number(*hi)); continue; }
+              fac = Factor{*lo, *hi, true};
+            } else {
+              auto v = number(*f, p);
+              if (!v) continue;
+              fac = Factor{*v, *v, false};
+            }
+            comb.factors.push_back({f.key(), fac});
+          }
+        }
+        if (auto pt = c.find("pattern"); pt != c.end()) {
+          if (!pt->is_array()) rd.error(ptr + "/pattern", where, "must be a list of load cases placed span by span (" + got(*pt) + ")");
+          else
+            for (std::size_t k = 0; k < pt->size(); ++k) {
+              const json& v = (*pt)[k];
+              const std::string p = ptr + "/pattern/" + std::to_string(k);
+              if (!v.is_string()) { rd.error(p, where, "must be the name of a load case (" + got(v) + ")"); continue; }
+              const std::string cs = v.get<std::string>();
+              bool in = false;
+              for (const auto& f : comb.factors) in = in || f.first == cs;
+              if (!in) { rd.error(p, where, "the patterned case '" + cs + "' has no factor in this combination"); continue; }
+              comb.pattern.push_back(cs);
+            }
+        }
+        if (auto a = c.find("arrangements"); a != c.end()) {
+          if (a->is_string() && a->get<std::string>() == "all") comb.arrangements = Arrangements::All;
+          else if (a->is_string() && a->get<std::string>() == "adjacent-and-alternate") comb.arrangements = Arrangements::AdjacentAndAlternate;
+          else rd.error(ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
+          if (comb.pattern.empty()) rd.error(ptr + "/arrangements", where, "arrangements need a \"pattern\" (the cases placed span by span)");
+        }
+        if (out.errors.size() == before) add(comb, ptr, where);
+      }
+    }
+  }
+
   // claims
   if (auto it = root.find("claims"); it != root.end()) {
     if (!it->is_object()) {
@@ -815,7 +990,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           const bool has_node = c.contains("node"), has_x = c.contains("x"), has_span = c.contains("span");
           const bool by_span = claim.quantity == Quantity::MaxMoment || claim.quantity == Quantity::MinMoment ||
                                claim.quantity == Quantity::MaxDeflection;
-          const bool by_node_only = claim.quantity == Quantity::Reaction || claim.quantity == Quantity::ReactionMoment;
+          const bool by_node_only = claim.quantity == Quantity::Reaction || claim.quantity == Quantity::ReactionMoment ||
+                                    claim.quantity == Quantity::ReactionMax || claim.quantity == Quantity::ReactionMin;
           if (by_span) {
             if (!has_span) rd.error(ptr + "/span", where, std::string("required field is missing (") + qn + " is taken over a span)");
             if (has_node || has_x) rd.error(ptr, where, std::string(qn) + " is taken over a span: give 'span', not 'node' or 'x'");
@@ -874,16 +1050,32 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       }
     }
   }
+  std::vector<std::string> sets = out.cases;
+  for (const auto& cb : out.combinations) sets.push_back(cb.name);
   for (const auto& c : out.claims) {
-    if (c.load_case.empty() && out.cases.size() > 1) {
+    if (c.load_case.empty() && sets.size() > 1) {
       rd.error(c.pointer + "/case", where_of(c.pointer),
-               "required field is missing: the file has " + std::to_string(out.cases.size()) +
-                   " load cases, so a claim must name its \"case\"");
+               "required field is missing: the file has " + std::to_string(sets.size()) +
+                   " load cases and combinations, so a claim must name its \"case\"");
+      continue;
     }
-    if (!c.load_case.empty() && std::find(out.cases.begin(), out.cases.end(), c.load_case) == out.cases.end()) {
+    const Combination* comb = nullptr;
+    for (const auto& cb : out.combinations)
+      if (cb.name == c.load_case) comb = &cb;
+    if (is_envelope_quantity(c.quantity) && !(comb && comb->is_envelope())) {
+      rd.error(c.pointer + "/quantity", where_of(c.pointer),
+               std::string(quantity_name(c.quantity)) + " is an envelope value: name a combination with a pattern or a factor range in \"case\"");
+      continue;
+    }
+    if (comb && comb->is_envelope() && !is_envelope_quantity(c.quantity)) {
+      rd.error(c.pointer + "/quantity", where_of(c.pointer),
+               "'" + c.load_case + "' is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min");
+      continue;
+    }
+    if (!c.load_case.empty() && std::find(sets.begin(), sets.end(), c.load_case) == sets.end()) {
       std::string reason = "there is no load case '" + c.load_case + "'";
-      if (auto d = did_you_mean(c.load_case, out.cases)) reason += " (did you mean '" + *d + "'?)";
-      else { reason += " (cases: "; for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k]; reason += ")"; }
+      if (auto d = did_you_mean(c.load_case, sets)) reason += " (did you mean '" + *d + "'?)";
+      else { reason += " (cases: "; for (std::size_t k = 0; k < sets.size(); ++k) reason += (k ? ", " : "") + sets[k]; reason += ")"; }
       rd.error(c.pointer + "/case", where_of(c.pointer), reason);
     }
   }

@@ -36,7 +36,11 @@ struct Error {
 enum class Quantity {
   Moment, Shear, Reaction, ReactionMoment, Deflection, Rotation,
   MaxMoment, MinMoment, MaxDeflection,
+  // Envelope quantities of a combination with a pattern or a factor range.
+  MomentMax, MomentMin, ShearMax, ShearMin, ReactionMax, ReactionMin,
 };
+// True for the envelope quantities (moment_max ... reaction_min).
+bool is_envelope_quantity(Quantity q);
 const char* quantity_name(Quantity q);
 Dimension quantity_dimension(Quantity q);
 
@@ -62,11 +66,35 @@ struct Claim {
   std::optional<Tolerance> tolerance;  // the claim's own
 };
 
+// A load factor: one value, or a range [low, high] of which either may govern.
+struct Factor {
+  double low = 1.0;
+  double high = 1.0;
+  bool range = false;
+};
+
+enum class Arrangements {
+  All,                   // the exact envelope over every on/off arrangement of the spans
+  AdjacentAndAlternate,  // all spans; alternate spans (both sets); each pair of adjacent spans
+};
+
+// A factored combination of load cases (the file's "combinations").
+struct Combination {
+  std::string name;
+  std::string pointer;                                  // "/combinations/1"
+  std::vector<std::pair<std::string, Factor>> factors;  // case -> factor, in file order
+  std::vector<std::string> pattern;                     // cases placed span by span
+  Arrangements arrangements = Arrangements::All;
+  std::string source;  // for a preset: where its factors come from
+  bool is_envelope() const;  // a pattern or a factor range
+};
+
 struct BeamFile {
   std::string path;
   Units units;
   Beam beam;                        // valid only when errors is empty
   std::vector<std::string> cases;   // load cases in order of first use
+  std::vector<Combination> combinations;
   Tolerance claim_tolerance;        // claims.tolerance, default 1%
   std::vector<Claim> claims;
   std::vector<Error> errors;
@@ -75,6 +103,9 @@ struct BeamFile {
 
 // Reads and validates one beam file. Never throws for a bad file: problems
 // are in `errors`. `display` is the name used in messages (default: path).
+// The names of the factor presets ("asce7-strength", "en1990-6.10").
+const std::vector<std::string>& preset_names();
+
 BeamFile read_beam_file(const std::string& path, const Limits& limits = {});
 BeamFile parse_beam_text(const std::string& text, const std::string& display,
                          const Limits& limits = {});
