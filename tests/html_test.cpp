@@ -1,0 +1,244 @@
+// The HTML report: one self-contained file with the summary first, a
+// section per beam, the plots, the caution and the provenance (SHA-256 of
+// each input file); nothing fetched from elsewhere. And SHA-256 itself.
+#include <gtest/gtest.h>
+
+#include <cstdio>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <unistd.h>
+
+#include "harness/input/reader.h"
+#include "reports/html_report.h"
+#include "reports/sha256.h"
+
+namespace trivet::reports {
+namespace {
+
+const char* kBeam = R"({"title": "two spans & a <cantilever>", "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 5, "EI": 30000}, {"length": 7, "EI": 30000}, {"length": 2, "EI": 30000}],
+  "supports": ["fixed", "roller", "roller", "free"],
+  "loads": [{"type": "udl", "span": 1, "w": 9.3}, {"type": "point", "span": 2, "P": 4.1, "at": 2.2},
+            {"type": "point", "node": 4, "P": 3}],
+  "claims": {"values": [{"quantity": "reaction", "node": "B", "value": 1},
+                        {"quantity": "moment", "node": "B", "value": -20, "tolerance": "50%"}]}})";
+
+struct TempFile {
+  std::string path;
+  explicit TempFile(const std::string& content) {
+    char name[] = "/tmp/trivet-html-test-XXXXXX";
+    const int fd = ::mkstemp(name);
+    EXPECT_GE(fd, 0);
+    if (fd >= 0) ::close(fd);
+    path = name;
+    std::ofstream(path, std::ios::binary) << content;
+  }
+  ~TempFile() { std::remove(path.c_str()); }
+};
+
+std::size_t count(const std::string& s, const std::string& what) {
+  std::size_t n = 0;
+  for (std::size_t at = s.find(what); at != std::string::npos; at = s.find(what, at + 1)) ++n;
+  return n;
+}
+
+// A beam read from text, reported under `file` (the report reads that
+// path for its SHA-256).
+compare::BeamResult beam_as(const std::string& file) {
+  input::BeamFile f = input::parse_beam_text(kBeam, file);
+  EXPECT_TRUE(f.ok());
+  return compare::check(f, {});
+}
+
+HtmlOptions options() {
+  HtmlOptions o;
+  o.tool_version = "9.8.7";
+  o.command_line = "trivet check a.json --html out.html";
+  o.date_utc = "2024-01-02T03:04:05Z";
+  return o;
+}
+
+TEST(Sha256, KnownValues) {
+  // FIPS 180-2, appendix B.1 and B.2; the empty message; a million 'a'.
+  EXPECT_EQ(sha256_hex("abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+  EXPECT_EQ(sha256_hex("abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq"),
+            "248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1");
+  EXPECT_EQ(sha256_hex(""), "e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855");
+  EXPECT_EQ(sha256_hex(std::string(1000000, 'a')), "cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0");
+  // Fed in pieces of every size across the 64-byte blocks.
+  const std::string text(1000, 'q');
+  const std::string whole = sha256_hex(text);
+  for (std::size_t piece : {1u, 7u, 63u, 64u, 65u, 999u}) {
+    Sha256 h;
+    for (std::size_t at = 0; at < text.size(); at += piece) h.update(text.substr(at, piece));
+    EXPECT_EQ(h.hex(), whole) << piece;
+  }
+  TempFile f("abc");
+  EXPECT_EQ(sha256_file(f.path).value_or(""), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+  EXPECT_FALSE(sha256_file("/nonexistent/file").has_value());
+}
+
+TEST(Html, SummarySectionsCautionProvenanceAndNoExternalReferences) {
+  // The first beam's file holds "abc", so its SHA-256 is the known one.
+  TempFile abc("abc");
+  TempFile real(kBeam);
+  std::vector<compare::BeamResult> beams = {beam_as(abc.path), beam_as(real.path)};
+  beams.push_back(compare::check(input::parse_beam_text("{}", "bad <file>.json"), {}));
+  HtmlOptions o = options();
+  o.plots = false;  // plots are checked below
+  o.extra_sections.push_back({"verification", "Verification record", "<p>41 cases checked</p>"});
+  std::ostringstream out;
+  const HtmlStats st = write_html(out, beams, o);
+  const std::string h = out.str();
+  EXPECT_EQ(h.rfind("<!DOCTYPE html>", 0), 0u);
+  EXPECT_NE(h.find("</html>"), std::string::npos);
+  // Summary first, with counts and links to every beam.
+  const std::size_t summary = h.find("id=\"summary\"");
+  ASSERT_NE(summary, std::string::npos);
+  EXPECT_NE(h.find("<b>3</b> beams"), std::string::npos);
+  EXPECT_NE(h.find("<b>1</b> invalid"), std::string::npos);
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    const std::string id = beam_anchor(i);
+    EXPECT_NE(h.find("href=\"#" + id + "\""), std::string::npos) << id;
+    const std::size_t section = h.find("id=\"" + id + "\"");
+    ASSERT_NE(section, std::string::npos) << id;
+    EXPECT_LT(summary, section);
+  }
+  EXPECT_EQ(count(h, "<section class=\"beam\""), 3u);
+  // Text is escaped.
+  EXPECT_NE(h.find("two spans &amp; a &lt;cantilever&gt;"), std::string::npos);
+  EXPECT_NE(h.find("bad &lt;file&gt;.json"), std::string::npos);
+  EXPECT_EQ(h.find("<cantilever>"), std::string::npos);
+  // Per beam: verdict, node table with units, extremes, claims.
+  EXPECT_NE(h.find("reaction [kN]"), std::string::npos);
+  EXPECT_NE(h.find("max sagging [kN*m]"), std::string::npos);
+  EXPECT_NE(h.find("<th>claimed</th>"), std::string::npos);
+  EXPECT_NE(h.find("<span class=\"st fails\">fails</span>"), std::string::npos);
+  EXPECT_NE(h.find("<span class=\"st holds\">holds</span>"), std::string::npos);
+  EXPECT_NE(h.find("largest difference between methods"), std::string::npos);
+  // The caution, the provenance.
+  EXPECT_NE(h.find(html_escape(compare::caution_text())), std::string::npos);
+  EXPECT_NE(h.find("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"), std::string::npos);
+  EXPECT_NE(h.find(sha256_hex(kBeam)), std::string::npos);
+  EXPECT_NE(h.find("(file not readable)"), std::string::npos);  // the invalid beam's made-up path
+  EXPECT_NE(h.find("9.8.7"), std::string::npos);
+  EXPECT_NE(h.find("2024-01-02T03:04:05Z"), std::string::npos);
+  EXPECT_NE(h.find("trivet check a.json --html out.html"), std::string::npos);
+  // The caller's section, after the summary, before the beams.
+  const std::size_t extra = h.find("id=\"verification\"");
+  ASSERT_NE(extra, std::string::npos);
+  EXPECT_LT(summary, extra);
+  EXPECT_LT(extra, h.find("id=\"beam-1\""));
+  EXPECT_NE(h.find("<p>41 cases checked</p>"), std::string::npos);
+  // Self-contained.
+  for (const char* bad : {"http://", "https://", "<script", "src=", "<link", "@import"})
+    EXPECT_EQ(h.find(bad), std::string::npos) << bad;
+  EXPECT_EQ(st.plots, 0u);
+}
+
+TEST(Html, PlotsInline) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox): inline plots not tested";
+  TempFile real(kBeam);
+  std::vector<compare::BeamResult> beams = {beam_as(real.path), beam_as(real.path)};
+  std::ostringstream out;
+  const HtmlStats st = write_html(out, beams, options());
+  const std::string h = out.str();
+  EXPECT_EQ(st.plots, 2u) << st.plot_error;
+  EXPECT_EQ(count(h, "<svg"), 2u);
+  EXPECT_EQ(count(h, "</svg>"), 2u);
+  // Each plot sits in its own beam's section, and the ids of the two do not clash.
+  const std::size_t s1 = h.find("id=\"beam-1\""), s2 = h.find("id=\"beam-2\"");
+  ASSERT_NE(s1, std::string::npos);
+  ASSERT_NE(s2, std::string::npos);
+  const std::size_t p1 = h.find("<svg", s1);
+  EXPECT_LT(p1, s2);
+  EXPECT_NE(h.find("<svg", s2), std::string::npos);
+  EXPECT_NE(h.find("id='b1s1-gpPt"), std::string::npos);
+  EXPECT_NE(h.find("id='b2s1-gpPt"), std::string::npos);
+  EXPECT_EQ(h.find("<?xml"), std::string::npos);
+  for (const char* bad : {"http://", "https://", "<script", "src=", "xlink:"}) EXPECT_EQ(h.find(bad), std::string::npos) << bad;
+}
+
+TEST(Html, WithoutGnuplotSaysSoVisibly) {
+  TempFile real(kBeam);
+  HtmlOptions o = options();
+  o.render.gnuplot = "/nonexistent/dir/gnuplot";
+  std::ostringstream out;
+  const HtmlStats st = write_html(out, {beam_as(real.path)}, o);
+  const std::string h = out.str();
+  EXPECT_EQ(st.plots, 0u);
+  EXPECT_NE(st.plot_error.find("gnuplot was not found"), std::string::npos) << st.plot_error;
+  EXPECT_NE(h.find("id=\"no-plots\""), std::string::npos);
+  EXPECT_NE(h.find("gnuplot was not found"), std::string::npos);
+  EXPECT_EQ(h.find("<svg"), std::string::npos);
+  EXPECT_NE(h.find("id=\"beam-1\""), std::string::npos);  // the rest of the report is there
+}
+
+TEST(Html, ALargeLibraryPutsProblemsFirstAndFoldsTheRest) {
+  TempFile real(kBeam);
+  input::BeamFile good = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 4, "EI": 1000}], "supports": ["pinned", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 1}]})", real.path);
+  ASSERT_TRUE(good.ok());
+  const compare::BeamResult ok = compare::check(good, {});
+  ASSERT_EQ(ok.status, compare::BeamStatus::Agree);
+  std::vector<compare::BeamResult> beams(60, ok);
+  beams[41] = beam_as(real.path);  // its claim fails
+  beams[41].file = "the-odd-one.json";
+  HtmlOptions o = options();
+  o.plots = false;
+  std::ostringstream out;
+  write_html(out, beams, o);
+  const std::string h = out.str();
+  EXPECT_NE(h.find("<b>60</b> beams: <b>59</b> agree, <b>1</b> disagree"), std::string::npos);
+  const std::size_t problems = h.find("Beams with a problem (1)");
+  const std::size_t folded = h.find("<details><summary>Beams whose methods agree and whose claims hold (59)");
+  ASSERT_NE(problems, std::string::npos);
+  ASSERT_NE(folded, std::string::npos);
+  const std::size_t odd = h.find("href=\"#beam-42\"");
+  EXPECT_LT(problems, odd);
+  EXPECT_LT(odd, folded);
+  EXPECT_EQ(count(h, "<section class=\"beam\""), 60u);
+  // The 59 beams read from the file carry its hash in their section and in the provenance table.
+  EXPECT_EQ(count(h, sha256_hex(kBeam)), 2u * 59u);
+}
+
+TEST(Html, PlotLimitLeavesANote) {
+  TempFile real(kBeam);
+  HtmlOptions o = options();
+  o.max_plotted_beams = 0;
+  std::ostringstream out;
+  const HtmlStats st = write_html(out, {beam_as(real.path)}, o);
+  EXPECT_EQ(st.plots, 0u);
+  EXPECT_EQ(st.plots_skipped, 1u);
+  EXPECT_NE(out.str().find("Not plotted here"), std::string::npos);
+  EXPECT_EQ(out.str().find("<svg"), std::string::npos);
+}
+
+TEST(Html, SvgForHtml) {
+  const std::string svg =
+      "<?xml version=\"1.0\"?>\n<!DOCTYPE svg>\n<svg width=\"10\" xmlns=\"http://www.w3.org/2000/svg\" "
+      "xmlns:xlink=\"http://www.w3.org/1999/xlink\">\n\t<defs><path id='gpPt1'/></defs>\n"
+      "\t<use xlink:href='#gpPt1'/>\n<g id=\"a\" clip-path=\"url(#a)\"></g>\n</svg>\n";
+  const std::string s = svg_for_html(svg, "p-");
+  EXPECT_EQ(s.rfind("<svg", 0), 0u);
+  EXPECT_EQ(s.find("http"), std::string::npos);
+  EXPECT_EQ(s.find("xlink"), std::string::npos);
+  EXPECT_NE(s.find("id='p-gpPt1'"), std::string::npos);
+  EXPECT_NE(s.find("href='#p-gpPt1'"), std::string::npos);
+  EXPECT_NE(s.find("url(#p-a)"), std::string::npos);
+  EXPECT_NE(s.find("</svg>"), std::string::npos);
+  EXPECT_EQ(s.find('\t'), std::string::npos);
+  EXPECT_TRUE(svg_for_html("not a picture", "x").empty());
+}
+
+TEST(Html, UtcDate) {
+  const std::string d = utc_now_iso8601();
+  ASSERT_EQ(d.size(), 20u);
+  EXPECT_EQ(d[4], '-');
+  EXPECT_EQ(d[10], 'T');
+  EXPECT_EQ(d.back(), 'Z');
+}
+
+}  // namespace
+}  // namespace trivet::reports
