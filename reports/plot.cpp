@@ -160,8 +160,11 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
   for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
     const MethodResult& m = set.methods[mi];
     if (!usable(m, set)) {
-      d.notes.push_back(m.name + ": " + method_status_name(m.status) + (m.reason.empty() ? "" : " (" + m.reason + ")") +
-                        ", not drawn");
+      if (m.status == MethodStatus::Ok)
+        d.notes.push_back(m.name + ": no values at the stations (an envelope load set?), not drawn");
+      else
+        d.notes.push_back(m.name + ": " + method_status_name(m.status) + (m.reason.empty() ? "" : " (" + m.reason + ")") +
+                          ", not drawn");
       continue;
     }
     for (Panel* p : {&shear, &moment, &defl}) {
