@@ -589,6 +589,14 @@ struct ExactWalker {
             break;
           }
         }
+        // Positions within the span, exactly (the double reader checked
+        // them in double: a position a few 1e-17 past the end passes there).
+        if (!on_node) {
+          const bool span_load = load.type == LoadType::Udl || load.type == LoadType::Linear;
+          if (span_load ? (from.v < 0 || !(from.v < to.v) || to.v > L) : (at.v < 0 || at.v > L))
+            throw Fail(where + ": a position is outside the span (or 'from' is not before 'to') when read "
+                               "exactly, though not in double");
+        }
         // A point force exactly at a span end acts on the node (as the
         // reader does, but decided on the exact values).
         if (load.type == LoadType::Point && !load.on_node) {

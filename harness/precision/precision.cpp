@@ -189,6 +189,24 @@ Rounding measure(const Values& ref, const Values& dbl, const Beam& beam,
     grow(Kind::Deflection, s.deflection);
     grow(Kind::Rotation, s.rotation);
   }
+  // A kind whose reference is (almost) zero throughout -- the moments of a
+  // beam that only moves as a rigid body, say -- would otherwise be scaled by
+  // its own rounding noise. Floors from the other kinds: shear and reactions
+  // share one force scale; moments are at least a tenth of that force times
+  // the shortest span; deflections and rotations share one displacement
+  // scale the same way.
+  if (!beam.spans.empty()) {
+    double lmin = beam.spans.front().length, lmax = lmin;
+    for (const auto& sp : beam.spans) { lmin = std::min(lmin, sp.length); lmax = std::max(lmax, sp.length); }
+    auto& S = scale;
+    const Extended F = std::max(S[static_cast<int>(Kind::Shear)], S[static_cast<int>(Kind::Reaction)]);
+    S[static_cast<int>(Kind::Shear)] = F;
+    S[static_cast<int>(Kind::Reaction)] = F;
+    S[static_cast<int>(Kind::Moment)] = std::max(S[static_cast<int>(Kind::Moment)], Extended(F * lmin / 10));
+    const Extended D = std::max(S[static_cast<int>(Kind::Deflection)], Extended(S[static_cast<int>(Kind::Rotation)] * lmin));
+    S[static_cast<int>(Kind::Deflection)] = std::max(S[static_cast<int>(Kind::Deflection)], Extended(D / 10));
+    S[static_cast<int>(Kind::Rotation)] = std::max(S[static_cast<int>(Kind::Rotation)], Extended(D / lmax / 10));
+  }
   Extended worst = -1;
   auto note = [&](Kind k, const Extended& a, const Extended& b, const std::string& where) {
     const Extended& s = scale[static_cast<int>(k)];
@@ -303,10 +321,10 @@ Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measu
   std::stable_sort(f.begin(), f.end(), [](const auto& a, const auto& b) { return a.digits > b.digits; });
   for (auto& x : f)
     if (x.digits > 0.5) c.features.push_back(x);
-  // One digit for the rounding every solution accumulates (the elimination
-  // and the closed-form integrations; seeded random beams with no feature
-  // above lose up to 1.5), plus the worst feature.
-  c.estimated_digits_lost = kBaseDigitsLost + (c.features.empty() ? 0 : c.features.front().digits);
+  // Half a digit for the rounding every solution accumulates (the
+  // elimination and the closed-form integrations), plus the worst feature;
+  // at most all 16.
+  c.estimated_digits_lost = std::min(16.0, kBaseDigitsLost + (c.features.empty() ? 0 : c.features.front().digits));
   c.measured_digits_lost = measured;
   if (c.estimated_digits_lost > warn_digits) {
     char b[160];
