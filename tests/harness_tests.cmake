@@ -21,3 +21,11 @@ add_test(NAME cli_exit_codes COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_exit_c
 # The verification record: every cited reference case on every method.
 add_test(NAME selfcheck COMMAND trivet selfcheck)
 add_test(NAME cli_against COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_against.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
+
+# Plots and the HTML report; the browser test needs Chromium (skipped, not passed, without it).
+trivet_add_test(plot_test ${CMAKE_CURRENT_SOURCE_DIR}/plot_test.cpp trivet_report_html)
+trivet_add_test(html_test ${CMAKE_CURRENT_SOURCE_DIR}/html_test.cpp trivet_report_html)
+add_test(NAME html_browser COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/html_browser_test.sh
+         $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
+set_tests_properties(html_browser PROPERTIES SKIP_RETURN_CODE 77 TIMEOUT 300)
+add_test(NAME cli_plot COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_plot.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples)

@@ -27,7 +27,8 @@ report="$work/report.html"
 
 "$trivet" check "$@" --html "$report" >"$work/check.out" 2>"$work/check.err"
 rc=$?
-if [ "$rc" -ne 0 ] && [ "$rc" -ne 1 ]; then
+# Invalid files among the inputs make the run exit 2; the report is still written.
+if [ "$rc" -gt 2 ] || [ ! -s "$report" ]; then
   echo "FAIL: $trivet check exited $rc"; cat "$work/check.err"; exit 1
 fi
 [ -s "$report" ] || { echo "FAIL: no report written at $report"; cat "$work/check.err"; exit 1; }

@@ -7,11 +7,69 @@
 #include <iostream>
 #include <system_error>
 
+#include <cerrno>
+#include <cstdlib>
+
+#include <fcntl.h>
+#include <poll.h>
+#include <signal.h>
 #include <unistd.h>
 
 namespace trivet::cli {
 
 namespace fs = std::filesystem;
+
+namespace {
+
+// What a directory entry named *.json is, when it is not a readable file.
+std::string not_a_beam_file(const fs::directory_entry& e) {
+  std::error_code ec;
+  const fs::file_status st = fs::status(e.path(), ec);
+  if (ec || !fs::exists(st)) {
+    std::error_code ec2;
+    if (fs::is_symlink(fs::symlink_status(e.path(), ec2)))
+      return "a symbolic link to nothing (or a loop of links); nothing to read";
+    return "cannot read the file: " + (ec ? ec.message() : std::string("it has gone"));
+  }
+  if (fs::is_regular_file(st) || fs::is_directory(st)) return "";
+  return std::string("is not a regular file (") +
+         (fs::is_fifo(st) ? "a named pipe" : fs::is_socket(st) ? "a socket" : "a device") + "); skipped";
+}
+
+// Every *.json below `dir` into `found`; directories that cannot be read,
+// and *.json entries that are not files, into `problems`. Symbolic links to
+// directories are not followed (so a loop of links cannot trap the walk).
+void walk(const fs::path& dir, std::vector<std::string>* found,
+          std::vector<std::pair<std::string, std::string>>* problems) {
+  std::error_code ec;
+  fs::directory_iterator it(dir, ec), end;
+  if (ec) {
+    problems->push_back({dir.string(), "cannot read the directory: " + ec.message()});
+    return;
+  }
+  std::vector<fs::path> subdirs;
+  while (it != end) {
+    const fs::directory_entry& e = *it;
+    std::error_code e2;
+    const bool link = e.is_symlink(e2);
+    if (!link && e.is_directory(e2)) subdirs.push_back(e.path());
+    else if (e.path().extension() == ".json") {
+      if (e.is_regular_file(e2)) found->push_back(e.path().string());
+      else if (!(link && e.is_directory(e2))) {
+        const std::string why = not_a_beam_file(e);
+        if (!why.empty()) problems->push_back({e.path().string(), why});
+      }
+    }
+    it.increment(ec);
+    if (ec) {
+      problems->push_back({dir.string(), "stopped reading the directory: " + ec.message()});
+      break;
+    }
+  }
+  for (const auto& d : subdirs) walk(d, found, problems);
+}
+
+}  // namespace
 
 std::vector<std::string> collect_beam_files(const std::vector<std::string>& paths,
                                             std::vector<std::pair<std::string, std::string>>* problems) {
@@ -20,7 +78,9 @@ std::vector<std::string> collect_beam_files(const std::vector<std::string>& path
     std::error_code ec;
     const fs::file_status st = fs::status(p, ec);
     if (ec || !fs::exists(st)) {
-      problems->push_back({p, "no such file or directory"});
+      std::error_code ec2;
+      problems->push_back({p, fs::is_symlink(fs::symlink_status(p, ec2)) ? "a symbolic link to nothing (or a loop of links)"
+                                                                         : "no such file or directory"});
       continue;
     }
     if (!fs::is_directory(st)) {
@@ -28,36 +88,70 @@ std::vector<std::string> collect_beam_files(const std::vector<std::string>& path
       continue;
     }
     std::vector<std::string> found;
-    fs::recursive_directory_iterator it(p, fs::directory_options::skip_permission_denied, ec), end;
-    if (ec) {
-      problems->push_back({p, "cannot read the directory: " + ec.message()});
-      continue;
-    }
-    while (it != end) {
-      const fs::directory_entry& e = *it;
-      std::error_code e2;
-      if (e.is_regular_file(e2) && e.path().extension() == ".json") found.push_back(e.path().string());
-      it.increment(ec);
-      if (ec) {
-        problems->push_back({p, "stopped reading the directory: " + ec.message()});
-        break;
-      }
-    }
+    walk(p, &found, problems);
     std::sort(found.begin(), found.end());
     out.insert(out.end(), found.begin(), found.end());
   }
   return out;
 }
 
+std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs) {
+  if (report.empty() || report == "-") return "";
+  std::error_code ec;
+  const fs::path r = fs::weakly_canonical(fs::absolute(report, ec), ec);
+  for (const auto& in : inputs) {
+    std::error_code e1, e2;
+    if (fs::equivalent(report, in, e1) && !e1) return "'" + report + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)";
+    const fs::path i = fs::weakly_canonical(fs::absolute(in, e2), e2);
+    if (!ec && !e2 && r == i) return "'" + report + "' is the input file '" + in + "'; the report would overwrite it (choose another path)";
+  }
+  return "";
+}
+
+namespace {
+
+// True when standard output is a pipe whose reader has gone (EPIPE).
+bool stdout_reader_gone() {
+  if (errno == EPIPE) return true;
+  struct pollfd p{1, POLLOUT, 0};
+  return poll(&p, 1, 0) == 1 && (p.revents & POLLERR) != 0;
+}
+
+const char* kTempMark = ".trivet-tmp.";
+
+// Removes the temporary files that an earlier, killed run left for `target`
+// (".NAME.trivet-tmp.PID.XXXXXX" whose process PID no longer exists).
+void remove_stale_temporaries(const fs::path& dir, const std::string& name) {
+  const std::string prefix = "." + name + kTempMark;
+  std::error_code ec;
+  for (fs::directory_iterator it(dir, ec), end; !ec && it != end; it.increment(ec)) {
+    const std::string f = it->path().filename().string();
+    if (f.compare(0, prefix.size(), prefix) != 0) continue;
+    const std::string rest = f.substr(prefix.size());
+    const std::size_t dot = rest.find('.');
+    if (dot == std::string::npos || dot == 0 || rest.find_first_not_of("0123456789") != dot) continue;
+    const long pid = std::strtol(rest.substr(0, dot).c_str(), nullptr, 10);
+    if (pid <= 0 || (kill(static_cast<pid_t>(pid), 0) != 0 && errno == ESRCH)) {
+      std::error_code e2;
+      fs::remove(it->path(), e2);
+    }
+  }
+}
+
+}  // namespace
+
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body) {
   if (path == "-") {
     body(std::cout);
     std::cout.flush();
-    return std::cout ? "" : "cannot write to standard output";
+    // A reader that has gone (`trivet check ... --json - | head -1`) is not
+    // a failure of ours: stop quietly (SIGPIPE is ignored in main).
+    return std::cout || stdout_reader_gone() ? "" : "cannot write to standard output";
   }
   const fs::path target(path);
   const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
-  std::string tmpl = (dir / ("." + target.filename().string() + ".XXXXXX")).string();
+  remove_stale_temporaries(dir, target.filename().string());
+  std::string tmpl = (dir / ("." + target.filename().string() + kTempMark + std::to_string(getpid()) + ".XXXXXX")).string();
   std::vector<char> name(tmpl.begin(), tmpl.end());
   name.push_back('\0');
   const int fd = mkstemp(name.data());
@@ -71,11 +165,22 @@ std::string write_report_file(const std::string& path, const std::function<void(
     out.flush();
     if (!out) { out.close(); std::remove(tmp.c_str()); return "writing " + path + " failed (disk full?)"; }
   }
+  // On the disk before it takes the report's name (a power cut leaves the
+  // old report or the new one, not an empty file).
+  if (const int sync_fd = open(tmp.c_str(), O_RDONLY); sync_fd >= 0) {
+    const bool synced = fsync(sync_fd) == 0;
+    close(sync_fd);
+    if (!synced) { std::remove(tmp.c_str()); return "writing " + path + " failed (the disk did not take it)"; }
+  }
   std::error_code ec;
   fs::permissions(tmp, fs::perms::owner_read | fs::perms::owner_write | fs::perms::group_read | fs::perms::others_read,
                   fs::perm_options::replace, ec);
   fs::rename(tmp, target, ec);
   if (ec) { std::remove(tmp.c_str()); return "cannot rename the report into place: " + ec.message(); }
+  if (const int dir_fd = open(dir.c_str(), O_RDONLY | O_DIRECTORY); dir_fd >= 0) {
+    fsync(dir_fd);  // the new name on the disk too (best effort)
+    close(dir_fd);
+  }
   return "";
 }
 

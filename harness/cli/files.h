@@ -11,12 +11,22 @@ namespace trivet::cli {
 // A path named on the command line, expanded: a file is itself; a
 // directory gives every *.json below it (recursively, sorted, symbolic
 // links to directories not followed). Problems (a missing path, an
-// unreadable directory) are returned as (path, reason) in `problems`.
+// unreadable directory, a *.json entry that is a dangling link, a link loop
+// or a named pipe) are returned as (path, reason) in `problems`; the walk
+// goes on past them.
 std::vector<std::string> collect_beam_files(const std::vector<std::string>& paths,
                                             std::vector<std::pair<std::string, std::string>>* problems);
 
+// Why `report` (a --json or --junit path) must not be written: it names
+// one of the input beam files (then the reason), or "" when it may.
+std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs);
+
 // Writes a report file whole or not at all: into a temporary file in the
-// same directory, then renamed over `path`. "-" writes to standard output.
+// same directory (".NAME.trivet-tmp.PID.XXXXXX", synced to disk), then
+// renamed over `path`. A run killed mid-write leaves the old report (or
+// none) at `path` and its hidden temporary file, which the next write of
+// the same report removes once process PID is gone. "-" writes to standard
+// output; a reader that has gone away (a broken pipe) is not an error.
 // Returns an empty string, or the reason it failed.
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body);
 

@@ -16,6 +16,8 @@
 
 #include <unistd.h>
 
+#include <unistd.h>
+
 #include <CLI/CLI.hpp>
 #include <nlohmann/json.hpp>
 
@@ -24,6 +26,8 @@
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
 #include "references/selfcheck.h"
+#include "reports/html_report.h"
+#include "reports/plot.h"
 #include "reports/reports.h"
 
 #ifndef TRIVET_VERSION
@@ -91,7 +95,8 @@ std::vector<std::string> split_list(const std::string& s) {
 
 struct CheckArgs {
   std::vector<std::string> paths;
-  std::string json, junit, methods, shard;
+  std::string json, junit, html, methods, shard;
+  std::string command_line;
   double agreement = 1e-6;
   int stations_per_span = 0;
   unsigned jobs = 0;
@@ -232,6 +237,19 @@ int run_check(const CheckArgs& a) {
       code = kExitInvalid;
     }
   }
+  if (!a.html.empty()) {
+    reports::HtmlOptions ho;
+    ho.tool_version = TRIVET_VERSION;
+    ho.command_line = a.command_line;
+    reports::HtmlStats st;
+    const std::string err = write_report_file(a.html, [&](std::ostream& o) { st = reports::write_html(o, results, ho); });
+    if (!err.empty()) {
+      std::cerr << "trivet: --html: " << err << "\n";
+      code = kExitInvalid;
+    } else if (!st.plot_error.empty()) {
+      std::cerr << "trivet: --html: the report was written without some plots: " << st.plot_error << "\n";
+    }
+  }
   if (!a.junit.empty()) {
     const std::string err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_junit(o, results, opt.agreement); });
     if (!err.empty()) {
@@ -252,8 +270,50 @@ int run_check(const CheckArgs& a) {
 }
 
 struct SelfcheckArgs {
-  std::string json, junit, methods, dir;
+  std::string json, junit, html, methods, dir, command_line;
 };
+
+// `trivet plot FILE -o OUT.svg|.png`: the stacked diagrams of one load set.
+int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods) {
+  const auto format = reports::format_for_path(out);
+  if (!format) {
+    std::cerr << "trivet plot: -o: the output must end in .svg or .png (got '" << out << "')\n";
+    return kExitInvalid;
+  }
+  const input::BeamFile f = input::read_beam_file(file);
+  compare::Options opt;
+  if (!methods.empty()) opt.methods = split_list(methods);
+  const compare::BeamResult r = compare::check(f, opt);
+  if (r.status == compare::BeamStatus::Invalid) {
+    for (const auto& e : r.errors) std::cerr << "error: " << e.format(file) << "\n";
+    return kExitInvalid;
+  }
+  std::size_t index = 0;
+  if (!load_case.empty()) {
+    bool found = false;
+    for (std::size_t i = 0; i < r.sets.size(); ++i)
+      if (r.sets[i].name == load_case) { index = i; found = true; }
+    if (!found) {
+      std::cerr << "trivet plot: --case: no load case or combination '" << load_case << "' in " << file << " (";
+      for (std::size_t i = 0; i < r.sets.size(); ++i) std::cerr << (i ? ", " : "") << r.sets[i].name;
+      std::cerr << ")\n";
+      return kExitInvalid;
+    }
+  }
+  std::string error;
+  const std::string bytes = reports::render(reports::plot_data(r, index), *format, 960, 1100, &error);
+  if (bytes.empty()) {
+    std::cerr << "trivet plot: " << error << "\n";
+    return kExitInvalid;
+  }
+  const std::string err = write_report_file(out, [&](std::ostream& o) { o.write(bytes.data(), static_cast<std::streamsize>(bytes.size())); });
+  if (!err.empty()) {
+    std::cerr << "trivet plot: " << err << "\n";
+    return kExitInvalid;
+  }
+  std::cerr << "wrote " << out << " (" << r.sets[index].name << ", " << compare::verdict_name(r.sets[index].verdict) << ")\n";
+  return r.status == compare::BeamStatus::Agree ? kExitAgree : kExitDisagree;
+}
 
 std::string xml_escape(const std::string& s) {
   std::string r;
@@ -360,6 +420,43 @@ int run_selfcheck(const SelfcheckArgs& a) {
     });
     if (!err.empty()) { std::cerr << "trivet: --json: " << err << "\n"; code = kExitInvalid; }
   }
+  if (!a.html.empty()) {
+    reports::HtmlOptions ho;
+    ho.title = "trivet verification record (selfcheck)";
+    ho.tool_version = TRIVET_VERSION;
+    ho.command_line = a.command_line;
+    ho.plots = false;
+    std::ostringstream h;
+    char host[256] = "unknown";
+    gethostname(host, sizeof host - 1);
+    h << "<p>Tool trivet " << TRIVET_VERSION << ", built " << __DATE__ << " with " << __VERSION__ << "; machine "
+      << reports::html_escape(host) << " (" << std::thread::hardware_concurrency() << " cores). "
+      << r.cases.size() << " cited cases, " << r.values_checked() << " published values; "
+      << r.cases.size() - r.cases_failed() << " cases hold, " << r.cases_failed() << " fail.</p>\n";
+    h << "<table><tr><th>case</th><th>source</th><th>quantity</th><th>published</th><th>expected</th><th>tolerance</th>"
+         "<th>three-moment</th><th>slope-deflection</th><th>stiffness</th><th>holds</th></tr>\n";
+    for (const auto& c : r.cases) {
+      for (std::size_t i = 0; i < c.values.size(); ++i) {
+        const auto& v = c.values[i];
+        h << "<tr><td>" << (i == 0 ? reports::html_escape(c.id) : "") << "</td><td>" << (i == 0 ? reports::html_escape(c.citation) : "")
+          << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier)
+          << "</td><td>" << input::format_number(v.expected) << "</td><td>" << input::format_number(v.tolerance) << "</td>";
+        for (const char* m : {"three-moment", "slope-deflection", "stiffness"}) {
+          std::string cell = "-";
+          for (const auto& mv : v.methods)
+            if (mv.method == m) cell = mv.evaluated ? input::format_number(mv.computed) : "n/a";
+          h << "<td>" << reports::html_escape(cell) << "</td>";
+        }
+        h << "<td>" << (v.holds ? "yes" : "<strong>NO</strong>") << "</td></tr>\n";
+      }
+      if (c.values.empty() || !c.errors.empty())
+        h << "<tr><td>" << reports::html_escape(c.id) << "</td><td colspan=\"9\">" << (c.holds ? "holds" : "<strong>FAILS</strong>") << "</td></tr>\n";
+    }
+    h << "</table>\n";
+    ho.extra_sections.push_back({"selfcheck", "Verification record: cited reference cases", h.str()});
+    const std::string err = write_report_file(a.html, [&](std::ostream& o) { reports::write_html(o, {}, ho); });
+    if (!err.empty()) { std::cerr << "trivet: --html: " << err << "\n"; code = kExitInvalid; }
+  }
   if (!a.junit.empty()) {
     const std::string err = write_report_file(a.junit, [&](std::ostream& o) {
       std::size_t tests = 0, failures = 0;
@@ -457,6 +554,7 @@ int main(int argc, char** argv) {
   check->add_option("--jobs", ca.jobs, "Beams checked in parallel (default: the number of cores)")->check(CLI::Range(1u, 1024u));
   check->add_flag("--all-rows", ca.all_rows, "Print every node and span, however long the beam");
   check->add_option("--junit", ca.junit, "Write a JUnit XML report to FILE (a test suite per beam file)");
+  check->add_option("--html", ca.html, "Write a self-contained HTML report with the diagrams to FILE");
   check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
 
   check->add_option("--against", ca.against, "Another program's results (CSV) to compare; a second --against for a reactions table")
@@ -475,7 +573,15 @@ int main(int argc, char** argv) {
   selfcheck->add_option("--json", sa.json, "Write the verification record as JSON to FILE ('-' for standard output)");
   selfcheck->add_option("--junit", sa.junit, "Write a JUnit XML report to FILE (a test suite per case)");
   selfcheck->add_option("--methods", sa.methods, "Comma list of methods (default all)");
+  selfcheck->add_option("--html", sa.html, "Write the verification record as a self-contained HTML file");
   selfcheck->add_option("--cases", sa.dir, "Directory of reference cases (default: the bundled library)");
+
+  std::string plot_file, plot_out, plot_case;
+  CLI::App* plot = app.add_subcommand("plot", "Draw the diagrams of one beam, every method overlaid (SVG or PNG)");
+  plot->add_option("file", plot_file, "The beam file")->required();
+  plot->add_option("-o,--output", plot_out, "OUT.svg or OUT.png")->required();
+  plot->add_option("--case", plot_case, "The load case or combination to draw (default: the first)");
+  plot->add_option("--methods", ca.methods, "Comma list of methods (default all)");
 
   std::vector<std::string> merge_inputs;
   std::string merge_json = "-", merge_junit;
@@ -485,6 +591,8 @@ int main(int argc, char** argv) {
 
   CLI::App* example = app.add_subcommand("example", "Print a starter beam file");
 
+  for (int i = 0; i < argc; ++i) ca.command_line += (i ? " " : "") + std::string(argv[i]);
+  sa.command_line = ca.command_line;
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& e) {
@@ -499,6 +607,7 @@ int main(int argc, char** argv) {
     if (*check) return run_check(ca);
     if (*merge) return run_merge(merge_inputs, merge_json);
     if (*selfcheck) return run_selfcheck(sa);
+    if (*plot) return run_plot(plot_file, plot_out, plot_case, ca.methods);
     if (*example) {
       std::cout << kExample;
       return kExitAgree;

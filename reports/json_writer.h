@@ -1,0 +1,152 @@
+// trivet: a small streaming JSON writer. Reports are written as they are
+// walked, never built as a document in memory, so a 100,000-span beam or a
+// library of 10,000 beams costs little memory. Numbers are written with
+// std::to_chars in their shortest form that reads back to the same double;
+// NaN and infinity (which JSON cannot hold) are written as null.
+#pragma once
+
+#include <charconv>
+#include <cmath>
+#include <cstdint>
+#include <ostream>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace trivet::reports {
+
+class JsonWriter {
+ public:
+  explicit JsonWriter(std::ostream& out) : out_(out) { buf_.reserve(1 << 16); }
+  ~JsonWriter() { flush(); }
+  JsonWriter(const JsonWriter&) = delete;
+  JsonWriter& operator=(const JsonWriter&) = delete;
+
+  // Containers. `compact` writes the container on one line.
+  void begin_object(bool compact = false) { open('{', compact); }
+  void end_object() { close('}'); }
+  void begin_array(bool compact = false) { open('[', compact); }
+  void end_array() { close(']'); }
+
+  // The key of the next member of the current object.
+  JsonWriter& key(std::string_view k) {
+    separate();
+    string_body(k);
+    buf_ += compact() ? ":" : ": ";
+    after_key_ = true;
+    return *this;
+  }
+
+  void value(double v) {
+    separate();
+    if (!std::isfinite(v)) {
+      buf_ += "null";
+    } else {
+      char b[32];
+      auto r = std::to_chars(b, b + sizeof b, v);
+      std::string_view s(b, static_cast<std::size_t>(r.ptr - b));
+      buf_ += s;
+      // Keep a double recognisable as one ("2" -> "2.0"), as JSON readers
+      // that distinguish integers expect.
+      if (s.find_first_of(".eEn") == std::string_view::npos) buf_ += ".0";
+    }
+    maybe_flush();
+  }
+  void value(std::string_view s) { separate(); string_body(s); maybe_flush(); }
+  void value(const char* s) { value(std::string_view(s)); }
+  void value(const std::string& s) { value(std::string_view(s)); }
+  void value(bool b) { separate(); buf_ += b ? "true" : "false"; }
+  void value(std::size_t n) { separate(); buf_ += std::to_string(n); }
+  void value(int n) { separate(); buf_ += std::to_string(n); }
+  void null() { separate(); buf_ += "null"; }
+
+  template <class T>
+  void member(std::string_view k, const T& v) { key(k); value(v); }
+  void member_null(std::string_view k) { key(k); null(); }
+
+  void flush() {
+    out_.write(buf_.data(), static_cast<std::streamsize>(buf_.size()));
+    buf_.clear();
+  }
+
+ private:
+  struct Level {
+    bool compact;
+    bool empty = true;
+  };
+  bool compact() const { return !stack_.empty() && stack_.back().compact; }
+  void separate() {
+    if (after_key_) { after_key_ = false; return; }
+    if (stack_.empty()) return;
+    Level& l = stack_.back();
+    if (!l.empty) buf_ += ',';
+    l.empty = false;
+    if (!l.compact) newline();
+  }
+  void newline() {
+    buf_ += '\n';
+    buf_.append(stack_.size(), ' ');
+  }
+  void open(char c, bool compact_here) {
+    separate();
+    buf_ += c;
+    stack_.push_back({compact_here || compact()});
+  }
+  void close(char c) {
+    const Level l = stack_.back();
+    stack_.pop_back();
+    if (!l.empty && !l.compact) newline();
+    buf_ += c;
+    if (stack_.empty()) buf_ += '\n';
+    maybe_flush();
+  }
+  // Length of a valid UTF-8 sequence starting at s[i], or 0.
+  static std::size_t utf8_length(std::string_view s, std::size_t i) {
+    const auto b = [&](std::size_t k) { return static_cast<unsigned char>(s[k]); };
+    const unsigned char c = b(i);
+    std::size_t n = c < 0x80 ? 1 : (c >> 5) == 6 ? 2 : (c >> 4) == 14 ? 3 : (c >> 3) == 30 ? 4 : 0;
+    if (n == 0 || i + n > s.size()) return 0;
+    for (std::size_t k = 1; k < n; ++k)
+      if ((b(i + k) >> 6) != 2) return 0;
+    return n;
+  }
+  void string_body(std::string_view s) {
+    buf_ += '"';
+    for (std::size_t i = 0; i < s.size();) {
+      const unsigned char c = static_cast<unsigned char>(s[i]);
+      if (c >= 0x80) {
+        const std::size_t n = utf8_length(s, i);
+        if (n == 0) { buf_ += "\\ufffd"; ++i; }  // not UTF-8: the replacement character
+        else { buf_.append(s.substr(i, n)); i += n; }
+        continue;
+      }
+      ++i;
+      switch (c) {
+        case '"': buf_ += "\\\""; break;
+        case '\\': buf_ += "\\\\"; break;
+        case '\n': buf_ += "\\n"; break;
+        case '\r': buf_ += "\\r"; break;
+        case '\t': buf_ += "\\t"; break;
+        default:
+          if (c < 0x20) {
+            char b[8];
+            std::snprintf(b, sizeof b, "\\u%04x", c);
+            buf_ += b;
+          } else {
+            buf_ += static_cast<char>(c);
+          }
+      }
+    }
+    buf_ += '"';
+  }
+  void maybe_flush() {
+    if (buf_.size() > (1 << 16)) flush();
+  }
+
+  std::ostream& out_;
+  std::string buf_;
+  std::vector<Level> stack_;
+  bool after_key_ = false;
+};
+
+}  // namespace trivet::reports
