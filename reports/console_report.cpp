@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "harness/compare/against.h"
+#include "harness/precision/precision.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -93,6 +94,7 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
   }
   const std::string F = b.units.force, L = b.units.length;
   const std::string FL = F + "*" + L;
+  for (const auto& w : b.warnings) out << "  " << paint("warning: " + w, kYellow, opt.color) << "\n";
   for (const auto& set : b.sets) {
     out << "  load set: " << set.name << "   units: " << F << ", " << L << "\n";
     out << "  methods:";
@@ -104,6 +106,20 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
                << " (" << m.reason << ")";
     }
     out << "\n";
+    for (const auto& pn : b.precision) {
+      if (pn->load_case != set.name) continue;
+      out << "  arithmetic: " << precision::arithmetic_name(pn->arithmetic);
+      for (const auto& m : pn->methods)
+        if (m.used != m.requested) out << " (" << m.name << " in " << precision::arithmetic_name(m.used) << ")";
+      out << "; correct digits of the double results:";
+      for (const auto& m : pn->methods) {
+        if (!m.rounding) continue;
+        char buf[32];
+        if (m.rounding->measured) std::snprintf(buf, sizeof buf, "%.1f", m.rounding->worst_digits);
+        out << " " << m.name << " " << (m.rounding->measured ? std::string(buf) : "n/a");
+      }
+      out << " (estimated loss " << fixed(pn->conditioning.estimated_digits_lost, 1) << " digits)\n";
+    }
     {
       std::ostringstream d;
       d << "  verdict: ";

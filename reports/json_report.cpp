@@ -2,6 +2,7 @@
 #include <cmath>
 
 #include "harness/compare/against.h"
+#include "harness/precision/precision.h"
 #include "reports/json_writer.h"
 #include "reports/reports.h"
 
@@ -147,10 +148,100 @@ void method(JsonWriter& w, const MethodResult& m, const LoadSet& set) {
   w.end_object();
 }
 
-void load_set(JsonWriter& w, const LoadSet& set) {
+void number(JsonWriter& w, std::string_view k, const precision::Number& n) {
+  w.key(k);
+  w.begin_object(true);
+  w.member("value", n.value);
+  w.member("decimal", n.decimal);
+  if (!n.fraction.empty()) w.member("fraction", n.fraction);
+  w.end_object();
+}
+
+// Extended or exact results: every number also as a decimal with all its
+// digits (and, in exact arithmetic, as a fraction), and each method's
+// rounding error in double.
+void arithmetic(JsonWriter& w, const precision::LoadSetNumbers& pn) {
+  w.key("arithmetic");
+  w.begin_object();
+  w.member("requested", precision::arithmetic_name(pn.arithmetic));
+  w.key("conditioning");
+  w.begin_object(true);
+  w.member("estimated_digits_lost", pn.conditioning.estimated_digits_lost);
+  if (pn.conditioning.measured_digits_lost) w.member("measured_digits_lost", *pn.conditioning.measured_digits_lost);
+  w.key("features");
+  w.begin_array(true);
+  for (const auto& f : pn.conditioning.features) w.value(f.description);
+  w.end_array();
+  w.key("warnings");
+  w.begin_array(true);
+  for (const auto& x : pn.conditioning.warnings) w.value(x);
+  w.end_array();
+  w.end_object();
+  w.key("methods");
+  w.begin_object();
+  for (const auto& m : pn.methods) {
+    w.key(m.name);
+    w.begin_object();
+    w.member("arithmetic", precision::arithmetic_name(m.used));
+    w.member("note", m.note);
+    w.member("status", method_status_name(m.status));
+    w.member("reason", m.reason);
+    if (m.rounding) {
+      w.key("double_rounding");
+      w.begin_object(true);
+      w.member("measured", m.rounding->measured);
+      if (!m.rounding->reason.empty()) w.member("reason", m.rounding->reason);
+      w.key("relative_difference");
+      w.begin_object(true);
+      for (std::size_t k = 0; k < kKinds; ++k) w.member(kind_name(static_cast<Kind>(k)), m.rounding->difference[k]);
+      w.end_object();
+      w.key("correct_digits");
+      w.begin_object(true);
+      for (std::size_t k = 0; k < kKinds; ++k) w.member(kind_name(static_cast<Kind>(k)), m.rounding->digits[k]);
+      w.end_object();
+      w.member("worst_kind", m.rounding->worst_kind);
+      w.member("worst_where", m.rounding->worst_where);
+      w.end_object();
+    }
+    w.key("nodes");
+    w.begin_array();
+    for (const auto& n : m.nodes) {
+      w.begin_object(true);
+      number(w, "x", n.x);
+      if (n.moment_left) number(w, "moment_left", *n.moment_left);
+      if (n.moment_right) number(w, "moment_right", *n.moment_right);
+      number(w, "reaction_force", n.reaction_force);
+      number(w, "reaction_moment", n.reaction_moment);
+      number(w, "deflection", n.deflection);
+      number(w, "rotation_left", n.rotation_left);
+      number(w, "rotation_right", n.rotation_right);
+      w.end_object();
+    }
+    w.end_array();
+    w.key("stations");
+    w.begin_array();
+    for (const auto& st : m.stations) {
+      w.begin_object(true);
+      number(w, "x", st.x);
+      number(w, "shear", st.shear);
+      number(w, "moment", st.moment);
+      number(w, "deflection", st.deflection);
+      number(w, "rotation", st.rotation);
+      w.end_object();
+    }
+    w.end_array();
+    w.end_object();
+  }
+  w.end_object();
+  w.end_object();
+}
+
+void load_set(JsonWriter& w, const LoadSet& set, const BeamResult& b) {
   w.key(set.name);
   w.begin_object();
   w.member("verdict", verdict_name(set.verdict));
+  for (const auto& pn : b.precision)
+    if (pn->load_case == set.name) arithmetic(w, *pn);
   if (set.combination) {
     const input::Combination& c = *set.combination;
     w.key("combination");
@@ -364,6 +455,10 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
     w.member("length", b.units.length);
     w.end_object();
     w.member("status", beam_status_name(b.status));
+    w.key("warnings");
+    w.begin_array();
+    for (const auto& x : b.warnings) w.value(x);
+    w.end_array();
     w.key("errors");
     w.begin_array();
     for (const auto& e : b.errors) {
@@ -377,7 +472,7 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
     w.end_array();
     w.key("results");
     w.begin_object();
-    for (const auto& set : b.sets) load_set(w, set);
+    for (const auto& set : b.sets) load_set(w, set, b);
     w.end_object();
     claims(w, b);
     against_results(w, b);

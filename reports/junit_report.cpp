@@ -126,6 +126,11 @@ void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double
       if (!c.failure.empty()) (c.error ? e : f)++;
     out << "  <testsuite name=\"" << xml(b.file) << "\" tests=\"" << all[i].size() << "\" failures=\"" << f
         << "\" errors=\"" << e << "\" skipped=\"0\">\n";
+    if (!b.warnings.empty()) {
+      out << "    <system-out>";
+      for (const auto& w : b.warnings) out << xml("warning: " + w) << "\n";
+      out << "</system-out>\n";
+    }
     for (const auto& c : all[i]) {
       out << "    <testcase classname=\"" << xml(b.file) << "\" name=\"" << xml(c.name) << "\"";
       if (c.failure.empty()) {

@@ -3,6 +3,7 @@ trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_inp
 trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
 trivet_add_test(against_test ${CMAKE_CURRENT_SOURCE_DIR}/against_test.cpp trivet_compare)
 trivet_add_test(envelope_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_test.cpp trivet_compare)
+trivet_add_test(precision_test ${CMAKE_CURRENT_SOURCE_DIR}/precision_test.cpp trivet_precision)
 trivet_add_test(compare_test ${CMAKE_CURRENT_SOURCE_DIR}/compare_test.cpp trivet_compare)
 trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp
   trivet_three_moment trivet_slope_deflection trivet_stiffness)
@@ -29,3 +30,7 @@ add_test(NAME html_browser COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/html_browser
          $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
 set_tests_properties(html_browser PROPERTIES SKIP_RETURN_CODE 77 TIMEOUT 300)
 add_test(NAME cli_plot COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_plot.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples)
+
+# Hostile input, faults and limits: the corpus, the schema, robustness.
+include(${CMAKE_CURRENT_SOURCE_DIR}/corpus/tests.cmake)
+add_test(NAME cli_arithmetic COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_arithmetic.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)

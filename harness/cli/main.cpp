@@ -5,8 +5,10 @@
 //   3 an internal failure.
 #include <algorithm>
 #include <atomic>
+#include <csignal>
 #include <cstdint>
 #include <fstream>
+#include <iterator>
 #include <cstdio>
 #include <cstdlib>
 #include <iostream>
@@ -25,6 +27,9 @@
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
+#include "harness/precision/exact_reader.h"
+#include "harness/precision/precision.h"
+#include "harness/input/schema.h"
 #include "references/selfcheck.h"
 #include "reports/html_report.h"
 #include "reports/plot.h"
@@ -104,7 +109,77 @@ struct CheckArgs {
   // --against and how to read the other program's tables.
   std::vector<std::string> against, columns;
   std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
+  std::string arithmetic = "double", reference;
 };
+
+// Warnings about digits double may lose, for every beam (a pure function of
+// the beam), and, with --arithmetic or --reference, the results in extended
+// or exact arithmetic: with --arithmetic the methods' values are replaced by
+// the high-precision ones (correctly rounded to double) and the verdict,
+// consensus and claims recomputed from them.
+void apply_precision(compare::BeamResult& r, const std::string& path, const CheckArgs& a, const compare::Options& opt) {
+  if (r.status == compare::BeamStatus::Invalid) return;
+  const input::BeamFile f = input::read_beam_file(path);
+  if (!f.ok()) return;
+  {
+    const precision::Conditioning c = precision::estimate_conditioning(f.beam);
+    for (const auto& w : c.warnings) r.warnings.push_back(w);
+  }
+  const bool want = a.arithmetic != "double" || !a.reference.empty();
+  if (!want) return;
+  std::ifstream in(path, std::ios::binary);
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  precision::Options po;
+  po.methods = opt.methods;
+  po.stations_per_span = opt.stations_per_span;
+  const std::string& ar = a.arithmetic != "double" ? a.arithmetic : a.reference;
+  po.arithmetic = ar == "exact" ? precision::Arithmetic::Exact : precision::Arithmetic::Extended;
+  po.reference = true;
+  const precision::FileNumbers fn = precision::run_file(text, f, po);
+  if (!fn.ok) {
+    r.warnings.push_back("the " + ar + " arithmetic run could not be made: " + fn.error);
+    return;
+  }
+  for (const auto& set : fn.sets) {
+    r.precision.push_back(std::make_shared<precision::LoadSetNumbers>(set));
+    if (set.conditioning.measured_digits_lost && *set.conditioning.measured_digits_lost > po.warn_digits)
+      for (const auto& w : set.conditioning.warnings)
+        if (std::find(r.warnings.begin(), r.warnings.end(), w) == r.warnings.end()) r.warnings.push_back(w);
+  }
+  if (a.arithmetic == "double") return;
+  // Replace the double values by the high-precision ones.
+  for (auto& set : r.sets) {
+    const precision::LoadSetNumbers* pn = nullptr;
+    for (const auto& p : r.precision)
+      if (p->load_case == set.name) pn = p.get();
+    if (!pn || set.envelope) continue;
+    for (auto& m : set.methods) {
+      if (m.status != MethodStatus::Ok) continue;
+      for (const auto& mn : pn->methods) {
+        if (mn.name != m.name || mn.status != MethodStatus::Ok) continue;
+        if (mn.nodes.size() != m.nodes.size() || mn.stations.size() != m.stations.size()) continue;
+        for (std::size_t j = 0; j < m.nodes.size(); ++j) {
+          NodeResult& n = m.nodes[j];
+          const precision::NodeNumbers& x = mn.nodes[j];
+          if (n.moment_left && x.moment_left) n.moment_left = x.moment_left->value;
+          if (n.moment_right && x.moment_right) n.moment_right = x.moment_right->value;
+          n.reaction_force = x.reaction_force.value;
+          n.reaction_moment = x.reaction_moment.value;
+          n.deflection = x.deflection.value;
+          n.rotation_left = x.rotation_left.value;
+          n.rotation_right = x.rotation_right.value;
+        }
+        for (std::size_t i = 0; i < m.stations.size(); ++i) {
+          m.stations[i].shear = mn.stations[i].shear.value;
+          m.stations[i].moment = mn.stations[i].moment.value;
+          m.stations[i].deflection = mn.stations[i].deflection.value;
+          m.stations[i].rotation = mn.stations[i].rotation.value;
+        }
+      }
+    }
+  }
+  compare::refresh(r, f, opt);
+}
 
 int run_check(const CheckArgs& a) {
   compare::Options opt;
@@ -125,6 +200,19 @@ int run_check(const CheckArgs& a) {
   }
   std::vector<std::pair<std::string, std::string>> problems;
   std::vector<std::string> files = collect_beam_files(a.paths, &problems);
+  {
+    // A report path must not name a file being read (it would be overwritten).
+    std::vector<std::string> inputs = files;
+    inputs.insert(inputs.end(), a.against.begin(), a.against.end());
+    const std::pair<const char*, std::string> reports[] = {{"--json", a.json}, {"--junit", a.junit}};
+    for (const auto& [option, report] : reports) {
+      const std::string why = report_clashes_with_input(report, inputs);
+      if (!why.empty()) {
+        std::cerr << "trivet: " << option << ": " << why << "\n";
+        return kExitInvalid;
+      }
+    }
+  }
   if (!a.shard.empty()) {
     unsigned k = 0, n = 0;
     char slash = 0;
@@ -172,6 +260,22 @@ int run_check(const CheckArgs& a) {
   for (auto& t : pool) t.join();
   if (progress) std::cerr << "\r" << std::string(40, ' ') << "\r";
 
+  if (a.arithmetic != "double" || !a.reference.empty()) {
+    // Extended and exact runs cost hundreds of times a double one: in parallel too.
+    std::atomic<std::size_t> next_p{0};
+    auto pwork = [&] {
+      for (std::size_t i = next_p++; i < files.size(); i = next_p++) {
+        try { apply_precision(results[i], files[i], a, opt); }
+        catch (const std::exception& e) { results[i].warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
+      }
+    };
+    std::vector<std::thread> ppool;
+    for (unsigned t = 1; t < jobs; ++t) ppool.emplace_back(pwork);
+    pwork();
+    for (auto& t : ppool) t.join();
+  } else {
+    for (std::size_t i = 0; i < files.size(); ++i) apply_precision(results[i], files[i], a, opt);
+  }
   bool against_invalid = false;
   if (!a.against.empty()) {
     namespace ag = compare::against;
@@ -489,6 +593,10 @@ int run_selfcheck(const SelfcheckArgs& a) {
 // Joins the JSON reports of several shards: beams in order of file name,
 // the summary recounted. Exit code as for check.
 int run_merge(const std::vector<std::string>& inputs, const std::string& out_path) {
+  if (const std::string why = report_clashes_with_input(out_path, inputs); !why.empty()) {
+    std::cerr << "trivet merge: --json: " << why << "\n";
+    return kExitInvalid;
+  }
   nlohmann::ordered_json merged;
   std::vector<nlohmann::ordered_json> beams;
   for (const auto& path : inputs) {
@@ -537,6 +645,9 @@ int run_merge(const std::vector<std::string>& inputs, const std::string& out_pat
 int main(int argc, char** argv) {
   using namespace trivet::cli;
   std::ios::sync_with_stdio(false);
+  // A reader of standard output that goes away (`trivet check lib | head -1`)
+  // ends the writing quietly, not the program by a signal.
+  std::signal(SIGPIPE, SIG_IGN);
   CLI::App app{"trivet: checks continuous-beam results by three independent classical methods\n"
                "(three-moment equation, slope-deflection, direct stiffness)."};
   app.set_version_flag("--version", std::string("trivet ") + TRIVET_VERSION);
@@ -555,6 +666,10 @@ int main(int argc, char** argv) {
   check->add_flag("--all-rows", ca.all_rows, "Print every node and span, however long the beam");
   check->add_option("--junit", ca.junit, "Write a JUnit XML report to FILE (a test suite per beam file)");
   check->add_option("--html", ca.html, "Write a self-contained HTML report with the diagrams to FILE");
+  check->add_option("--arithmetic", ca.arithmetic, "double (default), extended (50 digits) or exact (rationals; stiffness in extended)")
+      ->check(CLI::IsMember({"double", "extended", "exact"}));
+  check->add_option("--reference", ca.reference, "Also run in extended or exact arithmetic and report each method's rounding error")
+      ->check(CLI::IsMember({"extended", "exact"}));
   check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
 
   check->add_option("--against", ca.against, "Another program's results (CSV) to compare; a second --against for a reactions table")
@@ -590,6 +705,7 @@ int main(int argc, char** argv) {
   merge->add_option("--json", merge_json, "Write the merged report to FILE ('-' for standard output, the default)");
 
   CLI::App* example = app.add_subcommand("example", "Print a starter beam file");
+  CLI::App* schema = app.add_subcommand("schema", "Print the JSON Schema (draft 2020-12) of the beam file");
 
   for (int i = 0; i < argc; ++i) ca.command_line += (i ? " " : "") + std::string(argv[i]);
   sa.command_line = ca.command_line;
@@ -606,6 +722,10 @@ int main(int argc, char** argv) {
   try {
     if (*check) return run_check(ca);
     if (*merge) return run_merge(merge_inputs, merge_json);
+    if (*schema) {
+      std::cout << trivet::input::beam_file_schema() << std::flush;
+      return kExitAgree;
+    }
     if (*selfcheck) return run_selfcheck(sa);
     if (*plot) return run_plot(plot_file, plot_out, plot_case, ca.methods);
     if (*example) {

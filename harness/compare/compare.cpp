@@ -913,6 +913,24 @@ void envelope_extremes(LoadSet& set) {
   }
 }
 
+// Claims against their load sets, then the beam's status.
+void finish(BeamResult& out, const input::BeamFile& file) {
+  for (const auto& claim : file.claims) {
+    const LoadSet* set = &out.sets.front();
+    if (!claim.load_case.empty())
+      for (const auto& s : out.sets)
+        if (s.name == claim.load_case) set = &s;
+    out.claims.push_back(evaluate_claim(claim, *set, file));
+  }
+  bool unconfirmed = false, disagree = false;
+  for (const auto& s : out.sets) {
+    disagree = disagree || s.verdict == Verdict::Disagree;
+    unconfirmed = unconfirmed || s.verdict == Verdict::Unconfirmed;
+  }
+  disagree = disagree || out.claims_failed() > 0;
+  out.status = disagree ? BeamStatus::Disagree : unconfirmed ? BeamStatus::Unconfirmed : BeamStatus::Agree;
+}
+
 }  // namespace
 
 BeamResult check(const input::BeamFile& file, const Options& options) {
@@ -1019,21 +1037,24 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
     }
     out.sets.push_back(std::move(set));
   }
-  for (const auto& claim : file.claims) {
-    const LoadSet* set = &out.sets.front();
-    if (!claim.load_case.empty())
-      for (const auto& s : out.sets)
-        if (s.name == claim.load_case) set = &s;
-    out.claims.push_back(evaluate_claim(claim, *set, file));
-  }
-  bool unconfirmed = false, disagree = false;
-  for (const auto& s : out.sets) {
-    disagree = disagree || s.verdict == Verdict::Disagree;
-    unconfirmed = unconfirmed || s.verdict == Verdict::Unconfirmed;
-  }
-  disagree = disagree || out.claims_failed() > 0;
-  out.status = disagree ? BeamStatus::Disagree : unconfirmed ? BeamStatus::Unconfirmed : BeamStatus::Agree;
+  finish(out, file);
   return out;
+}
+
+void refresh(BeamResult& result, const input::BeamFile& file, const Options& options) {
+  if (result.status == BeamStatus::Invalid) return;
+  for (auto& set : result.sets) {
+    if (set.envelope) continue;
+    for (auto& m : set.methods)
+      if (m.status == MethodStatus::Ok) m.equilibrium = equilibrium_of(set.beam, m.nodes);
+    set.worst.reset();
+    set.odd_one_out.clear();
+    set.problem.clear();
+    compare_methods(set, options.agreement);
+    compute_extremes(set);
+  }
+  result.claims.clear();
+  finish(result, file);
 }
 
 }  // namespace trivet::compare

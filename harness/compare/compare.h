@@ -17,6 +17,11 @@ namespace trivet::compare {
 namespace against {
 struct Comparison;  // another program's results against ours (against.h)
 }
+}  // namespace trivet::compare
+namespace trivet::precision {
+struct LoadSetNumbers;  // a load set in extended or exact arithmetic (precision.h)
+}
+namespace trivet::compare {
 
 // The kinds of quantity compared, each scaled by its own largest magnitude.
 enum class Kind { Moment, Shear, Reaction, Deflection, Rotation };
@@ -155,6 +160,10 @@ struct BeamResult {
   std::vector<ClaimResult> claims;
   // Another program's exported results compared with ours (--against).
   std::vector<std::shared_ptr<const against::Comparison>> against;
+  // Results in extended or exact arithmetic, one per load case (--arithmetic,
+  // --reference), and warnings about the beam (e.g. digits double loses).
+  std::vector<std::shared_ptr<const precision::LoadSetNumbers>> precision;
+  std::vector<std::string> warnings;
   std::size_t claims_failed() const;
 };
 
@@ -174,6 +183,11 @@ std::string describe(const Governs& g, const input::Combination& c);
 // Checks one file that has been read (invalid files give an Invalid result
 // carrying their errors).
 BeamResult check(const input::BeamFile& file, const Options& options);
+
+// After the methods' node and station values of `result` were replaced (by
+// values computed in another arithmetic), recomputes the agreement, the
+// consensus, the span extremes, the claims and the status.
+void refresh(BeamResult& result, const input::BeamFile& file, const Options& options);
 
 // The loads of one load case.
 Beam beam_for_case(const Beam& beam, const std::string& load_case);
