@@ -3,7 +3,9 @@
 #include <algorithm>
 #include <charconv>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
+#include <limits>
 #include <map>
 #include <set>
 #include <sstream>
@@ -150,6 +152,42 @@ std::optional<Tolerance> parse_tolerance_text(const std::string& text, std::stri
 
 namespace {
 
+// Text from the file made fit for a one-line message: bytes that are not
+// UTF-8 are written \xNN, control characters \n, \t or \u00NN, and a very
+// long text is cut (at a character boundary) with "...".
+std::string printable(const std::string& s, std::size_t max_bytes = 400) {
+  static const char* hex = "0123456789ABCDEF";
+  std::string r;
+  std::size_t i = 0;
+  while (i < s.size()) {
+    if (r.size() >= max_bytes) { r += "..."; break; }
+    const unsigned char c = static_cast<unsigned char>(s[i]);
+    if (c < 0x20 || c == 0x7F) {
+      if (c == '\n') r += "\\n";
+      else if (c == '\t') r += "\\t";
+      else if (c == '\r') r += "\\r";
+      else { r += "\\u00"; r += hex[c >> 4]; r += hex[c & 15]; }
+      ++i;
+      continue;
+    }
+    if (c < 0x80) { r += static_cast<char>(c); ++i; continue; }
+    // The length of a well-formed UTF-8 sequence starting here, or 0.
+    std::size_t n = 0;
+    unsigned lo = 0x80, hi = 0xBF;
+    if (c >= 0xC2 && c <= 0xDF) n = 2;
+    else if (c >= 0xE0 && c <= 0xEF) { n = 3; if (c == 0xE0) lo = 0xA0; if (c == 0xED) hi = 0x9F; }
+    else if (c >= 0xF0 && c <= 0xF4) { n = 4; if (c == 0xF0) lo = 0x90; if (c == 0xF4) hi = 0x8F; }
+    bool ok = n > 0 && i + n <= s.size();
+    for (std::size_t k = 1; ok && k < n; ++k) {
+      const unsigned char d = static_cast<unsigned char>(s[i + k]);
+      if (d < (k == 1 ? lo : 0x80u) || d > (k == 1 ? hi : 0xBFu)) ok = false;
+    }
+    if (ok) { r.append(s, i, n); i += n; }
+    else { r += "\\x"; r += hex[c >> 4]; r += hex[c & 15]; ++i; }
+  }
+  return r;
+}
+
 const char* type_of(const json& j) {
   switch (j.type()) {
     case json::value_t::null: return "null";
@@ -166,9 +204,7 @@ const char* type_of(const json& j) {
 
 std::string got(const json& j) {
   if (j.is_string()) {
-    std::string s = j.get<std::string>();
-    if (s.size() > 40) s = s.substr(0, 40) + "...";
-    return "got the string \"" + s + "\"";
+    return "got the string \"" + printable(j.get<std::string>(), 40) + "\"";
   }
   if (j.is_number()) return "got " + format_number(j.get<double>());
   if (j.is_boolean()) return std::string("got ") + (j.get<bool>() ? "true" : "false");
@@ -186,13 +222,29 @@ std::string escape_key(const std::string& k) {
   return r;
 }
 
+// A whole number of the file as a long long, saturated (a number beyond
+// the range of long long reads as the largest one of its sign).
+long long whole(const json& v) {
+  if (v.is_number_unsigned()) {
+    const auto u = v.get<unsigned long long>();
+    return u > static_cast<unsigned long long>(std::numeric_limits<long long>::max())
+               ? std::numeric_limits<long long>::max() : static_cast<long long>(u);
+  }
+  return v.get<long long>();
+}
+// Its text, exact.
+std::string whole_text(const json& v) {
+  return v.is_number_unsigned() ? std::to_string(v.get<unsigned long long>()) : std::to_string(v.get<long long>());
+}
+
 struct Reader {
   std::vector<Error>* errors;
   Units units;
   Limits limits;
+  std::set<std::string> unknown_keys;  // pointers of the fields reported as unknown
 
   void error(const std::string& ptr, const std::string& where, const std::string& reason) {
-    if (errors->size() < 1000) errors->push_back({ptr, where, reason});
+    if (errors->size() < 1000) errors->push_back({printable(ptr), where, printable(reason, 2000)});
     else if (errors->size() == 1000)
       errors->push_back({"", "", "more than 1000 errors; the rest are not listed"});
   }
@@ -210,6 +262,7 @@ struct Reader {
         reason += ")";
       }
       error(ptr + "/" + escape_key(it.key()), where, reason);
+      unknown_keys.insert(ptr + "/" + escape_key(it.key()));
     }
   }
 
@@ -242,8 +295,13 @@ struct Reader {
     if (it == obj.end()) {
       // A misspelt key has already been reported with this one suggested.
       bool misspelt = false;
-      for (auto k = obj.begin(); k != obj.end(); ++k)
-        if (k.key() != key && did_you_mean(k.key(), {key}) == std::optional<std::string>(key)) misspelt = true;
+      // (Only a field reported as unknown can be the misspelling: "w1" is
+      // not a misspelt "w2".)
+      if (required)
+        for (auto k = obj.begin(); k != obj.end(); ++k)
+          if (k.key() != key && unknown_keys.count(ptr + "/" + escape_key(k.key())) &&
+              did_you_mean(k.key(), {key}) == std::optional<std::string>(key))
+            misspelt = true;
       if (required && !misspelt) error(ptr + "/" + key, where, "required field is missing");
       return std::nullopt;
     }
@@ -272,7 +330,15 @@ const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "re
 
 // Tracks object keys during parsing so that a key given twice is an error
 // (nlohmann/json would otherwise keep the last one silently).
+// Thrown by the duplicate finder when the nesting is deeper than the limit
+// (a beam file nests a few levels; a deeper one is refused before it costs
+// memory or stack).
+struct TooDeep {
+  std::string pointer;
+};
+
 struct DuplicateFinder {
+  std::size_t max_depth = 64;
   struct Frame {
     bool object;
     std::size_t index = 0;
@@ -292,11 +358,56 @@ struct DuplicateFinder {
   void value_done() {
     if (!stack.empty() && !stack.back().object) ++stack.back().index;
   }
+  // The SAX interface of nlohmann/json: a first pass over the text that
+  // finds duplicate keys and excessive depth without building anything. (A
+  // parser callback would do the same in one pass, but nlohmann/json's
+  // callback parser rescans each array at every object end, which makes a
+  // 100,000-span file quadratic.)
+  bool overflow = false;         // a number beyond double
+  std::string overflow_pointer;
+  std::string syntax;            // the parse error's message, if any
+  void open(bool object) {
+    std::string name = child_pointer();
+    if (stack.size() >= max_depth) throw TooDeep{name};
+    stack.push_back({object, 0, {}, name});
+  }
+  void close() {
+    if (!stack.empty()) stack.pop_back();
+    value_done();
+  }
+  bool null() { value_done(); return true; }
+  bool boolean(bool) { value_done(); return true; }
+  bool number_integer(json::number_integer_t) { value_done(); return true; }
+  bool number_unsigned(json::number_unsigned_t) { value_done(); return true; }
+  bool number_float(json::number_float_t, const json::string_t&) { value_done(); return true; }
+  bool string(json::string_t&) { value_done(); return true; }
+  bool binary(json::binary_t&) { value_done(); return true; }
+  bool start_object(std::size_t) { open(true); return true; }
+  bool end_object() { close(); return true; }
+  bool start_array(std::size_t) { open(false); return true; }
+  bool end_array() { close(); return true; }
+  bool key(json::string_t& k) {
+    pending_key = k;
+    if (!stack.empty() && !stack.back().keys.insert(pending_key).second && duplicates.size() < 100)
+      duplicates.push_back(stack.back().name + "/" + escape_key(pending_key));
+    return true;
+  }
+  bool parse_error(std::size_t, const std::string&, const nlohmann::detail::exception& ex) {
+    if (ex.id == 406) {  // out_of_range.406: number overflow
+      overflow = true;
+      overflow_pointer = child_pointer();
+    } else {
+      syntax = ex.what();
+    }
+    return false;
+  }
+
   bool operator()(int, json::parse_event_t ev, json& parsed) {
     switch (ev) {
       case json::parse_event_t::object_start:
       case json::parse_event_t::array_start: {
         std::string name = child_pointer();
+        if (stack.size() >= max_depth) throw TooDeep{name};
         stack.push_back({ev == json::parse_event_t::object_start, 0, {}, name});
         break;
       }
@@ -346,7 +457,7 @@ std::string where_of(const std::string& ptr) {
 BeamFile parse_beam_text(const std::string& text, const std::string& display, const Limits& limits) {
   BeamFile out;
   out.path = display;
-  Reader rd{&out.errors, Units{}, limits};
+  Reader rd{&out.errors, Units{}, limits, {}};
 
   if (text.size() > limits.max_file_bytes) {
     rd.error("", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB");
@@ -359,8 +470,25 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
 
   json root;
   DuplicateFinder dups;
+  dups.max_depth = limits.max_depth;
   try {
-    root = json::parse(text, std::ref(dups), true, false);
+    if (!json::sax_parse(text, &dups, json::input_format_t::json, true, false)) {
+      if (dups.overflow) {
+        rd.error(dups.overflow_pointer, where_of(dups.overflow_pointer), "must be a finite number (the value is too large)");
+        return out;
+      }
+      std::string msg = dups.syntax;
+      const std::string marker = "parse error at ";
+      auto p = msg.find(marker);
+      if (p != std::string::npos) msg = msg.substr(p + marker.size());
+      rd.error("", "", "not valid JSON: " + msg);
+      return out;
+    }
+    root = json::parse(text, nullptr, true, false);
+  } catch (const TooDeep& deep) {
+    rd.error(deep.pointer, where_of(deep.pointer), "nested more than " + std::to_string(limits.max_depth) +
+                                                       " levels deep (a beam file needs only a few)");
+    return out;
   } catch (const json::parse_error& e) {
     std::string msg = e.what();
     const std::string marker = "parse error at ";
@@ -393,6 +521,9 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     if (it->is_string()) beam.title = it->get<std::string>();
     else rd.error("/title", "", "must be a string (" + got(*it) + ")");
   }
+  for (const char* key : {"description", "$schema"})
+    if (auto it = root.find(key); it != root.end() && !it->is_string())
+      rd.error(std::string("/") + key, "", "must be a string (" + got(*it) + ")");
   // units
   bool units_ok = false;
   if (auto it = root.find("units"); it == root.end()) {
@@ -622,9 +753,9 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     if (!it->is_number_integer() && !it->is_number_unsigned()) {
       rd.error("/stations_per_span", "", "must be a whole number from 1 to " + std::to_string(limits.max_stations_per_span) + " (" + got(*it) + ")");
     } else {
-      const auto v = it->get<long long>();
+      const auto v = whole(*it);
       if (v < 1 || v > limits.max_stations_per_span)
-        rd.error("/stations_per_span", "", "must be from 1 to " + std::to_string(limits.max_stations_per_span) + " (got " + std::to_string(v) + ")");
+        rd.error("/stations_per_span", "", "must be from 1 to " + std::to_string(limits.max_stations_per_span) + " (got " + whole_text(*it) + ")");
       else beam.stations_per_span = static_cast<int>(v);
     }
   }
@@ -684,9 +815,9 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             rd.error(p, where, std::string("must be a ") + what + " number, 1 to " + std::to_string(count) + " (" + got(v) + ")");
             return std::nullopt;
           }
-          const long long k = v.get<long long>();
+          const long long k = whole(v);
           if (k < 1 || static_cast<unsigned long long>(k) > count) {
-            rd.error(p, where, std::string("there is no ") + what + " " + std::to_string(k) + ": the beam has " +
+            rd.error(p, where, std::string("there is no ") + what + " " + whole_text(v) + ": the beam has " +
                                    std::to_string(count) + " " + what + (count == 1 ? "" : "s") +
                                    ", numbered from 1");
             return std::nullopt;
@@ -701,7 +832,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (load.type == LoadType::Udl || load.type == LoadType::Linear) {
             rd.error(ptr + "/node", where, std::string("a ") + type + " load acts along a span: give 'span' instead of 'node'");
           } else if (n_spans > 0) {
-            if (auto k = index_of("node", n_nodes, "node")) { load.on_node = true; load.index = *k; placed = true; }
+            load.on_node = true;  // (no position is asked for, even when the node number is wrong)
+            if (auto k = index_of("node", n_nodes, "node")) { load.index = *k; placed = true; }
             if (l.contains("at")) { rd.error(ptr + "/at", where, "a load at a node has no position 'at'"); placed = false; }
           }
         } else if (n_spans > 0) {
@@ -935,6 +1067,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     }
   }
 
+  // Load sets and stations in all (each load set has its own stations).
+  {
+    const std::size_t sets = out.cases.size() + out.combinations.size();
+    const std::size_t along = spans_ok ? n_spans * static_cast<std::size_t>(beam.stations_per_span + 1) : 0;
+    const std::size_t per_set = along + beam.loads.size();
+    if (sets > limits.max_load_sets)
+      rd.error(out.combinations.empty() ? "/loads" : "/combinations", "",
+               "has " + std::to_string(out.cases.size()) + " load cases and " + std::to_string(out.combinations.size()) +
+                   " combinations, more than the limit of " + std::to_string(limits.max_load_sets) + " load sets");
+    else if (spans_ok && along <= limits.max_stations && per_set * sets > limits.max_stations)
+      rd.error(sets > 1 ? (out.combinations.empty() ? "/loads" : "/combinations") : "/loads", "",
+               "asks for " + std::to_string(per_set * sets) + " stations in all (" + std::to_string(per_set) + " in each of " +
+                   std::to_string(sets) + (sets == 1 ? " load set" : " load sets") + "), more than the limit of " +
+                   std::to_string(limits.max_stations));
+  }
+
   // claims
   if (auto it = root.find("claims"); it != root.end()) {
     if (!it->is_object()) {
@@ -999,8 +1147,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
               const json& v = c["span"];
               if (!v.is_number_integer() && !v.is_number_unsigned()) rd.error(ptr + "/span", where, "must be a span number (" + got(v) + ")");
               else {
-                const long long k = v.get<long long>();
-                if (k < 1 || static_cast<std::size_t>(k) > n_spans) rd.error(ptr + "/span", where, "there is no span " + std::to_string(k) + ": the beam has " + std::to_string(n_spans) + " spans, numbered from 1");
+                const long long k = whole(v);
+                if (k < 1 || static_cast<std::size_t>(k) > n_spans) rd.error(ptr + "/span", where, "there is no span " + whole_text(v) + ": the beam has " + std::to_string(n_spans) + " spans, numbered from 1");
                 else claim.span = static_cast<std::size_t>(k - 1);
               }
             }
@@ -1019,8 +1167,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
                   rd.error(ptr + "/node", where, reason);
                 } else claim.node = static_cast<std::size_t>(f - beam.labels.begin());
               } else if (v.is_number_integer() || v.is_number_unsigned()) {
-                const long long k = v.get<long long>();
-                if (k < 1 || static_cast<std::size_t>(k) > n_nodes) rd.error(ptr + "/node", where, "there is no node " + std::to_string(k) + ": the beam has " + std::to_string(n_nodes) + " nodes, numbered from 1");
+                const long long k = whole(v);
+                if (k < 1 || static_cast<std::size_t>(k) > n_nodes) rd.error(ptr + "/node", where, "there is no node " + whole_text(v) + ": the beam has " + std::to_string(n_nodes) + " nodes, numbered from 1");
                 else claim.node = static_cast<std::size_t>(k - 1);
               } else rd.error(ptr + "/node", where, "must be a node label or number (" + got(v) + ")");
             } else {
@@ -1033,6 +1181,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
               }
             }
           }
+          if (auto nt = c.find("note"); nt != c.end() && !nt->is_string())
+            rd.error(ptr + "/note", where, "must be a string (" + got(*nt) + ")");
           if (auto s = c.find("side"); s != c.end()) {
             if (s->is_string() && s->get<std::string>() == "left") claim.side = Side::Left;
             else if (s->is_string() && s->get<std::string>() == "right") claim.side = Side::Right;
@@ -1091,6 +1241,26 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
 }
 
 BeamFile read_beam_file(const std::string& path, const Limits& limits) {
+  {
+    std::error_code ec;
+    const auto st = std::filesystem::status(path, ec);
+    std::string why;
+    if (ec || !std::filesystem::exists(st)) {
+      const auto link = std::filesystem::symlink_status(path, ec);
+      why = !ec && std::filesystem::is_symlink(link) ? "a symbolic link to nothing (or a loop of links); nothing to read"
+                                                      : "cannot open the file for reading (it does not exist)";
+    } else if (std::filesystem::is_directory(st)) why = "is a directory, not a beam file";
+    else if (!std::filesystem::is_regular_file(st)) {
+      why = std::string("is not a regular file (") + (std::filesystem::is_fifo(st) ? "a named pipe" :
+             std::filesystem::is_socket(st) ? "a socket" : "a device") + "); trivet reads beam files only";
+    }
+    if (!why.empty()) {
+      BeamFile out;
+      out.path = path;
+      out.errors.push_back({"", "", why});
+      return out;
+    }
+  }
   std::ifstream in(path, std::ios::binary);
   if (!in) {
     BeamFile out;

@@ -19,7 +19,9 @@ struct Limits {
   std::size_t max_spans = 1'000'000;
   std::size_t max_loads = 4'000'000;
   int max_stations_per_span = 1000;
-  std::size_t max_stations = 20'000'000;       // spans x (stations_per_span + 1) + loads
+  std::size_t max_stations = 20'000'000;       // (spans x (stations_per_span + 1) + loads) x load sets
+  std::size_t max_load_sets = 1000;            // load cases + combinations (each is analysed on its own)
+  std::size_t max_depth = 64;                  // nesting of JSON arrays and objects
 };
 
 // One error in a file. `pointer` is a JSON Pointer (RFC 6901, 0-based);
