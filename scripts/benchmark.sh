@@ -1,0 +1,48 @@
+#!/usr/bin/env bash
+# Builds the benchmarks, runs them, and writes the table into README.md
+# between the "benchmarks:start" and "benchmarks:end" markers. Measures on
+# this machine; speed targets are checked here, never in unit tests.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+bash scripts/setup.sh
+dpkg-query -W -f='${Status}' libbenchmark-dev 2>/dev/null | grep -q "install ok installed" || \
+  { export DEBIAN_FRONTEND=noninteractive; apt-get update -qq; apt-get install -y -qq libbenchmark-dev; }
+cmake -S . -B build-bench -DCMAKE_BUILD_TYPE=Release -DTRIVET_BUILD_BENCHMARKS=ON -DTRIVET_BUILD_TESTS=OFF >/dev/null
+cmake --build build-bench -j"$(nproc)" >/dev/null
+bench=build-bench/tests/benchmarks/trivet_bench
+gen=build-bench/tests/benchmarks/generate_library
+trivet=build-bench/trivet
+work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
+
+"$bench" --benchmark_min_time=0.2 --benchmark_format=console 2>/dev/null | sed 's/\x1b\[[0-9;]*m//g' > "$work/bench.txt"
+
+# Whole runs: a library of 10,000 typical beams, and a 100,000-span beam.
+"$gen" "$work/lib" 10000 1
+"$gen" --long "$work/long.json" 100000 1
+run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |"
+  local label="$1"; shift
+  /usr/bin/time -f "%e %M" -o "$work/t" "$@" >/dev/null 2>&1 || true
+  read -r secs kb < "$work/t"
+  printf '| %s | %s s | %d MiB |\n' "$label" "$secs" $((kb / 1024))
+}
+{
+  echo "Measured on $(nproc) cores ($(grep -m1 'model name' /proc/cpuinfo | cut -d: -f2 | sed 's/^ *//')), $(date -u +%Y-%m-%d), by \`scripts/benchmark.sh\`."
+  echo
+  echo "| whole run | wall time | peak memory |"
+  echo "| --- | --- | --- |"
+  run "10,000 typical beams, all methods, JSON + JUnit, --jobs 2" "$trivet" check "$work/lib" --jobs 2 --json "$work/a.json" --junit "$work/a.xml"
+  run "10,000 typical beams, all methods, JSON + JUnit, --jobs 1" "$trivet" check "$work/lib" --jobs 1 --json "$work/b.json" --junit "$work/b.xml"
+  run "100,000-span beam, all methods, --stations-per-span 1, JSON" "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json"
+  echo
+  echo "| benchmark | time per iteration | per span (or unknown) |"
+  echo "| --- | --- | --- |"
+  awk '/^(three_moment|slope_deflection|stiffness|thomas|typical)\// {
+         per = ""; for (i = 1; i <= NF; i++) if ($i ~ /^ns_per_span=/) { per = substr($i, 13) }
+         printf "| %s | %s %s | %s |\n", $1, $2, $3, per }' "$work/bench.txt"
+} > "$work/table.md"
+cat "$work/table.md"
+awk -v table="$work/table.md" '
+  /<!-- benchmarks:start -->/ { print; while ((getline line < table) > 0) print line; skip = 1; next }
+  /<!-- benchmarks:end -->/ { skip = 0 }
+  !skip { print }' README.md > "$work/README.md"
+cp "$work/README.md" README.md
