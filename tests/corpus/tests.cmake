@@ -17,5 +17,5 @@ add_test(NAME schema_agrees_with_reader
           --root ${PROJECT_SOURCE_DIR})
 set_tests_properties(schema_agrees_with_reader PROPERTIES SKIP_RETURN_CODE 77)
 
-#add_test(NAME robustness COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/robustness.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR})
-#set_tests_properties(robustness PROPERTIES TIMEOUT 600)
+add_test(NAME robustness COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/robustness.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR})
+set_tests_properties(robustness PROPERTIES TIMEOUT 600)

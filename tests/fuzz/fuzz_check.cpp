@@ -1,0 +1,42 @@
+// libFuzzer target: one beam file's text through the reader, the whole
+// check with every method, and the JSON, JUnit and console reports (into
+// strings). Built with -DTRIVET_FUZZ=ON by clang (scripts/ci-fuzz.sh).
+// The limits are small, so that the fuzzer explores the reading and the
+// checking rather than solving huge beams.
+#include <cstddef>
+#include <cstdint>
+#include <sstream>
+#include <string>
+
+#include "harness/compare/compare.h"
+#include "harness/input/reader.h"
+#include "reports/reports.h"
+
+extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
+  using namespace trivet;
+  const std::string text(reinterpret_cast<const char*>(data), size);
+  input::Limits limits;
+  limits.max_file_bytes = 1u << 20;
+  limits.max_spans = 64;
+  limits.max_loads = 256;
+  limits.max_stations_per_span = 50;
+  limits.max_stations = 4000;
+  limits.max_load_sets = 8;
+  const input::BeamFile file = input::parse_beam_text(text, "fuzz.json", limits);
+  for (const auto& e : file.errors) {
+    // Every message names the location and a reason.
+    if (e.reason.empty()) __builtin_trap();
+  }
+  compare::Options opt;
+  std::vector<compare::BeamResult> results;
+  results.push_back(compare::check(file, opt));
+  if (file.ok() != (results.back().status != compare::BeamStatus::Invalid)) __builtin_trap();
+  std::ostringstream json, junit, console;
+  reports::RunInfo run{"fuzz", {}, opt.agreement};
+  reports::write_json(json, results, run);
+  reports::write_junit(junit, results, 1e-6);
+  reports::ConsoleOptions copt;
+  reports::write_console(console, results.back(), copt);
+  reports::write_console_summary(console, reports::summarize(results), copt);
+  return 0;
+}
