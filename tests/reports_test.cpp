@@ -90,6 +90,37 @@ TEST(ConsoleReport, ShowsUnitsTablesAndCaution) {
   EXPECT_EQ(s.find("\033["), std::string::npos) << "no colour unless asked";
 }
 
+// The JUnit file has the usual shape (testsuites / testsuite / testcase) and
+// its counts in attributes match the elements it holds.
+TEST(JunitReport, CountsMatchTheElements) {
+  std::vector<compare::BeamResult> beams = {sample()};
+  beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
+  std::ostringstream out;
+  write_junit(out, beams, 1e-6);
+  const std::string x = out.str();
+  auto count = [&](const std::string& what) {
+    std::size_t n = 0;
+    for (std::size_t p = x.find(what); p != std::string::npos; p = x.find(what, p + 1)) ++n;
+    return n;
+  };
+  auto attribute = [&](std::size_t from, const std::string& name) {
+    const std::size_t p = x.find(name + "=\"", from);
+    return std::stoul(x.substr(p + name.size() + 2));
+  };
+  EXPECT_EQ(x.rfind("<?xml", 0), 0u);
+  ASSERT_EQ(count("<testsuites "), 1u);
+  EXPECT_EQ(count("<testsuite "), 2u);
+  const std::size_t root = x.find("<testsuites ");
+  EXPECT_EQ(attribute(root, "tests"), count("<testcase "));
+  EXPECT_EQ(attribute(root, "failures"), count("<failure "));
+  EXPECT_EQ(attribute(root, "errors"), count("<error "));
+  EXPECT_EQ(count("<failure "), 1u);  // the failing claim of the sample
+  EXPECT_EQ(count("<error "), 1u);    // the invalid file
+  EXPECT_NE(x.find("claimed 1, computed"), std::string::npos);
+  EXPECT_EQ(count("</testsuite>"), 2u);
+  EXPECT_EQ(count("</testsuites>"), 1u);
+}
+
 TEST(ConsoleReport, RoundsForAPerson) {
   EXPECT_EQ(fixed(-0.0001, 2), "0.00");
   EXPECT_EQ(fixed(31.6449, 2), "31.64");
