@@ -34,3 +34,4 @@ add_test(NAME cli_plot COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_plot.sh $<TA
 # Hostile input, faults and limits: the corpus, the schema, robustness.
 include(${CMAKE_CURRENT_SOURCE_DIR}/corpus/tests.cmake)
 add_test(NAME cli_arithmetic COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_arithmetic.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
+add_test(NAME cli_library COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_library.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
