@@ -235,6 +235,26 @@ TEST(Limits, StationsInAllAtTheLimitAndOneMore) {
                                      "more than the limit of 20000000"});
 }
 
+TEST(Limits, StationsAskedForOnTheCommandLineAreCountedToo) {
+  // 19,980 spans with 1 station per span are far inside the limit; with
+  // --stations-per-span 1000 they would not be.
+  const BeamFile f = parse_beam_text(beam_text(19'980, 1, udls(21, false)), "big.json");
+  ASSERT_TRUE(f.ok());
+  EXPECT_FALSE(station_limit_error(f, 1000 - 1).has_value());
+  EXPECT_FALSE(station_limit_error(f, 1).has_value());
+  const auto e = station_limit_error(f, 1000);
+  ASSERT_TRUE(e.has_value());
+  EXPECT_EQ(e->format("big.json"), "big.json: /stations_per_span: with 1000 stations per span the beam asks for 20000001 "
+                                   "stations in all, more than the limit of 20000000");
+  // Through the program: refused with exit 2, not analysed.
+  const fs::path p = fs::temp_directory_path() / ("trivet-stations-" + std::to_string(getpid()) + ".json");
+  { std::ofstream(p.string()) << beam_text(19'980, 1, udls(21, false)); }
+  const auto [code, out] = run(quoted(TRIVET_EXE) + " check " + quoted(p.string()) + " --stations-per-span 1000 2>&1");
+  fs::remove(p);
+  EXPECT_EQ(code, 2) << out;
+  EXPECT_NE(out.find("/stations_per_span: with 1000 stations per span the beam asks for 20000001 stations in all"), std::string::npos) << out.substr(0, 2000);
+}
+
 TEST(Limits, LoadSetsBeyondTheLimitAreRefused) {
   EXPECT_TRUE(read_messages(beam_text(1, 10, udls(1000, true))).empty());
   EXPECT_EQ(read_messages(beam_text(1, 10, udls(1001, true))),

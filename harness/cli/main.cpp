@@ -239,7 +239,10 @@ int run_check(const CheckArgs& a) {
       const std::size_t i = next++;
       if (i >= files.size()) return;
       try {
-        const input::BeamFile f = input::read_beam_file(files[i]);
+        input::BeamFile f = input::read_beam_file(files[i]);
+        // --stations-per-span may ask for more stations than the file's limit allows.
+        if (f.ok() && a.stations_per_span > 0)
+          if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
         results[i] = compare::check(f, opt);
       } catch (const std::exception& e) {
         internal_error = true;

@@ -1240,6 +1240,18 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   return out;
 }
 
+std::optional<Error> station_limit_error(const BeamFile& file, int per_span, const Limits& limits) {
+  if (per_span < 1) return std::nullopt;
+  const std::size_t sets = file.cases.size() + file.combinations.size();
+  const std::size_t along = file.beam.spans.size() * (static_cast<std::size_t>(per_span) + 1);
+  const std::size_t per_set = along + file.beam.loads.size();
+  if (along <= limits.max_stations && per_set * std::max<std::size_t>(sets, 1) <= limits.max_stations) return std::nullopt;
+  return Error{"/stations_per_span", "",
+               "with " + std::to_string(per_span) + " stations per span the beam asks for " +
+                   std::to_string(per_set * std::max<std::size_t>(sets, 1)) + " stations in all, more than the limit of " +
+                   std::to_string(limits.max_stations)};
+}
+
 BeamFile read_beam_file(const std::string& path, const Limits& limits) {
   {
     std::error_code ec;

@@ -112,6 +112,11 @@ BeamFile read_beam_file(const std::string& path, const Limits& limits = {});
 BeamFile parse_beam_text(const std::string& text, const std::string& display,
                          const Limits& limits = {});
 
+// For a file read without errors, analysed with `per_span` stations per span
+// (e.g. --stations-per-span instead of the file's value): the error when its
+// stations in all would pass limits.max_stations, or nothing.
+std::optional<Error> station_limit_error(const BeamFile& file, int per_span, const Limits& limits = {});
+
 // Reads "1%" or 0.05 (file units) into a Tolerance, or gives a reason.
 std::optional<Tolerance> parse_tolerance_text(const std::string& text, std::string* reason);
 
