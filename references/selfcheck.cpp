@@ -189,7 +189,7 @@ std::optional<double> value_on(const Expected& ex, const compare::MethodResult& 
 
 }  // namespace
 
-CaseResult run_case(const ReferenceCase& ref, const compare::Options& options) {
+CaseResult run_case(const ReferenceCase& ref, const compare::Options& options, const AfterCheck& after) {
   CaseResult r;
   r.file = ref.file;
   r.id = ref.id;
@@ -199,7 +199,8 @@ CaseResult run_case(const ReferenceCase& ref, const compare::Options& options) {
   r.errors = ref.errors;
   if (!ref.ok()) return r;
 
-  const compare::BeamResult br = compare::check(ref.beam, options);
+  compare::BeamResult br = compare::check(ref.beam, options);
+  if (after) after(br, ref);
   if (br.status == compare::BeamStatus::Invalid || br.sets.empty()) {
     r.errors = br.errors;
     if (r.errors.empty()) r.errors.push_back({"/beam", "", "the beam could not be checked"});
@@ -278,10 +279,10 @@ CaseResult run_case(const ReferenceCase& ref, const compare::Options& options) {
   return r;
 }
 
-SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& options) {
+SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& options, const AfterCheck& after) {
   SelfcheckResult out;
   out.directory = dir;
-  for (const auto& c : load_cases(dir)) out.cases.push_back(run_case(c, options));
+  for (const auto& c : load_cases(dir)) out.cases.push_back(run_case(c, options, after));
   return out;
 }
 

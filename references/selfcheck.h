@@ -10,6 +10,7 @@
 #pragma once
 
 #include <cstddef>
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -75,10 +76,17 @@ struct SelfcheckResult {
   bool holds() const { return !cases.empty() && cases_failed() == 0; }  // exit 0 only then
 };
 
+// Called on each case's check result before the published values are read
+// from it (e.g. to replace the methods' values by ones computed in another
+// arithmetic).
+using AfterCheck = std::function<void(compare::BeamResult&, const ReferenceCase&)>;
+
 // Runs one case (already read). Default options: all three methods.
-CaseResult run_case(const ReferenceCase& reference, const compare::Options& options = {});
+CaseResult run_case(const ReferenceCase& reference, const compare::Options& options = {},
+                    const AfterCheck& after = nullptr);
 // Reads and runs every case under `dir` (default: directory()).
-SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& options = {});
+SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& options = {},
+                              const AfterCheck& after = nullptr);
 inline SelfcheckResult run_selfcheck() { return run_selfcheck(directory()); }
 
 // The extremes of one span from one method's solution, found by a dense

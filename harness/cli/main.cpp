@@ -117,18 +117,30 @@ struct CheckArgs {
 // or exact arithmetic: with --arithmetic the methods' values are replaced by
 // the high-precision ones (correctly rounded to double) and the verdict,
 // consensus and claims recomputed from them.
+void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
+                          const std::string& arithmetic, const std::string& reference, const compare::Options& opt);
+
 void apply_precision(compare::BeamResult& r, const std::string& path, const CheckArgs& a, const compare::Options& opt) {
   if (r.status == compare::BeamStatus::Invalid) return;
   const input::BeamFile f = input::read_beam_file(path);
   if (!f.ok()) return;
+  std::string text;
+  if (a.arithmetic != "double" || !a.reference.empty()) {
+    std::ifstream in(path, std::ios::binary);
+    text.assign((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  }
+  apply_precision_text(r, text, f, a.arithmetic, a.reference, opt);
+}
+
+void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
+                          const std::string& arithmetic, const std::string& reference, const compare::Options& opt) {
+  struct Args { std::string arithmetic, reference; } a{arithmetic, reference};
   {
     const precision::Conditioning c = precision::estimate_conditioning(f.beam);
     for (const auto& w : c.warnings) r.warnings.push_back(w);
   }
   const bool want = a.arithmetic != "double" || !a.reference.empty();
   if (!want) return;
-  std::ifstream in(path, std::ios::binary);
-  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
   precision::Options po;
   po.methods = opt.methods;
   po.stations_per_span = opt.stations_per_span;
@@ -378,6 +390,7 @@ int run_check(const CheckArgs& a) {
 
 struct SelfcheckArgs {
   std::string json, junit, html, methods, dir, command_line;
+  std::string arithmetic = "double", reference;
 };
 
 // `trivet plot FILE -o OUT.svg|.png`: the stacked diagrams of one load set.
@@ -448,8 +461,29 @@ int run_selfcheck(const SelfcheckArgs& a) {
         return kExitInvalid;
       }
   }
+  // In extended or exact arithmetic, each case's methods' values at the nodes
+  // and stations are replaced by the high-precision ones before the published
+  // values are compared (values between stations are still from double).
+  references::AfterCheck after = nullptr;
+  std::vector<std::pair<std::string, std::string>> rounding;  // case id, text
+  std::mutex rounding_mutex;
+  if (a.arithmetic != "double" || !a.reference.empty()) {
+    after = [&](compare::BeamResult& br, const references::ReferenceCase& ref) {
+      apply_precision_text(br, ref.beam_text, ref.beam, a.arithmetic, a.reference, opt);
+      std::string line;
+      for (const auto& pn : br.precision)
+        for (const auto& m : pn->methods)
+          if (m.rounding && m.rounding->measured) {
+            char buf[64];
+            std::snprintf(buf, sizeof buf, " %s %.1f", m.name.c_str(), m.rounding->worst_digits);
+            line += buf;
+          }
+      std::lock_guard<std::mutex> lock(rounding_mutex);
+      rounding.push_back({ref.id, line});
+    };
+  }
   const references::SelfcheckResult r =
-      a.dir.empty() ? references::run_selfcheck(references::directory(), opt) : references::run_selfcheck(a.dir, opt);
+      references::run_selfcheck(a.dir.empty() ? references::directory() : a.dir, opt, after);
   const bool to_stdout = a.json == "-";
   std::ostream& human = to_stdout ? std::cerr : std::cout;
   const bool color = !to_stdout && use_color(1);
@@ -460,6 +494,10 @@ int run_selfcheck(const SelfcheckArgs& a) {
     for (const auto& c : r.cases) {
       std::cout << c.id << "  [" << paint(c.holds ? "holds" : "FAILS", c.holds) << "]  " << c.title << "\n";
       std::cout << "  source: " << c.citation << "\n";
+      for (const auto& [id, line] : rounding)
+        if (id == c.id && !line.empty())
+          std::cout << "  arithmetic: " << (a.arithmetic != "double" ? a.arithmetic : "double, reference " + a.reference)
+                    << "; correct digits of the double results:" << line << "\n";
       for (const auto& e : c.errors) std::cout << "  error: " << e.format(c.file) << "\n";
       for (const auto& [m, why] : c.methods_skipped) std::cout << "  " << m << ": not applicable (" << why << ")\n";
       for (const auto& [m, why] : c.methods_failed) std::cout << "  " << m << ": " << paint("failed", false) << " (" << why << ")\n";
@@ -693,6 +731,10 @@ int main(int argc, char** argv) {
   selfcheck->add_option("--methods", sa.methods, "Comma list of methods (default all)");
   selfcheck->add_option("--html", sa.html, "Write the verification record as a self-contained HTML file");
   selfcheck->add_option("--cases", sa.dir, "Directory of reference cases (default: the bundled library)");
+  selfcheck->add_option("--arithmetic", sa.arithmetic, "double (default), extended or exact")
+      ->check(CLI::IsMember({"double", "extended", "exact"}));
+  selfcheck->add_option("--reference", sa.reference, "Also run in extended or exact arithmetic and report each method's rounding")
+      ->check(CLI::IsMember({"extended", "exact"}));
 
   std::string plot_file, plot_out, plot_case;
   CLI::App* plot = app.add_subcommand("plot", "Draw the diagrams of one beam, every method overlaid (SVG or PNG)");
