@@ -36,6 +36,9 @@ PY
 grep -q "times stiffer" "$out/ill.txt" || { echo "FAIL: no warning on the console"; fail=1; }
 grep -q "times stiffer" "$out/ill.json" || { echo "FAIL: no warning in the JSON"; fail=1; }
 grep -q "times stiffer" "$out/ill.xml" || { echo "FAIL: no warning in the JUnit report"; fail=1; }
+# The verification record in exact arithmetic still holds on every case.
+"$trivet" selfcheck --arithmetic exact >"$out/self.txt" 2>&1 || { echo "FAIL: selfcheck --arithmetic exact exited $?"; tail -3 "$out/self.txt"; fail=1; }
+grep -q "arithmetic: exact; correct digits" "$out/self.txt" || { echo "FAIL: selfcheck does not report the arithmetic"; fail=1; }
 rm -rf "$out"
 [ $fail = 0 ] && echo "arithmetic: all checks passed"
 exit $fail
