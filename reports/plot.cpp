@@ -15,6 +15,8 @@
 
 #include <gnuplot-iostream.h>
 
+#include "harness/compare/against.h"
+#include "harness/input/units.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -56,6 +58,88 @@ bool usable(const MethodResult& m, const LoadSet& set) {
   return m.status == MethodStatus::Ok && m.stations.size() == set.stations.size() && !m.stations.empty();
 }
 
+// The usable envelope of a method: ok and one bound per load set station.
+bool usable_envelope(const MethodResult& m, const LoadSet& set) {
+  return m.status == MethodStatus::Ok && m.envelope && !set.stations.empty() &&
+         m.envelope->moment.size() == set.stations.size() && m.envelope->shear.size() == set.stations.size() &&
+         m.envelope->deflection.size() == set.stations.size();
+}
+
+const std::vector<Bound>& bounds_of(const Envelope& e, Kind k) {
+  return k == Kind::Shear ? e.shear : k == Kind::Deflection ? e.deflection : e.moment;
+}
+
+Kind panel_quantity(PanelKind p) {
+  return p == PanelKind::Shear ? Kind::Shear : p == PanelKind::Moment ? Kind::Moment : Kind::Deflection;
+}
+
+// The combination in words: "1.2 x dead + 1.6 x live; live patterned span
+// by span (every arrangement)".
+std::string combination_text(const input::Combination& c) {
+  std::string s;
+  for (std::size_t k = 0; k < c.factors.size(); ++k) {
+    const input::Factor& f = c.factors[k].second;
+    s += (k ? " + " : "") +
+         (f.range ? "[" + input::format_number(f.low) + " or " + input::format_number(f.high) + "]"
+                  : input::format_number(f.low)) +
+         " x " + c.factors[k].first;
+  }
+  if (!c.pattern.empty()) {
+    s += "; ";
+    for (std::size_t k = 0; k < c.pattern.size(); ++k) s += (k ? ", " : "") + c.pattern[k];
+    s += std::string(" patterned span by span (") +
+         (c.arrangements == input::Arrangements::All ? "every arrangement" : "all, alternate and adjacent spans") + ")";
+  }
+  if (!c.source.empty()) s += "; factors: " + c.source;
+  return s;
+}
+
+// The global x of another program's row, from its `where` text ("x = 2.5
+// m" or "span 2, x_local = 1 m", in the file's length unit), converted to
+// the beam file's units. Comparison rows carry no numeric position, so it
+// is read back from that text (format_number keeps every digit needed).
+std::optional<double> row_x(const std::string& where, const std::vector<double>& node_x, const input::Units& units) {
+  auto number_and_unit = [&](std::size_t at) -> std::optional<double> {
+    const char* begin = where.c_str() + at;
+    char* end = nullptr;
+    const double v = std::strtod(begin, &end);
+    if (end == begin) return std::nullopt;
+    std::string unit(end);
+    while (!unit.empty() && unit.front() == ' ') unit.erase(0, 1);
+    double f = 1;
+    if (!unit.empty()) {
+      auto m = input::length_unit(unit);
+      if (!m || !(units.metres > 0)) return std::nullopt;
+      f = *m / units.metres;
+    }
+    return v * f;
+  };
+  if (where.rfind("x = ", 0) == 0) return number_and_unit(4);
+  if (where.rfind("span ", 0) == 0) {
+    const std::size_t comma = where.find(", x_local = ");
+    if (comma == std::string::npos) return std::nullopt;
+    const long span = std::strtol(where.c_str() + 5, nullptr, 10);
+    if (span < 1 || static_cast<std::size_t>(span) >= node_x.size()) return std::nullopt;
+    auto local = number_and_unit(comma + 12);
+    if (!local) return std::nullopt;
+    return node_x[static_cast<std::size_t>(span - 1)] + *local;
+  }
+  return std::nullopt;
+}
+
+// The node of another program's reaction row ("support B" or "support 2").
+std::optional<std::size_t> row_node(const std::string& where, const std::vector<std::string>& labels) {
+  if (where.rfind("support ", 0) != 0) return std::nullopt;
+  const std::string t = where.substr(8);
+  for (std::size_t i = 0; i < labels.size(); ++i)
+    if (labels[i] == t) return i;
+  char* end = nullptr;
+  const long n = std::strtol(t.c_str(), &end, 10);
+  if (end && *end == '\0' && end != t.c_str() && n >= 1 && static_cast<std::size_t>(n) <= labels.size())
+    return static_cast<std::size_t>(n - 1);
+  return std::nullopt;
+}
+
 }  // namespace
 
 PlotData plot_data(const BeamResult& b, std::size_t set_index) {
@@ -73,7 +157,10 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
   const LoadSet& set = b.sets[set_index];
   const Beam& beam = set.beam;
   const std::string F = b.units.force, L = b.units.length, FL = F + "*" + L;
-  d.subtitle = b.file + "  |  load set: " + set.name + "  |  methods " + verdict_name(set.verdict);
+  d.subtitle = b.file + "  |  load set: " + set.name + (set.envelope ? " (envelope)" : "") + "  |  methods " +
+               verdict_name(set.verdict);
+  d.envelope = set.envelope;
+  if (set.combination) d.combination = "combination " + set.name + " = " + combination_text(*set.combination);
   d.x_label = "x [" + L + "]";
   const std::size_t nn = beam.node_count();
   d.x_min = 0;
@@ -106,6 +193,11 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
       if (restrains_rotation(s.type) || n.rotational_spring)
         r += (r.empty() ? "" : "; ") + std::string("M = ") + fixed(c.reaction_moment, dm) + " " + FL;
       n.reaction = r;
+    }
+    if (set.envelope && i < set.consensus_envelope.reaction.size() &&
+        (restrains_deflection(s.type) || s.type == SupportType::Spring)) {
+      const Bound& r = set.consensus_envelope.reaction[i];
+      n.reaction = "R " + fixed(r.min, dr) + " to " + fixed(r.max, dr) + " " + F;
     }
     d.nodes.push_back(std::move(n));
   }
@@ -157,7 +249,71 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
   diff.kind = PanelKind::Difference;
   diff.ylabel = "(method - consensus)\n/ largest of its kind";
 
-  for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
+  if (set.envelope) {
+    shear.ylabel = "shear envelope [" + F + "]\nup +";
+    moment.ylabel = "moment envelope [" + FL + "]\nsagging +, drawn down";
+    defl.ylabel = "deflection envelope [" + L + "]\ndown +, drawn down";
+    diff.ylabel = "(method - consensus)\n/ largest of its kind\nmax and min";
+  }
+  std::size_t env_ok = 0;
+  for (std::size_t mi = 0; set.envelope && mi < set.methods.size(); ++mi) {
+    const MethodResult& m = set.methods[mi];
+    if (!usable_envelope(m, set)) {
+      d.notes.push_back(m.name + ": " + (m.status == MethodStatus::Ok ? std::string("no envelope at the stations")
+                                                                       : std::string(method_status_name(m.status))) +
+                        (m.reason.empty() ? "" : " (" + m.reason + ")") + ", not drawn");
+      continue;
+    }
+    ++env_ok;
+    for (Panel* p : {&shear, &moment, &defl}) {
+      const std::vector<Bound>& bs = bounds_of(*m.envelope, panel_quantity(p->kind));
+      for (Limit lim : {Limit::Max, Limit::Min}) {
+        Curve c;
+        c.method = m.name;
+        c.label = m.name + " max/min";
+        c.style = mi;
+        c.limit = lim;
+        c.x.reserve(bs.size());
+        c.y.reserve(bs.size());
+        for (std::size_t i = 0; i < bs.size(); ++i) {
+          c.x.push_back(set.stations[i].x);
+          c.y.push_back(lim == Limit::Max ? bs[i].max : bs[i].min);
+        }
+        p->curves.push_back(std::move(c));
+      }
+    }
+  }
+  const Envelope& ce = set.consensus_envelope;
+  const bool consensus_ok = ce.moment.size() == set.stations.size() && ce.shear.size() == set.stations.size() &&
+                            ce.deflection.size() == set.stations.size() && !set.stations.empty();
+  if (set.envelope && env_ok >= 2 && consensus_ok) {
+    for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
+      const MethodResult& m = set.methods[mi];
+      if (!usable_envelope(m, set)) continue;
+      for (Kind k : {Kind::Shear, Kind::Moment, Kind::Deflection}) {
+        const double scale = set.scale[ki(k)];
+        const std::vector<Bound>& bs = bounds_of(*m.envelope, k);
+        const std::vector<Bound>& cs = bounds_of(ce, k);
+        for (Limit lim : {Limit::Max, Limit::Min}) {
+          Curve c;
+          c.method = m.name;
+          c.label = m.name + " " + kind_name(k) + (lim == Limit::Max ? " max" : " min");
+          c.style = mi;
+          c.kind = k;
+          c.limit = lim;
+          for (std::size_t i = 0; i < bs.size(); ++i) {
+            c.x.push_back(set.stations[i].x);
+            const double delta = lim == Limit::Max ? bs[i].max - cs[i].max : bs[i].min - cs[i].min;
+            c.y.push_back(scale > 0 ? delta / scale : 0.0);
+          }
+          diff.curves.push_back(std::move(c));
+        }
+      }
+    }
+  } else if (set.envelope) {
+    d.notes.push_back("fewer than two methods gave an envelope: no difference panel");
+  }
+  for (std::size_t mi = 0; !set.envelope && mi < set.methods.size(); ++mi) {
     const MethodResult& m = set.methods[mi];
     if (!usable(m, set)) {
       if (m.status == MethodStatus::Ok)
@@ -181,7 +337,8 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
       p->curves.push_back(std::move(c));
     }
   }
-  if (set.ok_count() >= 2 && set.consensus_stations.size() == set.stations.size()) {
+  if (set.envelope) {
+  } else if (set.ok_count() >= 2 && set.consensus_stations.size() == set.stations.size()) {
     for (std::size_t mi = 0; mi < set.methods.size(); ++mi) {
       const MethodResult& m = set.methods[mi];
       if (!usable(m, set)) continue;
@@ -284,6 +441,60 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
     }
   }
 
+  // Envelope load sets: the span extremes of moment_max and moment_min
+  // (from `extremes`), the shear envelope at the span ends and the largest
+  // downward deflection envelope of each span.
+  if (set.envelope && consensus_ok && !set.extremes.empty()) {
+    const double ms = set.scale[ki(Kind::Moment)], vs = set.scale[ki(Kind::Shear)], ds = set.scale[ki(Kind::Deflection)];
+    std::vector<std::size_t> spans_to_label;
+    if (every_span) {
+      for (std::size_t sp = 0; sp < set.extremes.size(); ++sp) spans_to_label.push_back(sp);
+    } else {
+      std::size_t hi = 0, lo = 0;
+      for (std::size_t sp = 0; sp < set.extremes.size(); ++sp) {
+        if (set.extremes[sp].max_moment > set.extremes[hi].max_moment) hi = sp;
+        if (set.extremes[sp].min_moment < set.extremes[lo].min_moment) lo = sp;
+      }
+      spans_to_label = {hi, lo};
+    }
+    for (std::size_t sp : spans_to_label) {
+      const SpanExtremes& e = set.extremes[sp];
+      const std::string tag = "span " + std::to_string(sp + 1) + ": ";
+      if (e.max_moment > 1e-9 * ms) {
+        moment.labels.push_back({e.max_moment_x, e.max_moment, fixed(e.max_moment, dm)});
+        d.notes.push_back(tag + "largest moment_max " + fixed(e.max_moment, dm) + " " + FL + " at x = " +
+                          input::format_number(e.max_moment_x) + " " + L +
+                          (e.max_moment_by.empty() ? "" : " (" + e.max_moment_by + ")"));
+      }
+      if (e.min_moment < -1e-9 * ms) {
+        moment.labels.push_back({e.min_moment_x, e.min_moment, fixed(e.min_moment, dm)});
+        d.notes.push_back(tag + "smallest moment_min " + fixed(e.min_moment, dm) + " " + FL + " at x = " +
+                          input::format_number(e.min_moment_x) + " " + L +
+                          (e.min_moment_by.empty() ? "" : " (" + e.min_moment_by + ")"));
+      }
+    }
+    for (std::size_t i = 0; i < set.stations.size(); ++i) {
+      const std::size_t sp = set.stations[i].span;
+      const bool first = i == 0 || set.stations[i - 1].span != sp;
+      const bool last = i + 1 == set.stations.size() || set.stations[i + 1].span != sp;
+      if (!every_span) break;
+      if (first && ce.shear[i].max > 1e-9 * vs)
+        shear.labels.push_back({set.stations[i].x, ce.shear[i].max, fixed(ce.shear[i].max, dv)});
+      if (last && ce.shear[i].min < -1e-9 * vs)
+        shear.labels.push_back({set.stations[i].x, ce.shear[i].min, fixed(ce.shear[i].min, dv)});
+    }
+    if (every_span) {
+      std::vector<std::size_t> at(ns, set.stations.size());
+      for (std::size_t i = 0; i < set.stations.size(); ++i) {
+        const std::size_t sp = set.stations[i].span;
+        if (sp < ns && (at[sp] == set.stations.size() || ce.deflection[i].max > ce.deflection[at[sp]].max)) at[sp] = i;
+      }
+      for (std::size_t sp = 0; sp < ns; ++sp)
+        if (at[sp] < set.stations.size() && ce.deflection[at[sp]].max > 1e-9 * ds)
+          defl.labels.push_back({set.stations[at[sp]].x, ce.deflection[at[sp]].max, fixed(ce.deflection[at[sp]].max, dd)});
+    }
+  }
+
   // Claims of this load set, on the axes of their quantity.
   for (std::size_t ci = 0; ci < b.claims.size(); ++ci) {
     const ClaimResult& c = b.claims[ci];
@@ -300,17 +511,18 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
       x = q == Q::MinMoment ? e.min_moment_x : q == Q::MaxDeflection ? e.max_deflection_x : e.max_moment_x;
     }
     const std::string verdict = !c.evaluated ? "not evaluated" : c.holds ? "holds" : "fails";
-    if (q == Q::Reaction || q == Q::ReactionMoment) {
+    if (q == Q::Reaction || q == Q::ReactionMoment || q == Q::ReactionMax || q == Q::ReactionMin) {
       if (c.claim.node && *c.claim.node < nn) {
-        d.nodes[*c.claim.node].claims.push_back(tag + ": " + (q == Q::Reaction ? "R" : "M") + " = " +
+        const char* what = q == Q::Reaction ? "R" : q == Q::ReactionMax ? "R max" : q == Q::ReactionMin ? "R min" : "M";
+        d.nodes[*c.claim.node].claims.push_back(tag + ": " + what + " = " +
                                                 input::format_number(c.claim.value) + " (" + verdict + ")");
         continue;
       }
     }
     Panel* p = nullptr;
     switch (q) {
-      case Q::Moment: case Q::MaxMoment: case Q::MinMoment: p = &moment; break;
-      case Q::Shear: p = &shear; break;
+      case Q::Moment: case Q::MaxMoment: case Q::MinMoment: case Q::MomentMax: case Q::MomentMin: p = &moment; break;
+      case Q::Shear: case Q::ShearMax: case Q::ShearMin: p = &shear; break;
       case Q::Deflection: case Q::MaxDeflection: p = &defl; break;
       default: break;
     }
@@ -319,6 +531,44 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
       continue;
     }
     p->claims.push_back({ci, *x, c.claim.value, c.holds, c.evaluated, tag});
+  }
+
+  // Another program's results: station values on their axes, reactions at
+  // the supports. A comparison names its load case; one without a name (or
+  // a beam with one load set) belongs to every set.
+  for (std::size_t ai = 0; ai < b.against.size(); ++ai) {
+    if (!b.against[ai]) continue;
+    const against::Comparison& cmp = *b.against[ai];
+    if (!cmp.ok()) continue;
+    if (!cmp.load_case.empty() && cmp.load_case != set.name && b.sets.size() > 1) continue;
+    std::size_t unplaced = 0;
+    for (std::size_t ri = 0; ri < cmp.rows.size(); ++ri) {
+      const against::RowResult& row = cmp.rows[ri];
+      const std::string line = "line " + std::to_string(row.line);
+      if (cmp.kind == against::TableKind::Reactions) {
+        const auto node = row_node(row.where, beam.labels);
+        if (!node || *node >= nn) { ++unplaced; continue; }
+        for (const auto& cell : row.cells) {
+          const bool force = cell.quantity == against::Quantity::ReactionForce;
+          const int dec = force ? dr : dm;
+          d.nodes[*node].others.push_back("other program: " + std::string(force ? "R" : "M") + " = " +
+                                          fixed(cell.theirs, dec) + " (" + (cell.holds ? "holds" : "fails") + ")");
+        }
+        continue;
+      }
+      const auto x = row_x(row.where, node_x, b.units);
+      if (!x) { ++unplaced; continue; }
+      for (const auto& cell : row.cells) {
+        Panel* p = cell.quantity == against::Quantity::Shear    ? &shear
+                   : cell.quantity == against::Quantity::Moment ? &moment
+                   : cell.quantity == against::Quantity::Deflection ? &defl
+                                                                    : nullptr;
+        if (!p) continue;
+        p->others.push_back({ai, ri, *x, cell.theirs, cell.holds, "other program, " + line});
+      }
+    }
+    if (unplaced > 0)
+      d.notes.push_back(cmp.file + ": " + std::to_string(unplaced) + " row(s) with no position in the beam, not drawn");
   }
 
   d.panels.push_back(std::move(sketch));
@@ -561,6 +811,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   lay.H = std::max(400, opt.height);
   lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
   lay.left = 112;
+  if (!d.combination.empty()) lay.top += 16;
 
   // The sketch's height in pixels: loads stacked above the beam, the
   // supports, labels and reaction values below.
@@ -585,7 +836,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   bool any_point = false;
   for (const auto& l : d.loads) any_point = any_point || (l.type != LoadType::Udl && l.type != LoadType::Linear);
   std::size_t claim_lines = 0;
-  for (const auto& n : d.nodes) claim_lines = std::max(claim_lines, n.claims.size());
+  for (const auto& n : d.nodes) claim_lines = std::max(claim_lines, n.claims.size() + n.others.size());
   const double layer_h = 30;
   const double loads_top = 8 + layers * layer_h + (any_point ? 34 : 0) + 6;
   const double below = 66 + 12 * static_cast<double>(claim_lines);
@@ -611,6 +862,8 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
        << kStyles[i].dash << "\n";
   gp << "set style line 21 lc rgb \"#1d7a34\" lw 2 pt 6 ps 1.9\n";   // claim holds: open circle
   gp << "set style line 22 lc rgb \"#b3122e\" lw 2.4 pt 2 ps 2.1\n"; // claim fails: cross
+  gp << "set style line 23 lc rgb \"#6a3d9a\" lw 1.6 pt 12 ps 1.5\n";  // other program, holds: open diamond
+  gp << "set style line 24 lc rgb \"#c2410c\" lw 1.6 pt 13 ps 1.5\n";  // other program, fails: filled diamond
   gp << "set multiplot\n";
   gp << "set xrange [" << num(xlo) << ":" << num(xhi) << "]\n";
   gp << "set lmargin at screen " << num(lay.fx(lay.left)) << "\n";
@@ -629,6 +882,9 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
      << " center font \",13\" noenhanced\n";
   gp << "set label 9002 " << gq(d.subtitle) << " at screen 0.5, screen " << num(lay.fy(38))
      << " center font \",9\" textcolor rgb \"#444444\" noenhanced\n";
+  if (!d.combination.empty())
+    gp << "set label 9003 " << gq(d.combination) << " at screen 0.5, screen " << num(lay.fy(54))
+       << " center font \",9\" textcolor rgb \"#222222\" noenhanced\n";
 
   for (std::size_t pi = 0; pi < d.panels.size(); ++pi) {
     const Panel& p = d.panels[pi];
@@ -705,6 +961,9 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
           if (!many_nodes && !r.empty()) s.text(x, -55, r, "center", 7, "#333333");
           for (std::size_t c = 0; c < n.claims.size(); ++c)
             s.text(x, -67 - 12 * static_cast<double>(c), n.claims[c], "center", 7, "#555555");
+          for (std::size_t c = 0; c < n.others.size(); ++c)
+            s.text(x, -67 - 12 * static_cast<double>(c + n.claims.size()), n.others[c], "center", 7,
+                   n.others[c].find("(fails)") != std::string::npos ? "#c2410c" : "#6a3d9a");
         }
       }
       // Loads.
@@ -767,6 +1026,8 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         for (double v : c.y)
           if (std::isfinite(v)) { lo = std::min(lo, v); hi = std::max(hi, v); }
       for (const auto& c : p.claims) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
+      for (const auto& c : p.others)
+        if (std::isfinite(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
       if (p.kind == PanelKind::Difference) {
         const double m = std::max({std::abs(lo), std::abs(hi), 1e-16});
         lo = -1.25 * m;
@@ -818,7 +1079,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         }
         // The difference panel's legend: one entry per method and one per
         // quantity, added below, not one per curve.
-        spec += c.kind ? std::string(" notitle") : " title " + gq(c.label);
+        spec += c.kind || c.limit == Limit::Min ? std::string(" notitle") : " title " + gq(c.label);
         specs.push_back(spec);
         series.push_back(std::move(pts));
       }
@@ -831,13 +1092,23 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
                         gq(holds ? "claim (holds)" : "claim (fails)"));
         series.push_back(std::move(pts));
       }
+      for (int holds = 1; holds >= 0; --holds) {
+        std::vector<std::pair<double, double>> pts;
+        for (const auto& c : p.others)
+          if (c.holds == (holds == 1) && std::isfinite(c.y)) pts.emplace_back(c.x, c.y);
+        if (pts.empty()) continue;
+        specs.push_back(std::string("'-' with points ls ") + (holds ? "23" : "24") + " title " +
+                        gq(holds ? "other program (holds)" : "other program (fails)"));
+        series.push_back(std::move(pts));
+      }
       std::vector<std::string> dummies;  // legend entries with no data
       if (p.kind == PanelKind::Difference && !series.empty()) {
         std::vector<std::size_t> seen;
         for (const auto& c : p.curves)
           if (std::find(seen.begin(), seen.end(), c.style) == seen.end()) {
             seen.push_back(c.style);
-            dummies.push_back("1/0 with lines ls " + std::to_string(c.style % kStyleCount + 1) + " title " + gq(c.method));
+            dummies.push_back("1/0 with lines ls " + std::to_string(c.style % kStyleCount + 1) + " title " +
+                              gq(c.limit == Limit::None ? c.method : c.method + " max/min"));
           }
         for (Kind k : {Kind::Shear, Kind::Moment, Kind::Deflection})
           dummies.push_back("1/0 with points pt " + std::to_string(kind_point(k)) +

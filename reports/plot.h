@@ -14,6 +14,11 @@
 //   deflection  v [length], down +, DRAWN DOWNWARD (the deflected shape)
 //   difference  each method minus the consensus (median of the methods),
 //               divided by the largest value of that kind in the load set
+//
+// An envelope load set (a combination with a pattern or a factor range)
+// has two curves per method and panel, its max and its min envelope, in
+// the method's one style; the difference panel compares each with the
+// consensus envelope's max and min.
 #pragma once
 
 #include <cstddef>
@@ -28,6 +33,9 @@ namespace trivet::reports {
 enum class PanelKind { Sketch, Shear, Moment, Deflection, Difference };
 const char* panel_name(PanelKind k);  // "sketch", "shear", ...
 
+// Which bound of an envelope a curve is; None for an ordinary load set.
+enum class Limit { None, Max, Min };
+
 // One polyline handed to gnuplot.
 struct Curve {
   std::string method;  // the method's name
@@ -36,6 +44,9 @@ struct Curve {
   // Difference panel only: which quantity (Kind::Shear, Moment,
   // Deflection); it picks the point marker.
   std::optional<compare::Kind> kind;
+  // Envelope load sets: the max or the min envelope (the legend names the
+  // pair once, "stiffness max/min", on the max curve).
+  Limit limit = Limit::None;
   std::vector<double> x, y;
 };
 
@@ -46,6 +57,16 @@ struct ClaimMarker {
   bool holds = false;
   bool evaluated = false;
   std::string text;  // "claim 1"
+};
+
+// A value from another program's results (BeamResult::against) drawn at
+// its position: y = Cell::theirs (our units and signs).
+struct OtherMarker {
+  std::size_t comparison = 0;  // index into BeamResult::against
+  std::size_t row = 0;         // index into Comparison::rows
+  double x = 0, y = 0;
+  bool holds = false;
+  std::string text;            // "other program, line 7"
 };
 
 // A value written next to the diagram.
@@ -60,6 +81,7 @@ struct Panel {
   bool drawn_down = false;  // positive values are drawn below the axis
   std::vector<Curve> curves;
   std::vector<ClaimMarker> claims;
+  std::vector<OtherMarker> others;
   std::vector<ValueLabel> labels;
 };
 
@@ -71,8 +93,10 @@ struct SketchNode {
   bool hinge = false;
   bool rotational_spring = false;  // spring with kr > 0
   double settlement = 0;
-  std::string reaction;            // "R = 81.2 kN; M = 169.1 kN*m" or empty
+  std::string reaction;            // "R = 81.2 kN; M = 169.1 kN*m", "R 40.1 to 97.3 kN" or empty
   std::vector<std::string> claims; // reaction claims at this node: "claim 1: R = 70 (holds)"
+  // Another program's reactions at this node: "other: R = 81 (holds)".
+  std::vector<std::string> others;
 };
 
 struct SketchLoad {
@@ -85,6 +109,10 @@ struct SketchLoad {
 struct PlotData {
   std::string title;     // the beam's title or file
   std::string subtitle;  // "load set: loads; verdict: agree"
+  // A combination: "1.2 x dead + 1.6 x live; live patterned span by span
+  // (every arrangement)"; empty for a load case.
+  std::string combination;
+  bool envelope = false;  // an envelope load set (max and min curves)
   std::string x_label;   // "x [m]"
   double x_min = 0, x_max = 1;
   std::vector<SketchNode> nodes;

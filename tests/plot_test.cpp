@@ -5,8 +5,10 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <memory>
 #include <string>
 
+#include "harness/compare/against.h"
 #include "harness/input/reader.h"
 #include "reports/plot.h"
 
@@ -137,6 +139,161 @@ TEST(PlotData, ClaimsAreMarkersOnTheirAxes) {
   EXPECT_NE(d.nodes[0].reaction.find("kN"), std::string::npos);
 }
 
+// Three bays, dead and live, one patterned combination; claims on the
+// envelope (moment_max, moment_min at a node, shear_max, reaction_max).
+const char* kEnvelopeBeam = R"({"title": "three bays, patterned live load", "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}],
+  "supports": ["pinned", "roller", "roller", "roller"],
+  "loads": [{"type": "udl", "span": 1, "w": 14.0, "case": "dead"}, {"type": "udl", "span": 2, "w": 14.0, "case": "dead"},
+            {"type": "udl", "span": 3, "w": 14.0, "case": "dead"}, {"type": "udl", "span": 1, "w": 9.0, "case": "live"},
+            {"type": "udl", "span": 2, "w": 9.0, "case": "live"}, {"type": "udl", "span": 3, "w": 9.0, "case": "live"}],
+  "combinations": [{"name": "strength-A", "factors": {"dead": 1.2, "live": 1.6}, "pattern": ["live"]}],
+  "claims": {"values": [
+    {"quantity": "moment_max", "x": 3.0, "value": 150, "case": "strength-A"},
+    {"quantity": "moment_min", "node": "B", "value": -5, "case": "strength-A"},
+    {"quantity": "shear_max", "x": 0.5, "value": 120, "case": "strength-A"},
+    {"quantity": "reaction_max", "node": "B", "value": 250, "case": "strength-A"}]}})";
+
+compare::BeamResult envelope_sample(std::size_t* set_index) {
+  input::BeamFile f = input::parse_beam_text(kEnvelopeBeam, "bays.json");
+  EXPECT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors[0].format("bays.json"));
+  compare::BeamResult b = compare::check(f, {});
+  *set_index = b.sets.size();
+  for (std::size_t i = 0; i < b.sets.size(); ++i)
+    if (b.sets[i].name == "strength-A") *set_index = i;
+  return b;
+}
+
+TEST(PlotData, EnvelopeCurvesAreEachMethodsMaxAndMin) {
+  std::size_t si = 0;
+  const compare::BeamResult b = envelope_sample(&si);
+  ASSERT_LT(si, b.sets.size());
+  const compare::LoadSet& set = b.sets[si];
+  ASSERT_TRUE(set.envelope);
+  ASSERT_GE(set.ok_count(), 2u);
+  const PlotData d = plot_data(b, si);
+  ASSERT_EQ(d.panels.size(), 5u);
+  EXPECT_TRUE(d.envelope);
+  EXPECT_NE(d.combination.find("1.2 x dead + 1.6 x live"), std::string::npos) << d.combination;
+  EXPECT_NE(d.combination.find("live patterned"), std::string::npos) << d.combination;
+  std::size_t methods_with_envelope = 0;
+  for (const auto& m : set.methods) methods_with_envelope += m.envelope ? 1 : 0;
+  ASSERT_GE(methods_with_envelope, 2u);
+  for (PanelKind k : {PanelKind::Shear, PanelKind::Moment, PanelKind::Deflection}) {
+    const Panel* p = d.panel(k);
+    ASSERT_NE(p, nullptr);
+    ASSERT_EQ(p->curves.size(), 2 * methods_with_envelope) << panel_name(k);
+    bool max_differs_from_min = false;
+    for (const Curve& c : p->curves) {
+      ASSERT_LT(c.style, set.methods.size());
+      const compare::MethodResult& m = set.methods[c.style];
+      EXPECT_EQ(c.method, m.name);
+      EXPECT_EQ(c.label, m.name + " max/min");
+      ASSERT_NE(c.limit, Limit::None);
+      ASSERT_TRUE(m.envelope.has_value());
+      const auto& bs = k == PanelKind::Shear ? m.envelope->shear
+                       : k == PanelKind::Moment ? m.envelope->moment : m.envelope->deflection;
+      ASSERT_EQ(c.x.size(), set.stations.size());
+      ASSERT_EQ(c.y.size(), bs.size());
+      for (std::size_t i = 0; i < bs.size(); ++i) {
+        EXPECT_DOUBLE_EQ(c.x[i], set.stations[i].x);
+        EXPECT_DOUBLE_EQ(c.y[i], c.limit == Limit::Max ? bs[i].max : bs[i].min) << m.name << " " << panel_name(k) << " " << i;
+        if (std::abs(bs[i].max - bs[i].min) > 1e-9 * set.scale[0]) max_differs_from_min = true;
+      }
+    }
+    EXPECT_TRUE(max_differs_from_min) << "a patterned live load gives a band, " << panel_name(k);
+  }
+  // Difference: each method's max and min minus the consensus envelope, over the scale.
+  const Panel* p = d.panel(PanelKind::Difference);
+  ASSERT_EQ(p->curves.size(), 6 * methods_with_envelope);
+  for (const Curve& c : p->curves) {
+    ASSERT_TRUE(c.kind.has_value());
+    const compare::MethodResult& m = set.methods[c.style];
+    const compare::Kind k = *c.kind;
+    const auto& mine = k == compare::Kind::Shear ? m.envelope->shear
+                       : k == compare::Kind::Moment ? m.envelope->moment : m.envelope->deflection;
+    const auto& cons = k == compare::Kind::Shear ? set.consensus_envelope.shear
+                       : k == compare::Kind::Moment ? set.consensus_envelope.moment : set.consensus_envelope.deflection;
+    const double scale = set.scale[static_cast<std::size_t>(k)];
+    ASSERT_GT(scale, 0);
+    ASSERT_EQ(c.y.size(), mine.size());
+    for (std::size_t i = 0; i < c.y.size(); ++i) {
+      const double want = c.limit == Limit::Max ? (mine[i].max - cons[i].max) / scale : (mine[i].min - cons[i].min) / scale;
+      EXPECT_NEAR(c.y[i], want, 1e-15) << c.label << " " << i;
+      EXPECT_LT(std::abs(c.y[i]), 1e-6);
+    }
+  }
+  // Span extremes labelled from `extremes`; envelope claims as markers; the
+  // reaction claim and envelope at the support.
+  const Panel* mp = d.panel(PanelKind::Moment);
+  for (const auto& e : set.extremes) {
+    bool found = false;
+    for (const auto& l : mp->labels) found = found || (std::abs(l.x - e.max_moment_x) < 1e-12 && std::abs(l.y - e.max_moment) < 1e-12);
+    EXPECT_TRUE(found) << "label at the largest moment_max " << e.max_moment;
+  }
+  ASSERT_EQ(mp->claims.size(), 2u);
+  EXPECT_DOUBLE_EQ(mp->claims[0].x, 3.0);
+  EXPECT_DOUBLE_EQ(mp->claims[1].x, 7.5);
+  EXPECT_DOUBLE_EQ(mp->claims[1].y, -5.0);
+  ASSERT_EQ(d.panel(PanelKind::Shear)->claims.size(), 1u);
+  ASSERT_EQ(d.nodes[1].claims.size(), 1u);
+  EXPECT_NE(d.nodes[1].claims[0].find("R max = 250"), std::string::npos) << d.nodes[1].claims[0];
+  EXPECT_NE(d.nodes[1].reaction.find(" to "), std::string::npos) << d.nodes[1].reaction;
+}
+
+TEST(PlotData, OtherProgramsValuesAreMarkersAtTheirPositions) {
+  compare::BeamResult b = sample();
+  input::BeamFile f = input::parse_beam_text(kBeam, "three-spans.json");
+  const compare::LoadSet& set = b.sets[0];
+  // Global x in mm (so the position and the value are converted), one
+  // moment deliberately wrong; then span/x_local; then reactions.
+  auto node_moment = [&](std::size_t i) { return *set.consensus_nodes[i].moment_right; };
+  std::string csv = "x,moment,shear\n0,0,\n6000," + std::to_string(node_moment(1) * 1e6) + ",\n12500,999999999999,\n";
+  compare::against::Options o;
+  o.length_unit = "mm";
+  o.force_unit = "N";
+  auto a1 = std::make_shared<compare::against::Comparison>(compare::against::compare_text(f, b, csv, "their.csv", o));
+  ASSERT_TRUE(a1->ok()) << (a1->errors.empty() ? "" : a1->errors[0].format("their.csv"));
+  auto a2 = std::make_shared<compare::against::Comparison>(
+      compare::against::compare_text(f, b, "span,x_local,deflection\n2,4,0.001\n", "local.csv", {}));
+  ASSERT_TRUE(a2->ok());
+  auto a3 = std::make_shared<compare::against::Comparison>(
+      compare::against::compare_text(f, b, "support,force\nB,12345\n", "reactions.csv", {}));
+  ASSERT_TRUE(a3->ok());
+  b.against = {a1, a2, a3};
+  const PlotData d = plot_data(b, 0);
+  const Panel* mp = d.panel(PanelKind::Moment);
+  ASSERT_EQ(mp->others.size(), 3u);
+  const double xs[] = {0.0, 6.0, 12.5};
+  std::size_t fails = 0;
+  for (std::size_t i = 0; i < 3; ++i) {
+    const OtherMarker& m = mp->others[i];
+    EXPECT_EQ(m.comparison, 0u);
+    const compare::against::Cell& cell = a1->rows[m.row].cells[0];
+    EXPECT_DOUBLE_EQ(m.y, cell.theirs);
+    EXPECT_EQ(m.holds, cell.holds);
+    EXPECT_NEAR(m.x, xs[i], 1e-12);
+    fails += m.holds ? 0 : 1;
+  }
+  EXPECT_NEAR(mp->others[1].y, node_moment(1), 1e-6 * std::abs(node_moment(1)));
+  EXPECT_EQ(fails, 1u);
+  EXPECT_TRUE(d.panel(PanelKind::Shear)->others.empty()) << "empty cells are not compared";
+  const Panel* dp = d.panel(PanelKind::Deflection);
+  ASSERT_EQ(dp->others.size(), 1u);
+  EXPECT_NEAR(dp->others[0].x, 10.0, 1e-12);  // span 2 starts at 6
+  EXPECT_DOUBLE_EQ(dp->others[0].y, a2->rows[0].cells[0].theirs);
+  ASSERT_EQ(d.nodes[1].others.size(), 1u);
+  EXPECT_NE(d.nodes[1].others[0].find("R = 12345"), std::string::npos) << d.nodes[1].others[0];
+  EXPECT_NE(d.nodes[1].others[0].find("fails"), std::string::npos);
+  if (find_gnuplot()) {
+    std::string err;
+    const std::string svg = render(d, ImageFormat::Svg, 800, 900, &err);
+    ASSERT_FALSE(svg.empty()) << err;
+    EXPECT_NE(svg.find("other program (fails)"), std::string::npos);
+    EXPECT_NE(svg.find("other program (holds)"), std::string::npos);
+  }
+}
+
 TEST(PlotData, SketchHasSupportsLoadsAndLabels) {
   const PlotData d = plot_data(sample(), 0);
   ASSERT_EQ(d.nodes.size(), 4u);
@@ -230,6 +387,13 @@ TEST(Render, SvgText) {
   // The legend names the methods; the axes carry units.
   for (const char* s : {"three-moment", "slope-deflection", "stiffness", "x [m]", "shear [kN]", "claim (fails)"})
     EXPECT_NE(svg.find(s), std::string::npos) << s;
+  // An envelope set: one legend entry per method for the pair, the combination written.
+  std::size_t si = 0;
+  const compare::BeamResult eb = envelope_sample(&si);
+  const std::string esvg = render(plot_data(eb, si), ImageFormat::Svg, 800, 900, &err);
+  ASSERT_FALSE(esvg.empty()) << err;
+  EXPECT_NE(esvg.find("stiffness max/min"), std::string::npos);
+  EXPECT_NE(esvg.find("1.2 x dead + 1.6 x live"), std::string::npos);
 }
 
 TEST(Render, PngBytes) {
