@@ -7,6 +7,7 @@
 #include <map>
 #include <sstream>
 
+#include "harness/compare/against.h"
 #include "reports/reports.h"
 #include "reports/sha256.h"
 
@@ -122,6 +123,8 @@ th{background:#eee}td.n{text-align:right;font-variant-numeric:tabular-nums;white
 .counts{font-size:1.05em;margin:.4em 0}.counts b{font-size:1.15em}
 .caution{border:2px solid #7a5600;background:#fff8e6;padding:.5em .8em;margin:.8em 0}
 .note{border-left:4px solid #a3142c;background:#fdf0f2;padding:.3em .7em;margin:.5em 0}
+.warning{border-left:4px solid #7a5600;background:#fff8e6;padding:.3em .7em;margin:.5em 0}
+.warn{color:#7a5600;border-color:#7a5600}
 .muted{color:#555;font-size:.9em}code,.mono{font-family:monospace;font-size:.92em;word-break:break-all}
 details{margin:.4em 0}summary{cursor:pointer;font-weight:bold}
 svg.plot{max-width:100%;height:auto;border:1px solid #ddd;background:#fff}
@@ -205,6 +208,13 @@ struct Writer {
       << (s.beams == 1 ? "beam" : "beams") << ": <b>" << s.agree << "</b> agree, <b>" << s.disagree
       << "</b> disagree, <b>" << s.unconfirmed << "</b> unconfirmed, <b>" << s.invalid << "</b> invalid; <b>"
       << s.claims_failed << "</b> " << (s.claims_failed == 1 ? "claim fails" : "claims fail") << ".</p>\n";
+    {
+      std::size_t warned = 0;
+      for (const auto& b : beams) warned += b.warnings.empty() ? 0 : 1;
+      if (warned > 0)
+        o << "<p class=\"warning\" id=\"summary-warnings\"><b>" << warned << "</b> "
+          << (warned == 1 ? "beam has" : "beams have") << " warnings (marked below; see each beam's section).</p>\n";
+    }
     if (beams.empty()) {
       o << "<p>No beams.</p></section>\n";
       return;
@@ -218,7 +228,12 @@ struct Writer {
       const BeamResult& b = beams[i];
       o << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\"><a href=\"#" << beam_anchor(i) << "\">"
         << html_escape(b.file) << "</a></td><td>" << html_escape(b.title) << "</td><td>"
-        << st_badge(beam_status_name(b.status)) << "</td><td>" << html_escape(methods_cell(b)) << "</td><td class=\"n\">"
+        << st_badge(beam_status_name(b.status))
+        << (b.warnings.empty() ? std::string()
+                               : " <span class=\"st warn\" title=\"see the beam's section\">" +
+                                     std::to_string(b.warnings.size()) +
+                                     (b.warnings.size() == 1 ? " warning" : " warnings") + "</span>")
+        << "</td><td>" << html_escape(methods_cell(b)) << "</td><td class=\"n\">"
         << (b.status == BeamStatus::Invalid ? "-" : sci(largest_difference(b))) << "</td><td class=\"n\">"
         << b.claims_failed() << " of " << b.claims.size() << "</td></tr>\n";
     };
@@ -290,6 +305,104 @@ struct Writer {
     o << "</details>\n";
   }
 
+  // An envelope load set: the combination, each node's reaction envelope
+  // and each span's extremes of moment_max and moment_min, with what
+  // governs them (consensus of the methods).
+  void envelope_tables(const BeamResult& b, const LoadSet& set) {
+    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
+    const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
+    const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
+    const Beam& beam = set.beam;
+    const std::size_t nn = beam.node_count();
+    std::vector<double> node_x(nn, 0.0);
+    for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + beam.spans[i - 1].length;
+    const int dx = std::max(2, decimals_for(nn ? node_x[nn - 1] : 1.0) - 1);
+    auto governs = [&](const Governs& g) {
+      return set.combination ? html_escape(describe(g, *set.combination)) : std::string();
+    };
+    if (set.combination) {
+      const input::Combination& c = *set.combination;
+      o << "<p class=\"envelope-combination\">Envelope of combination <b>" << html_escape(set.name) << "</b>: ";
+      for (std::size_t k = 0; k < c.factors.size(); ++k) {
+        const input::Factor& f = c.factors[k].second;
+        o << (k ? " + " : "")
+          << html_escape(f.range ? input::format_number(f.low) + " or " + input::format_number(f.high)
+                                 : input::format_number(f.low))
+          << " &times; " << html_escape(c.factors[k].first);
+      }
+      if (!c.pattern.empty()) {
+        o << "; patterned span by span: ";
+        for (std::size_t k = 0; k < c.pattern.size(); ++k) o << (k ? ", " : "") << html_escape(c.pattern[k]);
+        o << (c.arrangements == input::Arrangements::All ? " (every arrangement)" : " (all, alternate and adjacent spans)");
+      }
+      if (!c.source.empty()) o << "; factors: " << html_escape(c.source);
+      o << ".</p>\n";
+    }
+    const auto& re = set.consensus_envelope.reaction;
+    if (!re.empty()) {
+      o << "<table class=\"envelope-reactions\"><tr><th>node</th><th>x [" << L << "]</th><th>reaction max [" << F
+        << "]</th><th>governed by</th><th>reaction min [" << F << "]</th><th>governed by</th></tr>\n";
+      for (std::size_t i = 0; i < re.size() && i < nn; ++i) {
+        const Support& sup = beam.supports[i];
+        if (!(restrains_deflection(sup.type) || sup.type == SupportType::Spring)) continue;
+        o << "<tr><td>" << html_escape(i < beam.labels.size() ? beam.labels[i] : input::default_label(i))
+          << "</td><td class=\"n\">" << fixed(node_x[i], dx) << "</td><td class=\"n\">" << fixed(re[i].max, dr)
+          << "</td><td>" << governs(re[i].max_by) << "</td><td class=\"n\">" << fixed(re[i].min, dr) << "</td><td>"
+          << governs(re[i].min_by) << "</td></tr>\n";
+      }
+      o << "</table>\n";
+    }
+    if (!set.extremes.empty()) {
+      o << "<table class=\"envelope-extremes\"><tr><th>span</th><th>largest moment_max [" << FL << "]</th><th>at x ["
+        << L << "]</th><th>governed by</th><th>smallest moment_min [" << FL << "]</th><th>at x [" << L
+        << "]</th><th>governed by</th></tr>\n";
+      for (std::size_t i = 0; i < set.extremes.size(); ++i) {
+        const SpanExtremes& e = set.extremes[i];
+        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(e.max_moment, dm) << "</td><td class=\"n\">"
+          << fixed(e.max_moment_x, dx) << "</td><td>" << html_escape(e.max_moment_by) << "</td><td class=\"n\">"
+          << fixed(e.min_moment, dm) << "</td><td class=\"n\">" << fixed(e.min_moment_x, dx) << "</td><td>"
+          << html_escape(e.min_moment_by) << "</td></tr>\n";
+      }
+      o << "</table>\n";
+    }
+  }
+
+  // Another program's results (--against): per comparison, per quantity.
+  void against_summary(const BeamResult& b) {
+    if (b.against.empty()) return;
+    o << "<h3>Another program's results</h3>\n";
+    for (const auto& ptr : b.against) {
+      if (!ptr) continue;
+      const against::Comparison& c = *ptr;
+      o << "<p><code>" << html_escape(c.file) << "</code>: " << against::table_kind_name(c.kind) << " table"
+        << (c.load_case.empty() ? "" : ", load case " + html_escape(c.load_case)) << " "
+        << (c.ok() ? (c.holds() ? st_badge("holds") : st_badge("fails")) : st_badge("invalid")) << "</p>\n";
+      if (!c.ok()) {
+        o << "<ul>\n";
+        for (const auto& e : c.errors) o << "<li class=\"fails\">" << html_escape(e.format(c.file)) << "</li>\n";
+        if (c.errors_not_listed > 0) o << "<li>and " << c.errors_not_listed << " more</li>\n";
+        o << "</ul>\n";
+        continue;
+      }
+      o << "<table class=\"against\"><tr><th>quantity</th><th>rows</th><th>failing</th><th>worst difference</th>"
+           "<th>where</th><th>tolerance</th><th>finding</th></tr>\n";
+      for (const auto& s : c.summary) {
+        const std::string unit = html_escape(
+            s.quantity == against::Quantity::Shear || s.quantity == against::Quantity::ReactionForce ? c.units.force
+            : s.quantity == against::Quantity::Deflection ? c.units.length
+                                                           : c.units.force + "*" + c.units.length);
+        const int d = decimals_for(std::max(std::abs(s.worst_difference), s.tolerance)) + 1;
+        o << "<tr><td>" << html_escape(against::quantity_name(s.quantity)) << "</td><td class=\"n\">" << s.compared
+          << "</td><td class=\"n\">" << s.failing << "</td><td class=\"n\">" << fixed(s.worst_difference, d) << " "
+          << unit << "</td><td>" << html_escape(s.worst_where)
+          << (s.worst_line ? " (line " + std::to_string(s.worst_line) + ")" : std::string()) << "</td><td class=\"n\">"
+          << fixed(s.tolerance, d) << " " << unit << "</td><td>"
+          << html_escape(s.finding ? s.finding->text : s.note) << "</td></tr>\n";
+      }
+      o << "</table>\n";
+    }
+  }
+
   void beam(const BeamResult& b, std::size_t bi, bool plotted, bool open_plots) {
     o << "<section class=\"beam\" id=\"" << beam_anchor(bi) << "\">\n<h2>" << bi + 1 << ". <span class=\"mono\">"
       << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status)) << "</h2>\n";
@@ -297,6 +410,12 @@ struct Writer {
     o << "<p class=\"muted\">input <code>" << html_escape(b.file) << "</code>, SHA-256 <code>"
       << html_escape(hash_of(b.file)) << "</code>; units " << html_escape(b.units.force) << ", "
       << html_escape(b.units.length) << ". <a href=\"#summary\">back to the summary</a></p>\n";
+    if (!b.warnings.empty()) {
+      o << "<div class=\"warning beam-warnings\"><b>" << (b.warnings.size() == 1 ? "Warning" : "Warnings")
+        << ".</b><ul>\n";
+      for (const auto& w : b.warnings) o << "<li>" << html_escape(w) << "</li>\n";
+      o << "</ul></div>\n";
+    }
     if (b.status == BeamStatus::Invalid) {
       o << "<ul>\n";
       for (const auto& e : b.errors) o << "<li class=\"fails\">" << html_escape(e.format(b.file)) << "</li>\n";
@@ -379,8 +498,10 @@ struct Writer {
         o << "</table>\n";
         if (ns > 30) o << "</details>\n";
       }
+      if (set.envelope) envelope_tables(b, set);
       plot(b, bi, si, plotted, open_plots);
     }
+    against_summary(b);
     if (!b.claims.empty()) {
       o << "<h3>Claims (" << b.claims_failed() << " of " << b.claims.size() << " fail)</h3>\n";
       o << "<table><tr><th>claim</th><th>quantity</th><th>where</th><th>load set</th><th>claimed</th><th>computed</th>"

@@ -5,12 +5,15 @@
 
 #include <cstdio>
 #include <fstream>
+#include <memory>
 #include <sstream>
 #include <string>
 #include <unistd.h>
 
+#include "harness/compare/against.h"
 #include "harness/input/reader.h"
 #include "reports/html_report.h"
+#include "reports/reports.h"
 #include "reports/sha256.h"
 
 namespace trivet::reports {
@@ -213,6 +216,78 @@ TEST(Html, PlotLimitLeavesANote) {
   EXPECT_EQ(st.plots_skipped, 1u);
   EXPECT_NE(out.str().find("Not plotted here"), std::string::npos);
   EXPECT_EQ(out.str().find("<svg"), std::string::npos);
+}
+
+const char* kEnvelopeBeam = R"({"title": "three bays, patterned live", "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}],
+  "supports": ["pinned", "roller", "roller", "roller"],
+  "loads": [{"type": "udl", "span": 1, "w": 14.0, "case": "dead"}, {"type": "udl", "span": 2, "w": 14.0, "case": "dead"},
+            {"type": "udl", "span": 3, "w": 14.0, "case": "dead"}, {"type": "udl", "span": 1, "w": 9.0, "case": "live"},
+            {"type": "udl", "span": 2, "w": 9.0, "case": "live"}, {"type": "udl", "span": 3, "w": 9.0, "case": "live"}],
+  "combinations": [{"name": "strength-A", "factors": {"dead": 1.2, "live": 1.6}, "pattern": ["live"]}]})";
+
+TEST(Html, WarningsEnvelopeTablesAndAgainstSummary) {
+  TempFile env_file(kEnvelopeBeam);
+  TempFile plain_file(kBeam);
+  input::BeamFile ef = input::parse_beam_text(kEnvelopeBeam, env_file.path);
+  ASSERT_TRUE(ef.ok());
+  compare::BeamResult env = compare::check(ef, {});
+  const compare::LoadSet* set = nullptr;
+  for (const auto& s : env.sets)
+    if (s.name == "strength-A") set = &s;
+  ASSERT_NE(set, nullptr);
+  ASSERT_TRUE(set->envelope);
+  ASSERT_EQ(set->consensus_envelope.reaction.size(), 4u);
+  env.warnings.push_back("double may lose about 10 of its 16 digits <here>");
+  input::BeamFile pf = input::parse_beam_text(kBeam, plain_file.path);
+  compare::BeamResult plain = compare::check(pf, {});
+  auto cmp = std::make_shared<compare::against::Comparison>(
+      compare::against::compare_text(pf, plain, "support,force\nB,12345\nC,0\n", "their-reactions.csv", {}));
+  ASSERT_TRUE(cmp->ok());
+  plain.against.push_back(cmp);
+  HtmlOptions o = options();
+  o.plots = false;
+  std::ostringstream out;
+  write_html(out, {plain, env}, o);
+  const std::string h = out.str();
+  // The warning, escaped, in the beam's section, and the beam marked in the summary.
+  const std::size_t section = h.find("id=\"beam-2\"");
+  ASSERT_NE(section, std::string::npos);
+  const std::size_t warning = h.find("double may lose about 10 of its 16 digits &lt;here&gt;");
+  ASSERT_NE(warning, std::string::npos);
+  EXPECT_GT(warning, section);
+  const std::size_t summary_end = h.find("</section>", h.find("id=\"summary\""));
+  const std::size_t mark = h.find("1 warning</span>");
+  ASSERT_NE(mark, std::string::npos);
+  EXPECT_LT(mark, summary_end);
+  EXPECT_EQ(count(h, "1 warning</span>"), 1u) << "only the beam with a warning is marked";
+  EXPECT_NE(h.find("id=\"summary-warnings\""), std::string::npos);
+  // Envelope tables: a reaction row per support with max, min and what
+  // governs; a row per span with the extremes.
+  const std::size_t rt = h.find("<table class=\"envelope-reactions\">");
+  ASSERT_NE(rt, std::string::npos);
+  const std::string reactions = h.substr(rt, h.find("</table>", rt) - rt);
+  EXPECT_EQ(count(reactions, "<tr><td>"), 4u);
+  EXPECT_NE(reactions.find("loaded; dead x1.2, live x1.6"), std::string::npos) << reactions;
+  const int dr = decimals_for(set->scale[static_cast<std::size_t>(compare::Kind::Reaction)]);
+  EXPECT_NE(reactions.find(">" + fixed(set->consensus_envelope.reaction[1].max, dr) + "<"), std::string::npos);
+  EXPECT_NE(reactions.find(">" + fixed(set->consensus_envelope.reaction[1].min, dr) + "<"), std::string::npos);
+  const std::size_t et = h.find("<table class=\"envelope-extremes\">");
+  ASSERT_NE(et, std::string::npos);
+  const std::string extremes = h.substr(et, h.find("</table>", et) - et);
+  EXPECT_EQ(count(extremes, "<tr><td>"), 3u);
+  EXPECT_NE(extremes.find(set->extremes[0].max_moment_by), std::string::npos);
+  EXPECT_NE(h.find("1.2 &times; dead + 1.6 &times; live"), std::string::npos);
+  // The --against summary: quantity, rows, failing, worst difference, finding.
+  const std::size_t at = h.find("<table class=\"against\">");
+  ASSERT_NE(at, std::string::npos);
+  EXPECT_LT(at, section) << "in the first beam's section";
+  EXPECT_NE(h.find("their-reactions.csv"), std::string::npos);
+  const std::string row = h.substr(at, h.find("</table>", at) - at);
+  EXPECT_NE(row.find("<tr><td>reaction</td><td class=\"n\">2</td><td class=\"n\">"), std::string::npos) << row;
+  ASSERT_FALSE(cmp->summary.empty());
+  EXPECT_GT(cmp->summary[0].failing, 0u);
+  EXPECT_NE(row.find("<td class=\"n\">" + std::to_string(cmp->summary[0].failing) + "</td>"), std::string::npos);
 }
 
 TEST(Html, SvgForHtml) {
