@@ -231,6 +231,11 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
         s.text = "w = " + input::format_number(l.w1) + " to " + input::format_number(l.w2) + " " + F + "/" + L;
         break;
     }
+    if (set.combination) {
+      const auto& pat = set.combination->pattern;
+      const bool patterned = std::find(pat.begin(), pat.end(), l.load_case) != pat.end();
+      s.text += " (" + l.load_case + (patterned ? ", patterned" : "") + ")";
+    }
     d.loads.push_back(std::move(s));
   }
 
@@ -460,14 +465,20 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
     for (std::size_t sp : spans_to_label) {
       const SpanExtremes& e = set.extremes[sp];
       const std::string tag = "span " + std::to_string(sp + 1) + ": ";
+      auto add = [&](double x, double v) {
+        const std::string t = fixed(v, dm);
+        for (const auto& l : moment.labels)
+          if (l.text == t && std::abs(l.x - x) < 0.03 * (d.x_max - d.x_min)) return;  // the same value at a node
+        moment.labels.push_back({x, v, t});
+      };
       if (e.max_moment > 1e-9 * ms) {
-        moment.labels.push_back({e.max_moment_x, e.max_moment, fixed(e.max_moment, dm)});
+        add(e.max_moment_x, e.max_moment);
         d.notes.push_back(tag + "largest moment_max " + fixed(e.max_moment, dm) + " " + FL + " at x = " +
                           input::format_number(e.max_moment_x) + " " + L +
                           (e.max_moment_by.empty() ? "" : " (" + e.max_moment_by + ")"));
       }
       if (e.min_moment < -1e-9 * ms) {
-        moment.labels.push_back({e.min_moment_x, e.min_moment, fixed(e.min_moment, dm)});
+        add(e.min_moment_x, e.min_moment);
         d.notes.push_back(tag + "smallest moment_min " + fixed(e.min_moment, dm) + " " + FL + " at x = " +
                           input::format_number(e.min_moment_x) + " " + L +
                           (e.min_moment_by.empty() ? "" : " (" + e.min_moment_by + ")"));
@@ -812,6 +823,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
   lay.left = 112;
   if (!d.combination.empty()) lay.top += 16;
+  if (d.envelope) lay.right = std::min(lay.right + 40, 0.3 * lay.W);  // "slope-deflection max/min"
 
   // The sketch's height in pixels: loads stacked above the beam, the
   // supports, labels and reaction values below.
