@@ -216,7 +216,7 @@ int run_check(const CheckArgs& a) {
     // A report path must not name a file being read (it would be overwritten).
     std::vector<std::string> inputs = files;
     inputs.insert(inputs.end(), a.against.begin(), a.against.end());
-    const std::pair<const char*, std::string> reports[] = {{"--json", a.json}, {"--junit", a.junit}};
+    const std::pair<const char*, std::string> reports[] = {{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}};
     for (const auto& [option, report] : reports) {
       const std::string why = report_clashes_with_input(report, inputs);
       if (!why.empty()) {
