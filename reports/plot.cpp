@@ -98,47 +98,6 @@ std::string combination_text(const input::Combination& c) {
 // m" or "span 2, x_local = 1 m", in the file's length unit), converted to
 // the beam file's units. Comparison rows carry no numeric position, so it
 // is read back from that text (format_number keeps every digit needed).
-std::optional<double> row_x(const std::string& where, const std::vector<double>& node_x, const input::Units& units) {
-  auto number_and_unit = [&](std::size_t at) -> std::optional<double> {
-    const char* begin = where.c_str() + at;
-    char* end = nullptr;
-    const double v = std::strtod(begin, &end);
-    if (end == begin) return std::nullopt;
-    std::string unit(end);
-    while (!unit.empty() && unit.front() == ' ') unit.erase(0, 1);
-    double f = 1;
-    if (!unit.empty()) {
-      auto m = input::length_unit(unit);
-      if (!m || !(units.metres > 0)) return std::nullopt;
-      f = *m / units.metres;
-    }
-    return v * f;
-  };
-  if (where.rfind("x = ", 0) == 0) return number_and_unit(4);
-  if (where.rfind("span ", 0) == 0) {
-    const std::size_t comma = where.find(", x_local = ");
-    if (comma == std::string::npos) return std::nullopt;
-    const long span = std::strtol(where.c_str() + 5, nullptr, 10);
-    if (span < 1 || static_cast<std::size_t>(span) >= node_x.size()) return std::nullopt;
-    auto local = number_and_unit(comma + 12);
-    if (!local) return std::nullopt;
-    return node_x[static_cast<std::size_t>(span - 1)] + *local;
-  }
-  return std::nullopt;
-}
-
-// The node of another program's reaction row ("support B" or "support 2").
-std::optional<std::size_t> row_node(const std::string& where, const std::vector<std::string>& labels) {
-  if (where.rfind("support ", 0) != 0) return std::nullopt;
-  const std::string t = where.substr(8);
-  for (std::size_t i = 0; i < labels.size(); ++i)
-    if (labels[i] == t) return i;
-  char* end = nullptr;
-  const long n = std::strtol(t.c_str(), &end, 10);
-  if (end && *end == '\0' && end != t.c_str() && n >= 1 && static_cast<std::size_t>(n) <= labels.size())
-    return static_cast<std::size_t>(n - 1);
-  return std::nullopt;
-}
 
 }  // namespace
 
@@ -557,7 +516,7 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
       const against::RowResult& row = cmp.rows[ri];
       const std::string line = "line " + std::to_string(row.line);
       if (cmp.kind == against::TableKind::Reactions) {
-        const auto node = row_node(row.where, beam.labels);
+        const auto node = row.node;
         if (!node || *node >= nn) { ++unplaced; continue; }
         for (const auto& cell : row.cells) {
           const bool force = cell.quantity == against::Quantity::ReactionForce;
@@ -567,7 +526,7 @@ PlotData plot_data(const BeamResult& b, std::size_t set_index) {
         }
         continue;
       }
-      const auto x = row_x(row.where, node_x, b.units);
+      const std::optional<double> x = row.x;
       if (!x) { ++unplaced; continue; }
       for (const auto& cell : row.cells) {
         Panel* p = cell.quantity == against::Quantity::Shear    ? &shear

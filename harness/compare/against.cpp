@@ -1080,6 +1080,9 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     RowResult rr;
     rr.line = rows[i].line;
     rr.where = rows[i].where;
+    rr.x = rows[i].pos.global ? rows[i].pos.x : beam.node_x(rows[i].pos.span) + rows[i].pos.local;
+    if (out.kind == TableKind::Reactions && rows[i].node >= 0 && rows[i].node < static_cast<long>(beam.node_count()))
+      rr.node = static_cast<std::size_t>(rows[i].node);
     for (const auto& [q, key] : wanted) {
       const std::size_t k = qi(q);
       if (!rows[i].theirs[k]) continue;

@@ -162,6 +162,8 @@ struct Cell {
 struct RowResult {
   std::size_t line = 0;
   std::string where;  // "x = 2.5 m", "span 2, x_local = 1 m", "support B"
+  double x = 0;       // stations: the global x, beam file units
+  std::optional<std::size_t> node;  // reactions: the 0-based node, when it is in the beam
   std::vector<Cell> cells;
 };
 
