@@ -96,26 +96,9 @@ MethodExtremes span_extremes(const Solution& solution, const compare::LoadSet& s
 
 namespace {
 
-std::optional<std::size_t> node_at(const Beam& beam, double x) {
-  double x0 = 0, total = 0;
-  for (const auto& s : beam.spans) total += s.length;
-  const double eps = 1e-12 * std::max(total, 1e-300);
-  for (std::size_t i = 0; i <= beam.spans.size(); ++i) {
-    if (std::abs(x - x0) <= eps) return i;
-    if (i < beam.spans.size()) x0 += beam.spans[i].length;
-  }
-  return std::nullopt;
-}
-
-std::pair<std::size_t, double> locate(const Beam& beam, double x) {
-  double x0 = 0;
-  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
-    const double L = beam.spans[s].length;
-    if (x <= x0 + L || s + 1 == beam.spans.size()) return {s, std::min(std::max(x - x0, 0.0), L)};
-    x0 += L;
-  }
-  return {0, 0.0};
-}
+// The shared helpers of the harness.
+using compare::locate;
+using compare::node_at;
 
 // The value of `ex` on one method's result; nothing and a reason when the
 // point is ambiguous (a jump without a side).

@@ -435,19 +435,6 @@ int run_plot(const std::string& file, const std::string& out, const std::string&
   return r.status == compare::BeamStatus::Agree ? kExitAgree : kExitDisagree;
 }
 
-std::string xml_escape(const std::string& s) {
-  std::string r;
-  for (char c : s) {
-    switch (c) {
-      case '&': r += "&amp;"; break;
-      case '<': r += "&lt;"; break;
-      case '>': r += "&gt;"; break;
-      case '"': r += "&quot;"; break;
-      default: r += c;
-    }
-  }
-  return r;
-}
 
 // `trivet selfcheck`: every cited case on every method, a table, and exit 0
 // only when every published value holds on every applicable method.
@@ -609,18 +596,18 @@ int run_selfcheck(const SelfcheckArgs& a) {
       o << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<testsuites name=\"trivet selfcheck\" tests=\"" << tests
         << "\" failures=\"" << failures << "\" errors=\"0\">\n";
       for (const auto& c : r.cases) {
-        o << "  <testsuite name=\"" << xml_escape(c.id) << "\" tests=\"" << c.values.size() + 1 << "\" failures=\""
+        o << "  <testsuite name=\"" << reports::html_escape(c.id) << "\" tests=\"" << c.values.size() + 1 << "\" failures=\""
           << c.values_failed() + (c.holds ? 0 : 1) << "\" errors=\"0\">\n";
-        o << "    <testcase classname=\"" << xml_escape(c.id) << "\" name=\"case holds (" << xml_escape(c.citation) << ")\"";
+        o << "    <testcase classname=\"" << reports::html_escape(c.id) << "\" name=\"case holds (" << reports::html_escape(c.citation) << ")\"";
         if (c.holds) o << "/>\n";
-        else o << "><failure message=\"" << xml_escape(c.verdict_problem.empty() ? "a published value does not hold" : c.verdict_problem) << "\"/></testcase>\n";
+        else o << "><failure message=\"" << reports::html_escape(c.verdict_problem.empty() ? "a published value does not hold" : c.verdict_problem) << "\"/></testcase>\n";
         for (const auto& v : c.values) {
-          o << "    <testcase classname=\"" << xml_escape(c.id) << "\" name=\"" << xml_escape(v.quantity + " at " + v.where) << "\"";
+          o << "    <testcase classname=\"" << reports::html_escape(c.id) << "\" name=\"" << reports::html_escape(v.quantity + " at " + v.where) << "\"";
           if (v.holds) { o << "/>\n"; continue; }
           std::string msg = "published " + v.published + " " + v.multiplier + " = " + input::format_number(v.expected) +
                             " +- " + input::format_number(v.tolerance) + ";";
           for (const auto& m : v.methods) if (m.evaluated) msg += " " + m.method + " " + input::format_number(m.computed);
-          o << "><failure message=\"" << xml_escape(msg) << "\"/></testcase>\n";
+          o << "><failure message=\"" << reports::html_escape(msg) << "\"/></testcase>\n";
         }
         o << "  </testsuite>\n";
       }

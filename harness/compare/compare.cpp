@@ -56,6 +56,27 @@ std::size_t BeamResult::claims_failed() const {
   return n;
 }
 
+std::pair<std::size_t, double> locate(const Beam& beam, double x) {
+  double x0 = 0;
+  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
+    const double L = beam.spans[s].length;
+    if (x <= x0 + L || s + 1 == beam.spans.size()) return {s, std::min(std::max(x - x0, 0.0), L)};
+    x0 += L;
+  }
+  return {0, 0.0};
+}
+
+std::optional<std::size_t> node_at(const Beam& beam, double x) {
+  double x0 = 0, total = 0;
+  for (const auto& s : beam.spans) total += s.length;
+  const double eps = 1e-12 * std::max(total, 1e-300);
+  for (std::size_t i = 0; i <= beam.spans.size(); ++i) {
+    if (std::abs(x - x0) <= eps) return i;
+    if (i < beam.spans.size()) x0 += beam.spans[i].length;
+  }
+  return std::nullopt;
+}
+
 Beam beam_for_case(const Beam& beam, const std::string& load_case) {
   Beam b = beam;
   b.loads.clear();
@@ -378,27 +399,6 @@ void compare_methods(LoadSet& set, double agreement) {
   }
 }
 
-// Global x -> (span, local).
-std::pair<std::size_t, double> locate(const Beam& beam, double x) {
-  double x0 = 0;
-  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
-    const double L = beam.spans[s].length;
-    if (x <= x0 + L || s + 1 == beam.spans.size()) return {s, std::min(std::max(x - x0, 0.0), L)};
-    x0 += L;
-  }
-  return {0, 0.0};
-}
-
-std::optional<std::size_t> node_at(const Beam& beam, double x) {
-  double x0 = 0, total = 0;
-  for (const auto& s : beam.spans) total += s.length;
-  const double eps = 1e-12 * std::max(total, 1e-300);
-  for (std::size_t i = 0; i <= beam.spans.size(); ++i) {
-    if (std::abs(x - x0) <= eps) return i;
-    if (i < beam.spans.size()) x0 += beam.spans[i].length;
-  }
-  return std::nullopt;
-}
 
 Kind kind_of(input::Quantity q) {
   using Q = input::Quantity;

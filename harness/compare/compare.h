@@ -189,6 +189,11 @@ BeamResult check(const input::BeamFile& file, const Options& options);
 // consensus, the span extremes, the claims and the status.
 void refresh(BeamResult& result, const input::BeamFile& file, const Options& options);
 
+// Global x -> (span, local position); x beyond the ends is clamped.
+std::pair<std::size_t, double> locate(const Beam& beam, double x);
+// The node at global x (within 1e-12 of the beam's length), if any.
+std::optional<std::size_t> node_at(const Beam& beam, double x);
+
 // The loads of one load case.
 Beam beam_for_case(const Beam& beam, const std::string& load_case);
 
