@@ -634,6 +634,287 @@ TEST_F(Against, CompareFileReadsFromDisk) {
   EXPECT_TRUE(c.holds());
 }
 
+// ---------------------------------------------------------------------------
+// Envelopes of a combination with a pattern: moment_max ... reaction_min.
+
+// Three bays, dead and live on every span, a dead point force inside span 2
+// (so shear jumps there), a service combination and a patterned one.
+const char* kEnvelopeBeam = R"({
+  "title": "office floor",
+  "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}, {"length": 7.5, "EI": 64000}],
+  "supports": ["pinned", "roller", "roller", "roller"],
+  "loads": [{"type": "udl", "span": 1, "w": 14.0, "case": "dead"},
+            {"type": "udl", "span": 2, "w": 14.0, "case": "dead"},
+            {"type": "udl", "span": 3, "w": 14.0, "case": "dead"},
+            {"type": "point", "span": 2, "P": 30.0, "at": 2.5, "case": "dead"},
+            {"type": "udl", "span": 1, "w": 9.0, "case": "live"},
+            {"type": "udl", "span": 2, "w": 9.0, "case": "live"},
+            {"type": "udl", "span": 3, "w": 9.0, "case": "live"}],
+  "combinations": [
+    {"name": "service", "factors": {"dead": 1.0, "live": 1.0}},
+    {"name": "strength-A", "factors": {"dead": 1.2, "live": 1.6}, "pattern": ["live"]}
+  ]
+})";
+
+class AgainstEnvelope : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    file_ = new input::BeamFile(input::parse_beam_text(kEnvelopeBeam, "beam.json"));
+    ASSERT_TRUE(file_->ok());
+    result_ = new BeamResult(check(*file_, compare::Options{}));
+  }
+  static void TearDownTestSuite() {
+    delete result_;
+    delete file_;
+  }
+  static const LoadSet& env() {
+    for (const auto& s : result_->sets)
+      if (s.name == "strength-A") return s;
+    ADD_FAILURE() << "no load set strength-A";
+    return result_->sets.front();
+  }
+  static Options on(const std::string& name) {
+    Options o;
+    o.load_case = name;
+    return o;
+  }
+  static Comparison run(const std::string& text, const Options& o) {
+    return compare_text(*file_, *result_, text, "r.csv", o);
+  }
+  static std::vector<std::string> messages(const Comparison& c) {
+    std::vector<std::string> m;
+    for (const auto& e : c.errors) m.push_back(e.format(c.file));
+    return m;
+  }
+  static std::string only_error(const std::string& text, const Options& o) {
+    Comparison c = run(text, o);
+    EXPECT_EQ(c.errors.size(), 1u) << ::testing::PrintToString(messages(c));
+    return c.errors.empty() ? "" : c.errors.front().format(c.file);
+  }
+  static const Summary* summary(const Comparison& c, Quantity q) {
+    for (const auto& s : c.summary)
+      if (s.quantity == q) return &s;
+    ADD_FAILURE() << "no summary for " << quantity_name(q);
+    static const Summary none;
+    return &none;
+  }
+  // moment_max, moment_min (and shear_max, shear_min) at every station, from
+  // the consensus envelope; `sign` -1 writes hogging-positive moments (max
+  // and min swapped); `bump` is added to moment_max at row `bump_row`.
+  static std::string stations_csv(bool with_shear, double sign = 1, std::size_t bump_row = 0, double bump = 0) {
+    const LoadSet& s = env();
+    std::string t = with_shear ? "x,moment_max,moment_min,shear_max,shear_min\n" : "x,moment_max,moment_min\n";
+    for (std::size_t i = 0; i < s.stations.size(); ++i) {
+      const Bound& m = s.consensus_envelope.moment[i];
+      const double mmax = sign > 0 ? m.max : -m.min;
+      const double mmin = sign > 0 ? m.min : -m.max;
+      t += format_number(s.stations[i].x) + "," + format_number(mmax + (i + 2 == bump_row ? bump : 0.0)) + "," +
+           format_number(mmin);
+      if (with_shear)
+        t += "," + format_number(s.consensus_envelope.shear[i].max) + "," + format_number(s.consensus_envelope.shear[i].min);
+      t += "\n";
+    }
+    return t;
+  }
+
+  static input::BeamFile* file_;
+  static BeamResult* result_;
+};
+
+input::BeamFile* AgainstEnvelope::file_ = nullptr;
+BeamResult* AgainstEnvelope::result_ = nullptr;
+
+TEST_F(AgainstEnvelope, TheLoadSetIsAnEnvelope) {
+  const LoadSet& s = env();
+  ASSERT_TRUE(s.envelope);
+  ASSERT_EQ(s.ok_count(), 3u);
+  ASSERT_EQ(s.consensus_envelope.moment.size(), s.stations.size());
+  ASSERT_GT(s.scale[static_cast<std::size_t>(Kind::Moment)], 0.0);
+  // Patterned live load: the envelope is wider than the one arrangement.
+  double widest = 0;
+  for (const auto& b : s.consensus_envelope.moment) widest = std::max(widest, b.max - b.min);
+  EXPECT_GT(widest, 1.0);
+}
+
+TEST_F(AgainstEnvelope, StationEnvelopeHolds) {
+  Comparison c = run(stations_csv(true), on("strength-A"));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_EQ(c.kind, TableKind::Stations);
+  EXPECT_EQ(c.load_case, "strength-A");
+  EXPECT_TRUE(c.holds()) << c.failing() << " failing";
+  const std::size_t n = env().stations.size();
+  for (Quantity q : {Quantity::MomentMax, Quantity::MomentMin, Quantity::ShearMax, Quantity::ShearMin}) {
+    EXPECT_EQ(summary(c, q)->compared, n) << quantity_name(q);
+    EXPECT_EQ(summary(c, q)->failing, 0u) << quantity_name(q);
+  }
+  // The tolerance is the claims' (1%) of the envelope's largest moment.
+  EXPECT_NEAR(summary(c, Quantity::MomentMax)->tolerance, 0.01 * env().scale[static_cast<std::size_t>(Kind::Moment)],
+              1e-9);
+  // The point force makes shear jump at x = 10: both limits are compared, left first.
+  std::size_t jumps = 0;
+  for (const auto& r : c.rows)
+    for (const auto& cell : r.cells)
+      if (cell.quantity == Quantity::ShearMax && cell.side_from_pair) ++jumps;
+  EXPECT_GE(jumps, 2u);
+}
+
+TEST_F(AgainstEnvelope, OneValueBeyondTheToleranceFailsAtItsRow) {
+  const double tol = 0.01 * env().scale[static_cast<std::size_t>(Kind::Moment)];
+  const std::size_t line = 6;  // the fifth station
+  Comparison c = run(stations_csv(false, 1, line, 3 * tol), on("strength-A"));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_FALSE(c.holds());
+  EXPECT_EQ(c.failing(), 1u);
+  for (const auto& r : c.rows)
+    for (const auto& cell : r.cells) {
+      if (cell.holds) continue;
+      EXPECT_EQ(r.line, line);
+      EXPECT_EQ(cell.quantity, Quantity::MomentMax);
+      EXPECT_NEAR(cell.difference, 3 * tol, 1e-6 * tol);
+    }
+  EXPECT_EQ(summary(c, Quantity::MomentMax)->failing, 1u);
+  EXPECT_EQ(summary(c, Quantity::MomentMax)->worst_line, line);
+  EXPECT_EQ(summary(c, Quantity::MomentMin)->failing, 0u);
+  // Just inside the tolerance holds.
+  EXPECT_TRUE(run(stations_csv(false, 1, line, 0.9 * tol), on("strength-A")).holds());
+}
+
+TEST_F(AgainstEnvelope, ValuesBetweenStationsComeFromTheMethods) {
+  // Midway between stations the consensus envelope has no entry: the value
+  // comes from the methods' envelopes, and lies near its neighbours'.
+  const LoadSet& s = env();
+  const double x = 0.5 * (s.stations[1].x + s.stations[2].x);
+  const auto& a = s.consensus_envelope.moment[1];
+  const auto& b = s.consensus_envelope.moment[2];
+  // Their mean is a fair estimate; the envelope curve is not a straight line,
+  // so the mean is not exact, but a value far away must fail.
+  const double mid = 0.5 * (a.max + b.max);
+  const double tol = 0.01 * s.scale[static_cast<std::size_t>(Kind::Moment)];
+  Comparison far = run("x,moment_max\n" + format_number(x) + "," + format_number(mid + 10 * tol) + "\n", on("strength-A"));
+  ASSERT_TRUE(far.ok()) << ::testing::PrintToString(messages(far));
+  EXPECT_EQ(far.failing(), 1u);
+  ASSERT_EQ(far.rows.size(), 1u);
+  const double ours = far.rows[0].cells[0].ours;
+  EXPECT_GT(ours, std::min(a.max, b.max) - 2 * tol);
+  EXPECT_LT(ours, std::max(a.max, b.max) + 2 * tol);
+  EXPECT_TRUE(run("x,moment_max\n" + format_number(x) + "," + format_number(ours) + "\n", on("strength-A")).holds());
+}
+
+TEST_F(AgainstEnvelope, ReactionEnvelopeHolds) {
+  const LoadSet& s = env();
+  std::string t = "support,reaction_max,reaction_min\n";
+  for (std::size_t j = 0; j < s.beam.labels.size(); ++j)
+    t += s.beam.labels[j] + "," + format_number(s.consensus_envelope.reaction[j].max) + "," +
+         format_number(s.consensus_envelope.reaction[j].min) + "\n";
+  Comparison c = run(t, on("strength-A"));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_EQ(c.kind, TableKind::Reactions);
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(summary(c, Quantity::ReactionMax)->compared, 4u);
+  EXPECT_EQ(summary(c, Quantity::ReactionMin)->compared, 4u);
+  // Max and min differ at the inner supports (pattern loading), so swapping them fails.
+  std::string swapped = "support,reaction_max,reaction_min\n";
+  for (std::size_t j = 0; j < s.beam.labels.size(); ++j)
+    swapped += s.beam.labels[j] + "," + format_number(s.consensus_envelope.reaction[j].min) + "," +
+               format_number(s.consensus_envelope.reaction[j].max) + "\n";
+  EXPECT_FALSE(run(swapped, on("strength-A")).holds());
+  // Down-positive reactions: their max is our -min.
+  std::string down = "support,reaction_max,reaction_min\n";
+  for (std::size_t j = 0; j < s.beam.labels.size(); ++j)
+    down += s.beam.labels[j] + "," + format_number(-s.consensus_envelope.reaction[j].min) + "," +
+            format_number(-s.consensus_envelope.reaction[j].max) + "\n";
+  Options o = on("strength-A");
+  o.reaction_sign = ReactionSign::DownPositive;
+  EXPECT_TRUE(run(down, o).holds());
+}
+
+TEST_F(AgainstEnvelope, HoggingPositiveSwapsMaxAndMin) {
+  const std::string hog = stations_csv(false, -1);
+  // Declared: it holds, and their moment_max column is compared as our moment_min.
+  Options o = on("strength-A");
+  ASSERT_EQ(set_option(o, "moment-sign", "hogging-positive"), "");
+  Comparison c = run(hog, o);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds()) << c.failing() << " failing";
+  ASSERT_FALSE(c.rows.empty());
+  ASSERT_EQ(c.rows[0].cells.size(), 2u);
+  const std::string hog_first = hog.substr(hog.find('\n') + 1);
+  const double their_max = std::stod(hog_first.substr(hog_first.find(',') + 1));
+  bool seen = false;
+  for (const auto& cell : c.rows[0].cells) {
+    if (cell.quantity != Quantity::MomentMin) continue;
+    seen = true;
+    EXPECT_NEAR(cell.raw, their_max, 1e-9 * (1 + std::abs(their_max)));
+  }
+  EXPECT_TRUE(seen);
+  // A sign flip alone (without the swap) would not do: our max is not -their max.
+  std::string flipped_only = "x,moment_max,moment_min\n";
+  const LoadSet& s = env();
+  for (std::size_t i = 0; i < s.stations.size(); ++i)
+    flipped_only += format_number(s.stations[i].x) + "," + format_number(-s.consensus_envelope.moment[i].max) + "," +
+                    format_number(-s.consensus_envelope.moment[i].min) + "\n";
+  EXPECT_FALSE(run(flipped_only, o).holds());
+  // Not declared: it fails, and the finding names the convention.
+  Comparison u = run(hog, on("strength-A"));
+  ASSERT_TRUE(u.ok());
+  EXPECT_FALSE(u.holds());
+  const Summary* sm = summary(u, Quantity::MomentMax);
+  ASSERT_TRUE(sm->finding);
+  EXPECT_EQ(sm->finding->mistakes, std::vector<Mistake>{Mistake::OppositeSign});
+  EXPECT_NE(sm->finding->text.find("read as hogging-positive (max and min swapped)"), std::string::npos)
+      << sm->finding->text;
+}
+
+TEST_F(AgainstEnvelope, DeflectionEnvelopeAtStations) {
+  const LoadSet& s = env();
+  std::string t = "x,deflection_max,deflection_min\n";
+  for (std::size_t i = 0; i < s.stations.size(); ++i)
+    t += format_number(s.stations[i].x) + "," + format_number(s.consensus_envelope.deflection[i].max) + "," +
+         format_number(s.consensus_envelope.deflection[i].min) + "\n";
+  Comparison c = run(t, on("strength-A"));
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds());
+  EXPECT_EQ(summary(c, Quantity::DeflectionMax)->compared, s.stations.size());
+  // Between stations it cannot be compared, and says why.
+  const double x = 0.5 * (s.stations[1].x + s.stations[2].x);
+  Comparison b = run("x,deflection_max\n" + format_number(x) + ",0.001\n", on("strength-A"));
+  ASSERT_TRUE(b.ok()) << ::testing::PrintToString(messages(b));
+  ASSERT_EQ(b.rows.size(), 1u);
+  ASSERT_EQ(b.rows[0].cells.size(), 1u);
+  EXPECT_FALSE(b.rows[0].cells[0].holds);
+  EXPECT_EQ(b.rows[0].cells[0].reason,
+            "the deflection envelope is known only at trivet's stations, and there is none here (stations_per_span "
+            "in the beam file places more)");
+}
+
+TEST_F(AgainstEnvelope, OrdinaryAndEnvelopeColumnsDoNotMix) {
+  EXPECT_EQ(only_error("x,moment\n1,2\n", on("strength-A")),
+            "r.csv: line 1, column 2 (moment): \"moment\" is an ordinary value, but load set \"strength-A\" is an "
+            "envelope (a combination with a pattern or a factor range): give moment_max, moment_min, shear_max, "
+            "shear_min, deflection_max, deflection_min instead");
+  EXPECT_EQ(only_error("support,force\nA,2\n", on("strength-A")),
+            "r.csv: line 1, column 2 (force): \"force\" is an ordinary value, but load set \"strength-A\" is an "
+            "envelope (a combination with a pattern or a factor range): give reaction_max, reaction_min instead");
+  EXPECT_EQ(only_error("x,moment_max\n1,2\n", on("service")),
+            "r.csv: line 1, column 2 (moment_max): \"moment_max\" is an envelope value, but load set \"service\" is "
+            "not an envelope: name a combination with a pattern or a factor range in the case option");
+  EXPECT_EQ(only_error("support,reaction_min\nB,2\n", on("dead")),
+            "r.csv: line 1, column 2 (reaction_min): \"reaction_min\" is an envelope value, but load set \"dead\" is "
+            "not an envelope: name a combination with a pattern or a factor range in the case option");
+  EXPECT_EQ(only_error("x,rotation\n1,2\n", on("strength-A")),
+            "r.csv: line 1: no column to compare: a station file needs at least one of \"moment_max\", "
+            "\"moment_min\", \"shear_max\", \"shear_min\", \"deflection_max\" or \"deflection_min\"");
+  // The ordinary columns still serve an ordinary combination.
+  const LoadSet* service = nullptr;
+  for (const auto& s : result_->sets)
+    if (s.name == "service") service = &s;
+  ASSERT_TRUE(service);
+  std::string t = "x,moment\n";
+  for (const auto& st : service->consensus_stations) t += format_number(st.x) + "," + format_number(st.moment) + "\n";
+  EXPECT_TRUE(run(t, on("service")).holds());
+}
+
 TEST(AgainstInvalid, InvalidBeamIsAnError) {
   input::BeamFile bad = input::parse_beam_text("{\"spans\": []}", "bad.json");
   ASSERT_FALSE(bad.ok());

@@ -42,6 +42,14 @@ const char* quantity_name(Quantity q) {
     case Quantity::Deflection: return "deflection";
     case Quantity::ReactionForce: return "reaction";
     case Quantity::ReactionMoment: return "reaction moment";
+    case Quantity::MomentMax: return "moment_max";
+    case Quantity::MomentMin: return "moment_min";
+    case Quantity::ShearMax: return "shear_max";
+    case Quantity::ShearMin: return "shear_min";
+    case Quantity::DeflectionMax: return "deflection_max";
+    case Quantity::DeflectionMin: return "deflection_min";
+    case Quantity::ReactionMax: return "reaction_max";
+    case Quantity::ReactionMin: return "reaction_min";
   }
   return "?";
 }
@@ -53,8 +61,20 @@ const char* quantity_plural(Quantity q) {
     case Quantity::Deflection: return "deflections";
     case Quantity::ReactionForce: return "reactions";
     case Quantity::ReactionMoment: return "reaction moments";
+    case Quantity::MomentMax: return "moment_max values";
+    case Quantity::MomentMin: return "moment_min values";
+    case Quantity::ShearMax: return "shear_max values";
+    case Quantity::ShearMin: return "shear_min values";
+    case Quantity::DeflectionMax: return "deflection_max values";
+    case Quantity::DeflectionMin: return "deflection_min values";
+    case Quantity::ReactionMax: return "reaction_max values";
+    case Quantity::ReactionMin: return "reaction_min values";
   }
   return "?";
+}
+
+bool is_envelope(Quantity q) {
+  return static_cast<std::size_t>(q) >= static_cast<std::size_t>(Quantity::MomentMax);
 }
 
 const char* side_name(Side s) {
@@ -434,15 +454,46 @@ Kind kind_of(Quantity q) {
     case Quantity::Deflection: return Kind::Deflection;
     case Quantity::ReactionForce: return Kind::Reaction;
     case Quantity::ReactionMoment: return Kind::Moment;
+    case Quantity::MomentMax: case Quantity::MomentMin: return Kind::Moment;
+    case Quantity::ShearMax: case Quantity::ShearMin: return Kind::Shear;
+    case Quantity::DeflectionMax: case Quantity::DeflectionMin: return Kind::Deflection;
+    case Quantity::ReactionMax: case Quantity::ReactionMin: return Kind::Reaction;
   }
   return Kind::Moment;
 }
 
-input::Dimension dimension_of(Quantity q) {
+// The ordinary quantity an envelope one bounds (itself for an ordinary one).
+Quantity base_of(Quantity q) {
   switch (q) {
+    case Quantity::MomentMax: case Quantity::MomentMin: return Quantity::Moment;
+    case Quantity::ShearMax: case Quantity::ShearMin: return Quantity::Shear;
+    case Quantity::DeflectionMax: case Quantity::DeflectionMin: return Quantity::Deflection;
+    case Quantity::ReactionMax: case Quantity::ReactionMin: return Quantity::ReactionForce;
+    default: return q;
+  }
+}
+
+// Max <-> min of an envelope quantity (itself for an ordinary one).
+Quantity partner(Quantity q) {
+  switch (q) {
+    case Quantity::MomentMax: return Quantity::MomentMin;
+    case Quantity::MomentMin: return Quantity::MomentMax;
+    case Quantity::ShearMax: return Quantity::ShearMin;
+    case Quantity::ShearMin: return Quantity::ShearMax;
+    case Quantity::DeflectionMax: return Quantity::DeflectionMin;
+    case Quantity::DeflectionMin: return Quantity::DeflectionMax;
+    case Quantity::ReactionMax: return Quantity::ReactionMin;
+    case Quantity::ReactionMin: return Quantity::ReactionMax;
+    default: return q;
+  }
+}
+
+input::Dimension dimension_of(Quantity q) {
+  switch (base_of(q)) {
     case Quantity::Shear: case Quantity::ReactionForce: return {1, 0};
     case Quantity::Moment: case Quantity::ReactionMoment: return {1, 1};
     case Quantity::Deflection: return {0, 1};
+    default: break;
   }
   return {0, 0};
 }
@@ -560,9 +611,24 @@ class Consensus {
  public:
   explicit Consensus(const LoadSet& set) : set_(set) {
     for (const auto& m : set.methods)
-      if (m.status == MethodStatus::Ok && m.solution.at) ok_.push_back(&m);
+      if (m.status == MethodStatus::Ok && (set.envelope ? static_cast<bool>(m.envelope_model) : static_cast<bool>(m.solution.at)))
+        ok_.push_back(&m);
   }
   bool empty() const { return ok_.empty(); }
+  // The median of the methods' envelope value of `q`.
+  double envelope(input::Quantity q, std::size_t span, double local, bool after) const {
+    std::vector<double> v;
+    for (auto* m : ok_) v.push_back(envelope_value(*m->envelope_model, q, span, local, after));
+    return median(v);
+  }
+  // The consensus deflection envelope at a station at global x, if there is one.
+  std::optional<Bound> deflection_at(double x, double eps) const {
+    const auto& st = set_.stations;
+    const auto& d = set_.consensus_envelope.deflection;
+    for (std::size_t i = 0; i < st.size() && i < d.size(); ++i)
+      if (std::abs(st[i].x - x) <= eps) return d[i];
+    return std::nullopt;
+  }
   std::array<double, 3> at(std::size_t span, double local, bool after) const {
     std::array<std::vector<double>, 3> v;
     for (auto* m : ok_) {
@@ -580,6 +646,30 @@ class Consensus {
       to[qi(Quantity::Moment)] = v[1];
       to[qi(Quantity::Deflection)] = v[2];
     };
+    if (set_.envelope) {
+      using IQ = input::Quantity;
+      auto put_env = [&](std::array<std::optional<double>, kQuantities>& to, std::size_t span, double local, bool after) {
+        to[qi(Quantity::MomentMax)] = envelope(IQ::MomentMax, span, local, after);
+        to[qi(Quantity::MomentMin)] = envelope(IQ::MomentMin, span, local, after);
+        to[qi(Quantity::ShearMax)] = envelope(IQ::ShearMax, span, local, after);
+        to[qi(Quantity::ShearMin)] = envelope(IQ::ShearMin, span, local, after);
+      };
+      if (p.node) {
+        if (p.index > 0) put_env(r.left, p.index - 1, g.length(p.index - 1), false);
+        if (p.index < g.spans()) put_env(r.right, p.index, 0.0, false);
+      } else {
+        put_env(r.left, p.index, p.local, false);
+        if (p.jump) put_env(r.right, p.index, p.local, true);
+      }
+      // Deflection is continuous: one value, from the station there.
+      const double x = p.node ? g.node_x[p.index] : g.node_x[p.index] + p.local;
+      if (auto d = deflection_at(x, g.eps)) {
+        auto& side = r.left[qi(Quantity::MomentMax)] ? r.left : r.right;
+        side[qi(Quantity::DeflectionMax)] = d->max;
+        side[qi(Quantity::DeflectionMin)] = d->min;
+      }
+      return r;
+    }
     if (p.node) {
       if (p.index > 0) put(r.left, at(p.index - 1, g.length(p.index - 1), false));
       if (p.index < g.spans()) put(r.right, at(p.index, 0.0, false));
@@ -591,6 +681,16 @@ class Consensus {
   }
   Probe reaction(long node) const {
     Probe r;
+    if (set_.envelope) {
+      if (node < 0 || static_cast<std::size_t>(node) >= set_.beam.node_count()) {
+        r.exists = false;
+        return r;
+      }
+      const std::size_t k = static_cast<std::size_t>(node);
+      r.left[qi(Quantity::ReactionMax)] = envelope(input::Quantity::ReactionMax, k, 0.0, false);
+      r.left[qi(Quantity::ReactionMin)] = envelope(input::Quantity::ReactionMin, k, 0.0, false);
+      return r;
+    }
     if (node < 0 || static_cast<std::size_t>(node) >= set_.consensus_nodes.size()) {
       r.exists = false;
       return r;
@@ -678,6 +778,7 @@ struct Hypothesis {
 };
 
 std::string sign_words(Quantity q, const Options& o) {
+  if (is_envelope(q)) return sign_words(base_of(q), o) + " (max and min swapped)";
   switch (q) {
     case Quantity::Moment:
       return o.moment_sign == MomentSign::SaggingPositive ? "read as hogging-positive" : "read as sagging-positive";
@@ -691,6 +792,7 @@ std::string sign_words(Quantity q, const Options& o) {
     case Quantity::ReactionMoment:
       return o.reaction_moment_sign == ReactionMomentSign::CounterClockwisePositive ? "read as clockwise-positive"
                                                                                     : "read as counter-clockwise-positive";
+    default: break;
   }
   return "";
 }
@@ -782,6 +884,12 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   sign[qi(Quantity::ReactionForce)] = options.reaction_sign == ReactionSign::UpPositive ? 1 : -1;
   sign[qi(Quantity::ReactionMoment)] =
       options.reaction_moment_sign == ReactionMomentSign::CounterClockwisePositive ? 1 : -1;
+  for (std::size_t q = qi(Quantity::MomentMax); q < kQuantities; ++q) {
+    factor[q] = factor[qi(base_of(static_cast<Quantity>(q)))];
+    sign[q] = sign[qi(base_of(static_cast<Quantity>(q)))];
+  }
+  // Where a column's values go: a reversed sign also swaps max and min.
+  auto slot = [&](Quantity q) { return is_envelope(q) && sign[qi(q)] < 0 ? partner(q) : q; };
 
   // Tolerances.
   const input::Tolerance tol = options.tolerance.value_or(file.claim_tolerance);
@@ -828,12 +936,34 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
 
   // The value columns. In a reaction table the couple is "reaction_moment"
   // when that is mapped, else a mapped "moment" that is there, else "moment".
-  std::vector<std::pair<Quantity, std::string>> wanted;
+  // An envelope load set takes the envelope columns instead.
+  using Wanted = std::vector<std::pair<Quantity, std::string>>;
+  Wanted ordinary, envelope;
   if (stations) {
-    wanted = {{Quantity::Shear, "shear"}, {Quantity::Moment, "moment"}, {Quantity::Deflection, "deflection"}};
+    ordinary = {{Quantity::Shear, "shear"}, {Quantity::Moment, "moment"}, {Quantity::Deflection, "deflection"}};
+    envelope = {{Quantity::MomentMax, "moment_max"},       {Quantity::MomentMin, "moment_min"},
+                {Quantity::ShearMax, "shear_max"},         {Quantity::ShearMin, "shear_min"},
+                {Quantity::DeflectionMax, "deflection_max"}, {Quantity::DeflectionMin, "deflection_min"}};
   } else {
-    wanted = {{Quantity::ReactionForce, "force"},
-              {Quantity::ReactionMoment, options.columns.count("reaction_moment") ? "reaction_moment" : "moment"}};
+    ordinary = {{Quantity::ReactionForce, "force"},
+                {Quantity::ReactionMoment, options.columns.count("reaction_moment") ? "reaction_moment" : "moment"}};
+    envelope = {{Quantity::ReactionMax, "reaction_max"}, {Quantity::ReactionMin, "reaction_min"}};
+  }
+  const Wanted& wanted = set->envelope ? envelope : ordinary;
+  for (const auto& [q, key] : set->envelope ? ordinary : envelope) {
+    std::size_t c = cols.find(key);
+    if (c == kNone && !stations && q == Quantity::ReactionMoment && key == "moment") c = cols.find(key, nullptr, true);
+    if (c == kNone) continue;
+    std::string names;
+    for (std::size_t k = 0; k < wanted.size(); ++k) names += (k ? ", " : "") + cols.name_of(wanted[k].second);
+    if (set->envelope)
+      errs.add(hl, c + 1, table.header[c],
+               "\"" + table.header[c] + "\" is an ordinary value, but load set \"" + set->name +
+                   "\" is an envelope (a combination with a pattern or a factor range): give " + names + " instead");
+    else
+      errs.add(hl, c + 1, table.header[c],
+               "\"" + table.header[c] + "\" is an envelope value, but load set \"" + set->name +
+                   "\" is not an envelope: name a combination with a pattern or a factor range in the case option");
   }
   std::array<std::size_t, kQuantities> c_value;
   c_value.fill(kNone);
@@ -966,8 +1096,9 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
       const std::size_t c = c_value[qi(q)];
       if (c == kNone) continue;
       if (auto v = read_number(c, false)) {
-        r.raw[qi(q)] = *v;
-        r.theirs[qi(q)] = *v * factor[qi(q)] * sign[qi(q)];
+        const std::size_t k = qi(slot(q));
+        r.raw[k] = *v;
+        r.theirs[k] = *v * factor[qi(q)] * sign[qi(q)];
       }
     }
     if (row_ok) rows.push_back(std::move(r));
@@ -1052,8 +1183,16 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
         pr.forced = rows[i].forced;
         if (g == 1) {
           pr.forced = -pr.forced;
-          for (auto* side : {&pr.left, &pr.right})
-            if ((*side)[qi(Quantity::Shear)]) (*side)[qi(Quantity::Shear)] = -*(*side)[qi(Quantity::Shear)];
+          for (auto* side : {&pr.left, &pr.right}) {
+            auto& sd = *side;
+            if (sd[qi(Quantity::Shear)]) sd[qi(Quantity::Shear)] = -*sd[qi(Quantity::Shear)];
+            // Read from the other end, the largest shear is minus the smallest.
+            const auto mx = sd[qi(Quantity::ShearMax)], mn = sd[qi(Quantity::ShearMin)];
+            sd[qi(Quantity::ShearMax)].reset();
+            sd[qi(Quantity::ShearMin)].reset();
+            if (mn) sd[qi(Quantity::ShearMax)] = -*mn;
+            if (mx) sd[qi(Quantity::ShearMin)] = -*mx;
+          }
         }
         v.push_back(pr);
       }
@@ -1098,7 +1237,9 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
       s.tolerance = tolerance[k];
       ++s.compared;
       if (!m.exists) {
-        c.reason = "no node " + std::to_string(rows[i].node + 1) + " in the beam";
+        c.reason = stations ? "the deflection envelope is known only at trivet's stations, and there is none here "
+                              "(stations_per_span in the beam file places more)"
+                            : "no node " + std::to_string(rows[i].node + 1) + " in the beam";
         c.difference = c.theirs;
       } else {
         c.ours = m.ours;
@@ -1143,7 +1284,8 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
             for (std::size_t i = 0; i < rows.size() && all; ++i) {
               if (!rows[i].theirs[k]) continue;
               const double t = *rows[i].theirs[k] * m;
-              const Match mt = match((*ps)[i], k, t, scale[k]);
+              // A reversed sign also swaps max and min.
+              const Match mt = match((*ps)[i], sg < 0 ? qi(partner(q)) : k, t, scale[k]);
               if (!mt.exists) { all = false; break; }
               const double d = t - mt.ours;
               if (!within(d, tolerance[k], scale[k])) { all = false; break; }

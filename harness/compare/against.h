@@ -6,6 +6,17 @@
 //              and any of `shear`, `moment`, `deflection`;
 //   reactions: `support` (a node label such as "B", or a 1-based node
 //              number), and any of `force`, `moment`.
+// For a load set that is an envelope (a combination with a pattern or a
+// factor range, named by the `case` option) the value columns are instead
+//   stations:  any of `moment_max`, `moment_min`, `shear_max`, `shear_min`,
+//              `deflection_max`, `deflection_min`;
+//   reactions: any of `reaction_max`, `reaction_min`;
+// compared with the consensus envelope (median of the methods' envelopes).
+// Ordinary columns on an envelope load set, and envelope columns on an
+// ordinary one, are errors. A declared sign convention that reverses a sign
+// also swaps max and min: under hogging-positive their moment_max is our
+// -moment_min, so that cell is reported as moment_min in our signs. The
+// deflection envelope is known only at trivet's stations.
 // Column names are matched without regard to case; Options::columns renames
 // them. An empty cell is "not given" and is not compared; a column that is
 // absent is not compared. Values are converted from the file's declared
@@ -93,7 +104,7 @@ enum class ReactionMomentSign { CounterClockwisePositive, ClockwisePositive };
 struct Options {
   // Our column name -> the file's ("moment" -> "Mz", "x" -> "Dist"). Keys:
   // x, span, x_local, shear, moment, deflection, support, force,
-  // reaction_moment. In a reaction table the couple's column is
+  // reaction_moment, and the envelope columns moment_max ... reaction_min. In a reaction table the couple's column is
   // "reaction_moment" when that is mapped, else "moment" (a "moment" mapping
   // that names a column the reaction file lacks is then not used), so one
   // set of options can serve a station file and a reaction file.
@@ -109,7 +120,7 @@ struct Options {
   // Empty: the beam file's claims tolerance (default 1% of the largest
   // magnitude of the kind). An absolute tolerance is in the beam file's units.
   std::optional<input::Tolerance> tolerance;
-  // The load case compared; empty: the beam's only one (an error if several).
+  // The load case or combination compared; empty: the beam's only one (an error if several).
   std::string load_case;
   CsvLimits limits;
 };
@@ -125,7 +136,7 @@ struct Options {
 //   reaction-sign    up-positive | down-positive
 //   reaction-moment-sign  counter-clockwise-positive | clockwise-positive
 //   tolerance        "1%" or an absolute value in the beam file's units
-//   case             a load case name
+//   case             a load case or combination name
 // Returns an empty string when set, else the reason it is refused.
 std::string set_option(Options& options, const std::string& name, const std::string& value);
 // The names set_option knows, in that order.
@@ -137,10 +148,19 @@ const std::vector<std::string>& option_names();
 enum class TableKind { Stations, Reactions };
 const char* table_kind_name(TableKind k);  // "stations", "reactions"
 
-enum class Quantity { Shear, Moment, Deflection, ReactionForce, ReactionMoment };
-constexpr std::size_t kQuantities = 5;
-const char* quantity_name(Quantity q);   // "shear", "moment", "deflection", "reaction", "reaction moment"
-const char* quantity_plural(Quantity q); // "shears", "moments", "deflections", "reactions", "reaction moments"
+// The envelope quantities (MomentMax ... ReactionMin) are those of an
+// envelope load set; a cell's quantity is in our signs (see above).
+enum class Quantity {
+  Shear, Moment, Deflection, ReactionForce, ReactionMoment,
+  MomentMax, MomentMin, ShearMax, ShearMin, DeflectionMax, DeflectionMin, ReactionMax, ReactionMin,
+};
+constexpr std::size_t kQuantities = 13;
+// "shear", "moment", "deflection", "reaction", "reaction moment", "moment_max", ..., "reaction_min"
+const char* quantity_name(Quantity q);
+// "shears", "moments", "deflections", "reactions", "reaction moments", "moment_max values", ...
+const char* quantity_plural(Quantity q);
+// True for MomentMax ... ReactionMin.
+bool is_envelope(Quantity q);
 
 // Which limit of a value that jumps at the row's position was compared.
 enum class Side { Continuous, Left, Right };
