@@ -10,8 +10,8 @@ seconds="${FUZZ_SECONDS:-75}"
 CXX_FUZZ="${CXX_FUZZ:-clang++-14}"
 command -v "$CXX_FUZZ" >/dev/null || { echo "ci-fuzz: $CXX_FUZZ is missing (apt-get install clang-14 libclang-rt-14-dev)"; exit 1; }
 
-flags="-fsanitize=fuzzer-no-link,address,undefined -fno-sanitize-recover=all -fno-omit-frame-pointer -g -O1"
-cmake -S . -B build-fuzz -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_COMPILER="$CXX_FUZZ" \
+flags="-fsanitize=fuzzer-no-link,address,undefined -fno-sanitize-recover=all -fno-omit-frame-pointer"
+cmake -S . -B build-fuzz -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="-O1 -g1" -DCMAKE_CXX_COMPILER="$CXX_FUZZ" \
   -DCMAKE_CXX_FLAGS="$flags" -DCMAKE_EXE_LINKER_FLAGS="-fsanitize=address,undefined" \
   -DTRIVET_FUZZ=ON -DTRIVET_BUILD_TESTS=OFF >/dev/null
 cmake --build build-fuzz -j2 --target trivet_fuzz
