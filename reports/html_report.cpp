@@ -388,9 +388,15 @@ struct Writer {
            "<th>where</th><th>tolerance</th><th>finding</th></tr>\n";
       for (const auto& s : c.summary) {
         const std::string unit = html_escape(
-            s.quantity == against::Quantity::Shear || s.quantity == against::Quantity::ReactionForce ? c.units.force
-            : s.quantity == against::Quantity::Deflection ? c.units.length
-                                                           : c.units.force + "*" + c.units.length);
+            [&]() -> std::string {
+              using AQ = against::Quantity;
+              switch (s.quantity) {
+                case AQ::Shear: case AQ::ShearMax: case AQ::ShearMin:
+                case AQ::ReactionForce: case AQ::ReactionMax: case AQ::ReactionMin: return c.units.force;
+                case AQ::Deflection: case AQ::DeflectionMax: case AQ::DeflectionMin: return c.units.length;
+                default: return c.units.force + "*" + c.units.length;
+              }
+            }());
         const int d = decimals_for(std::max(std::abs(s.worst_difference), s.tolerance)) + 1;
         o << "<tr><td>" << html_escape(against::quantity_name(s.quantity)) << "</td><td class=\"n\">" << s.compared
           << "</td><td class=\"n\">" << s.failing << "</td><td class=\"n\">" << fixed(s.worst_difference, d) << " "
