@@ -143,6 +143,11 @@ Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& node
   }
   Equilibrium e;
   e.force_residual = fs > 0 ? std::abs(f) / fs : std::abs(f);
+  // Moments are measured against the total load times the beam's length as
+  // well, so that a beam whose loads all sit at x = 0 (moments of rounding
+  // size only) is not called out of balance by its own noise.
+  const double lever = xs.empty() ? 0.0 : xs.back();
+  ms = std::max(ms, fs * lever);
   e.moment_residual = ms > 0 ? std::abs(m) / ms : std::abs(m);
   return e;
 }
@@ -240,6 +245,36 @@ void compute_extremes(LoadSet& set) {
   }
 }
 
+// A kind whose values are all rounding noise (the moments of a beam whose
+// only load sits on a support, say) must not be scaled by that noise, or
+// agreement to the last bit reads as a difference of 100%. Each kind's scale
+// is floored from the others: forces and moments through the beam's length,
+// deflections and rotations through the moments, span length and stiffness.
+void floor_scales(double* scale, const Beam& beam) {
+  double total = 0, longest = 0, ei = 0;
+  for (const auto& sp : beam.spans) {
+    total += sp.length;
+    longest = std::max(longest, sp.length);
+    ei = std::max(ei, sp.EI);
+  }
+  if (!(total > 0) || !(ei > 0)) return;
+  double& M = scale[static_cast<int>(Kind::Moment)];
+  double& V = scale[static_cast<int>(Kind::Shear)];
+  double& R = scale[static_cast<int>(Kind::Reaction)];
+  double& D = scale[static_cast<int>(Kind::Deflection)];
+  double& T = scale[static_cast<int>(Kind::Rotation)];
+  // Every floor carries the margin: it only ever lifts a scale that is far
+  // below what the other kinds imply, never a real one (a claim's 1% stays
+  // 1% of the largest value of its own kind).
+  const double k = 1e-3;
+  const double force = std::max({V, R, M / total});
+  V = std::max(V, k * force);
+  R = std::max(R, k * force);
+  M = std::max(M, k * force * total);
+  D = std::max({D, k * T * longest, k * M * longest * longest / ei});
+  T = std::max({T, k * D / longest, k * M * longest / ei});
+}
+
 void compare_methods(LoadSet& set, double agreement) {
   std::vector<MethodResult*> ok;
   for (auto& m : set.methods)
@@ -295,6 +330,7 @@ void compare_methods(LoadSet& set, double agreement) {
       grow(Kind::Rotation, s.rotation);
     }
   }
+  floor_scales(set.scale, set.beam);
   auto rel = [&](Kind k, double d) {
     const double s = set.scale[static_cast<int>(k)];
     return s > 0 ? d / s : d;
@@ -757,6 +793,7 @@ void compare_envelopes(LoadSet& set, double agreement) {
     grow(Kind::Deflection, m->envelope->deflection);
     grow(Kind::Reaction, m->envelope->reaction);
   }
+  floor_scales(set.scale, set.beam);
   // Consensus: the median of the methods' bounds; what governs from the first.
   std::vector<double> tmp;
   auto med = [&](auto get) { tmp.clear(); for (auto* m : ok) tmp.push_back(get(*m)); return median(tmp); };

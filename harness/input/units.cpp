@@ -170,7 +170,9 @@ QuantityText parse_quantity(const std::string& text, Dimension want, const Units
         r.reason = "cannot read the power in \"" + text + "\"";
         return r;
       }
-      p = std::atoi(norm.substr(i, k - i).c_str());
+      // At most a few digits: strtol on a long digit string would overflow.
+      const std::string digits = norm.substr(i, k - i);
+      p = digits.size() > 3 ? 999 : static_cast<int>(std::strtol(digits.c_str(), nullptr, 10));
       i = k;
       if (p < -6 || p > 6) { r.reason = "power out of range in \"" + text + "\""; return r; }
     }
