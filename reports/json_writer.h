@@ -15,6 +15,18 @@
 
 namespace trivet::reports {
 
+// Length of the valid UTF-8 sequence that starts at s[i], or 0 when the
+// bytes there are not UTF-8 (the writers then put U+FFFD in their place).
+inline std::size_t utf8_sequence_length(std::string_view s, std::size_t i) {
+  const auto b = [&](std::size_t k) { return static_cast<unsigned char>(s[k]); };
+  const unsigned char c = b(i);
+  const std::size_t n = c < 0x80 ? 1 : (c >> 5) == 6 ? 2 : (c >> 4) == 14 ? 3 : (c >> 3) == 30 ? 4 : 0;
+  if (n == 0 || i + n > s.size()) return 0;
+  for (std::size_t k = 1; k < n; ++k)
+    if ((b(i + k) >> 6) != 2) return 0;
+  return n;
+}
+
 class JsonWriter {
  public:
   explicit JsonWriter(std::ostream& out) : out_(out) { buf_.reserve(1 << 16); }
@@ -100,22 +112,12 @@ class JsonWriter {
     if (stack_.empty()) buf_ += '\n';
     maybe_flush();
   }
-  // Length of a valid UTF-8 sequence starting at s[i], or 0.
-  static std::size_t utf8_length(std::string_view s, std::size_t i) {
-    const auto b = [&](std::size_t k) { return static_cast<unsigned char>(s[k]); };
-    const unsigned char c = b(i);
-    std::size_t n = c < 0x80 ? 1 : (c >> 5) == 6 ? 2 : (c >> 4) == 14 ? 3 : (c >> 3) == 30 ? 4 : 0;
-    if (n == 0 || i + n > s.size()) return 0;
-    for (std::size_t k = 1; k < n; ++k)
-      if ((b(i + k) >> 6) != 2) return 0;
-    return n;
-  }
   void string_body(std::string_view s) {
     buf_ += '"';
     for (std::size_t i = 0; i < s.size();) {
       const unsigned char c = static_cast<unsigned char>(s[i]);
       if (c >= 0x80) {
-        const std::size_t n = utf8_length(s, i);
+        const std::size_t n = utf8_sequence_length(s, i);
         if (n == 0) { buf_ += "\\ufffd"; ++i; }  // not UTF-8: the replacement character
         else { buf_.append(s.substr(i, n)); i += n; }
         continue;

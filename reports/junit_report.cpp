@@ -5,6 +5,7 @@
 #include <sstream>
 
 #include "harness/compare/against.h"
+#include "reports/json_writer.h"
 #include "reports/reports.h"
 
 namespace trivet::reports {
@@ -13,23 +14,13 @@ using namespace trivet::compare;
 
 namespace {
 
-// Length of a valid UTF-8 sequence at s[i], or 0.
-std::size_t utf8_length(const std::string& s, std::size_t i) {
-  const unsigned char c = static_cast<unsigned char>(s[i]);
-  const std::size_t n = c < 0x80 ? 1 : (c >> 5) == 6 ? 2 : (c >> 4) == 14 ? 3 : (c >> 3) == 30 ? 4 : 0;
-  if (n == 0 || i + n > s.size()) return 0;
-  for (std::size_t k = 1; k < n; ++k)
-    if ((static_cast<unsigned char>(s[i + k]) >> 6) != 2) return 0;
-  return n;
-}
-
 std::string xml(const std::string& raw) {
   // Bytes that are not UTF-8 (a file name, say) become U+FFFD, so the XML
   // stays well formed.
   std::string s;
   s.reserve(raw.size());
   for (std::size_t i = 0; i < raw.size();) {
-    const std::size_t n = utf8_length(raw, i);
+    const std::size_t n = utf8_sequence_length(raw, i);
     if (n == 0) { s += "\xEF\xBF\xBD"; ++i; }
     else { s.append(raw, i, n); i += n; }
   }

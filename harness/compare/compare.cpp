@@ -467,8 +467,6 @@ ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const 
   std::vector<const MethodResult*> ok;
   for (const auto& m : set.methods)
     if (m.status == MethodStatus::Ok) ok.push_back(&m);
-  const bool env_claim = input::is_envelope_quantity(claim.quantity);
-  (void)env_claim;
   if (claim.span) r.label = "span " + std::to_string(*claim.span + 1);
   else if (claim.node) r.label = "node " + beam.labels[*claim.node];
   else if (claim.x) r.label = "x = " + fmt(*claim.x) + " " + lu;

@@ -764,7 +764,6 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
                                            " stations, more than the limit of " + std::to_string(limits.max_stations));
 
   // loads
-  std::vector<bool> couple_at_node(n_nodes, false);
   if (auto it = root.find("loads"); it != root.end()) {
     if (!it->is_array()) {
       rd.error("/loads", "", "must be a list of loads (" + got(*it) + ")");
@@ -902,7 +901,6 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           else if (spans_ok && !(load.at > 0.0)) node = load.index;
           else if (spans_ok && !(load.at < L)) node = load.index + 1;
           if (node < n_nodes) {
-            couple_at_node[node] = true;
             if (supports_ok && beam.supports[node].hinge) {
               rd.error(ptr, where, "a couple cannot act at the hinge at node " + node_label(node) + " (the hinge carries no moment)");
               continue;
@@ -916,7 +914,6 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     }
   }
   if (out.cases.empty()) out.cases.push_back("loads");
-  (void)couple_at_node;
 
   // combinations
   if (auto it = root.find("combinations"); it != root.end()) {

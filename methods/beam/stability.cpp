@@ -41,7 +41,6 @@ std::optional<Mechanism> find_mechanism(const Beam& beam) {
   // left: when the part left of the hinge is rigid (dim 0 there), the new
   // segment starts with its left deflection fixed at zero.
   Motions m;
-  std::size_t seg_first = 0;   // first span of the current segment
   std::size_t free_from = 0;   // first span of the part that can still move
   double x0 = 0.0;             // left end of the current segment
   bool folds = false;          // the moving part crosses a hinge
@@ -86,12 +85,10 @@ std::optional<Mechanism> find_mechanism(const Beam& beam) {
       folds = false;
     }
     // New segment: v = h + b (x - x_i); h free only if carried.
-    seg_first = i;
     x0 = xs[i];
     m = Motions{};
     if (carried == 0) m.restrict(1.0, 0.0);
   }
-  (void)seg_first;
   if (m.dim > 0) {
     const std::size_t first = free_from;
     std::string what = folds ? "can fold at its hinges"
