@@ -10,18 +10,20 @@ namespace trivet::reports {
 
 using namespace trivet::compare;
 
+void Summary::add(BeamStatus status, std::size_t failed_claims) {
+  ++beams;
+  switch (status) {
+    case BeamStatus::Agree: ++agree; break;
+    case BeamStatus::Disagree: ++disagree; break;
+    case BeamStatus::Unconfirmed: ++unconfirmed; break;
+    case BeamStatus::Invalid: ++invalid; break;
+  }
+  claims_failed += failed_claims;
+}
+
 Summary summarize(const std::vector<BeamResult>& beams) {
   Summary s;
-  for (const auto& b : beams) {
-    ++s.beams;
-    switch (b.status) {
-      case BeamStatus::Agree: ++s.agree; break;
-      case BeamStatus::Disagree: ++s.disagree; break;
-      case BeamStatus::Unconfirmed: ++s.unconfirmed; break;
-      case BeamStatus::Invalid: ++s.invalid; break;
-    }
-    s.claims_failed += b.claims_failed();
-  }
+  for (const auto& b : beams) s.add(b.status, b.claims_failed());
   return s;
 }
 
@@ -423,29 +425,9 @@ void against_results(JsonWriter& w, const BeamResult& b) {
 
 }  // namespace
 
-void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const RunInfo& run) {
-  JsonWriter w(out);
-  w.begin_object();
-  w.key("tool");
-  w.begin_object(true);
-  w.member("name", "trivet");
-  w.member("version", run.version);
-  w.end_object();
-  const Summary s = summarize(beams);
-  w.key("summary");
-  w.begin_object(true);
-  w.member("beams", s.beams);
-  w.member("agree", s.agree);
-  w.member("disagree", s.disagree);
-  w.member("unconfirmed", s.unconfirmed);
-  w.member("invalid", s.invalid);
-  w.member("claims_failed", s.claims_failed);
-  w.end_object();
-  w.member("agreement", run.agreement);
-  w.member("caution", caution_text());
-  w.key("beams");
-  w.begin_array();
-  for (const auto& b : beams) {
+void json_beam_fragment(const BeamResult& b, std::string& text) {
+  {
+    JsonWriter w(text, 2);  // inside the root object and its "beams" array
     w.begin_object();
     w.member("file", b.file);
     w.member("title", b.title);
@@ -478,9 +460,45 @@ void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const R
     against_results(w, b);
     w.end_object();
   }
+}
+
+void write_json_fragments(std::ostream& out, const Summary& s, const std::vector<std::string_view>& fragments,
+                          const RunInfo& run) {
+  JsonWriter w(out);
+  w.begin_object();
+  w.key("tool");
+  w.begin_object(true);
+  w.member("name", "trivet");
+  w.member("version", run.version);
+  w.end_object();
+  w.key("summary");
+  w.begin_object(true);
+  w.member("beams", s.beams);
+  w.member("agree", s.agree);
+  w.member("disagree", s.disagree);
+  w.member("unconfirmed", s.unconfirmed);
+  w.member("invalid", s.invalid);
+  w.member("claims_failed", s.claims_failed);
+  w.end_object();
+  w.member("agreement", run.agreement);
+  w.member("caution", caution_text());
+  w.key("beams");
+  w.begin_array();
+  for (const auto& f : fragments) w.raw_element(f);
   w.end_array();
   w.end_object();
   w.flush();
+}
+
+void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const RunInfo& run) {
+  std::vector<std::string> texts(beams.size());
+  std::vector<std::string_view> fragments;
+  fragments.reserve(beams.size());
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    json_beam_fragment(beams[i], texts[i]);
+    fragments.push_back(texts[i]);
+  }
+  write_json_fragments(out, summarize(beams), fragments, run);
 }
 
 }  // namespace trivet::reports

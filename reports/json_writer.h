@@ -29,7 +29,12 @@ inline std::size_t utf8_sequence_length(std::string_view s, std::size_t i) {
 
 class JsonWriter {
  public:
-  explicit JsonWriter(std::ostream& out) : out_(out) { buf_.reserve(1 << 16); }
+  explicit JsonWriter(std::ostream& out) : out_(&out), buf_(own_) { buf_.reserve(1 << 16); }
+  // Writes into `target` instead, as if `depth` non-compact containers were
+  // already open (so a part written here and put into the outer document
+  // with raw_element() has the same bytes as one written in place).
+  // The text is appended to `target` as it is made.
+  JsonWriter(std::string& target, std::size_t depth) : buf_(target) { stack_.assign(depth, Level{false}); }
   ~JsonWriter() { flush(); }
   JsonWriter(const JsonWriter&) = delete;
   JsonWriter& operator=(const JsonWriter&) = delete;
@@ -71,13 +76,25 @@ class JsonWriter {
   void value(std::size_t n) { separate(); buf_ += std::to_string(n); }
   void value(int n) { separate(); buf_ += std::to_string(n); }
   void null() { separate(); buf_ += "null"; }
+  // An element of the current array written beforehand by a writer of the
+  // matching depth (its text starts with its own line break and indent).
+  void raw_element(std::string_view text) {
+    if (!stack_.empty()) {
+      Level& l = stack_.back();
+      if (!l.empty) buf_ += ',';
+      l.empty = false;
+    }
+    buf_ += text;
+    maybe_flush();
+  }
 
   template <class T>
   void member(std::string_view k, const T& v) { key(k); value(v); }
   void member_null(std::string_view k) { key(k); null(); }
 
   void flush() {
-    out_.write(buf_.data(), static_cast<std::streamsize>(buf_.size()));
+    if (!out_) return;  // writing into a string: it is already there
+    out_->write(buf_.data(), static_cast<std::streamsize>(buf_.size()));
     buf_.clear();
   }
 
@@ -142,11 +159,12 @@ class JsonWriter {
     buf_ += '"';
   }
   void maybe_flush() {
-    if (buf_.size() > (1 << 16)) flush();
+    if (out_ && buf_.size() > (1 << 16)) flush();
   }
 
-  std::ostream& out_;
-  std::string buf_;
+  std::ostream* out_ = nullptr;
+  std::string own_;
+  std::string& buf_;
   std::vector<Level> stack_;
   bool after_key_ = false;
 };

@@ -116,44 +116,60 @@ std::vector<Case> cases_of(const BeamResult& b, double equilibrium_bound) {
 
 }  // namespace
 
-void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double equilibrium_bound) {
-  std::vector<std::vector<Case>> all;
-  std::size_t tests = 0, failures = 0, errors = 0;
-  for (const auto& b : beams) {
-    all.push_back(cases_of(b, equilibrium_bound));
-    for (const auto& c : all.back()) {
-      ++tests;
-      if (!c.failure.empty()) (c.error ? errors : failures)++;
+JunitCounts junit_suite(const BeamResult& b, double equilibrium_bound, std::string& x) {
+  JunitCounts out;
+  const std::vector<Case> cases = cases_of(b, equilibrium_bound);
+  for (const auto& c : cases) {
+    ++out.tests;
+    if (!c.failure.empty()) (c.error ? out.errors : out.failures)++;
+  }
+  const std::string file = xml(b.file);
+  x += "  <testsuite name=\"" + file + "\" tests=\"" + std::to_string(out.tests) + "\" failures=\"" +
+       std::to_string(out.failures) + "\" errors=\"" + std::to_string(out.errors) + "\" skipped=\"0\">\n";
+  if (!b.warnings.empty()) {
+    x += "    <system-out>";
+    for (const auto& w : b.warnings) x += xml("warning: " + w) + "\n";
+    x += "</system-out>\n";
+  }
+  for (const auto& c : cases) {
+    x += "    <testcase classname=\"" + file + "\" name=\"" + xml(c.name) + "\"";
+    if (c.failure.empty()) {
+      x += "/>\n";
+      continue;
     }
+    const std::string first = c.failure.substr(0, c.failure.find('\n'));
+    const char* tag = c.error ? "error" : "failure";
+    x += ">\n      <" + std::string(tag) + " message=\"" + xml(first) + "\">" + xml(c.failure) + "</" + tag +
+         ">\n    </testcase>\n";
+  }
+  x += "  </testsuite>\n";
+  return out;
+}
+
+void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& counts,
+                        const std::vector<std::string_view>& suites) {
+  std::size_t tests = 0, failures = 0, errors = 0;
+  for (const auto& s : counts) {
+    tests += s.tests;
+    failures += s.failures;
+    errors += s.errors;
   }
   out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
   out << "<testsuites name=\"trivet\" tests=\"" << tests << "\" failures=\"" << failures << "\" errors=\"" << errors
       << "\">\n";
-  for (std::size_t i = 0; i < beams.size(); ++i) {
-    const BeamResult& b = beams[i];
-    std::size_t f = 0, e = 0;
-    for (const auto& c : all[i])
-      if (!c.failure.empty()) (c.error ? e : f)++;
-    out << "  <testsuite name=\"" << xml(b.file) << "\" tests=\"" << all[i].size() << "\" failures=\"" << f
-        << "\" errors=\"" << e << "\" skipped=\"0\">\n";
-    if (!b.warnings.empty()) {
-      out << "    <system-out>";
-      for (const auto& w : b.warnings) out << xml("warning: " + w) << "\n";
-      out << "</system-out>\n";
-    }
-    for (const auto& c : all[i]) {
-      out << "    <testcase classname=\"" << xml(b.file) << "\" name=\"" << xml(c.name) << "\"";
-      if (c.failure.empty()) {
-        out << "/>\n";
-        continue;
-      }
-      const std::string first = c.failure.substr(0, c.failure.find('\n'));
-      out << ">\n      <" << (c.error ? "error" : "failure") << " message=\"" << xml(first) << "\">"
-          << xml(c.failure) << "</" << (c.error ? "error" : "failure") << ">\n    </testcase>\n";
-    }
-    out << "  </testsuite>\n";
-  }
+  for (const auto& s : suites) out.write(s.data(), static_cast<std::streamsize>(s.size()));
   out << "</testsuites>\n";
+}
+
+void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double equilibrium_bound) {
+  std::vector<JunitCounts> counts;
+  std::vector<std::string> texts(beams.size());
+  std::vector<std::string_view> suites;
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    counts.push_back(junit_suite(beams[i], equilibrium_bound, texts[i]));
+    suites.push_back(texts[i]);
+  }
+  write_junit_suites(out, counts, suites);
 }
 
 }  // namespace trivet::reports

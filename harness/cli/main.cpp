@@ -16,6 +16,7 @@
 #include <sstream>
 #include <thread>
 
+#include <malloc.h>
 #include <unistd.h>
 
 #include <unistd.h>
@@ -24,6 +25,7 @@
 #include <nlohmann/json.hpp>
 
 #include "harness/cli/files.h"
+#include "harness/cli/text_arena.h"
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
@@ -119,18 +121,6 @@ struct CheckArgs {
 // consensus and claims recomputed from them.
 void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
                           const std::string& arithmetic, const std::string& reference, const compare::Options& opt);
-
-void apply_precision(compare::BeamResult& r, const std::string& path, const CheckArgs& a, const compare::Options& opt) {
-  if (r.status == compare::BeamStatus::Invalid) return;
-  const input::BeamFile f = input::read_beam_file(path);
-  if (!f.ok()) return;
-  std::string text;
-  if (a.arithmetic != "double" || !a.reference.empty()) {
-    std::ifstream in(path, std::ios::binary);
-    text.assign((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
-  }
-  apply_precision_text(r, text, f, a.arithmetic, a.reference, opt);
-}
 
 void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
                           const std::string& arithmetic, const std::string& reference, const compare::Options& opt) {
@@ -239,28 +229,92 @@ int run_check(const CheckArgs& a) {
     files.swap(mine);
   }
 
+  // Each beam is read, checked and written out (console text, JSON and
+  // JUnit parts) by a worker, so that report writing runs in parallel too
+  // and a checked beam's results can be let go at once. The parts are put
+  // together in file order at the end, so the output does not depend on
+  // --jobs. --html and --against need the whole results afterwards: then
+  // they are kept (and with --against, written after the comparison).
+  const bool json_to_stdout = a.json == "-";
+  reports::ConsoleOptions copt;
+  copt.color = !json_to_stdout && use_color(1);
+  copt.all_rows = a.all_rows;
+  // One beam (perhaps a very long one) is written straight from its results
+  // instead, without a copy of its report text in memory.
+  const bool single = files.size() == 1;
+  const bool keep_results = !a.html.empty() || !a.against.empty() || single;
+  const bool render_in_workers = a.against.empty() && !single;
+  struct Rendered {
+    std::string_view console;  // the beam's tables; with --json -, its errors (for stderr)
+    std::string_view json;
+    std::string_view junit;
+    reports::JunitCounts junit_counts;
+    compare::BeamStatus status = compare::BeamStatus::Invalid;
+    std::size_t claims_failed = 0;
+  };
   std::vector<compare::BeamResult> results(files.size());
+  std::vector<Rendered> rendered(files.size());
+  unsigned jobs = a.jobs ? a.jobs : std::max(1u, std::thread::hardware_concurrency());
+  jobs = static_cast<unsigned>(std::min<std::size_t>(jobs, std::max<std::size_t>(files.size(), 1)));
+  std::vector<TextArena> arenas(jobs);  // one per worker; the last for the main thread's own parts
+  // Renders one beam's parts into `arena`, using `scratch` (kept by the
+  // worker, so its memory is reused) to build each text.
+  auto render = [&](const compare::BeamResult& r, Rendered& out, TextArena& arena, std::string& scratch) {
+    out.status = r.status;
+    out.claims_failed = r.claims_failed();
+    {
+      std::ostringstream con;
+      if (!json_to_stdout) reports::write_console(con, r, copt);
+      else if (r.status == compare::BeamStatus::Invalid)
+        for (const auto& e : r.errors) con << "error: " << e.format(r.file) << "\n";
+      out.console = arena.add(con.str());
+    }
+    if (!a.json.empty()) {
+      scratch.clear();
+      reports::json_beam_fragment(r, scratch);
+      out.json = arena.add(scratch);
+    }
+    if (!a.junit.empty()) {
+      scratch.clear();
+      out.junit_counts = reports::junit_suite(r, opt.agreement, scratch);
+      out.junit = arena.add(scratch);
+    }
+  };
   std::atomic<std::size_t> next{0}, done{0};
   std::atomic<bool> internal_error{false};
   const bool progress = isatty(2) && files.size() > 5;
-  unsigned jobs = a.jobs ? a.jobs : std::max(1u, std::thread::hardware_concurrency());
-  jobs = static_cast<unsigned>(std::min<std::size_t>(jobs, std::max<std::size_t>(files.size(), 1)));
   std::mutex progress_mutex;
-  auto work = [&] {
+  auto work = [&](unsigned worker) {
+    std::string scratch;
     for (;;) {
       const std::size_t i = next++;
       if (i >= files.size()) return;
+      compare::BeamResult& r = results[i];
       try {
-        input::BeamFile f = input::read_beam_file(files[i]);
+        std::string text;
+        input::BeamFile f = input::read_beam_file(files[i], {}, &text);
         // --stations-per-span may ask for more stations than the file's limit allows.
         if (f.ok() && a.stations_per_span > 0)
           if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
-        results[i] = compare::check(f, opt);
+        r = compare::check(f, opt);
+        if (r.status != compare::BeamStatus::Invalid && f.ok()) {
+          try { apply_precision_text(r, text, f, a.arithmetic, a.reference, opt); }
+          catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
+        }
       } catch (const std::exception& e) {
         internal_error = true;
-        results[i] = compare::BeamResult{};
-        results[i].file = files[i];
-        results[i].errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
+        r = compare::BeamResult{};
+        r.file = files[i];
+        r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
+      }
+      if (render_in_workers) {
+        try { render(r, rendered[i], arenas[worker], scratch); }
+        catch (const std::exception& e) {
+          internal_error = true;
+          rendered[i].console = arenas[worker].add("trivet: internal error while writing the report of " + files[i] +
+                                                   ": " + e.what() + "\n");
+        }
+        if (!keep_results) r = compare::BeamResult{};
       }
       const std::size_t d = ++done;
       if (progress) {
@@ -270,27 +324,11 @@ int run_check(const CheckArgs& a) {
     }
   };
   std::vector<std::thread> pool;
-  for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work);
-  work();
+  for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work, t);
+  work(0);
   for (auto& t : pool) t.join();
   if (progress) std::cerr << "\r" << std::string(40, ' ') << "\r";
 
-  if (a.arithmetic != "double" || !a.reference.empty()) {
-    // Extended and exact runs cost hundreds of times a double one: in parallel too.
-    std::atomic<std::size_t> next_p{0};
-    auto pwork = [&] {
-      for (std::size_t i = next_p++; i < files.size(); i = next_p++) {
-        try { apply_precision(results[i], files[i], a, opt); }
-        catch (const std::exception& e) { results[i].warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
-      }
-    };
-    std::vector<std::thread> ppool;
-    for (unsigned t = 1; t < jobs; ++t) ppool.emplace_back(pwork);
-    pwork();
-    for (auto& t : ppool) t.join();
-  } else {
-    for (std::size_t i = 0; i < files.size(); ++i) apply_precision(results[i], files[i], a, opt);
-  }
   bool against_invalid = false;
   if (!a.against.empty()) {
     namespace ag = compare::against;
@@ -330,27 +368,43 @@ int run_check(const CheckArgs& a) {
     compare::BeamResult r;
     r.file = path;
     r.errors.push_back({"", "", why});
-    results.push_back(std::move(r));
+    if (render_in_workers) {
+      rendered.emplace_back();
+      std::string scratch;
+      render(r, rendered.back(), arenas[0], scratch);
+    }
+    if (keep_results) results.push_back(std::move(r));
   }
 
-  const bool json_to_stdout = a.json == "-";
-  reports::ConsoleOptions copt;
-  copt.color = !json_to_stdout && use_color(1);
-  copt.all_rows = a.all_rows;
+  // The console tables, then the report files: from the rendered parts, or
+  // (one beam, or --against) straight from the results.
   std::ostream& human = json_to_stdout ? std::cerr : std::cout;
-  if (!json_to_stdout)
-    for (const auto& r : results) reports::write_console(std::cout, r, copt);
-  else
-    for (const auto& r : results)
-      if (r.status == compare::BeamStatus::Invalid)
+  reports::Summary s;
+  if (render_in_workers) {
+    for (const auto& r : rendered) {
+      human << r.console;
+      s.add(r.status, r.claims_failed);
+    }
+  } else {
+    for (const auto& r : results) {
+      if (!json_to_stdout) reports::write_console(std::cout, r, copt);
+      else if (r.status == compare::BeamStatus::Invalid)
         for (const auto& e : r.errors) std::cerr << "error: " << e.format(r.file) << "\n";
-  const reports::Summary s = reports::summarize(results);
+    }
+    s = reports::summarize(results);
+  }
   reports::write_console_summary(human, s, copt);
 
   int code = kExitAgree;
   if (!a.json.empty()) {
     reports::RunInfo run{TRIVET_VERSION, opt.methods, opt.agreement};
-    const std::string err = write_report_file(a.json, [&](std::ostream& o) { reports::write_json(o, results, run); });
+    std::vector<std::string_view> parts;
+    parts.reserve(rendered.size());
+    for (const auto& r : rendered) parts.push_back(r.json);
+    const std::string err = write_report_file(a.json, [&](std::ostream& o) {
+      if (render_in_workers) reports::write_json_fragments(o, s, parts, run);
+      else reports::write_json(o, results, run);
+    });
     if (!err.empty()) {
       std::cerr << "trivet: --json: " << err << "\n";
       code = kExitInvalid;
@@ -370,7 +424,18 @@ int run_check(const CheckArgs& a) {
     }
   }
   if (!a.junit.empty()) {
-    const std::string err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_junit(o, results, opt.agreement); });
+    std::vector<reports::JunitCounts> counts;
+    std::vector<std::string_view> suites;
+    counts.reserve(rendered.size());
+    suites.reserve(rendered.size());
+    for (const auto& r : rendered) {
+      counts.push_back(r.junit_counts);
+      suites.push_back(r.junit);
+    }
+    const std::string err = write_report_file(a.junit, [&](std::ostream& o) {
+      if (render_in_workers) reports::write_junit_suites(o, counts, suites);
+      else reports::write_junit(o, results, opt.agreement);
+    });
     if (!err.empty()) {
       std::cerr << "trivet: --junit: " << err << "\n";
       code = kExitInvalid;
@@ -676,6 +741,13 @@ int main(int argc, char** argv) {
   // A reader of standard output that goes away (`trivet check lib | head -1`)
   // ends the writing quietly, not the program by a signal.
   std::signal(SIGPIPE, SIG_IGN);
+  // Keep freed memory for reuse instead of handing it back to the system
+  // at once: a batch allocates and frees much the same amounts for every
+  // beam, and fresh pages cost a fault each (the largest single cost of a
+  // library run on a virtual machine, measured with perf).
+  mallopt(M_MMAP_THRESHOLD, 32 << 20);
+  mallopt(M_TRIM_THRESHOLD, 256 << 20);
+  mallopt(M_TOP_PAD, 16 << 20);
   CLI::App app{"trivet: checks continuous-beam results by three independent classical methods\n"
                "(three-moment equation, slope-deflection, direct stiffness)."};
   app.set_version_flag("--version", std::string("trivet ") + TRIVET_VERSION);

@@ -10,6 +10,12 @@
 #include <set>
 #include <sstream>
 
+#include <cerrno>
+#include <cstdint>
+#include <fcntl.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
 #include <nlohmann/json.hpp>
 
 #include "methods/beam/stability.h"
@@ -1249,7 +1255,7 @@ std::optional<Error> station_limit_error(const BeamFile& file, int per_span, con
                    std::to_string(limits.max_stations)};
 }
 
-BeamFile read_beam_file(const std::string& path, const Limits& limits) {
+BeamFile read_beam_file(const std::string& path, const Limits& limits, std::string* text_out) {
   {
     std::error_code ec;
     const auto st = std::filesystem::status(path, ec);
@@ -1270,32 +1276,51 @@ BeamFile read_beam_file(const std::string& path, const Limits& limits) {
       return out;
     }
   }
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
+  auto failed = [&](const std::string& why) {
     BeamFile out;
     out.path = path;
-    out.errors.push_back({"", "", "cannot open the file for reading"});
+    out.errors.push_back({"", "", why});
     return out;
+  };
+  // POSIX calls, not a stream: one open, one fstat, the reads, one close.
+  const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
+  if (fd < 0) return failed("cannot open the file for reading");
+  struct stat st{};
+  if (::fstat(fd, &st) != 0) {
+    ::close(fd);
+    return failed("cannot read the file");
   }
-  in.seekg(0, std::ios::end);
-  const auto size = in.tellg();
-  if (size > 0 && static_cast<std::size_t>(size) > limits.max_file_bytes) {
-    BeamFile out;
-    out.path = path;
-    out.errors.push_back({"", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB"});
-    return out;
+  if (st.st_size > 0 && static_cast<std::uint64_t>(st.st_size) > limits.max_file_bytes) {
+    ::close(fd);
+    return failed("the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB");
   }
-  in.seekg(0, std::ios::beg);
   std::string text;
-  if (size > 0) text.resize(static_cast<std::size_t>(size));
-  in.read(text.data(), static_cast<std::streamsize>(text.size()));
-  if (!in && !in.eof()) {
-    BeamFile out;
-    out.path = path;
-    out.errors.push_back({"", "", "cannot read the file"});
-    return out;
+  // One byte more than the size, so the read that meets the end fits.
+  text.resize(st.st_size > 0 ? static_cast<std::size_t>(st.st_size) + 1 : 4096);
+  std::size_t got = 0;
+  bool read_error = false;
+  for (;;) {
+    if (got == text.size()) {
+      // The file may have grown since fstat (or report no size): read on,
+      // up to one byte past the limit so that the limit is still seen.
+      if (text.size() > limits.max_file_bytes) break;
+      text.resize(std::min<std::size_t>(std::max<std::size_t>(text.size() * 2, 4096), limits.max_file_bytes + 1));
+    }
+    const ssize_t n = ::read(fd, text.data() + got, text.size() - got);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      read_error = true;
+      break;
+    }
+    if (n == 0) break;
+    got += static_cast<std::size_t>(n);
   }
-  return parse_beam_text(text, path, limits);
+  ::close(fd);
+  if (read_error) return failed("cannot read the file");
+  text.resize(got);
+  BeamFile out = parse_beam_text(text, path, limits);
+  if (text_out) *text_out = std::move(text);
+  return out;
 }
 
 }  // namespace trivet::input

@@ -108,7 +108,8 @@ struct BeamFile {
 // The names of the factor presets ("asce7-strength", "en1990-6.10").
 const std::vector<std::string>& preset_names();
 
-BeamFile read_beam_file(const std::string& path, const Limits& limits = {});
+// `text`, when given, receives the file's bytes (as parsed).
+BeamFile read_beam_file(const std::string& path, const Limits& limits = {}, std::string* text = nullptr);
 BeamFile parse_beam_text(const std::string& text, const std::string& display,
                          const Limits& limits = {});
 
