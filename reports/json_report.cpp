@@ -425,9 +425,11 @@ void against_results(JsonWriter& w, const BeamResult& b) {
 
 }  // namespace
 
-void json_beam_fragment(const BeamResult& b, std::string& text) {
+namespace {
+
+// One element of "beams".
+void beam_object(JsonWriter& w, const BeamResult& b) {
   {
-    JsonWriter w(text, 2);  // inside the root object and its "beams" array
     w.begin_object();
     w.member("file", b.file);
     w.member("title", b.title);
@@ -462,8 +464,9 @@ void json_beam_fragment(const BeamResult& b, std::string& text) {
   }
 }
 
-void write_json_fragments(std::ostream& out, const Summary& s, const std::vector<std::string_view>& fragments,
-                          const RunInfo& run) {
+// The report around the beams; `beams(w)` writes the elements of "beams".
+template <class Beams>
+void report(std::ostream& out, const Summary& s, const RunInfo& run, const Beams& beams) {
   JsonWriter w(out);
   w.begin_object();
   w.key("tool");
@@ -484,21 +487,30 @@ void write_json_fragments(std::ostream& out, const Summary& s, const std::vector
   w.member("caution", caution_text());
   w.key("beams");
   w.begin_array();
-  for (const auto& f : fragments) w.raw_element(f);
+  beams(w);
   w.end_array();
   w.end_object();
   w.flush();
 }
 
+}  // namespace
+
+void json_beam_fragment(const BeamResult& b, std::string& text) {
+  JsonWriter w(text, 2);  // inside the root object and its "beams" array
+  beam_object(w, b);
+}
+
+void write_json_fragments(std::ostream& out, const Summary& s, const std::vector<std::string_view>& fragments,
+                          const RunInfo& run) {
+  report(out, s, run, [&](JsonWriter& w) {
+    for (const auto& f : fragments) w.raw_element(f);
+  });
+}
+
 void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const RunInfo& run) {
-  std::vector<std::string> texts(beams.size());
-  std::vector<std::string_view> fragments;
-  fragments.reserve(beams.size());
-  for (std::size_t i = 0; i < beams.size(); ++i) {
-    json_beam_fragment(beams[i], texts[i]);
-    fragments.push_back(texts[i]);
-  }
-  write_json_fragments(out, summarize(beams), fragments, run);
+  report(out, summarize(beams), run, [&](JsonWriter& w) {
+    for (const auto& b : beams) beam_object(w, b);
+  });
 }
 
 }  // namespace trivet::reports

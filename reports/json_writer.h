@@ -84,6 +84,11 @@ class JsonWriter {
       if (!l.empty) buf_ += ',';
       l.empty = false;
     }
+    if (out_ && text.size() > 4096) {  // a large part goes to the stream as it is, without a copy
+      flush();
+      out_->write(text.data(), static_cast<std::streamsize>(text.size()));
+      return;
+    }
     buf_ += text;
     maybe_flush();
   }
