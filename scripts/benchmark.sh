@@ -44,11 +44,27 @@ run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |", the median of three 
   echo "| speed-up of --jobs 2 over --jobs 1 (medians) | $(awk -v a="$one" -v b="$two" 'BEGIN { printf "%.2fx", a / b }') | |"
   run "100,000-span beam, all methods, --stations-per-span 1, JSON" "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json"
   echo
-  echo "| benchmark | time per iteration | per span (or unknown) |"
-  echo "| --- | --- | --- |"
-  awk '/^(three_moment|slope_deflection|stiffness|thomas|typical)\// {
-         per = ""; for (i = 1; i <= NF; i++) if ($i ~ /^ns_per_span=/) { per = substr($i, 13) }
-         printf "| %s | %s %s | %s |\n", $1, $2, $3, per }' "$work/bench.txt"
+  echo "| benchmark | time per iteration | per span (or unknown) | against Thomas |"
+  echo "| --- | --- | --- | --- |"
+  # "against Thomas": the method's time over a bare Thomas solve of the
+  # same number of unknowns in the same run (unknowns per span: one support
+  # moment or node rotation for three-moment and slope-deflection, a
+  # deflection and a rotation per node for stiffness).
+  awk '
+    function ns(t) { if (t ~ /us$/) return t * 1000; if (t ~ /ms$/) return t * 1e6; if (t ~ /ns$/) return t + 0; return t + 0 }
+    /^(three_moment|slope_deflection|stiffness|all_three|thomas|typical)\// {
+      per = ""; for (i = 1; i <= NF; i++) if ($i ~ /^ns_per_span=/) { per = substr($i, 13) }
+      name[++rows] = $1; time[rows] = $2 " " $3; perspan[rows] = per
+      split($1, p, "/"); if (p[1] == "thomas") thomas[p[3]] = ns(per)
+    }
+    END {
+      for (r = 1; r <= rows; r++) {
+        split(name[r], p, "/"); k = p[1] == "stiffness" ? 2 : 1; ratio = ""
+        if ((p[1] == "three_moment" || p[1] == "slope_deflection" || p[1] == "stiffness") && thomas[p[3]] > 0)
+          ratio = sprintf("%.1fx", ns(perspan[r]) / (k * thomas[p[3]]))
+        printf "| %s | %s | %s | %s |\n", name[r], time[r], perspan[r], ratio
+      }
+    }' "$work/bench.txt"
 } > "$work/table.md"
 cat "$work/table.md"
 awk -v table="$work/table.md" '

@@ -16,8 +16,6 @@
 #include <sstream>
 #include <thread>
 
-#include <malloc.h>
-#include <sys/mman.h>
 #include <unistd.h>
 
 #include <unistd.h>
@@ -26,6 +24,7 @@
 #include <nlohmann/json.hpp>
 
 #include "harness/cli/files.h"
+#include "harness/cli/memory.h"
 #include "harness/cli/text_arena.h"
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
@@ -736,42 +735,13 @@ int run_merge(const std::vector<std::string>& inputs, const std::string& out_pat
 }  // namespace
 }  // namespace trivet::cli
 
-namespace {
-
-// Memory for the run. Fresh pages cost a fault each, and on a virtual
-// machine the faults were the largest single cost of a long beam (perf: a
-// fifth of the time for 100,000 spans). So freed memory is kept for reuse
-// (a batch allocates and frees much the same for every beam), and the main
-// heap is grown once by a large step that is marked for huge pages (the
-// effect of glibc's malloc.hugetlb tunable; a hint the kernel may ignore).
-// Only address space is reserved: pages are used when touched.
-void prefer_huge_pages() {
-  mallopt(M_MMAP_THRESHOLD, 32 << 20);
-  mallopt(M_TRIM_THRESHOLD, -1);  // never shrink the heap (that would drop the marked part)
-  constexpr std::size_t kStep = std::size_t{1} << 30;
-  mallopt(M_TOP_PAD, static_cast<int>(kStep));
-  const auto before = reinterpret_cast<std::uintptr_t>(sbrk(0));
-  // (volatile: a malloc/free pair the compiler could see through would be removed)
-  void* volatile p = std::malloc(std::size_t{1} << 20);  // more than the heap has: it grows by the step
-  std::free(p);
-  const auto after = reinterpret_cast<std::uintptr_t>(sbrk(0));
-  mallopt(M_TOP_PAD, 16 << 20);
-#ifdef MADV_HUGEPAGE
-  constexpr std::uintptr_t kHuge = std::uintptr_t{2} << 20;
-  const std::uintptr_t from = (before + kHuge - 1) & ~(kHuge - 1), to = after & ~(kHuge - 1);
-  if (to > from) madvise(reinterpret_cast<void*>(from), to - from, MADV_HUGEPAGE);
-#endif
-}
-
-}  // namespace
-
 int main(int argc, char** argv) {
   using namespace trivet::cli;
   std::ios::sync_with_stdio(false);
   // A reader of standard output that goes away (`trivet check lib | head -1`)
   // ends the writing quietly, not the program by a signal.
   std::signal(SIGPIPE, SIG_IGN);
-  prefer_huge_pages();
+  trivet::cli::prefer_huge_pages();
   CLI::App app{"trivet: checks continuous-beam results by three independent classical methods\n"
                "(three-moment equation, slope-deflection, direct stiffness)."};
   app.set_version_flag("--version", std::string("trivet ") + TRIVET_VERSION);

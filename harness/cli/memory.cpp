@@ -1,0 +1,32 @@
+#include "harness/cli/memory.h"
+
+#include <cstddef>
+#include <cstdint>
+#include <cstdlib>
+
+#include <malloc.h>
+#include <sys/mman.h>
+#include <unistd.h>
+
+namespace trivet::cli {
+
+void prefer_huge_pages() {
+  mallopt(M_MMAP_THRESHOLD, 32 << 20);
+  mallopt(M_TRIM_THRESHOLD, -1);  // never shrink the heap (that would drop the marked part)
+  constexpr std::size_t kStep = std::size_t{1} << 30;
+  mallopt(M_TOP_PAD, static_cast<int>(kStep));
+  const auto before = reinterpret_cast<std::uintptr_t>(sbrk(0));
+  // More than the heap has, so it grows by the step (volatile: a malloc and
+  // free pair the compiler could see through would be removed).
+  void* volatile p = std::malloc(std::size_t{1} << 20);
+  std::free(p);
+  const auto after = reinterpret_cast<std::uintptr_t>(sbrk(0));
+  mallopt(M_TOP_PAD, 16 << 20);
+#ifdef MADV_HUGEPAGE
+  constexpr std::uintptr_t kHuge = std::uintptr_t{2} << 20;
+  const std::uintptr_t from = (before + kHuge - 1) & ~(kHuge - 1), to = after & ~(kHuge - 1);
+  if (to > from) madvise(reinterpret_cast<void*>(from), to - from, MADV_HUGEPAGE);
+#endif
+}
+
+}  // namespace trivet::cli
