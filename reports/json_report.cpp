@@ -1,5 +1,6 @@
 // The full report (the contract's JSON), streamed with JsonWriter.
 #include <cmath>
+#include <sstream>
 
 #include "harness/compare/against.h"
 #include "harness/precision/precision.h"
@@ -506,6 +507,26 @@ void write_json_fragments(std::ostream& out, const Summary& s, const std::vector
     for (const auto& f : fragments) w.raw_element(f);
   });
 }
+
+std::string json_head(const Summary& s, const RunInfo& run, bool padded) {
+  std::ostringstream o;
+  report(o, s, run, [](JsonWriter&) {});
+  std::string h = o.str();
+  const std::string empty_end = "]\n}\n";  // what an empty "beams" array and the root leave
+  h.resize(h.size() - empty_end.size());
+  if (padded) {
+    // Room for six counts of 20 digits: spaces after the summary's comma,
+    // before the line break.
+    const std::size_t at = h.find('}', h.find("\"summary\": ")) + 2;  // past "},"
+    const std::size_t digits = std::to_string(s.beams).size() + std::to_string(s.agree).size() +
+                               std::to_string(s.disagree).size() + std::to_string(s.unconfirmed).size() +
+                               std::to_string(s.invalid).size() + std::to_string(s.claims_failed).size();
+    h.insert(at, 120 - digits, ' ');
+  }
+  return h;
+}
+
+const char* json_tail(bool any_beams) { return any_beams ? "\n ]\n}\n" : "]\n}\n"; }
 
 void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const RunInfo& run) {
   report(out, summarize(beams), run, [&](JsonWriter& w) {

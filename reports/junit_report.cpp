@@ -154,12 +154,25 @@ void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& count
     failures += s.failures;
     errors += s.errors;
   }
-  out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
-  out << "<testsuites name=\"trivet\" tests=\"" << tests << "\" failures=\"" << failures << "\" errors=\"" << errors
-      << "\">\n";
+  out << junit_head({tests, failures, errors}, false);
   for (const auto& s : suites) out.write(s.data(), static_cast<std::streamsize>(s.size()));
-  out << "</testsuites>\n";
+  out << junit_tail();
 }
+
+std::string junit_head(const JunitCounts& total, bool padded) {
+  std::string h = "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<testsuites name=\"trivet\" tests=\"" +
+                  std::to_string(total.tests) + "\" failures=\"" + std::to_string(total.failures) + "\" errors=\"" +
+                  std::to_string(total.errors) + "\"";
+  if (padded) {
+    // Room for three counts of 20 digits, as spaces inside the tag.
+    const std::size_t digits = std::to_string(total.tests).size() + std::to_string(total.failures).size() +
+                               std::to_string(total.errors).size();
+    h.append(60 - digits, ' ');
+  }
+  return h + ">\n";
+}
+
+const char* junit_tail() { return "</testsuites>\n"; }
 
 void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double equilibrium_bound) {
   std::vector<JunitCounts> counts;

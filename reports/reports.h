@@ -32,6 +32,13 @@ void write_json(std::ostream& out, const std::vector<compare::BeamResult>& beams
 void json_beam_fragment(const compare::BeamResult& beam, std::string& text);
 void write_json_fragments(std::ostream& out, const Summary& s, const std::vector<std::string_view>& fragments,
                           const RunInfo& run);
+// And for a report written while the run goes on: the text before the
+// first element (ending in `"beams": [`), the elements with a comma before
+// every one but the first, then json_tail(). `padded` leaves room after
+// the summary for counts of up to 20 digits (as spaces, so that the head
+// can be written again with the final counts at the same length).
+std::string json_head(const Summary& s, const RunInfo& run, bool padded);
+const char* json_tail(bool any_beams);
 
 // JUnit XML: a testsuite per beam file, a testcase per load set and check
 // (method agreement, each method's equilibrium, each claim).
@@ -46,6 +53,10 @@ struct JunitCounts {
 JunitCounts junit_suite(const compare::BeamResult& beam, double equilibrium_bound, std::string& xml);
 void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& counts,
                         const std::vector<std::string_view>& suites);
+// The document around the suites, for a report written as the run goes
+// on; `padded` as for json_head.
+std::string junit_head(const JunitCounts& total, bool padded);
+const char* junit_tail();
 
 struct ConsoleOptions {
   bool color = false;

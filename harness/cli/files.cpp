@@ -144,13 +144,11 @@ void remove_stale_temporaries(const fs::path& dir, const std::string& name) {
 
 }  // namespace
 
-std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body) {
+std::string ReportFile::open(const std::string& path) {
+  path_ = path;
   if (path == "-") {
-    body(std::cout);
-    std::cout.flush();
-    // A reader that has gone (`trivet check ... --json - | head -1`) is not
-    // a failure of ours: stop quietly (SIGPIPE is ignored in main).
-    return std::cout || stdout_reader_gone() ? "" : "cannot write to standard output";
+    stdout_ = true;
+    return "";
   }
   const fs::path target(path);
   const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
@@ -161,31 +159,64 @@ std::string write_report_file(const std::string& path, const std::function<void(
   const int fd = mkstemp(name.data());
   if (fd < 0) return "cannot create a file in " + dir.string();
   close(fd);
-  const std::string tmp(name.data());
-  {
-    std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-    if (!out) { std::remove(tmp.c_str()); return "cannot write " + tmp; }
-    body(out);
-    out.flush();
-    if (!out) { out.close(); std::remove(tmp.c_str()); return "writing " + path + " failed (disk full?)"; }
+  tmp_ = name.data();
+  file_.open(tmp_, std::ios::binary | std::ios::trunc);
+  if (!file_) {
+    std::remove(tmp_.c_str());
+    tmp_.clear();
+    return "cannot write " + std::string(name.data());
   }
+  return "";
+}
+
+std::ostream& ReportFile::out() { return stdout_ ? std::cout : static_cast<std::ostream&>(file_); }
+
+std::string ReportFile::commit() {
+  if (stdout_) {
+    std::cout.flush();
+    // A reader that has gone (`trivet check ... --json - | head -1`) is not
+    // a failure of ours: stop quietly (SIGPIPE is ignored in main).
+    return std::cout || stdout_reader_gone() ? "" : "cannot write to standard output";
+  }
+  if (tmp_.empty()) return "the report was not opened";
+  const std::string tmp = tmp_;
+  tmp_.clear();  // from here on this object no longer owns the temporary file
+  file_.flush();
+  if (!file_) { file_.close(); std::remove(tmp.c_str()); return "writing " + path_ + " failed (disk full?)"; }
+  file_.close();
+  const fs::path target(path_);
+  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
   // On the disk before it takes the report's name (a power cut leaves the
   // old report or the new one, not an empty file).
-  if (const int sync_fd = open(tmp.c_str(), O_RDONLY); sync_fd >= 0) {
+  if (const int sync_fd = ::open(tmp.c_str(), O_RDONLY); sync_fd >= 0) {
     const bool synced = fsync(sync_fd) == 0;
     close(sync_fd);
-    if (!synced) { std::remove(tmp.c_str()); return "writing " + path + " failed (the disk did not take it)"; }
+    if (!synced) { std::remove(tmp.c_str()); return "writing " + path_ + " failed (the disk did not take it)"; }
   }
   std::error_code ec;
   fs::permissions(tmp, fs::perms::owner_read | fs::perms::owner_write | fs::perms::group_read | fs::perms::others_read,
                   fs::perm_options::replace, ec);
   fs::rename(tmp, target, ec);
   if (ec) { std::remove(tmp.c_str()); return "cannot rename the report into place: " + ec.message(); }
-  if (const int dir_fd = open(dir.c_str(), O_RDONLY | O_DIRECTORY); dir_fd >= 0) {
+  if (const int dir_fd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY); dir_fd >= 0) {
     fsync(dir_fd);  // the new name on the disk too (best effort)
     close(dir_fd);
   }
   return "";
+}
+
+ReportFile::~ReportFile() {
+  if (!tmp_.empty()) {
+    file_.close();
+    std::remove(tmp_.c_str());
+  }
+}
+
+std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body) {
+  ReportFile f;
+  if (std::string err = f.open(path); !err.empty()) return err;
+  body(f.out());
+  return f.commit();
 }
 
 }  // namespace trivet::cli

@@ -1,6 +1,7 @@
 // trivet: collecting beam files and writing report files safely.
 #pragma once
 
+#include <fstream>
 #include <functional>
 #include <ostream>
 #include <string>
@@ -29,5 +30,26 @@ std::string report_clashes_with_input(const std::string& report, const std::vect
 // output; a reader that has gone away (a broken pipe) is not an error.
 // Returns an empty string, or the reason it failed.
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body);
+
+// The same in steps, for a report written while the run goes on: open(),
+// write to out() (and, unless seekable() is false, seek back to fill in
+// what was left blank), then commit(). Destroyed without commit(), it
+// removes its temporary file and the old report stays.
+class ReportFile {
+ public:
+  ReportFile() = default;
+  ReportFile(const ReportFile&) = delete;
+  ReportFile& operator=(const ReportFile&) = delete;
+  ~ReportFile();
+  std::string open(const std::string& path);  // "" or the reason it cannot be written
+  std::ostream& out();
+  bool seekable() const { return !stdout_; }
+  std::string commit();  // "" or the reason it failed
+
+ private:
+  std::string path_, tmp_;
+  std::ofstream file_;
+  bool stdout_ = false;
+};
 
 }  // namespace trivet::cli

@@ -5,6 +5,7 @@
 //   3 an internal failure.
 #include <algorithm>
 #include <atomic>
+#include <condition_variable>
 #include <csignal>
 #include <cstdint>
 #include <fstream>
@@ -25,7 +26,6 @@
 
 #include "harness/cli/files.h"
 #include "harness/cli/memory.h"
-#include "harness/cli/text_arena.h"
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
@@ -231,9 +231,12 @@ int run_check(const CheckArgs& a) {
 
   // Each beam is read, checked and written out (console text, JSON and
   // JUnit parts) by a worker, so that report writing runs in parallel too
-  // and a checked beam's results can be let go at once. The parts are put
-  // together in file order at the end, so the output does not depend on
-  // --jobs. --html and --against need the whole results afterwards: then
+  // and a checked beam's results can be let go at once. The main thread
+  // takes the parts in file order as they are ready and writes them to the
+  // console and the report files while the workers go on, so the output
+  // does not depend on --jobs. The report files' counts come first, so
+  // their heads are written with room for the counts and written again at
+  // the end. --html and --against need the whole results afterwards: then
   // they are kept (and with --against, written after the comparison).
   const bool json_to_stdout = a.json == "-";
   reports::ConsoleOptions copt;
@@ -245,9 +248,9 @@ int run_check(const CheckArgs& a) {
   const bool keep_results = !a.html.empty() || !a.against.empty() || single;
   const bool render_in_workers = a.against.empty() && !single;
   struct Rendered {
-    std::string_view console;  // the beam's tables; with --json -, its errors (for stderr)
-    std::string_view json;
-    std::string_view junit;
+    std::string console;  // the beam's tables; with --json -, its errors (for stderr)
+    std::string json;
+    std::string junit;
     reports::JunitCounts junit_counts;
     compare::BeamStatus status = compare::BeamStatus::Invalid;
     std::size_t claims_failed = 0;
@@ -256,10 +259,25 @@ int run_check(const CheckArgs& a) {
   std::vector<Rendered> rendered(files.size());
   unsigned jobs = a.jobs ? a.jobs : std::max(1u, std::thread::hardware_concurrency());
   jobs = static_cast<unsigned>(std::min<std::size_t>(jobs, std::max<std::size_t>(files.size(), 1)));
-  std::vector<TextArena> arenas(jobs);  // one per worker; the last for the main thread's own parts
-  // Renders one beam's parts into `arena`, using `scratch` (kept by the
-  // worker, so its memory is reused) to build each text.
-  auto render = [&](const compare::BeamResult& r, Rendered& out, TextArena& arena, std::string& scratch) {
+
+  const reports::RunInfo run{TRIVET_VERSION, opt.methods, opt.agreement};
+  ReportFile json_file, junit_file;
+  std::string json_err, junit_err;
+  bool json_stream = false, junit_stream = false;  // written as the run goes on
+  if (render_in_workers) {
+    if (!a.json.empty()) {
+      json_err = json_file.open(a.json);
+      json_stream = json_err.empty() && json_file.seekable();
+      if (json_stream) json_file.out() << reports::json_head({}, run, true);
+    }
+    if (!a.junit.empty()) {
+      junit_err = junit_file.open(a.junit);
+      junit_stream = junit_err.empty() && junit_file.seekable();
+      if (junit_stream) junit_file.out() << reports::junit_head({}, true);
+    }
+  }
+
+  auto render = [&](const compare::BeamResult& r, Rendered& out) {
     out.status = r.status;
     out.claims_failed = r.claims_failed();
     {
@@ -267,25 +285,18 @@ int run_check(const CheckArgs& a) {
       if (!json_to_stdout) reports::write_console(con, r, copt);
       else if (r.status == compare::BeamStatus::Invalid)
         for (const auto& e : r.errors) con << "error: " << e.format(r.file) << "\n";
-      out.console = arena.add(con.str());
+      out.console = con.str();
     }
-    if (!a.json.empty()) {
-      scratch.clear();
-      reports::json_beam_fragment(r, scratch);
-      out.json = arena.add(scratch);
-    }
-    if (!a.junit.empty()) {
-      scratch.clear();
-      out.junit_counts = reports::junit_suite(r, opt.agreement, scratch);
-      out.junit = arena.add(scratch);
-    }
+    if (!a.json.empty()) reports::json_beam_fragment(r, out.json);
+    if (!a.junit.empty()) out.junit_counts = reports::junit_suite(r, opt.agreement, out.junit);
   };
   std::atomic<std::size_t> next{0}, done{0};
   std::atomic<bool> internal_error{false};
   const bool progress = isatty(2) && files.size() > 5;
-  std::mutex progress_mutex;
-  auto work = [&](unsigned worker) {
-    std::string scratch;
+  std::mutex progress_mutex, ready_mutex;
+  std::condition_variable ready_cv;
+  std::vector<char> ready(files.size(), 0);
+  auto work = [&] {
     for (;;) {
       const std::size_t i = next++;
       if (i >= files.size()) return;
@@ -308,13 +319,17 @@ int run_check(const CheckArgs& a) {
         r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
       }
       if (render_in_workers) {
-        try { render(r, rendered[i], arenas[worker], scratch); }
+        try { render(r, rendered[i]); }
         catch (const std::exception& e) {
           internal_error = true;
-          rendered[i].console = arenas[worker].add("trivet: internal error while writing the report of " + files[i] +
-                                                   ": " + e.what() + "\n");
+          rendered[i].console = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
         }
         if (!keep_results) r = compare::BeamResult{};
+        {
+          std::lock_guard<std::mutex> lock(ready_mutex);
+          ready[i] = 1;
+        }
+        ready_cv.notify_one();
       }
       const std::size_t d = ++done;
       if (progress) {
@@ -323,10 +338,46 @@ int run_check(const CheckArgs& a) {
       }
     }
   };
-  std::vector<std::thread> pool;
-  for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work, t);
-  work(0);
-  for (auto& t : pool) t.join();
+
+  std::ostream& human = json_to_stdout ? std::cerr : std::cout;
+  reports::Summary s;
+  reports::JunitCounts junit_total;
+  bool any_json = false;
+  // Writes one beam's parts and lets them go (those for standard output
+  // wait for the end, where the counts are known).
+  auto emit = [&](Rendered& r) {
+    human << r.console;
+    std::string().swap(r.console);
+    s.add(r.status, r.claims_failed);
+    junit_total.tests += r.junit_counts.tests;
+    junit_total.failures += r.junit_counts.failures;
+    junit_total.errors += r.junit_counts.errors;
+    if (json_stream) {
+      if (any_json) json_file.out() << ',';
+      json_file.out() << r.json;
+    }
+    if (json_stream || !json_err.empty()) std::string().swap(r.json);
+    any_json = true;
+    if (junit_stream) junit_file.out() << r.junit;
+    if (junit_stream || !junit_err.empty()) std::string().swap(r.junit);
+  };
+  if (render_in_workers) {
+    std::vector<std::thread> pool;
+    for (unsigned t = 0; t < jobs; ++t) pool.emplace_back(work);
+    for (std::size_t i = 0; i < files.size(); ++i) {
+      {
+        std::unique_lock<std::mutex> lock(ready_mutex);
+        ready_cv.wait(lock, [&] { return ready[i] != 0; });
+      }
+      emit(rendered[i]);
+    }
+    for (auto& t : pool) t.join();
+  } else {
+    std::vector<std::thread> pool;
+    for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work);
+    work();
+    for (auto& t : pool) t.join();
+  }
   if (progress) std::cerr << "\r" << std::string(40, ' ') << "\r";
 
   bool against_invalid = false;
@@ -370,22 +421,15 @@ int run_check(const CheckArgs& a) {
     r.errors.push_back({"", "", why});
     if (render_in_workers) {
       rendered.emplace_back();
-      std::string scratch;
-      render(r, rendered.back(), arenas[0], scratch);
+      render(r, rendered.back());
+      emit(rendered.back());
     }
     if (keep_results) results.push_back(std::move(r));
   }
 
-  // The console tables, then the report files: from the rendered parts, or
-  // (one beam, or --against) straight from the results.
-  std::ostream& human = json_to_stdout ? std::cerr : std::cout;
-  reports::Summary s;
-  if (render_in_workers) {
-    for (const auto& r : rendered) {
-      human << r.console;
-      s.add(r.status, r.claims_failed);
-    }
-  } else {
+  // One beam, or --against: the console tables and reports straight from
+  // the results.
+  if (!render_in_workers) {
     for (const auto& r : results) {
       if (!json_to_stdout) reports::write_console(std::cout, r, copt);
       else if (r.status == compare::BeamStatus::Invalid)
@@ -397,14 +441,24 @@ int run_check(const CheckArgs& a) {
 
   int code = kExitAgree;
   if (!a.json.empty()) {
-    reports::RunInfo run{TRIVET_VERSION, opt.methods, opt.agreement};
-    std::vector<std::string_view> parts;
-    parts.reserve(rendered.size());
-    for (const auto& r : rendered) parts.push_back(r.json);
-    const std::string err = write_report_file(a.json, [&](std::ostream& o) {
-      if (render_in_workers) reports::write_json_fragments(o, s, parts, run);
-      else reports::write_json(o, results, run);
-    });
+    std::string err;
+    if (!render_in_workers) {
+      err = write_report_file(a.json, [&](std::ostream& o) { reports::write_json(o, results, run); });
+    } else if (!json_err.empty()) {
+      err = json_err;
+    } else if (json_stream) {
+      std::ostream& o = json_file.out();
+      o << reports::json_tail(any_json);
+      o.seekp(0);
+      o << reports::json_head(s, run, true);  // the same length, now with the counts
+      err = json_file.commit();
+    } else {  // standard output: the parts were kept
+      std::vector<std::string_view> parts;
+      parts.reserve(rendered.size());
+      for (const auto& r : rendered) parts.push_back(r.json);
+      reports::write_json_fragments(json_file.out(), s, parts, run);
+      err = json_file.commit();
+    }
     if (!err.empty()) {
       std::cerr << "trivet: --json: " << err << "\n";
       code = kExitInvalid;
@@ -424,18 +478,27 @@ int run_check(const CheckArgs& a) {
     }
   }
   if (!a.junit.empty()) {
-    std::vector<reports::JunitCounts> counts;
-    std::vector<std::string_view> suites;
-    counts.reserve(rendered.size());
-    suites.reserve(rendered.size());
-    for (const auto& r : rendered) {
-      counts.push_back(r.junit_counts);
-      suites.push_back(r.junit);
+    std::string err;
+    if (!render_in_workers) {
+      err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_junit(o, results, opt.agreement); });
+    } else if (!junit_err.empty()) {
+      err = junit_err;
+    } else if (junit_stream) {
+      std::ostream& o = junit_file.out();
+      o << reports::junit_tail();
+      o.seekp(0);
+      o << reports::junit_head(junit_total, true);
+      err = junit_file.commit();
+    } else {
+      std::vector<reports::JunitCounts> counts;
+      std::vector<std::string_view> suites;
+      for (const auto& r : rendered) {
+        counts.push_back(r.junit_counts);
+        suites.push_back(r.junit);
+      }
+      reports::write_junit_suites(junit_file.out(), counts, suites);
+      err = junit_file.commit();
     }
-    const std::string err = write_report_file(a.junit, [&](std::ostream& o) {
-      if (render_in_workers) reports::write_junit_suites(o, counts, suites);
-      else reports::write_junit(o, results, opt.agreement);
-    });
     if (!err.empty()) {
       std::cerr << "trivet: --junit: " << err << "\n";
       code = kExitInvalid;
