@@ -8,6 +8,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstdint>
+#include <algorithm>
 #include <ostream>
 #include <string>
 #include <string_view>
@@ -136,6 +137,15 @@ class JsonWriter {
   }
   void string_body(std::string_view s) {
     buf_ += '"';
+    // Most strings (every key) need no escaping: one scan, one append.
+    if (std::none_of(s.begin(), s.end(), [](char ch) {
+          const unsigned char c = static_cast<unsigned char>(ch);
+          return c < 0x20 || c >= 0x80 || c == '"' || c == '\\';
+        })) {
+      buf_.append(s);
+      buf_ += '"';
+      return;
+    }
     for (std::size_t i = 0; i < s.size();) {
       const unsigned char c = static_cast<unsigned char>(s[i]);
       if (c >= 0x80) {

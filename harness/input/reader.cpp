@@ -8,6 +8,8 @@
 #include <limits>
 #include <map>
 #include <set>
+#include <unordered_set>
+#include <memory>
 #include <sstream>
 
 #include <cerrno>
@@ -344,41 +346,58 @@ struct TooDeep {
 };
 
 struct DuplicateFinder {
-  std::size_t max_depth = 64;
-  struct Frame {
-    bool object;
-    std::size_t index = 0;
-    std::set<std::string> keys;
-    std::string name;  // this container's pointer
-  };
-  std::vector<Frame> stack;
-  std::string pending_key;
-  std::vector<std::string> duplicates;  // pointers
-
-  std::string child_pointer() {
-    if (stack.empty()) return "";
-    Frame& f = stack.back();
-    if (f.object) return f.name + "/" + escape_key(pending_key);
-    return f.name + "/" + std::to_string(f.index);
-  }
-  void value_done() {
-    if (!stack.empty() && !stack.back().object) ++stack.back().index;
-  }
   // The SAX interface of nlohmann/json: a first pass over the text that
   // finds duplicate keys and excessive depth without building anything. (A
   // parser callback would do the same in one pass, but nlohmann/json's
   // callback parser rescans each array at every object end, which makes a
-  // 100,000-span file quadratic.)
+  // 100,000-span file quadratic.) It allocates nothing in the steady state:
+  // the keys of every open object share one stack, and a container's JSON
+  // Pointer is put together only when a message needs it.
+  std::size_t max_depth = 64;
+  struct Frame {
+    bool object;
+    std::size_t index = 0;       // arrays: the next element's index
+    std::string key;             // this container's key in its parent object
+    std::size_t keys_from = 0;   // objects: where its keys start in `keys`
+    std::unique_ptr<std::unordered_set<std::string>> many;  // or its keys, when it has many
+  };
+  std::vector<Frame> stack;
+  std::vector<std::string> keys;  // the keys of the open objects, innermost last
+  std::string pending_key;
+  std::vector<std::string> duplicates;  // pointers
   bool overflow = false;         // a number beyond double
   std::string overflow_pointer;
   std::string syntax;            // the parse error's message, if any
+
+  // The pointer of frame `upto` (exclusive: the container holding it).
+  std::string pointer_of(std::size_t upto) const {
+    std::string p;
+    for (std::size_t i = 1; i < upto; ++i) {
+      p += '/';
+      p += stack[i - 1].object ? escape_key(stack[i].key) : std::to_string(stack[i - 1].index);
+    }
+    return p;
+  }
+  // The pointer of the value being read now.
+  std::string child_pointer() const {
+    if (stack.empty()) return "";
+    const Frame& f = stack.back();
+    return pointer_of(stack.size()) + "/" + (f.object ? escape_key(pending_key) : std::to_string(f.index));
+  }
+  void value_done() {
+    if (!stack.empty() && !stack.back().object) ++stack.back().index;
+  }
   void open(bool object) {
-    std::string name = child_pointer();
-    if (stack.size() >= max_depth) throw TooDeep{name};
-    stack.push_back({object, 0, {}, name});
+    if (stack.size() >= max_depth) throw TooDeep{child_pointer()};
+    Frame f{object, 0, {}, keys.size(), nullptr};
+    if (!stack.empty() && stack.back().object) f.key = pending_key;
+    stack.push_back(std::move(f));
   }
   void close() {
-    if (!stack.empty()) stack.pop_back();
+    if (!stack.empty()) {
+      if (stack.back().object && !stack.back().many) keys.resize(stack.back().keys_from);
+      stack.pop_back();
+    }
     value_done();
   }
   bool null() { value_done(); return true; }
@@ -394,8 +413,26 @@ struct DuplicateFinder {
   bool end_array() { close(); return true; }
   bool key(json::string_t& k) {
     pending_key = k;
-    if (!stack.empty() && !stack.back().keys.insert(pending_key).second && duplicates.size() < 100)
-      duplicates.push_back(stack.back().name + "/" + escape_key(pending_key));
+    if (stack.empty()) return true;
+    Frame& f = stack.back();
+    bool seen;
+    if (f.many) {
+      seen = !f.many->insert(k).second;
+    } else {
+      // Objects in a beam file have a handful of keys: a linear search is
+      // cheapest. Past 32 keys (a long list of load-case factors, or a
+      // hostile file) the object's keys move to a hash set, so the pass
+      // stays linear.
+      const auto first = keys.begin() + static_cast<std::ptrdiff_t>(f.keys_from);
+      seen = std::find(first, keys.end(), k) != keys.end();
+      if (!seen) keys.push_back(k);
+      if (keys.size() - f.keys_from > 32) {
+        f.many = std::make_unique<std::unordered_set<std::string>>(keys.begin() + static_cast<std::ptrdiff_t>(f.keys_from),
+                                                                   keys.end());
+        keys.resize(f.keys_from);
+      }
+    }
+    if (seen && duplicates.size() < 100) duplicates.push_back(pointer_of(stack.size()) + "/" + escape_key(k));
     return true;
   }
   bool parse_error(std::size_t, const std::string&, const nlohmann::detail::exception& ex) {
@@ -406,34 +443,6 @@ struct DuplicateFinder {
       syntax = ex.what();
     }
     return false;
-  }
-
-  bool operator()(int, json::parse_event_t ev, json& parsed) {
-    switch (ev) {
-      case json::parse_event_t::object_start:
-      case json::parse_event_t::array_start: {
-        std::string name = child_pointer();
-        if (stack.size() >= max_depth) throw TooDeep{name};
-        stack.push_back({ev == json::parse_event_t::object_start, 0, {}, name});
-        break;
-      }
-      case json::parse_event_t::object_end:
-      case json::parse_event_t::array_end:
-        if (!stack.empty()) stack.pop_back();
-        value_done();
-        break;
-      case json::parse_event_t::key: {
-        pending_key = parsed.get<std::string>();
-        if (!stack.empty() && !stack.back().keys.insert(pending_key).second &&
-            duplicates.size() < 100)
-          duplicates.push_back(stack.back().name + "/" + escape_key(pending_key));
-        break;
-      }
-      case json::parse_event_t::value:
-        value_done();
-        break;
-    }
-    return true;
   }
 };
 
