@@ -1035,7 +1035,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
               r.status = MethodStatus::Failed;
               r.reason = "the method returned an incomplete result";
             } else {
-              r.nodes = r.solution.nodes;
+              r.nodes = std::move(r.solution.nodes);  // the solution keeps only `at`
               r.stations.reserve(set.stations.size());
               for (const auto& st : set.stations) {
                 const PointValues p = r.solution.at(st.span, st.local, st.after);

@@ -274,29 +274,33 @@ std::string node_name(const Beam& beam, std::size_t i) {
 
 }  // namespace
 
-Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measured, double warn_digits) {
+Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measured, double warn_digits,
+                                   std::size_t max_features) {
   Conditioning c;
-  std::vector<ConditionFeature> f;
+  // The ratios first, the words only for the features kept (a long beam has
+  // two ratios per pair of spans, and text for each cost more than the rest).
+  enum class Kind { Translation, Rotation, Spring, RotationalSpring };
+  struct Candidate {
+    Kind kind;
+    std::size_t index;  // the left span of the pair, or the spring's node
+    bool greater;       // the right span (or the spring) is the stiffer
+    double ratio;
+  };
+  std::vector<Candidate> f;
   const std::size_t n = beam.spans.size();
-  auto add = [&](std::string what, double ratio) {
-    if (!(ratio > 1) || !std::isfinite(ratio)) return;
-    ConditionFeature cf;
-    cf.description = std::move(what);
-    cf.ratio = ratio;
-    cf.digits = std::log10(ratio);
-    f.push_back(std::move(cf));
+  const double keep_above = std::pow(10.0, 0.5);  // features costing more than half a digit
+  auto add = [&](Kind kind, std::size_t index, double a, double b) {
+    const bool greater = b > a;
+    const double ratio = greater ? b / a : a / b;
+    if (!(ratio > keep_above) || !std::isfinite(ratio)) return;
+    f.push_back({kind, index, greater, ratio});
   };
   auto stiff = [&](std::size_t s) { const auto& sp = beam.spans[s]; return sp.EI / (sp.length * sp.length * sp.length); };
   auto rot = [&](std::size_t s) { const auto& sp = beam.spans[s]; return sp.EI / sp.length; };
   // Adjacent spans: translational (EI/L^3) and rotational (EI/L) stiffness.
   for (std::size_t s = 0; s + 1 < n; ++s) {
-    const double a = stiff(s), b = stiff(s + 1);
-    const std::string A = "span " + std::to_string(s + 1), B = "span " + std::to_string(s + 2);
-    if (b > a) add(B + " is " + ratio_text(b / a) + " times stiffer than " + A + " (EI/L^3)", b / a);
-    else add(A + " is " + ratio_text(a / b) + " times stiffer than " + B + " (EI/L^3)", a / b);
-    const double ra = rot(s), rb = rot(s + 1);
-    if (rb > ra) add(B + " is " + ratio_text(rb / ra) + " times stiffer in rotation than " + A + " (EI/L)", rb / ra);
-    else add(A + " is " + ratio_text(ra / rb) + " times stiffer in rotation than " + B + " (EI/L)", ra / rb);
+    add(Kind::Translation, s, stiff(s), stiff(s + 1));
+    add(Kind::Rotation, s, rot(s), rot(s + 1));
   }
   // Springs against the beam beside them.
   for (std::size_t i = 0; i < beam.supports.size(); ++i) {
@@ -305,22 +309,39 @@ Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measu
     double kb = 0, rb = 0;
     if (i > 0) { kb = std::max(kb, 12 * stiff(i - 1)); rb = std::max(rb, 4 * rot(i - 1)); }
     if (i < n) { kb = std::max(kb, 12 * stiff(i)); rb = std::max(rb, 4 * rot(i)); }
-    if (kb > 0 && sup.k > 0) {
-      if (sup.k > kb) add("the spring at " + node_name(beam, i) + " is " + ratio_text(sup.k / kb) +
-                              " times stiffer than the beam beside it (k against 12EI/L^3)", sup.k / kb);
-      else add("the spring at " + node_name(beam, i) + " is " + ratio_text(kb / sup.k) +
-                   " times softer than the beam beside it (k against 12EI/L^3)", kb / sup.k);
-    }
-    if (rb > 0 && sup.kr > 0) {
-      if (sup.kr > rb) add("the rotational spring at " + node_name(beam, i) + " is " + ratio_text(sup.kr / rb) +
-                               " times stiffer than the beam beside it (kr against 4EI/L)", sup.kr / rb);
-      else add("the rotational spring at " + node_name(beam, i) + " is " + ratio_text(rb / sup.kr) +
-                   " times softer than the beam beside it (kr against 4EI/L)", rb / sup.kr);
-    }
+    if (kb > 0 && sup.k > 0) add(Kind::Spring, i, kb, sup.k);
+    if (rb > 0 && sup.kr > 0) add(Kind::RotationalSpring, i, rb, sup.kr);
   }
-  std::stable_sort(f.begin(), f.end(), [](const auto& a, const auto& b) { return a.digits > b.digits; });
-  for (auto& x : f)
-    if (x.digits > 0.5) c.features.push_back(x);
+  std::stable_sort(f.begin(), f.end(), [](const auto& a, const auto& b) { return a.ratio > b.ratio; });
+  if (f.size() > max_features) f.resize(max_features);
+  auto describe = [&](const Candidate& x) {
+    const std::string r = ratio_text(x.ratio);
+    const std::size_t i = x.index;
+    switch (x.kind) {
+      case Kind::Translation:
+      case Kind::Rotation: {
+        const std::string A = "span " + std::to_string(i + 1), B = "span " + std::to_string(i + 2);
+        const std::string& stiffer = x.greater ? B : A;
+        const std::string& other = x.greater ? A : B;
+        return x.kind == Kind::Translation ? stiffer + " is " + r + " times stiffer than " + other + " (EI/L^3)"
+                                           : stiffer + " is " + r + " times stiffer in rotation than " + other + " (EI/L)";
+      }
+      case Kind::Spring:
+        return "the spring at " + node_name(beam, i) + " is " + r + (x.greater ? " times stiffer" : " times softer") +
+               " than the beam beside it (k against 12EI/L^3)";
+      case Kind::RotationalSpring:
+        return "the rotational spring at " + node_name(beam, i) + " is " + r +
+               (x.greater ? " times stiffer" : " times softer") + " than the beam beside it (kr against 4EI/L)";
+    }
+    return std::string();
+  };
+  for (const auto& x : f) {
+    ConditionFeature cf;
+    cf.description = describe(x);
+    cf.ratio = x.ratio;
+    cf.digits = std::log10(x.ratio);
+    c.features.push_back(std::move(cf));
+  }
   // Half a digit for the rounding every solution accumulates (the
   // elimination and the closed-form integrations), plus the worst feature;
   // at most all 16.

@@ -13,6 +13,8 @@
 // Plain data and functions; nothing here prints.
 #pragma once
 
+#include <cstdint>
+
 #include <cstddef>
 #include <optional>
 #include <string>
@@ -109,9 +111,11 @@ struct Conditioning {
 
 // Digits double loses on this beam, from the beam alone (and from a measured
 // loss, when given), with a warning when more than `warn_digits` are lost
-// naming the feature that causes it. A pure function.
+// naming the feature that causes it. `max_features`: keep at most that
+// many features (the largest; the warnings name only the first). A pure
+// function.
 Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measured_digits_lost = std::nullopt,
-                                   double warn_digits = 6);
+                                   double warn_digits = 6, std::size_t max_features = SIZE_MAX);
 // The estimate as a relative error bound: 10^digits * DBL_EPSILON.
 double estimated_relative_error(const Conditioning& c);
 

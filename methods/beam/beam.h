@@ -200,6 +200,8 @@ std::vector<BasicStation<R>> build_stations(const BasicBeam<R>& beam, int per_sp
   std::vector<std::vector<const BasicLoad<R>*>> by_span(beam.spans.size());
   for (const auto& l : beam.loads)
     if (!l.on_node && l.index < by_span.size()) by_span[l.index].push_back(&l);
+  // At most: the divisions, two entries per point of a span load, two at an interior node.
+  out.reserve(beam.spans.size() * (static_cast<std::size_t>(per_span < 1 ? 1 : per_span) + 2) + 2 * beam.loads.size());
   R x0{0};
   for (std::size_t s = 0; s < beam.spans.size(); ++s) {
     const R L = beam.spans[s].length;
