@@ -259,20 +259,15 @@ bool included(const R& a, const R& x, const R& L, bool after) {
   return !(R(0) < x) || (after && x < L);
 }
 
+// Shear and moment at x (already clamped to [0, L]) of span s by statics
+// from its left end: the end force, then every load to the left. Shared by
+// `evaluate` and the node moments, so both give the same bits.
 template <class R>
-BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, bool after) {
-  BasicPointValues<R> out;
-  if (s >= st.spans.size()) return out;
+void span_statics(const State<R>& st, std::size_t s, const R& x, bool after, R& V, R& M) {
   const SpanState<R>& sp = st.spans[s];
   const R& L = sp.L;
-  R x = local;
-  if (x < R(0)) x = R(0);
-  if (L < x) x = L;
-
-  // Statics from the left end: the end force, then every load to the left.
-  R V = sp.V0, M = sp.M0 + sp.V0 * x;
-  // Clamped-clamped particular solution (times EI) of the span's loads.
-  R vp(0), thp(0);
+  V = sp.V0;
+  M = sp.M0 + sp.V0 * x;
   for (std::size_t k = st.first[s]; k < st.first[s + 1]; ++k) {
     const SpanLoad<R>& l = st.loads[k];
     if (l.distributed()) {
@@ -284,26 +279,46 @@ BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, 
         V -= W;
         M -= (x - e) * W + c * c * (R(2) * l.wa + we) / R(6);
       }
+    } else if (included(l.a, x, L, after)) {
+      if (l.type == LoadType::Point) {
+        V -= l.value;
+        M -= l.value * (x - l.a);
+      } else {
+        M += l.value;
+      }
+    }
+  }
+}
+
+template <class R>
+BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, bool after) {
+  BasicPointValues<R> out;
+  if (s >= st.spans.size()) return out;
+  const SpanState<R>& sp = st.spans[s];
+  const R& L = sp.L;
+  R x = local;
+  if (x < R(0)) x = R(0);
+  if (L < x) x = L;
+
+  span_statics(st, s, x, after, out.shear, out.moment);
+  // Clamped-clamped particular solution (times EI) of the span's loads.
+  R vp(0), thp(0);
+  for (std::size_t k = st.first[s]; k < st.first[s + 1]; ++k) {
+    const SpanLoad<R>& l = st.loads[k];
+    if (l.distributed()) {
       add_distributed_particular(l, l.a, x < l.b ? x : l.b, x, L, vp, thp);
       add_distributed_particular(l, l.a < x ? x : l.a, l.b, x, L, vp, thp);
       continue;
     }
     const Green<R> G = green(x, l.a, L);
     if (l.type == LoadType::Point) {
-      if (included(l.a, x, L, after)) {
-        V -= l.value;
-        M -= l.value * (x - l.a);
-      }
       vp += l.value * G.g;
       thp += l.value * G.gx;
     } else {
-      if (included(l.a, x, L, after)) M += l.value;
       vp += l.value * G.gt;
       thp += l.value * G.gxt;
     }
   }
-  out.shear = V;
-  out.moment = M;
 
   // Hermite interpolation of the end values plus the particular solution.
   R N[4], D[4];
@@ -315,18 +330,36 @@ BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, 
   return out;
 }
 
+// The limits of the moment just inside span s at its left end (after any
+// load at local 0) and at its right end (before any load at L), as
+// `evaluate` gives them.
+template <class R>
+R moment_at_left_end(const State<R>& st, std::size_t s) {
+  R V, M;
+  span_statics(st, s, R(0), false, V, M);
+  return M;
+}
+template <class R>
+R moment_at_right_end(const State<R>& st, std::size_t s) {
+  R V, M;
+  span_statics(st, s, st.spans[s].L, false, V, M);
+  return M;
+}
+
 // --- Banded symmetric LDL^T (no pivoting) --------------------------------------
 
-constexpr std::size_t kBand = 4;  // half-bandwidth of the DOF numbering below
-constexpr std::size_t kRow = kBand + 1;
+constexpr std::size_t kMaxBand = 4;  // largest half-bandwidth of the DOF numbering below
 
+// Row i holds K(i, i - c) at a[i * (w + 1) + c], c = 0 .. w, for the
+// system's own half-bandwidth w <= kMaxBand (1 when only rotations are
+// free, 3 with free deflections, 4 at a hinge).
 template <class R>
 struct Band {
-  std::size_t n = 0;
-  std::vector<R> a;  // a[i * kRow + (i - j)] = K(i, j), j <= i <= j + kBand
-  explicit Band(std::size_t size) : n(size), a(size * kRow, R(0)) {}
-  R& at(std::size_t i, std::size_t j) {  // any order, |i - j| <= kBand
-    return i >= j ? a[i * kRow + (i - j)] : a[j * kRow + (j - i)];
+  std::size_t n = 0, w = 0;
+  std::vector<R> a;
+  Band(std::size_t size, std::size_t width) : n(size), w(width), a(size * (width + 1), R(0)) {}
+  R& at(std::size_t i, std::size_t j) {  // any order, |i - j| <= w
+    return i >= j ? a[i * (w + 1) + (i - j)] : a[j * (w + 1) + (j - i)];
   }
 };
 
@@ -336,40 +369,71 @@ bool is_finite(const R& x) {
   return isfinite(x);
 }
 
-// Factors in place (L below the diagonal, D on it). Returns the first DOF
-// with a pivot that is not clearly positive, or n when all are.
-template <class R>
-std::size_t factor(Band<R>& K) {
+// Factors in place (L below the diagonal, D on it), for half-bandwidth W
+// fixed at compile time. Returns the first DOF with a pivot that is not
+// clearly positive, or n when all are. Within the band the operations are
+// those of any wider band: the terms it leaves out are exact zeros.
+template <std::size_t W, class R>
+std::size_t factor_w(Band<R>& K) {
+  constexpr std::size_t kRow = W + 1;
   const R tol = std::numeric_limits<R>::epsilon() * R(1024);
-  std::vector<R> LD(kRow);  // L(i, k) * D(k) for the current row
+  R* const a = K.a.data();
+  R LD[kRow];  // L(i, k) * D(k) for the current row, by i - k
   for (std::size_t i = 0; i < K.n; ++i) {
-    const std::size_t lo = i >= kBand ? i - kBand : 0;
-    const R diag0 = K.a[i * kRow];
+    const std::size_t lo = i >= W ? i - W : 0;
+    R* const row = a + i * kRow;
+    const R diag0 = row[0];
     for (std::size_t j = lo; j < i; ++j) {
-      R sum = K.a[i * kRow + (i - j)];
-      for (std::size_t k = lo; k < j; ++k) sum -= LD[i - k] * K.a[j * kRow + (j - k)];
-      LD[i - j] = sum;                              // L(i, j) D(j)
-      K.a[i * kRow + (i - j)] = sum / K.a[j * kRow];  // L(i, j)
+      const R* const rj = a + j * kRow;
+      R sum = row[i - j];
+      for (std::size_t k = lo; k < j; ++k) sum -= LD[i - k] * rj[j - k];
+      LD[i - j] = sum;          // L(i, j) D(j)
+      row[i - j] = sum / rj[0];  // L(i, j)
     }
     R d = diag0;
-    for (std::size_t k = lo; k < i; ++k) d -= LD[i - k] * K.a[i * kRow + (i - k)];
+    for (std::size_t k = lo; k < i; ++k) d -= LD[i - k] * row[i - k];
     if (!is_finite(d) || !(diag0 * tol < d)) return i;
-    K.a[i * kRow] = d;
+    row[0] = d;
   }
   return K.n;
 }
 
+template <std::size_t W, class R>
+void substitute_w(const Band<R>& K, std::vector<R>& b) {
+  constexpr std::size_t kRow = W + 1;
+  const std::size_t n = K.n;
+  const R* const a = K.a.data();
+  R* const x = b.data();
+  for (std::size_t i = 0; i < n; ++i) {
+    const std::size_t lo = i >= W ? i - W : 0;
+    for (std::size_t k = lo; k < i; ++k) x[i] -= a[i * kRow + (i - k)] * x[k];
+  }
+  for (std::size_t i = 0; i < n; ++i) x[i] /= a[i * kRow];
+  for (std::size_t i = n; i-- > 0;) {
+    const std::size_t hi = std::min(n - 1, i + W);
+    for (std::size_t k = i + 1; k <= hi; ++k) x[i] -= a[k * kRow + (k - i)] * x[k];
+  }
+}
+
+template <class R>
+std::size_t factor(Band<R>& K) {
+  switch (K.w) {
+    case 0: return factor_w<0>(K);
+    case 1: return factor_w<1>(K);
+    case 2: return factor_w<2>(K);
+    case 3: return factor_w<3>(K);
+    default: return factor_w<kMaxBand>(K);
+  }
+}
+
 template <class R>
 void substitute(const Band<R>& K, std::vector<R>& b) {
-  const std::size_t n = K.n;
-  for (std::size_t i = 0; i < n; ++i) {
-    const std::size_t lo = i >= kBand ? i - kBand : 0;
-    for (std::size_t k = lo; k < i; ++k) b[i] -= K.a[i * kRow + (i - k)] * b[k];
-  }
-  for (std::size_t i = 0; i < n; ++i) b[i] /= K.a[i * kRow];
-  for (std::size_t i = n; i-- > 0;) {
-    const std::size_t hi = std::min(n - 1, i + kBand);
-    for (std::size_t k = i + 1; k <= hi; ++k) b[i] -= K.a[k * kRow + (k - i)] * b[k];
+  switch (K.w) {
+    case 0: substitute_w<0>(K, b); break;
+    case 1: substitute_w<1>(K, b); break;
+    case 2: substitute_w<2>(K, b); break;
+    case 3: substitute_w<3>(K, b); break;
+    default: substitute_w<kMaxBand>(K, b);
   }
 }
 
@@ -570,18 +634,21 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   const std::size_t n = beam.spans.size();
   auto st = std::make_shared<State<R>>();
   st->spans.resize(n);
-  for (std::size_t s = 0; s < n; ++s) {
-    st->spans[s].L = beam.spans[s].length;
-    st->spans[s].EI = beam.spans[s].EI;
-  }
 
-  // Span loads grouped by span, in local coordinates.
+  // Span loads grouped by span, in local coordinates, and each span's
+  // consistent nodal loads f_e. Until the solve, f_e is kept in the span's
+  // end displacement fields (v0, th0, v1, th1), zero without loads; the
+  // recovery below reads it there before it writes the displacements.
   auto load_span = [n](const BasicLoad<R>& l) { return l.on_node ? n : l.index; };
   const Buckets<BasicLoad<R>> loads_of(beam.loads, n, load_span);
   st->first.resize(n + 1);
   st->loads.reserve(beam.loads.size());
   for (std::size_t s = 0; s < n; ++s) {
-    st->first[s] = st->loads.size();
+    SpanState<R>& sp = st->spans[s];
+    sp.L = beam.spans[s].length;
+    sp.EI = beam.spans[s].EI;
+    const std::size_t first = st->loads.size();
+    st->first[s] = first;
     loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
       SpanLoad<R> t;
       t.type = l.type;
@@ -596,6 +663,11 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       }
       st->loads.push_back(t);
     });
+    if (first < st->loads.size()) {
+      R fe[4] = {R(0), R(0), R(0), R(0)};
+      for (std::size_t k = first; k < st->loads.size(); ++k) add_consistent(st->loads[k], sp.L, fe);
+      sp.v0 = fe[0]; sp.th0 = fe[1]; sp.v1 = fe[2]; sp.th1 = fe[3];
+    }
   }
   st->first[n] = st->loads.size();
 
@@ -605,12 +677,6 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // prescribed value goes to the right-hand side during assembly.
   constexpr std::size_t kNone = static_cast<std::size_t>(-1);
   std::vector<std::size_t> base(n + 1);
-  std::size_t ndof = 0;
-  for (std::size_t i = 0; i <= n; ++i) {
-    const BasicSupport<R>& sp = beam.supports[i];
-    base[i] = ndof;
-    ndof += (restrains_deflection(sp.type) ? 0 : 1) + (restrains_rotation(sp.type) ? 0 : 1) + (sp.hinge ? 1 : 0);
-  }
   struct Dofs { std::size_t v, thL, thR; };
   auto node_dofs = [&](std::size_t i) {
     const BasicSupport<R>& sp = beam.supports[i];
@@ -630,10 +696,19 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     g[2] = b.v == kNone ? beam.supports[s + 1].settlement : R(0);
     g[1] = g[3] = R(0);  // a restrained rotation is held at zero
   };
-  auto element_loads = [&](std::size_t s, R fe[4]) {
-    for (int r = 0; r < 4; ++r) fe[r] = R(0);
-    for (std::size_t k = st->first[s]; k < st->first[s + 1]; ++k) add_consistent(st->loads[k], st->spans[s].L, fe);
-  };
+  // The half-bandwidth: the widest spread of one element's numbered DOFs
+  // (they increase along d[0..3]).
+  std::size_t ndof = 0, width = 0;
+  for (std::size_t i = 0; i <= n; ++i) {
+    const BasicSupport<R>& sp = beam.supports[i];
+    base[i] = ndof;
+    ndof += (restrains_deflection(sp.type) ? 0 : 1) + (restrains_rotation(sp.type) ? 0 : 1) + (sp.hinge ? 1 : 0);
+    if (i == 0) continue;
+    const Dofs a = node_dofs(i - 1), b = node_dofs(i);
+    const std::size_t lo = a.v != kNone ? a.v : a.thR != kNone ? a.thR : b.v != kNone ? b.v : b.thL;
+    const std::size_t hi = b.thL != kNone ? b.thL : b.v != kNone ? b.v : a.thR != kNone ? a.thR : a.v;
+    if (lo != kNone && hi - lo > width) width = hi - lo;
+  }
 
   // Node loads onto the right-hand side. The node results start with the
   // applied actions at the nodes (down +, clockwise +); the element end
@@ -656,13 +731,14 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
 
   // Assembly, one element per span; prescribed displacements move to the
   // right-hand side, span loads enter as their consistent nodal loads.
-  Band<R> K(ndof);
+  Band<R> K(ndof, width);
   for (std::size_t s = 0; s < n; ++s) {
+    const SpanState<R>& sp = st->spans[s];
     std::size_t d[4];
     R g[4];
     element_dofs(s, d, g);
     R ke[4][4];
-    element_matrix(st->spans[s].EI, st->spans[s].L, ke);
+    element_matrix(sp.EI, sp.L, ke);
     for (int c = 0; c < 4; ++c) {
       const bool known = d[c] == kNone;
       if (known && !nonzero(g[c])) continue;
@@ -673,8 +749,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       }
     }
     if (st->first[s] < st->first[s + 1]) {
-      R fe[4];
-      element_loads(s, fe);
+      const R fe[4] = {sp.v0, sp.th0, sp.v1, sp.th1};
       for (int r = 0; r < 4; ++r)
         if (d[r] != kNone) f[d[r]] += fe[r];
     }
@@ -696,34 +771,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   for (std::size_t i = 0; i < ndof; ++i)
     if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
 
-  // End displacements and end forces F = k u - f of every element; at the
-  // nodes the reactions are the applied actions minus the sum of F.
-  for (std::size_t s = 0; s < n; ++s) {
-    SpanState<R>& sp = st->spans[s];
-    std::size_t d[4];
-    R g[4];
-    element_dofs(s, d, g);
-    R ue[4];
-    for (int r = 0; r < 4; ++r) ue[r] = d[r] == kNone ? g[r] : u[d[r]];
-    sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
-    R F[4];
-    stiffness_times(sp.EI, sp.L, ue, F);
-    if (st->first[s] < st->first[s + 1]) {
-      R fe[4];
-      element_loads(s, fe);
-      for (int r = 0; r < 4; ++r) F[r] -= fe[r];
-    }
-    sp.V0 = -F[0];
-    sp.M0 = F[1];
-    sol.nodes[s].reaction_force -= F[0];
-    sol.nodes[s].reaction_moment -= F[1];
-    sol.nodes[s + 1].reaction_force -= F[2];
-    sol.nodes[s + 1].reaction_moment -= F[3];
-  }
-
-  sol.status = MethodStatus::Ok;
+  // Node i's results, once the spans on both sides are recovered.
   R x(0);
-  for (std::size_t i = 0; i <= n; ++i) {
+  auto finish_node = [&](std::size_t i) {
     BasicNodeResult<R>& r = sol.nodes[i];
     const BasicSupport<R>& sp = beam.supports[i];
     r.x = x;
@@ -733,8 +783,8 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     r.deflection = right ? right->v0 : left->v1;
     r.rotation_left = left ? left->th1 : right->th0;
     r.rotation_right = right ? right->th0 : left->th1;
-    if (left) r.moment_left = evaluate(*st, i - 1, left->L, false).moment;
-    if (right) r.moment_right = evaluate(*st, i, R(0), false).moment;
+    if (left) r.moment_left = moment_at_right_end(*st, i - 1);
+    if (right) r.moment_right = moment_at_left_end(*st, i);
     // Where nothing restrains, the sum is the solve's residual: zero.
     if (!restrains_deflection(sp.type)) r.reaction_force = R(0);
     if (!restrains_rotation(sp.type)) r.reaction_moment = R(0);
@@ -742,9 +792,34 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       r.reaction_force = sp.k * (r.deflection - sp.settlement);
       r.reaction_moment = sp.kr * r.rotation_left;
     }
-    if (!is_finite(r.reaction_force) || !is_finite(r.reaction_moment))
-      return failed<R>("non-finite reaction at " + node_name(beam, i));
+    return is_finite(r.reaction_force) && is_finite(r.reaction_moment);
+  };
+
+  // End displacements and end forces F = k u - f of every element; at the
+  // nodes the reactions are the applied actions minus the sum of F.
+  for (std::size_t s = 0; s < n; ++s) {
+    SpanState<R>& sp = st->spans[s];
+    std::size_t d[4];
+    R g[4];
+    element_dofs(s, d, g);
+    const R fe[4] = {sp.v0, sp.th0, sp.v1, sp.th1};
+    R ue[4];
+    for (int r = 0; r < 4; ++r) ue[r] = d[r] == kNone ? g[r] : u[d[r]];
+    sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
+    R F[4];
+    stiffness_times(sp.EI, sp.L, ue, F);
+    if (st->first[s] < st->first[s + 1])
+      for (int r = 0; r < 4; ++r) F[r] -= fe[r];
+    sp.V0 = -F[0];
+    sp.M0 = F[1];
+    sol.nodes[s].reaction_force -= F[0];
+    sol.nodes[s].reaction_moment -= F[1];
+    sol.nodes[s + 1].reaction_force -= F[2];
+    sol.nodes[s + 1].reaction_moment -= F[3];
+    if (!finish_node(s)) return failed<R>("non-finite reaction at " + node_name(beam, s));
   }
+  if (!finish_node(n)) return failed<R>("non-finite reaction at " + node_name(beam, n));
+  sol.status = MethodStatus::Ok;
   if (std::string why = check_equilibrium(beam, sol); !why.empty()) return failed<R>(why);
   std::shared_ptr<const State<R>> frozen = std::move(st);
   sol.at = [frozen](std::size_t span, const R& local, bool after) {
