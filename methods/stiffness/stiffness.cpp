@@ -369,17 +369,21 @@ bool is_finite(const R& x) {
   return isfinite(x);
 }
 
-// Factors in place (L below the diagonal, D on it), for half-bandwidth W
-// fixed at compile time. Returns the first DOF with a pivot that is not
-// clearly positive, or n when all are. Within the band the operations are
-// those of any wider band: the terms it leaves out are exact zeros.
+// Factors K in place (L below the diagonal, D on it) and solves K u = b,
+// u overwriting b, for half-bandwidth W fixed at compile time. The forward
+// substitution of row i follows its factorisation in the same pass. Returns
+// the first DOF with a pivot that is not clearly positive (b is then
+// unfinished), or n when all are. Within the band the operations are those
+// of any wider band: the terms it leaves out are exact zeros.
 template <std::size_t W, class R>
-std::size_t factor_w(Band<R>& K) {
+std::size_t factor_solve_w(Band<R>& K, std::vector<R>& b) {
   constexpr std::size_t kRow = W + 1;
   const R tol = std::numeric_limits<R>::epsilon() * R(1024);
+  const std::size_t n = K.n;
   R* const a = K.a.data();
+  R* const x = b.data();
   R LD[kRow];  // L(i, k) * D(k) for the current row, by i - k
-  for (std::size_t i = 0; i < K.n; ++i) {
+  for (std::size_t i = 0; i < n; ++i) {
     const std::size_t lo = i >= W ? i - W : 0;
     R* const row = a + i * kRow;
     const R diag0 = row[0];
@@ -394,46 +398,28 @@ std::size_t factor_w(Band<R>& K) {
     for (std::size_t k = lo; k < i; ++k) d -= LD[i - k] * row[i - k];
     if (!is_finite(d) || !(diag0 * tol < d)) return i;
     row[0] = d;
-  }
-  return K.n;
-}
-
-template <std::size_t W, class R>
-void substitute_w(const Band<R>& K, std::vector<R>& b) {
-  constexpr std::size_t kRow = W + 1;
-  const std::size_t n = K.n;
-  const R* const a = K.a.data();
-  R* const x = b.data();
-  for (std::size_t i = 0; i < n; ++i) {
-    const std::size_t lo = i >= W ? i - W : 0;
-    for (std::size_t k = lo; k < i; ++k) x[i] -= a[i * kRow + (i - k)] * x[k];
+    R xi = x[i];  // forward: L y = b
+    for (std::size_t k = lo; k < i; ++k) xi -= row[i - k] * x[k];
+    x[i] = xi;
   }
   for (std::size_t i = 0; i < n; ++i) x[i] /= a[i * kRow];
-  for (std::size_t i = n; i-- > 0;) {
+  for (std::size_t i = n; i-- > 0;) {  // back: L^T u = D^-1 y
     const std::size_t hi = std::min(n - 1, i + W);
-    for (std::size_t k = i + 1; k <= hi; ++k) x[i] -= a[k * kRow + (k - i)] * x[k];
+    R xi = x[i];
+    for (std::size_t k = i + 1; k <= hi; ++k) xi -= a[k * kRow + (k - i)] * x[k];
+    x[i] = xi;
   }
+  return n;
 }
 
 template <class R>
-std::size_t factor(Band<R>& K) {
+std::size_t factor_solve(Band<R>& K, std::vector<R>& b) {
   switch (K.w) {
-    case 0: return factor_w<0>(K);
-    case 1: return factor_w<1>(K);
-    case 2: return factor_w<2>(K);
-    case 3: return factor_w<3>(K);
-    default: return factor_w<kMaxBand>(K);
-  }
-}
-
-template <class R>
-void substitute(const Band<R>& K, std::vector<R>& b) {
-  switch (K.w) {
-    case 0: substitute_w<0>(K, b); break;
-    case 1: substitute_w<1>(K, b); break;
-    case 2: substitute_w<2>(K, b); break;
-    case 3: substitute_w<3>(K, b); break;
-    default: substitute_w<kMaxBand>(K, b);
+    case 0: return factor_solve_w<0>(K, b);
+    case 1: return factor_solve_w<1>(K, b);
+    case 2: return factor_solve_w<2>(K, b);
+    case 3: return factor_solve_w<3>(K, b);
+    default: return factor_solve_w<kMaxBand>(K, b);
   }
 }
 
@@ -642,15 +628,16 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   auto load_span = [n](const BasicLoad<R>& l) { return l.on_node ? n : l.index; };
   const Buckets<BasicLoad<R>> loads_of(beam.loads, n, load_span);
   st->first.resize(n + 1);
-  st->loads.reserve(beam.loads.size());
+  st->loads.resize(beam.loads.size());  // filled in place, then cut to the span loads
+  std::size_t count = 0;
   for (std::size_t s = 0; s < n; ++s) {
     SpanState<R>& sp = st->spans[s];
     sp.L = beam.spans[s].length;
     sp.EI = beam.spans[s].EI;
-    const std::size_t first = st->loads.size();
+    const std::size_t first = count;
     st->first[s] = first;
     loads_of.each(s, load_span, [&](const BasicLoad<R>& l) {
-      SpanLoad<R> t;
+      SpanLoad<R>& t = st->loads[count++];
       t.type = l.type;
       switch (l.type) {
         case LoadType::Point: t.value = l.P; t.a = t.b = l.at; break;
@@ -661,15 +648,15 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
           t.wa = l.w1;
           t.wb = l.type == LoadType::Udl ? l.w1 : l.w2;
       }
-      st->loads.push_back(t);
     });
-    if (first < st->loads.size()) {
+    if (first < count) {
       R fe[4] = {R(0), R(0), R(0), R(0)};
-      for (std::size_t k = first; k < st->loads.size(); ++k) add_consistent(st->loads[k], sp.L, fe);
+      for (std::size_t k = first; k < count; ++k) add_consistent(st->loads[k], sp.L, fe);
       sp.v0 = fe[0]; sp.th0 = fe[1]; sp.v1 = fe[2]; sp.th1 = fe[3];
     }
   }
-  st->first[n] = st->loads.size();
+  st->first[n] = count;
+  st->loads.resize(count);
 
   // Degrees of freedom, only at the beam's nodes, and only the free ones
   // numbered: at node i v, theta (left side) and, at a hinge, theta of the
@@ -763,11 +750,10 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
   }
 
-  if (const std::size_t bad = factor(K); bad < ndof)
+  if (const std::size_t bad = factor_solve(K, f); bad < ndof)
     return failed<R>("zero or negative pivot in the stiffness solve (degree of freedom " +
                      std::to_string(bad) + "): the beam is unstable or ill-conditioned");
-  std::vector<R>& u = f;
-  substitute(K, u);
+  const std::vector<R>& u = f;
   for (std::size_t i = 0; i < ndof; ++i)
     if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
 
