@@ -717,8 +717,18 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   }
 
   // Assembly, one element per span; prescribed displacements move to the
-  // right-hand side, span loads enter as their consistent nodal loads.
+  // right-hand side, span loads enter as their consistent nodal loads. A
+  // spring at a node is added once both its elements are in (node s after
+  // element s), as if after the whole assembly.
   Band<R> K(ndof, width);
+  auto add_spring = [&](std::size_t i) {
+    const BasicSupport<R>& sp = beam.supports[i];
+    if (sp.type != SupportType::Spring) return;
+    const Dofs d = node_dofs(i);  // a spring restrains nothing outright
+    K.at(d.v, d.v) += sp.k;
+    f[d.v] += sp.k * sp.settlement;
+    K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
+  };
   for (std::size_t s = 0; s < n; ++s) {
     const SpanState<R>& sp = st->spans[s];
     std::size_t d[4];
@@ -740,15 +750,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       for (int r = 0; r < 4; ++r)
         if (d[r] != kNone) f[d[r]] += fe[r];
     }
+    add_spring(s);
   }
-  for (std::size_t i = 0; i <= n; ++i) {
-    const BasicSupport<R>& sp = beam.supports[i];
-    if (sp.type != SupportType::Spring) continue;
-    const Dofs d = node_dofs(i);  // a spring restrains nothing outright
-    K.at(d.v, d.v) += sp.k;
-    f[d.v] += sp.k * sp.settlement;
-    K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
-  }
+  add_spring(n);
 
   if (const std::size_t bad = factor_solve(K, f); bad < ndof)
     return failed<R>("zero or negative pivot in the stiffness solve (degree of freedom " +
@@ -757,9 +761,31 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   for (std::size_t i = 0; i < ndof; ++i)
     if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
 
-  // Node i's results, once the spans on both sides are recovered.
+  // End displacements and end forces F = k u - f of every element; at the
+  // nodes the reactions are the applied actions minus the sum of F. Node i
+  // is finished once the spans on both sides are recovered.
   R x(0);
-  auto finish_node = [&](std::size_t i) {
+  for (std::size_t i = 0; i <= n; ++i) {
+    if (i < n) {
+      SpanState<R>& sp = st->spans[i];
+      std::size_t d[4];
+      R g[4];
+      element_dofs(i, d, g);
+      const R fe[4] = {sp.v0, sp.th0, sp.v1, sp.th1};
+      R ue[4];
+      for (int r = 0; r < 4; ++r) ue[r] = d[r] == kNone ? g[r] : u[d[r]];
+      sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
+      R F[4];
+      stiffness_times(sp.EI, sp.L, ue, F);
+      if (st->first[i] < st->first[i + 1])
+        for (int r = 0; r < 4; ++r) F[r] -= fe[r];
+      sp.V0 = -F[0];
+      sp.M0 = F[1];
+      sol.nodes[i].reaction_force -= F[0];
+      sol.nodes[i].reaction_moment -= F[1];
+      sol.nodes[i + 1].reaction_force -= F[2];
+      sol.nodes[i + 1].reaction_moment -= F[3];
+    }
     BasicNodeResult<R>& r = sol.nodes[i];
     const BasicSupport<R>& sp = beam.supports[i];
     r.x = x;
@@ -778,33 +804,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       r.reaction_force = sp.k * (r.deflection - sp.settlement);
       r.reaction_moment = sp.kr * r.rotation_left;
     }
-    return is_finite(r.reaction_force) && is_finite(r.reaction_moment);
-  };
-
-  // End displacements and end forces F = k u - f of every element; at the
-  // nodes the reactions are the applied actions minus the sum of F.
-  for (std::size_t s = 0; s < n; ++s) {
-    SpanState<R>& sp = st->spans[s];
-    std::size_t d[4];
-    R g[4];
-    element_dofs(s, d, g);
-    const R fe[4] = {sp.v0, sp.th0, sp.v1, sp.th1};
-    R ue[4];
-    for (int r = 0; r < 4; ++r) ue[r] = d[r] == kNone ? g[r] : u[d[r]];
-    sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
-    R F[4];
-    stiffness_times(sp.EI, sp.L, ue, F);
-    if (st->first[s] < st->first[s + 1])
-      for (int r = 0; r < 4; ++r) F[r] -= fe[r];
-    sp.V0 = -F[0];
-    sp.M0 = F[1];
-    sol.nodes[s].reaction_force -= F[0];
-    sol.nodes[s].reaction_moment -= F[1];
-    sol.nodes[s + 1].reaction_force -= F[2];
-    sol.nodes[s + 1].reaction_moment -= F[3];
-    if (!finish_node(s)) return failed<R>("non-finite reaction at " + node_name(beam, s));
+    if (!is_finite(r.reaction_force) || !is_finite(r.reaction_moment))
+      return failed<R>("non-finite reaction at " + node_name(beam, i));
   }
-  if (!finish_node(n)) return failed<R>("non-finite reaction at " + node_name(beam, n));
   sol.status = MethodStatus::Ok;
   if (std::string why = check_equilibrium(beam, sol); !why.empty()) return failed<R>(why);
   std::shared_ptr<const State<R>> frozen = std::move(st);
