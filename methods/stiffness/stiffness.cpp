@@ -696,6 +696,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     const std::size_t hi = b.thL != kNone ? b.thL : b.v != kNone ? b.v : a.thR != kNone ? a.thR : a.v;
     if (lo != kNone && hi - lo > width) width = hi - lo;
   }
+  if (width > kMaxBand) return failed<R>("internal fault: DOF numbering wider than the band solve");
 
   // Node loads onto the right-hand side. The node results start with the
   // applied actions at the nodes (down +, clockwise +); the element end
