@@ -124,7 +124,7 @@ struct SpanLoad {
 // One span of the solved model (interior unsupported nodes merged away).
 template <class R>
 struct Segment {
-  R L{1}, EI{1};
+  R L{1}, invEI{1};  // length, 1/EI
   R MA{0};         // node-side moment at the left end
   R V0{0};         // shear just right of the left end
   R theta0{0};     // rotation at the left end
@@ -361,8 +361,8 @@ BasicPointValues<R> eval(const State<R>& st, std::size_t g, const R& x, bool aft
   p.moment = sg.MA + sg.V0 * x + s.M;
   const R I1 = sg.MA * x + sg.V0 * x * x / R(2) + s.I1;
   const R I2 = sg.MA * x * x / R(2) + sg.V0 * x * x * x / R(6) + s.I2;
-  p.rotation = sg.theta0 - I1 / sg.EI;
-  p.deflection = sg.v0 + sg.theta0 * x - I2 / sg.EI;
+  p.rotation = sg.theta0 - I1 * sg.invEI;
+  p.deflection = sg.v0 + sg.theta0 * x - I2 * sg.invEI;
   return p;
 }
 
@@ -469,30 +469,30 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     }
     Segment<R> sg;
     sg.L = std::move(off);
-    sg.EI = beam.spans[real_of(g)].EI;
+    sg.invEI = R(1) / beam.spans[real_of(g)].EI;
     st->seg.push_back(std::move(sg));
   }
   auto seg_of = [&](std::size_t span) { return merged ? st->span_seg[span] : span; };
   auto off_of = [&](std::size_t span) { return merged ? st->span_off[span] : R(0); };
-  auto span_load = [&](const BasicLoad<R>& l) {
+  // Written in place: a copy of the finished struct costs more than filling it.
+  auto set_span_load = [&](SpanLoad<R>& sl, const BasicLoad<R>& l) {
     const R off = off_of(l.index);
-    SpanLoad<R> sl;
     switch (l.type) {
       case LoadType::Point: sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; break;
       case LoadType::Couple: sl.kind = Kind::Couple; sl.a = off + l.at; sl.p = l.C; break;
       case LoadType::Udl:
       case LoadType::Linear: {
-        const R w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+        const R& w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
         sl.kind = Kind::Ramp;
         sl.a = off + l.from;
         sl.d = off + l.to;
         sl.p = l.w1;
         sl.w2 = w2;
-        sl.s = (w2 - l.w1) / (l.to - l.from);
+        if (l.type == LoadType::Udl) sl.s = R(0);  // (w - w)/(to - from), without the division
+        else sl.s = (w2 - l.w1) / (l.to - l.from);
         break;
       }
     }
-    return sl;
   };
 
   // ---- Loads: validation; node loads summed (stored only if there are
@@ -524,7 +524,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       continue;
     }
     last_span = l.index;
-    st->loads.push_back(span_load(l));
+    st->loads.emplace_back();
+    set_span_load(st->loads.back(), l);
     ++st->seg[l.index].last;  // a count for now
   }
   std::vector<R> nodeP, nodeC;
@@ -567,7 +568,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     st->loads.resize(total);
     auto push = [&](std::size_t g, const SpanLoad<R>& sl) { st->loads[st->seg[g].last++] = sl; };
     for (const auto& l : beam.loads)
-      if (!l.on_node) push(seg_of(l.index), span_load(l));
+      if (!l.on_node) set_span_load(st->loads[st->seg[seg_of(l.index)].last++], l);
     // Loads on unsupported interior nodes become loads of the merged span.
     if (merged)
       for (std::size_t i = 1; i < n; ++i) {
@@ -600,7 +601,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   };
   auto terms = [&](std::size_t g) {
     const Segment<R>& sg = st->seg[g];
-    const R invL = R(1) / sg.L, invEI = R(1) / sg.EI;
+    const R invL = R(1) / sg.L;
+    const R& invEI = sg.invEI;
     R FL6{0}, FR6{0};
     free_moments6(loads + sg.first, loads + sg.last, sg.L, K, FL6, FR6);
     const R q = invEI * invL;
@@ -710,12 +712,11 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     EndSums<R> es;
     R MB;      // node-side moment at the right end
     R I1, I2;  // int_0^L M and int_0^L int M
-    R invEI;
   };
   auto finish = [&](std::size_t g, const R& MA, const R& MB) {
     Segment<R>& sg = st->seg[g];
     const R& L = sg.L;
-    Done d{end_sums(loads + sg.first, loads + sg.last, L, K), MB, R(0), R(0), R(R(1) / sg.EI)};
+    Done d{end_sums(loads + sg.first, loads + sg.last, L, K), MB, R(0), R(0)};
     const R invL = R(1) / L;
     sg.MA = MA;
     if (g == 0 && left_free) sg.V0 = V0_left;
@@ -726,7 +727,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     d.I2 = MA * L2 * K.half + sg.V0 * L2 * L * K.sixth + d.es.s.I2;
     if (!((g == 0 && left_free) || (g == m - 1 && right_free))) {
       sg.v0 = settle(g);
-      sg.theta0 = (settle(g + 1) - settle(g)) * invL + d.I2 * d.invEI * invL;  // from v(L) = settlement
+      sg.theta0 = (settle(g + 1) - settle(g)) * invL + d.I2 * sg.invEI * invL;  // from v(L) = settlement
     }
     return d;
   };
@@ -739,7 +740,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   R Ml{0};                  // MB of the segment ending at the next node
   auto emit_node = [&](std::size_t i, const BasicPointValues<R>& left, const BasicPointValues<R>& right,
                        const R& Mr) {
-    BasicNodeResult<R> nr;
+    out.nodes.emplace_back();
+    BasicNodeResult<R>& nr = out.nodes.back();  // filled in place
     nr.x = x;
     if (i < n) x += beam.spans[i].length;
     if (i > 0) nr.moment_left = left.moment;
@@ -761,7 +763,6 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (!finite(nr.deflection) || !finite(nr.reaction_force) || !finite(nr.reaction_moment) ||
         !finite(nr.rotation_left) || !finite(nr.rotation_right))
       bad = true;
-    out.nodes.push_back(std::move(nr));
   };
   // The nodes from the left end of segment g up to (not including) its
   // right end; then `lv` and `Ml` for the node at its right end.
@@ -780,8 +781,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const R& L = sg.L;
     lv.shear = sg.V0 + d.es.s.V;
     lv.moment = sg.MA + sg.V0 * L + d.es.s.M;
-    lv.rotation = sg.theta0 - d.I1 * d.invEI;
-    lv.deflection = sg.v0 + sg.theta0 * L - d.I2 * d.invEI;
+    lv.rotation = sg.theta0 - d.I1 * sg.invEI;
+    lv.deflection = sg.v0 + sg.theta0 * L - d.I2 * sg.invEI;
     Ml = d.MB;
   };
 
@@ -814,8 +815,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
         if ((g == 0 || g == 1) && left_free) {  // integrate back from the support's rotation
           Segment<R>& s0 = st->seg[0];
           const R th = type_of(1) != SupportType::Fixed ? st->seg[1].theta0 : R(0);
-          s0.theta0 = th + d0.I1 * d0.invEI;
-          s0.v0 = settle(1) - s0.theta0 * s0.L + d0.I2 * d0.invEI;
+          s0.theta0 = th + d0.I1 * s0.invEI;
+          s0.v0 = settle(1) - s0.theta0 * s0.L + d0.I2 * s0.invEI;
           emit_segment(0, d0);
         }
         if (!(g == 0 && left_free)) emit_segment(g, d);
