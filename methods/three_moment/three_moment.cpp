@@ -221,10 +221,11 @@ bool flat(const R& s) {
 // Six times the first moments of the segment's free (simply supported)
 // moment diagram about its left end (6 FL) and right end (6 FR), summed
 // over the loads [l, end): the formulas of the derivation above, times 6.
+// Summed in locals (registers, for double), returned as {6 FL, 6 FR}.
 template <class R>
-void free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k, R& FL6,
-                   R& FR6) {
+std::pair<R, R> free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
   const R L2 = L * L;
+  R FL6{0}, FR6{0};
   for (; l != end; ++l) {
     switch (l->kind) {
       case Kind::Point: {
@@ -259,26 +260,7 @@ void free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, con
       }
     }
   }
-}
-
-// The same integrals as add_ramp, with the constants of `k`; `flat_load`
-// skips the terms of a zero slope.
-template <class R>
-void ramp_at(Sums<R>& s, const R& u, const R& w, const R& slope, bool flat_load, bool remove, const Consts<R>& k) {
-  const R u2 = u * u, u3 = u2 * u, u4 = u3 * u;
-  R dV = w * u, dM = w * u2 * k.half, d1 = w * u3 * k.sixth, d2 = w * u4 * k.r24;
-  if (!flat_load) {
-    const R u5 = u4 * u;
-    dV += slope * u2 * k.half;
-    dM += slope * u3 * k.sixth;
-    d1 += slope * u4 * k.r24;
-    d2 += slope * u5 * k.r120;
-  }
-  if (remove) {
-    s.V += dV; s.M += dM; s.I1 += d1; s.I2 += d2;
-  } else {
-    s.V -= dV; s.M -= dM; s.I1 -= d1; s.I2 -= d2;
-  }
+  return {std::move(FL6), std::move(FR6)};
 }
 
 // What the statics and the node values need of a segment's loads [l, end):
@@ -290,43 +272,66 @@ struct EndSums {
   Sums<R> s;
   R PL{0}, CL{0}, P0{0}, C0{0};
 };
+// The sums are kept in locals (registers, for double) while the loads are
+// read; a ramp's terms are those of add_ramp with the constants of `k`.
 template <class R>
 EndSums<R> end_sums(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
-  EndSums<R> r;
+  R V{0}, M{0}, I1{0}, I2{0}, PL{0}, CL{0}, P0{0}, C0{0};
+  // The load w + slope tau from tau = 0, integrated to u > 0; `remove` for
+  // the continuation past its end, which is taken off again.
+  auto ramp = [&](const R& u, const R& w, const R& slope, bool flat_load, bool remove) {
+    const R u2 = u * u, u3 = u2 * u, u4 = u3 * u;
+    R dV = w * u, dM = w * u2 * k.half, d1 = w * u3 * k.sixth, d2 = w * u4 * k.r24;
+    if (!flat_load) {
+      const R u5 = u4 * u;
+      dV += slope * u2 * k.half;
+      dM += slope * u3 * k.sixth;
+      d1 += slope * u4 * k.r24;
+      d2 += slope * u5 * k.r120;
+    }
+    if (remove) {
+      V += dV; M += dM; I1 += d1; I2 += d2;
+    } else {
+      V -= dV; M -= dM; I1 -= d1; I2 -= d2;
+    }
+  };
   for (; l != end; ++l) {
     switch (l->kind) {
       case Kind::Point:
         if (l->a < L) {
           const R t = L - l->a;
           const R pt2 = l->p * t * t;
-          r.s.V -= l->p;
-          r.s.M -= l->p * t;
-          r.s.I1 -= pt2 * k.half;
-          r.s.I2 -= pt2 * t * k.sixth;
+          V -= l->p;
+          M -= l->p * t;
+          I1 -= pt2 * k.half;
+          I2 -= pt2 * t * k.sixth;
         } else if (same(l->a, L)) {
-          r.PL += l->p;
+          PL += l->p;
         }
-        if (is_zero(l->a)) r.P0 += l->p;
+        if (is_zero(l->a)) P0 += l->p;
         break;
       case Kind::Couple:
         if (l->a < L) {
           const R t = L - l->a;
-          r.s.M += l->p;
-          r.s.I1 += l->p * t;
-          r.s.I2 += l->p * t * t * k.half;
+          M += l->p;
+          I1 += l->p * t;
+          I2 += l->p * t * t * k.half;
         } else if (same(l->a, L)) {
-          r.CL += l->p;
+          CL += l->p;
         }
-        if (is_zero(l->a)) r.C0 += l->p;
+        if (is_zero(l->a)) C0 += l->p;
         break;
       case Kind::Ramp: {
         const bool fl = flat(l->s);
-        if (l->a < L) ramp_at(r.s, R(L - l->a), l->p, l->s, fl, false, k);
-        if (l->d < L) ramp_at(r.s, R(L - l->d), l->w2, l->s, fl, true, k);
+        if (l->a < L) ramp(R(L - l->a), l->p, l->s, fl, false);
+        if (l->d < L) ramp(R(L - l->d), l->w2, l->s, fl, true);
         break;
       }
     }
   }
+  EndSums<R> r;
+  r.s.V = std::move(V); r.s.M = std::move(M); r.s.I1 = std::move(I1); r.s.I2 = std::move(I2);
+  r.PL = std::move(PL); r.CL = std::move(CL); r.P0 = std::move(P0); r.C0 = std::move(C0);
   return r;
 }
 
@@ -603,10 +608,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const Segment<R>& sg = st->seg[g];
     const R invL = R(1) / sg.L;
     const R& invEI = sg.invEI;
-    R FL6{0}, FR6{0};
-    free_moments6(loads + sg.first, loads + sg.last, sg.L, K, FL6, FR6);
+    const auto fm = free_moments6(loads + sg.first, loads + sg.last, sg.L, K);
     const R q = invEI * invL;
-    return Terms{FL6 * q, FR6 * q, sg.L * invEI, (settle(g + 1) - settle(g)) * invL};
+    return Terms{fm.first * q, fm.second * q, sg.L * invEI, (settle(g + 1) - settle(g)) * invL};
   };
 
   const bool left_free = type_of(0) == SupportType::Free;
