@@ -22,12 +22,18 @@
 // from 0 (F(0) = F'(0) = 0), so EI v'' = -M and v(0) = D_i, v(L) = D_j.
 #include "methods/slope_deflection/slope_deflection.h"
 
+#include <algorithm>
 #include <cmath>
+#include <cstdint>
 #include <limits>
 #include <memory>
 #include <string>
 #include <type_traits>
 #include <utility>
+
+#if defined(__linux__)
+#include <sys/mman.h>
+#endif
 
 namespace trivet::slope_deflection {
 namespace {
@@ -189,6 +195,27 @@ struct SpanMath {
   }
 };
 
+// Reciprocals of the small integers the closed forms divide by, made once
+// per solve (a product by them replaces a division in the per-load code;
+// exact in exact arithmetic, the last bit in floating point).
+template <class R>
+struct Consts {
+  R half = R(1) / R(2);
+  R sixth = R(1) / R(6);
+  R twelfth = R(1) / R(12);
+  R twentieth = R(1) / R(20);
+};
+
+// What one span load contributes to its span: the fixed-end moments and the
+// simple-beam sums at the right end (x = L, every load of the span behind).
+template <class R>
+struct LoadEffect {
+  detail::EndPair<R> fem;
+  R shear{0};   // load part of V(L+): minus the total force
+  R moment{0};  // load part of m0(L+)
+  R second{0};  // load part of F(L)
+};
+
 // Fixed-end moments (member-end convention, clockwise +) of one load.
 //   Point P at a (b = L - a): M_ij = -P a b^2 / L^2, M_ji = +P a^2 b / L^2.
 //   Couple C (clockwise) at a: the limit of a force pair, i.e. C times the
@@ -198,47 +225,74 @@ struct SpanMath {
 //     M_ij = -(1/L^2) int w x (L-x)^2 dx, M_ji = (1/L^2) int w x^2 (L-x) dx,
 //     with x = x1 + u, w = w1 + (w2 - w1) u / h, the polynomials expanded in
 //     u and m_k = int_0^h w u^k du = h^(k+1) (w1 + (k+1) w2) / ((k+1)(k+2)).
+// The simple-beam sums at L are those of SpanMath::add at x = L, after:
+//   Point: d = L - a; V -= P, m0 -= P d, F -= P d^3 / 6.
+//   Couple: d = L - a; m0 += C, F += C d^2 / 2.
+//   Distributed: the "past the load" form of SpanMath::spread with
+//     E = L - x2 >= 0 (at E = 0 it equals the "inside" form at d = h).
+// `invL2` is 1 / L^2.
 template <class R>
-detail::EndPair<R> fem_of(LoadType type, const R& L, const R& P, const R& C, const R& w1, const R& w2,
-                          const R& at, const R& from, const R& to) {
-  detail::EndPair<R> e;
-  const R L2 = L * L;
+LoadEffect<R> effect_of(LoadType type, const R& L, const R& invL2, const R& P, const R& C, const R& w1,
+                        const R& w2, const R& at, const R& from, const R& to, const Consts<R>& k) {
+  LoadEffect<R> e;
   switch (type) {
     case LoadType::Point: {
-      const R a = at;
+      const R& a = at;
       const R b = L - at;
-      e.left = -P * a * b * b / L2;
-      e.right = P * a * a * b / L2;
+      const R Pab = P * a * b;
+      e.fem.left = -Pab * b * invL2;
+      e.fem.right = Pab * a * invL2;
+      e.shear = -P;
+      e.moment = -P * b;
+      e.second = -P * b * b * b * k.sixth;
       break;
     }
     case LoadType::Couple: {
-      const R a = at;
+      const R& a = at;
       const R b = L - at;
-      e.left = C * b * (R(2) * a - b) / L2;
-      e.right = C * a * (R(2) * b - a) / L2;
+      e.fem.left = C * b * (R(2) * a - b) * invL2;
+      e.fem.right = C * a * (R(2) * b - a) * invL2;
+      e.moment = C;
+      e.second = C * b * b * k.half;
       break;
     }
     case LoadType::Udl:
     case LoadType::Linear: {
-      const R x1 = from;
+      const R& x1 = from;
       const R h = to - from;
       const R b1 = L - x1;
-      R m[4];
-      R hk = h;
-      for (int k = 0; k < 4; ++k) {
-        m[k] = hk * (w1 + R(k + 1) * w2) / R((k + 1) * (k + 2));
-        hk = hk * h;
-      }
-      const R left_int = x1 * b1 * b1 * m[0] + (b1 * b1 - R(2) * x1 * b1) * m[1] +
-                         (x1 - R(2) * b1) * m[2] + m[3];
-      const R right_int = x1 * x1 * b1 * m[0] + (R(2) * x1 * b1 - x1 * x1) * m[1] +
-                          (b1 - R(2) * x1) * m[2] - m[3];
-      e.left = -left_int / L2;
-      e.right = right_int / L2;
+      const R h2 = h * h;
+      const R h3 = h2 * h;
+      const R h4 = h3 * h;
+      // m_k (FEM, from the load's start) and c_k (simple beam, from its end).
+      const R m0 = h * (w1 + w2) * k.half;
+      const R m1 = h2 * (w1 + R(2) * w2) * k.sixth;
+      const R m2 = h3 * (w1 + R(3) * w2) * k.twelfth;
+      const R m3 = h4 * (w1 + R(4) * w2) * k.twentieth;
+      const R left_int = x1 * b1 * b1 * m0 + (b1 * b1 - R(2) * x1 * b1) * m1 + (x1 - R(2) * b1) * m2 + m3;
+      const R right_int = x1 * x1 * b1 * m0 + (R(2) * x1 * b1 - x1 * x1) * m1 + (b1 - R(2) * x1) * m2 - m3;
+      e.fem.left = -left_int * invL2;
+      e.fem.right = right_int * invL2;
+      const R& c0 = m0;  // h (p + q) / 2 either way round
+      const R c1 = h2 * (w2 + R(2) * w1) * k.sixth;
+      const R c2 = h3 * (w2 + R(3) * w1) * k.twelfth;
+      const R c3 = h4 * (w2 + R(4) * w1) * k.twentieth;
+      const R E = L - to;
+      e.shear = -c0;
+      e.moment = -(E * c0 + c1);
+      e.second = -(E * E * E * c0 + R(3) * E * E * c1 + R(3) * E * c2 + c3) * k.sixth;
       break;
     }
   }
   return e;
+}
+
+template <class R>
+detail::EndPair<R> fem_of(LoadType type, const R& L, const R& P, const R& C, const R& w1, const R& w2,
+                          const R& at, const R& from, const R& to) {
+  const Consts<R> k;
+  const R invL2 = R(1) / (L * L);
+  return effect_of<R>(type, L, invL2, P, C, w1, w2, at, from, to, k).fem;
 }
 
 template <class R>
@@ -265,11 +319,39 @@ BasicSolution<R> give_up(MethodStatus status, std::string reason) {
   return s;
 }
 
-// A value that is either unknown `idx` (>= 0) or the known `value`.
-template <class R>
-struct Var {
-  long idx = -1;
-  R value{0};
+// Large arrays: ask the kernel for transparent huge pages before the first
+// touch. A beam of a million spans needs a few hundred megabytes, and with
+// 4 KiB pages the first-touch page faults cost more than the whole solve.
+// Only the 2 MiB-aligned inside of the block is advised; a hint, never
+// required (ignored where unsupported or refused).
+constexpr std::size_t kHugeFrom = std::size_t(4) << 20;
+
+inline void advise_huge(const void* p, std::size_t bytes) {
+#if defined(__linux__) && defined(MADV_HUGEPAGE)
+  if (bytes < kHugeFrom) return;
+  constexpr std::uintptr_t kHuge = std::uintptr_t(2) << 20;
+  const std::uintptr_t b = reinterpret_cast<std::uintptr_t>(p);
+  const std::uintptr_t lo = (b + kHuge - 1) & ~(kHuge - 1);
+  const std::uintptr_t hi = (b + bytes) & ~(kHuge - 1);
+  if (hi > lo) (void)madvise(reinterpret_cast<void*>(lo), hi - lo, MADV_HUGEPAGE);
+#else
+  (void)p;
+  (void)bytes;
+#endif
+}
+
+// Reserves room for `count` elements (no element touched yet) and advises it.
+template <class T>
+void reserve_huge(std::vector<T>& v, std::size_t count) {
+  v.reserve(count);
+  advise_huge(v.data(), count * sizeof(T));
+}
+
+// The unknowns of a node (-1: none, the value is known).
+struct NodeUnknowns {
+  std::int32_t thL = -1;  // rotation left of the node (the only one without a hinge)
+  std::int32_t dv = -1;   // deflection
+  std::int32_t thR = -1;  // rotation right of the node (= thL unless a hinge)
 };
 
 // The banded system, symmetric: rows 0..n-1, half-bandwidth hb, only the
@@ -284,26 +366,81 @@ struct Banded {
     n = rows;
     hb = half;
     w = half + 1;
+    reserve_huge(a, n * w);
     a.assign(n * w, R(0));
+    reserve_huge(rhs, n);
     rhs.assign(n, R(0));
   }
   R& at(std::size_t r, std::size_t c) { return a[r * w + (c - r)]; }
+  // row += c * (unknown col, or the known value): only the stored upper
+  // part is kept; a known value moves to the right-hand side.
+  void put(long row, const R& c, long col, const R& known) {
+    if (row < 0) return;
+    if (col >= 0) {
+      if (col >= row) at(static_cast<std::size_t>(row), static_cast<std::size_t>(col)) += c;
+    } else if (!is_zero(known)) {
+      rhs[static_cast<std::size_t>(row)] -= c * known;
+    }
+  }
+  void put_const(long row, const R& c) {
+    if (row >= 0) rhs[static_cast<std::size_t>(row)] -= c;
+  }
 };
+
+template <class R>
+bool bad_pivot(const R& p, const R& original, const R& tol) {
+  return !(p > original * tol) || !(p > R(0)) || !is_finite(p);
+}
 
 // Gaussian elimination without row exchanges on the symmetric band (the
 // lower entry of row i, column k is the upper one of row k, column i):
 // O(n hb^2). The matrix is positive definite for a stable beam, so every
 // pivot must be positive; returns the first row whose pivot is not (or is
-// mostly rounding), or -1.
+// mostly rounding), or -1. The solution is left in m.rhs.
 template <class R>
-long banded_solve(Banded<R>& m, std::vector<R>& x) {
+long banded_solve(Banded<R>& m) {
   const std::size_t n = m.n, hb = m.hb;
   const R tol = pivot_tolerance<R>();
-  x.resize(n);
-  for (std::size_t k = 0; k < n; ++k) x[k] = m.at(k, k);  // original diagonal, for the tolerance
+  if (n == 0) return -1;
+  if (hb == 0) {
+    for (std::size_t k = 0; k < n; ++k) {
+      const R& p = m.a[k];
+      if (bad_pivot(p, p, tol)) return static_cast<long>(k);
+      m.rhs[k] /= p;
+    }
+    return -1;
+  }
+  if (hb == 1) {
+    // Tridiagonal (the common case: every node restrained vertically, no
+    // hinge). Row k: a[2k] diagonal, a[2k+1] the entry right of it. The
+    // original diagonal of the next row is read before it is reduced. The
+    // diagonal slot keeps 1/pivot for the back substitution.
+    R* a = m.a.data();
+    R* r = m.rhs.data();
+    R original = a[0];
+    for (std::size_t k = 0;; ++k) {
+      const R p = a[2 * k];
+      if (bad_pivot(p, original, tol)) return static_cast<long>(k);
+      const R ip = R(1) / p;
+      a[2 * k] = ip;
+      if (k + 1 == n) break;
+      const R& u = a[2 * k + 1];
+      original = a[2 * k + 2];
+      if (!is_zero(u)) {
+        const R f = u * ip;
+        a[2 * k + 2] -= f * u;
+        r[k + 1] -= f * r[k];
+      }
+    }
+    r[n - 1] *= a[2 * (n - 1)];
+    for (std::size_t k = n - 1; k-- > 0;) r[k] = (r[k] - a[2 * k + 1] * r[k + 1]) * a[2 * k];
+    return -1;
+  }
+  std::vector<R> diag(n);
+  for (std::size_t k = 0; k < n; ++k) diag[k] = m.at(k, k);  // original diagonal, for the tolerance
   for (std::size_t k = 0; k < n; ++k) {
     const R p = m.at(k, k);
-    if (!(p > x[k] * tol) || !(p > R(0)) || !is_finite(p)) return static_cast<long>(k);
+    if (bad_pivot(p, diag[k], tol)) return static_cast<long>(k);
     const std::size_t end = std::min(n, k + hb + 1);
     for (std::size_t i = k + 1; i < end; ++i) {
       const R& lik = m.at(k, i);
@@ -316,10 +453,50 @@ long banded_solve(Banded<R>& m, std::vector<R>& x) {
   for (std::size_t kk = n; kk-- > 0;) {
     R s = m.rhs[kk];
     const std::size_t end = std::min(n, kk + hb + 1);
-    for (std::size_t j = kk + 1; j < end; ++j) s -= m.at(kk, j) * x[j];
-    x[kk] = s / m.at(kk, kk);
+    for (std::size_t j = kk + 1; j < end; ++j) s -= m.at(kk, j) * m.rhs[j];
+    m.rhs[kk] = s / m.at(kk, kk);
   }
   return -1;
+}
+
+// Checks one span load and reduces it to a term and its effect on the span.
+// Returns an empty string, or why the method does not apply.
+template <class R>
+std::string take_load(const BasicLoad<R>& l, const R& L, const R& invL2, const Consts<R>& k, Term<R>& t,
+                      LoadEffect<R>& e) {
+  const std::size_t s = l.index;
+  auto where = [s]() { return " on span " + std::to_string(s + 1); };
+  switch (l.type) {
+    case LoadType::Point:
+      // The reader moves a point force at a span end onto the node.
+      if (!(l.at > R(0)) || !(l.at < L)) return "point load not strictly inside its span" + where();
+      t.kind = TermKind::Point; t.a = l.at; t.p = l.P;
+      break;
+    case LoadType::Couple:
+      if (l.at < R(0) || l.at > L) return "couple outside its span" + where();
+      t.kind = TermKind::Couple; t.a = l.at; t.p = l.C;
+      break;
+    case LoadType::Udl:
+    case LoadType::Linear:
+      if (l.from < R(0) || l.to > L || l.to < l.from) return "distributed load outside its span" + where();
+      if (l.type == LoadType::Udl && !is_zero(R(l.w1 - l.w2))) return "uniform load with unequal end intensities" + where();
+      t.kind = TermKind::Spread; t.a = l.from; t.b = l.to; t.p = l.w1; t.q = l.w2;
+      break;
+  }
+  e = effect_of<R>(l.type, L, invL2, l.P, l.C, l.w1, l.w2, l.at, l.from, l.to, k);
+  return std::string();
+}
+
+// Before the solve the span slots hold other sums of the span's loads:
+// MA the fixed-end moment FEM_ij, DA FEM_ji, RA0 the load part of m0(L+),
+// MB the load part of V(L+), FL the load part of F(L).
+template <class R>
+void accumulate(SpanState<R>& ss, const LoadEffect<R>& e) {
+  ss.MA += e.fem.left;
+  ss.DA += e.fem.right;
+  ss.RA0 += e.moment;
+  ss.MB += e.shear;
+  ss.FL += e.second;
 }
 
 }  // namespace
@@ -342,72 +519,113 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       return give_up<R>(MS::Failed, "invalid beam: EI of span " + std::to_string(s + 1) + " is not positive");
   }
 
-  // Node loads.
-  std::vector<R> nodeP(N, R(0)), nodeC(N, R(0));
-  // The solved state is filled as we go. Before the solve, three of its
-  // slots hold other values of the span: MA the fixed-end moment FEM_ij,
-  // DA the fixed-end moment FEM_ji, MB the simple-beam right reaction RB0.
+  const Consts<R> K;
+  // Node loads, only when there are any (empty: none).
+  std::vector<R> nodeP, nodeC;
+  // The solved state is filled as we go (see `accumulate` for what its
+  // slots hold before the solve).
   auto state = std::make_shared<SolvedState<R>>();
-  state->spans.resize(n);
   auto& spans = state->spans;
-  // Span loads: count (in `first`), then fill (counting sort, cursor in
-  // `last`), summing the fixed-end moments.
-  for (const auto& l : beam.loads) {
-    if (l.on_node) {
-      if (l.index >= N) return give_up<R>(MS::NotApplicable, "load on a node outside the beam");
-      if (l.type == LoadType::Point) nodeP[l.index] += l.P;
-      else if (l.type == LoadType::Couple) nodeC[l.index] += l.C;
-      else return give_up<R>(MS::NotApplicable, std::string(load_type_name(l.type)) + " load on node " + name(l.index));
-    } else {
-      if (l.index >= n) return give_up<R>(MS::NotApplicable, "load on a span outside the beam");
-      ++spans[l.index].first;
+  reserve_huge(spans, n);
+  spans.resize(n);
+  for (std::size_t s = 0; s < n; ++s) {
+    spans[s].L = beam.spans[s].length;
+    spans[s].EI = beam.spans[s].EI;
+    spans[s].MB = R(0);
+    spans[s].FL = R(0);
+  }
+  std::vector<Term<R>>& terms = state->terms;
+  auto node_load = [&](const BasicLoad<R>& l) {
+    if (nodeP.empty()) {
+      nodeP.assign(N, R(0));
+      nodeC.assign(N, R(0));
+    }
+    if (l.type == LoadType::Point) nodeP[l.index] += l.P;
+    else if (l.type == LoadType::Couple) nodeC[l.index] += l.C;
+  };
+
+  // Span loads. Fast path: the span loads come in span order and are all
+  // acceptable; one pass builds the terms and sums their effects. Otherwise
+  // (or on the first fault) the general path: count, then fill by a
+  // counting sort, and report the first fault in the order of the loads.
+  bool fast = true;
+  {
+    reserve_huge(terms, beam.loads.size());
+    std::size_t cur = 0;  // the span being filled
+    spans[0].first = 0;
+    R invL2 = R(1) / (spans[0].L * spans[0].L);
+    for (const auto& l : beam.loads) {
+      if (l.on_node) {
+        if (l.index >= N || (l.type != LoadType::Point && l.type != LoadType::Couple)) { fast = false; break; }
+        node_load(l);
+        continue;
+      }
+      const std::size_t s = l.index;
+      if (s >= n || s < cur) { fast = false; break; }
+      if (s != cur) {
+        while (cur < s) {
+          spans[cur].last = terms.size();
+          ++cur;
+          spans[cur].first = terms.size();
+        }
+        invL2 = R(1) / (spans[s].L * spans[s].L);
+      }
+      Term<R> t;
+      LoadEffect<R> e;
+      if (!take_load(l, spans[s].L, invL2, K, t, e).empty()) { fast = false; break; }
+      accumulate(spans[s], e);
+      terms.push_back(t);
+    }
+    if (fast) {
+      spans[cur].last = terms.size();
+      for (std::size_t s = cur + 1; s < n; ++s) spans[s].first = spans[s].last = terms.size();
     }
   }
-  std::size_t total = 0;
-  for (std::size_t s = 0; s < n; ++s) {
-    const std::size_t c = spans[s].first;
-    spans[s].first = spans[s].last = total;
-    total += c;
-  }
-  std::vector<Term<R>> terms(total);
-  {
+  if (!fast) {
+    for (std::size_t s = 0; s < n; ++s) {
+      SpanState<R>& ss = spans[s];
+      ss.MA = ss.DA = ss.RA0 = ss.MB = ss.FL = R(0);
+      ss.first = ss.last = 0;
+    }
+    nodeP.clear();
+    nodeC.clear();
+    for (const auto& l : beam.loads) {
+      if (l.on_node) {
+        if (l.index >= N) return give_up<R>(MS::NotApplicable, "load on a node outside the beam");
+        if (l.type != LoadType::Point && l.type != LoadType::Couple)
+          return give_up<R>(MS::NotApplicable, std::string(load_type_name(l.type)) + " load on node " + name(l.index));
+        node_load(l);
+      } else {
+        if (l.index >= n) return give_up<R>(MS::NotApplicable, "load on a span outside the beam");
+        ++spans[l.index].first;
+      }
+    }
+    std::size_t total = 0;
+    for (std::size_t s = 0; s < n; ++s) {
+      const std::size_t c = spans[s].first;
+      spans[s].first = spans[s].last = total;
+      total += c;
+    }
+    terms.assign(total, Term<R>{});
     for (const auto& l : beam.loads) {
       if (l.on_node) continue;
-      const std::size_t s = l.index;
-      const R& L = beam.spans[s].length;
-      auto where = [s]() { return " on span " + std::to_string(s + 1); };
+      SpanState<R>& ss = spans[l.index];
+      const R invL2 = R(1) / (ss.L * ss.L);
       Term<R> t;
-      switch (l.type) {
-        case LoadType::Point:
-          // The reader moves a point force at a span end onto the node.
-          if (!(l.at > R(0)) || !(l.at < L))
-            return give_up<R>(MS::NotApplicable, "point load not strictly inside its span" + where());
-          t.kind = TermKind::Point; t.a = l.at; t.p = l.P;
-          break;
-        case LoadType::Couple:
-          if (l.at < R(0) || l.at > L) return give_up<R>(MS::NotApplicable, "couple outside its span" + where());
-          t.kind = TermKind::Couple; t.a = l.at; t.p = l.C;
-          break;
-        case LoadType::Udl:
-        case LoadType::Linear:
-          if (l.from < R(0) || l.to > L || l.to < l.from)
-            return give_up<R>(MS::NotApplicable, "distributed load outside its span" + where());
-          if (l.type == LoadType::Udl && !is_zero(R(l.w1 - l.w2)))
-            return give_up<R>(MS::NotApplicable, "uniform load with unequal end intensities" + where());
-          t.kind = TermKind::Spread; t.a = l.from; t.b = l.to; t.p = l.w1; t.q = l.w2;
-          break;
-      }
-      const detail::EndPair<R> e = fem_of<R>(l.type, L, l.P, l.C, l.w1, l.w2, l.at, l.from, l.to);
-      spans[s].MA += e.left;
-      spans[s].DA += e.right;
-      terms[spans[s].last++] = t;
+      LoadEffect<R> e;
+      std::string why = take_load(l, ss.L, invL2, K, t, e);
+      if (!why.empty()) return give_up<R>(MS::NotApplicable, std::move(why));
+      accumulate(ss, e);
+      terms[ss.last++] = t;
     }
   }
 
   // Unknowns, node by node: [rotation left (= right unless hinge), deflection,
   // rotation right at a hinge], which keeps each span's unknowns within 4
   // consecutive positions.
-  std::vector<std::int32_t> thL(N, -1), thR(N, -1), dv(N, -1);
+  std::vector<NodeUnknowns> un;
+  reserve_huge(un, N);
+  un.resize(N);
   long next = 0;
   for (std::size_t i = 0; i < N; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
@@ -424,30 +642,23 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
         return give_up<R>(MS::NotApplicable, "hinge on a " + std::string(support_type_name(t)) + " support at node " + name(i));
       if (t == SupportType::Spring && sp.kr > R(0))
         return give_up<R>(MS::NotApplicable, "hinge on a rotational spring at node " + name(i));
-      if (!is_zero(nodeC[i])) return give_up<R>(MS::NotApplicable, "couple at hinge node " + name(i));
+      if (!nodeC.empty() && !is_zero(nodeC[i])) return give_up<R>(MS::NotApplicable, "couple at hinge node " + name(i));
     }
     const bool rotates = !restrains_rotation(t);
     const bool translates = !restrains_deflection(t);
-    if (rotates) thL[i] = thR[i] = static_cast<std::int32_t>(next++);
-    if (translates) dv[i] = static_cast<std::int32_t>(next++);
-    if (rotates && sp.hinge) thR[i] = static_cast<std::int32_t>(next++);
+    NodeUnknowns& u = un[i];
+    if (rotates) u.thL = u.thR = static_cast<std::int32_t>(next++);
+    if (translates) u.dv = static_cast<std::int32_t>(next++);
+    if (rotates && sp.hinge) u.thR = static_cast<std::int32_t>(next++);
     if (next > 2000000000L) return give_up<R>(MS::NotApplicable, "more than 2e9 unknowns");
   }
   const std::size_t nu = static_cast<std::size_t>(next);
-
-  auto rot = [&](long idx) { Var<R> v; v.idx = idx; return v; };
-  auto defl = [&](std::size_t i) {
-    Var<R> v;
-    v.idx = dv[i];
-    if (dv[i] < 0) v.value = beam.supports[i].settlement;
-    return v;
-  };
 
   // Half-bandwidth.
   std::size_t hb = 0;
   for (std::size_t s = 0; s < n; ++s) {
     long lo = next, hi = -1;
-    for (long idx : {long(thR[s]), long(dv[s]), long(thL[s + 1]), long(dv[s + 1])}) {
+    for (long idx : {long(un[s].thR), long(un[s].dv), long(un[s + 1].thL), long(un[s + 1].dv)}) {
       if (idx < 0) continue;
       lo = std::min(lo, idx);
       hi = std::max(hi, idx);
@@ -455,157 +666,169 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
   }
 
-  // Per-span simple-beam data.
-  for (std::size_t s = 0; s < n; ++s) {
-    SpanState<R>& ss = spans[s];
-    ss.L = beam.spans[s].length;
-    ss.EI = beam.spans[s].EI;
-    SpanMath<R>::simple_beam(terms.data() + ss.first, ss.last - ss.first, ss.L, ss.RA0, ss.FL);
-    LoadParts<R> end;
-    for (std::size_t k = ss.first; k < ss.last; ++k) SpanMath<R>::add(terms[k], ss.L, true, end);
-    ss.MB = -end.shear - ss.RA0;  // total load minus the left reaction
-  }
-
   Banded<R> sys;
   sys.init(nu, hb);
-  // row += c * var
-  auto put = [&](long row, const R& c, const Var<R>& v) {
-    if (row < 0) return;
-    if (v.idx >= 0) {
-      if (v.idx >= row) sys.at(static_cast<std::size_t>(row), static_cast<std::size_t>(v.idx)) += c;
-    }
-    else if (!is_zero(v.value)) sys.rhs[static_cast<std::size_t>(row)] -= c * v.value;
-  };
-  auto put_const = [&](long row, const R& c) {
-    if (row >= 0) sys.rhs[static_cast<std::size_t>(row)] -= c;
-  };
-
-  for (std::size_t s = 0; s < n; ++s) {
-    const R& L = beam.spans[s].length;
-    const R k = R(2) * beam.spans[s].EI / L;  // 2EI/L
-    const R kL = R(3) * k / L;                // 6EI/L^2
-    const R kLL = R(2) * kL / L;              // 12EI/L^3
-    const Var<R> ti = rot(thR[s]), tj = rot(thL[s + 1]);
-    const Var<R> di = defl(s), dj = defl(s + 1);
-    // M_ij = k(2 ti + tj) + kL (di - dj) + FEM_ij, on the row of ti.
-    const long ri = ti.idx, rj = tj.idx;
-    const R& femI = spans[s].MA;
-    const R& femJ = spans[s].DA;
-    put(ri, R(2) * k, ti); put(ri, k, tj); put(ri, kL, di); put(ri, -kL, dj); put_const(ri, femI);
-    // M_ji = k(ti + 2 tj) + kL (di - dj) + FEM_ji, on the row of tj.
-    put(rj, k, ti); put(rj, R(2) * k, tj); put(rj, kL, di); put(rj, -kL, dj); put_const(rj, femJ);
-    // (M_ij + M_ji)/L = kL (ti + tj) + kLL (di - dj) + (FEM_ij + FEM_ji)/L.
-    // Y_i = RA0 - (M_ij + M_ji)/L; row of di gets -Y_i.
-    const R femL = (femI + femJ) / L;
-    const long rdi = di.idx, rdj = dj.idx;
-    const R& RA0 = state->spans[s].RA0;
-    const R& RB0 = state->spans[s].MB;
-    put(rdi, kL, ti); put(rdi, kL, tj); put(rdi, kLL, di); put(rdi, -kLL, dj); put_const(rdi, femL - RA0);
-    // Y_j = RB0 + (M_ij + M_ji)/L; row of dj gets -Y_j.
-    put(rdj, -kL, ti); put(rdj, -kL, tj); put(rdj, -kLL, di); put(rdj, kLL, dj); put_const(rdj, -femL - RB0);
-  }
-  for (std::size_t i = 0; i < N; ++i) {
+  const R zero(0);
+  // The known deflection of node i (its settlement) where it is no unknown.
+  auto known_defl = [&](std::size_t i) -> const R& { return un[i].dv < 0 ? beam.supports[i].settlement : zero; };
+  auto node_rows = [&](std::size_t i) {
     const BasicSupport<R>& sp = beam.supports[i];
     const bool spring = sp.type == SupportType::Spring;
-    if (thL[i] >= 0 && !sp.hinge) {
-      sys.rhs[static_cast<std::size_t>(thL[i])] += nodeC[i];
-      if (spring) put(thL[i], sp.kr, rot(thL[i]));
+    const NodeUnknowns& u = un[i];
+    if (u.thL >= 0 && !sp.hinge) {
+      if (!nodeC.empty()) sys.rhs[static_cast<std::size_t>(u.thL)] += nodeC[i];
+      if (spring) sys.put(u.thL, sp.kr, u.thL, zero);
     }
-    if (dv[i] >= 0) {
-      sys.rhs[static_cast<std::size_t>(dv[i])] += nodeP[i];
+    if (u.dv >= 0) {
+      if (!nodeP.empty()) sys.rhs[static_cast<std::size_t>(u.dv)] += nodeP[i];
       if (spring) {
-        put(dv[i], sp.k, defl(i));
-        sys.rhs[static_cast<std::size_t>(dv[i])] += sp.k * sp.settlement;
+        sys.put(u.dv, sp.k, u.dv, zero);
+        sys.rhs[static_cast<std::size_t>(u.dv)] += sp.k * sp.settlement;
       }
     }
-  }
+  };
 
-  std::vector<R> x;
-  const long bad = banded_solve(sys, x);
+  // Per span: the simple-beam data, then its stiffness into the system;
+  // after span s the rows of node s are complete.
+  for (std::size_t s = 0; s < n; ++s) {
+    SpanState<R>& ss = spans[s];
+    const R& L = ss.L;
+    const R invL = R(1) / L;
+    // m0(L+) = RA0 L + (load part) = 0 (every load on the span included).
+    ss.RA0 = -ss.RA0 * invL;
+    ss.FL = ss.RA0 * L * L * L * K.sixth + ss.FL;
+    ss.MB = -ss.MB - ss.RA0;  // RB0: total load minus the left reaction
+    const R k = R(2) * ss.EI * invL;  // 2EI/L
+    const R kL = R(3) * k * invL;     // 6EI/L^2
+    const R kLL = R(2) * kL * invL;   // 12EI/L^3
+    const long ti = un[s].thR, tj = un[s + 1].thL;
+    const long di = un[s].dv, dj = un[s + 1].dv;
+    const R& Di = known_defl(s);
+    const R& Dj = known_defl(s + 1);
+    const R& femI = ss.MA;
+    const R& femJ = ss.DA;
+    const R twok = R(2) * k;
+    // M_ij = k(2 ti + tj) + kL (di - dj) + FEM_ij, on the row of ti.
+    if (ti >= 0) {
+      sys.put(ti, twok, ti, zero); sys.put(ti, k, tj, zero); sys.put(ti, kL, di, Di); sys.put(ti, -kL, dj, Dj);
+      sys.put_const(ti, femI);
+    }
+    // M_ji = k(ti + 2 tj) + kL (di - dj) + FEM_ji, on the row of tj.
+    if (tj >= 0) {
+      sys.put(tj, k, ti, zero); sys.put(tj, twok, tj, zero); sys.put(tj, kL, di, Di); sys.put(tj, -kL, dj, Dj);
+      sys.put_const(tj, femJ);
+    }
+    // (M_ij + M_ji)/L = kL (ti + tj) + kLL (di - dj) + (FEM_ij + FEM_ji)/L.
+    // Y_i = RA0 - (M_ij + M_ji)/L; row of di gets -Y_i.
+    if (di >= 0 || dj >= 0) {
+      const R femL = (femI + femJ) * invL;
+      if (di >= 0) {
+        sys.put(di, kL, ti, zero); sys.put(di, kL, tj, zero); sys.put(di, kLL, di, Di); sys.put(di, -kLL, dj, Dj);
+        sys.put_const(di, femL - ss.RA0);
+      }
+      // Y_j = RB0 + (M_ij + M_ji)/L; row of dj gets -Y_j.
+      if (dj >= 0) {
+        sys.put(dj, -kL, ti, zero); sys.put(dj, -kL, tj, zero); sys.put(dj, -kLL, di, Di); sys.put(dj, kLL, dj, Dj);
+        sys.put_const(dj, -femL - ss.MB);
+      }
+    }
+    node_rows(s);
+  }
+  node_rows(n);
+
+  const long bad = banded_solve(sys);
   if (bad >= 0) {
     // Find the unknown's node and kind (only on failure: O(n) once).
     std::size_t node = 0;
     const char* what = "unknown";
     for (std::size_t i = 0; i < N; ++i) {
-      if (thL[i] == bad) { node = i; what = beam.supports[i].hinge ? "rotation left of the hinge" : "rotation"; break; }
-      if (dv[i] == bad) { node = i; what = "deflection"; break; }
-      if (thR[i] == bad) { node = i; what = "rotation right of the hinge"; break; }
+      if (un[i].thL == bad) { node = i; what = beam.supports[i].hinge ? "rotation left of the hinge" : "rotation"; break; }
+      if (un[i].dv == bad) { node = i; what = "deflection"; break; }
+      if (un[i].thR == bad) { node = i; what = "rotation right of the hinge"; break; }
     }
     return give_up<R>(MS::Failed, std::string("zero or non-positive pivot at the ") + what + " of node " +
                                       name(node) + " (a mechanism, or too ill-conditioned)");
   }
+  const std::vector<R>& x = sys.rhs;
   for (std::size_t r = 0; r < nu; ++r)
     if (!is_finite(x[r])) return give_up<R>(MS::Failed, "non-finite value in the solution");
 
-  auto value = [&](const Var<R>& v) { return v.idx >= 0 ? x[static_cast<std::size_t>(v.idx)] : v.value; };
+  auto value = [&](long idx, const R& known) -> const R& { return idx >= 0 ? x[static_cast<std::size_t>(idx)] : known; };
 
   // End moments (member-end convention) into the state as sagging moments:
   // MA = M_ij, MB = -M_ji. The end forces on the member follow from them:
   // Y_i = RA0 + (MB - MA)/L, Y_j = RB0 - (MB - MA)/L. The sums over the
-  // member ends at each node are added to the node loads for the reactions:
-  // nodeP becomes P + sum of Y, nodeC becomes C - sum of member-end moments.
-  std::vector<R>& Yends = nodeP;
-  std::vector<R>& Cnet = nodeC;
-  for (std::size_t s = 0; s < n; ++s) {
-    SpanState<R>& ss = state->spans[s];
-    const R& L = ss.L;
-    const R k = R(2) * ss.EI / L;
-    const R ti = value(rot(thR[s])), tj = value(rot(thL[s + 1]));
-    const R femI = ss.MA, femJ = ss.DA;
-    ss.DA = value(defl(s));
-    ss.DB = value(defl(s + 1));
-    const R psi = (ss.DB - ss.DA) / L;
-    ss.MA = k * (R(2) * ti + tj - R(3) * psi) + femI;
-    const R Mji = k * (ti + R(2) * tj - R(3) * psi) + femJ;
-    const R RB0 = ss.MB;
-    ss.MB = -Mji;
-    if (!is_finite(ss.MA) || !is_finite(ss.MB)) return give_up<R>(MS::Failed, "non-finite end moment");
-    const R dV = (ss.MB - ss.MA) / L;
-    Yends[s] += ss.RA0 + dV;
-    Yends[s + 1] += RB0 - dV;
-    Cnet[s] -= ss.MA;
-    Cnet[s + 1] -= Mji;
-  }
-  state->terms = std::move(terms);
-
+  // member ends at each node, with the node loads, give the reactions:
+  // P + sum of Y, and C - sum of member-end moments. Node by node, span i-1
+  // having been done the step before.
   BasicSolution<R> out;
-  out.nodes.resize(N);
+  reserve_huge(out.nodes, N);
   R xpos{0};
+  R Yprev{0}, Mjiprev{0};  // of span i-1: Y_j and M_ji
   for (std::size_t i = 0; i < N; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
-    BasicNodeResult<R>& nr = out.nodes[i];
+    R Y = nodeP.empty() ? R(0) : nodeP[i];
+    R Cn = nodeC.empty() ? R(0) : nodeC[i];
+    if (i > 0) {
+      Y += Yprev;
+      Cn -= Mjiprev;
+    }
+    if (i < n) {
+      SpanState<R>& ss = spans[i];
+      const R& L = ss.L;
+      const R invL = R(1) / L;
+      const R k = R(2) * ss.EI * invL;
+      const R& ti = value(un[i].thR, zero);
+      const R& tj = value(un[i + 1].thL, zero);
+      const R femI = ss.MA, femJ = ss.DA;
+      ss.DA = value(un[i].dv, beam.supports[i].settlement);
+      ss.DB = value(un[i + 1].dv, beam.supports[i + 1].settlement);
+      const R psi = (ss.DB - ss.DA) * invL;
+      ss.MA = k * (R(2) * ti + tj - R(3) * psi) + femI;
+      const R Mji = k * (ti + R(2) * tj - R(3) * psi) + femJ;
+      const R RB0 = ss.MB;
+      ss.MB = -Mji;
+      if (!is_finite(ss.MA) || !is_finite(ss.MB)) return give_up<R>(MS::Failed, "non-finite end moment");
+      const R dV = (ss.MB - ss.MA) * invL;
+      Y += ss.RA0 + dV;
+      Cn -= ss.MA;
+      Yprev = RB0 - dV;
+      Mjiprev = Mji;
+    }
+    BasicNodeResult<R> nr;
     nr.x = xpos;
     if (i < n) xpos += beam.spans[i].length;
-    nr.deflection = value(defl(i));
-    const R rl = value(rot(thL[i]));
-    const R rr = value(rot(thR[i]));
+    nr.deflection = value(un[i].dv, sp.settlement);
+    const R& rl = value(un[i].thL, zero);
+    const R& rr = value(un[i].thR, zero);
     nr.rotation_left = (i == 0) ? rr : rl;
     nr.rotation_right = (i == n) ? rl : rr;
     // Inside limits of the moment: the end moment, plus a span couple at
     // local 0 (it acts before the limit from inside the span at 0); a
     // couple at local L acts after the limit at L.
     if (i > 0) {
-      const SpanState<R>& ss = state->spans[i - 1];
+      const SpanState<R>& ss = spans[i - 1];
       R m = ss.MB;
       for (std::size_t k = ss.first; k < ss.last; ++k) {
-        const Term<R>& t = state->terms[k];
+        const Term<R>& t = terms[k];
         if (t.kind == TermKind::Couple && !(t.a < ss.L)) m -= t.p;
       }
-      nr.moment_left = m;
+      nr.moment_left = std::move(m);
     }
     if (i < n) {
-      const SpanState<R>& ss = state->spans[i];
+      const SpanState<R>& ss = spans[i];
       R m = ss.MA;
       for (std::size_t k = ss.first; k < ss.last; ++k) {
-        const Term<R>& t = state->terms[k];
+        const Term<R>& t = terms[k];
         if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
       }
-      nr.moment_right = m;
+      nr.moment_right = std::move(m);
     }
-    if (restrains_deflection(sp.type)) nr.reaction_force = Yends[i];
+    if (restrains_deflection(sp.type)) nr.reaction_force = Y;
     else if (sp.type == SupportType::Spring) nr.reaction_force = sp.k * (nr.deflection - sp.settlement);
-    if (restrains_rotation(sp.type)) nr.reaction_moment = Cnet[i];
+    if (restrains_rotation(sp.type)) nr.reaction_moment = Cn;
     else if (sp.type == SupportType::Spring) nr.reaction_moment = sp.kr * rr;
+    out.nodes.push_back(std::move(nr));
   }
 
   std::shared_ptr<const SolvedState<R>> frozen = std::move(state);
