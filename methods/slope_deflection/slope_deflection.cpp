@@ -38,6 +38,14 @@
 namespace trivet::slope_deflection {
 namespace {
 
+// The per-load and per-entry helpers run once per load or matrix entry;
+// inlined, their results stay in registers.
+#if defined(__GNUC__)
+#define TRIVET_SD_INLINE inline __attribute__((always_inline))
+#else
+#define TRIVET_SD_INLINE inline
+#endif
+
 // A span load reduced to what the span's diagrams need.
 enum class TermKind : unsigned char { Point, Couple, Spread };
 
@@ -232,7 +240,7 @@ struct LoadEffect {
 //     E = L - x2 >= 0 (at E = 0 it equals the "inside" form at d = h).
 // `invL2` is 1 / L^2.
 template <class R>
-LoadEffect<R> effect_of(LoadType type, const R& L, const R& invL2, const R& P, const R& C, const R& w1,
+TRIVET_SD_INLINE LoadEffect<R> effect_of(LoadType type, const R& L, const R& invL2, const R& P, const R& C, const R& w1,
                         const R& w2, const R& at, const R& from, const R& to, const Consts<R>& k) {
   LoadEffect<R> e;
   switch (type) {
@@ -374,7 +382,7 @@ struct Banded {
   R& at(std::size_t r, std::size_t c) { return a[r * w + (c - r)]; }
   // row += c * (unknown col, or the known value): only the stored upper
   // part is kept; a known value moves to the right-hand side.
-  void put(long row, const R& c, long col, const R& known) {
+  TRIVET_SD_INLINE void put(long row, const R& c, long col, const R& known) {
     if (row < 0) return;
     if (col >= 0) {
       if (col >= row) at(static_cast<std::size_t>(row), static_cast<std::size_t>(col)) += c;
@@ -382,7 +390,7 @@ struct Banded {
       rhs[static_cast<std::size_t>(row)] -= c * known;
     }
   }
-  void put_const(long row, const R& c) {
+  TRIVET_SD_INLINE void put_const(long row, const R& c) {
     if (row >= 0) rhs[static_cast<std::size_t>(row)] -= c;
   }
 };
@@ -459,45 +467,67 @@ long banded_solve(Banded<R>& m) {
   return -1;
 }
 
+// Why a span load is out of the method's scope (None: it is not).
+enum class LoadFault : unsigned char { None, PointNotInside, CoupleOutside, SpreadOutside, UnequalUdl };
+
+std::string fault_text(LoadFault f, std::size_t span) {
+  const char* what = "";
+  switch (f) {
+    case LoadFault::None: break;
+    // The reader moves a point force at a span end onto the node.
+    case LoadFault::PointNotInside: what = "point load not strictly inside its span"; break;
+    case LoadFault::CoupleOutside: what = "couple outside its span"; break;
+    case LoadFault::SpreadOutside: what = "distributed load outside its span"; break;
+    case LoadFault::UnequalUdl: what = "uniform load with unequal end intensities"; break;
+  }
+  return what + (" on span " + std::to_string(span + 1));
+}
+
 // Checks one span load and reduces it to a term and its effect on the span.
-// Returns an empty string, or why the method does not apply.
 template <class R>
-std::string take_load(const BasicLoad<R>& l, const R& L, const R& invL2, const Consts<R>& k, Term<R>& t,
-                      LoadEffect<R>& e) {
-  const std::size_t s = l.index;
-  auto where = [s]() { return " on span " + std::to_string(s + 1); };
+TRIVET_SD_INLINE LoadFault take_load(const BasicLoad<R>& l, const R& L, const R& invL2, const Consts<R>& k,
+                                     Term<R>& t, LoadEffect<R>& e) {
   switch (l.type) {
     case LoadType::Point:
-      // The reader moves a point force at a span end onto the node.
-      if (!(l.at > R(0)) || !(l.at < L)) return "point load not strictly inside its span" + where();
+      if (!(l.at > R(0)) || !(l.at < L)) return LoadFault::PointNotInside;
       t.kind = TermKind::Point; t.a = l.at; t.p = l.P;
       break;
     case LoadType::Couple:
-      if (l.at < R(0) || l.at > L) return "couple outside its span" + where();
+      if (l.at < R(0) || l.at > L) return LoadFault::CoupleOutside;
       t.kind = TermKind::Couple; t.a = l.at; t.p = l.C;
       break;
     case LoadType::Udl:
     case LoadType::Linear:
-      if (l.from < R(0) || l.to > L || l.to < l.from) return "distributed load outside its span" + where();
-      if (l.type == LoadType::Udl && !is_zero(R(l.w1 - l.w2))) return "uniform load with unequal end intensities" + where();
+      if (l.from < R(0) || l.to > L || l.to < l.from) return LoadFault::SpreadOutside;
+      if (l.type == LoadType::Udl && !is_zero(R(l.w1 - l.w2))) return LoadFault::UnequalUdl;
       t.kind = TermKind::Spread; t.a = l.from; t.b = l.to; t.p = l.w1; t.q = l.w2;
       break;
   }
   e = effect_of<R>(l.type, L, invL2, l.P, l.C, l.w1, l.w2, l.at, l.from, l.to, k);
-  return std::string();
+  return LoadFault::None;
 }
 
 // Before the solve the span slots hold other sums of the span's loads:
 // MA the fixed-end moment FEM_ij, DA FEM_ji, RA0 the load part of m0(L+),
 // MB the load part of V(L+), FL the load part of F(L).
 template <class R>
-void accumulate(SpanState<R>& ss, const LoadEffect<R>& e) {
-  ss.MA += e.fem.left;
-  ss.DA += e.fem.right;
-  ss.RA0 += e.moment;
-  ss.MB += e.shear;
-  ss.FL += e.second;
-}
+struct SpanSums {
+  R femI{0}, femJ{0}, moment{0}, shear{0}, second{0};
+  TRIVET_SD_INLINE void add(const LoadEffect<R>& e) {
+    femI += e.fem.left;
+    femJ += e.fem.right;
+    moment += e.moment;
+    shear += e.shear;
+    second += e.second;
+  }
+  void store(SpanState<R>& ss) const {
+    ss.MA = femI;
+    ss.DA = femJ;
+    ss.RA0 = moment;
+    ss.MB = shear;
+    ss.FL = second;
+  }
+};
 
 }  // namespace
 
@@ -512,28 +542,27 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   const auto& labels = beam.labels;
   auto name = [&](std::size_t i) { return node_name(labels, i); };
 
-  for (std::size_t s = 0; s < n; ++s) {
-    if (!(beam.spans[s].length > R(0)) || !is_finite(beam.spans[s].length))
-      return give_up<R>(MS::Failed, "invalid beam: length of span " + std::to_string(s + 1) + " is not positive");
-    if (!(beam.spans[s].EI > R(0)) || !is_finite(beam.spans[s].EI))
-      return give_up<R>(MS::Failed, "invalid beam: EI of span " + std::to_string(s + 1) + " is not positive");
-  }
-
   const Consts<R> K;
   // Node loads, only when there are any (empty: none).
   std::vector<R> nodeP, nodeC;
-  // The solved state is filled as we go (see `accumulate` for what its
+  // The solved state is filled as we go (see `SpanSums` for what its
   // slots hold before the solve).
   auto state = std::make_shared<SolvedState<R>>();
   auto& spans = state->spans;
   reserve_huge(spans, n);
   spans.resize(n);
   for (std::size_t s = 0; s < n; ++s) {
-    spans[s].L = beam.spans[s].length;
-    spans[s].EI = beam.spans[s].EI;
-    spans[s].MB = R(0);
-    spans[s].FL = R(0);
+    const BasicSpan<R>& bs = beam.spans[s];
+    if (!(bs.length > R(0)) || !is_finite(bs.length))
+      return give_up<R>(MS::Failed, "invalid beam: length of span " + std::to_string(s + 1) + " is not positive");
+    if (!(bs.EI > R(0)) || !is_finite(bs.EI))
+      return give_up<R>(MS::Failed, "invalid beam: EI of span " + std::to_string(s + 1) + " is not positive");
+    spans[s].L = bs.length;
+    spans[s].EI = bs.EI;
   }
+  // Whether some span couple sits exactly at a span end (it changes the
+  // inside limits of the moment at that node).
+  bool end_couples = false;
   std::vector<Term<R>>& terms = state->terms;
   auto node_load = [&](const BasicLoad<R>& l) {
     if (nodeP.empty()) {
@@ -554,6 +583,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     std::size_t cur = 0;  // the span being filled
     spans[0].first = 0;
     R invL2 = R(1) / (spans[0].L * spans[0].L);
+    SpanSums<R> sums;  // of span `cur`
     for (const auto& l : beam.loads) {
       if (l.on_node) {
         if (l.index >= N || (l.type != LoadType::Point && l.type != LoadType::Couple)) { fast = false; break; }
@@ -563,6 +593,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       const std::size_t s = l.index;
       if (s >= n || s < cur) { fast = false; break; }
       if (s != cur) {
+        sums.store(spans[cur]);
+        sums = SpanSums<R>();
         while (cur < s) {
           spans[cur].last = terms.size();
           ++cur;
@@ -570,13 +602,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
         }
         invL2 = R(1) / (spans[s].L * spans[s].L);
       }
-      Term<R> t;
+      Term<R>& t = terms.emplace_back();
       LoadEffect<R> e;
-      if (!take_load(l, spans[s].L, invL2, K, t, e).empty()) { fast = false; break; }
-      accumulate(spans[s], e);
-      terms.push_back(t);
+      if (take_load(l, spans[s].L, invL2, K, t, e) != LoadFault::None) { fast = false; break; }
+      if (t.kind == TermKind::Couple && (!(t.a > R(0)) || !(t.a < spans[s].L))) end_couples = true;
+      sums.add(e);
     }
     if (fast) {
+      sums.store(spans[cur]);
       spans[cur].last = terms.size();
       for (std::size_t s = cur + 1; s < n; ++s) spans[s].first = spans[s].last = terms.size();
     }
@@ -613,9 +646,16 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       const R invL2 = R(1) / (ss.L * ss.L);
       Term<R> t;
       LoadEffect<R> e;
-      std::string why = take_load(l, ss.L, invL2, K, t, e);
-      if (!why.empty()) return give_up<R>(MS::NotApplicable, std::move(why));
-      accumulate(ss, e);
+      const LoadFault f = take_load(l, ss.L, invL2, K, t, e);
+      if (f != LoadFault::None) return give_up<R>(MS::NotApplicable, fault_text(f, l.index));
+      if (t.kind == TermKind::Couple && (!(t.a > R(0)) || !(t.a < ss.L))) end_couples = true;
+      SpanSums<R> one;
+      one.add(e);
+      ss.MA += one.femI;
+      ss.DA += one.femJ;
+      ss.RA0 += one.moment;
+      ss.MB += one.shear;
+      ss.FL += one.second;
       terms[ss.last++] = t;
     }
   }
@@ -627,6 +667,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   reserve_huge(un, N);
   un.resize(N);
   long next = 0;
+  std::size_t hb = 0;
   for (std::size_t i = 0; i < N; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
     const SupportType t = sp.type;
@@ -651,20 +692,18 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (translates) u.dv = static_cast<std::int32_t>(next++);
     if (rotates && sp.hinge) u.thR = static_cast<std::int32_t>(next++);
     if (next > 2000000000L) return give_up<R>(MS::NotApplicable, "more than 2e9 unknowns");
+    if (i > 0) {
+      // Half-bandwidth: the spread of span i-1's unknowns.
+      long lo = next, hi = -1;
+      for (long idx : {long(un[i - 1].thR), long(un[i - 1].dv), long(u.thL), long(u.dv)}) {
+        if (idx < 0) continue;
+        lo = std::min(lo, idx);
+        hi = std::max(hi, idx);
+      }
+      if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
+    }
   }
   const std::size_t nu = static_cast<std::size_t>(next);
-
-  // Half-bandwidth.
-  std::size_t hb = 0;
-  for (std::size_t s = 0; s < n; ++s) {
-    long lo = next, hi = -1;
-    for (long idx : {long(un[s].thR), long(un[s].dv), long(un[s + 1].thL), long(un[s + 1].dv)}) {
-      if (idx < 0) continue;
-      lo = std::min(lo, idx);
-      hi = std::max(hi, idx);
-    }
-    if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
-  }
 
   Banded<R> sys;
   sys.init(nu, hb);
@@ -708,6 +747,23 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const R& femI = ss.MA;
     const R& femJ = ss.DA;
     const R twok = R(2) * k;
+    if (di < 0 && dj < 0 && ti >= 0 && tj == ti + 1) {
+      // Both ends rotate, neither translates (the common case): the same
+      // entries as below, written directly.
+      const std::size_t r = static_cast<std::size_t>(ti);
+      R* a = &sys.a[r * sys.w];
+      a[0] += twok;
+      a[1] += k;
+      a[sys.w] += twok;
+      R& bi = sys.rhs[r];
+      R& bj = sys.rhs[r + 1];
+      if (!is_zero(Di)) { bi -= kL * Di; bj -= kL * Di; }
+      if (!is_zero(Dj)) { bi -= -kL * Dj; bj -= -kL * Dj; }
+      bi -= femI;
+      bj -= femJ;
+      node_rows(s);
+      continue;
+    }
     // M_ij = k(2 ti + tj) + kL (di - dj) + FEM_ij, on the row of ti.
     if (ti >= 0) {
       sys.put(ti, twok, ti, zero); sys.put(ti, k, tj, zero); sys.put(ti, kL, di, Di); sys.put(ti, -kL, dj, Dj);
@@ -795,7 +851,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       Yprev = RB0 - dV;
       Mjiprev = Mji;
     }
-    BasicNodeResult<R> nr;
+    BasicNodeResult<R>& nr = out.nodes.emplace_back();
     nr.x = xpos;
     if (i < n) xpos += beam.spans[i].length;
     nr.deflection = value(un[i].dv, sp.settlement);
@@ -809,18 +865,22 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (i > 0) {
       const SpanState<R>& ss = spans[i - 1];
       R m = ss.MB;
-      for (std::size_t k = ss.first; k < ss.last; ++k) {
-        const Term<R>& t = terms[k];
-        if (t.kind == TermKind::Couple && !(t.a < ss.L)) m -= t.p;
+      if (end_couples) {
+        for (std::size_t k = ss.first; k < ss.last; ++k) {
+          const Term<R>& t = terms[k];
+          if (t.kind == TermKind::Couple && !(t.a < ss.L)) m -= t.p;
+        }
       }
       nr.moment_left = std::move(m);
     }
     if (i < n) {
       const SpanState<R>& ss = spans[i];
       R m = ss.MA;
-      for (std::size_t k = ss.first; k < ss.last; ++k) {
-        const Term<R>& t = terms[k];
-        if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
+      if (end_couples) {
+        for (std::size_t k = ss.first; k < ss.last; ++k) {
+          const Term<R>& t = terms[k];
+          if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
+        }
       }
       nr.moment_right = std::move(m);
     }
@@ -828,7 +888,6 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     else if (sp.type == SupportType::Spring) nr.reaction_force = sp.k * (nr.deflection - sp.settlement);
     if (restrains_rotation(sp.type)) nr.reaction_moment = Cn;
     else if (sp.type == SupportType::Spring) nr.reaction_moment = sp.kr * rr;
-    out.nodes.push_back(std::move(nr));
   }
 
   std::shared_ptr<const SolvedState<R>> frozen = std::move(state);
