@@ -89,10 +89,16 @@ bool is_zero(const R& d) {
 }
 
 // Finite: x - x is 0 for a finite number and NaN for inf or NaN.
+// (The same test as std::isfinite for the built-in floating types, which
+// take that shorter way.)
 template <class R>
 bool is_finite(const R& x) {
-  R d = x - x;
-  return d <= R(0) && d >= R(0);
+  if constexpr (std::is_floating_point_v<R>) {
+    return std::isfinite(x);
+  } else {
+    R d = x - x;
+    return d <= R(0) && d >= R(0);
+  }
 }
 
 template <class R>
@@ -282,9 +288,12 @@ TRIVET_SD_INLINE LoadEffect<R> effect_of(LoadType type, const R& L, const R& inv
       e.fem.left = -left_int * invL2;
       e.fem.right = right_int * invL2;
       const R& c0 = m0;  // h (p + q) / 2 either way round
-      const R c1 = h2 * (w2 + R(2) * w1) * k.sixth;
-      const R c2 = h3 * (w2 + R(3) * w1) * k.twelfth;
-      const R c3 = h4 * (w2 + R(4) * w1) * k.twentieth;
+      // Uniform (w1 == w2, checked by the caller): c_k = m_k, the very same
+      // operations.
+      const bool uniform = type == LoadType::Udl;
+      const R c1 = uniform ? m1 : h2 * (w2 + R(2) * w1) * k.sixth;
+      const R c2 = uniform ? m2 : h3 * (w2 + R(3) * w1) * k.twelfth;
+      const R c3 = uniform ? m3 : h4 * (w2 + R(4) * w1) * k.twentieth;
       const R E = L - to;
       e.shear = -c0;
       e.moment = -(E * c0 + c1);
@@ -580,6 +589,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   bool fast = true;
   {
     reserve_huge(terms, beam.loads.size());
+    terms.resize(beam.loads.size());
+    std::size_t pos = 0;  // terms filled
     std::size_t cur = 0;  // the span being filled
     spans[0].first = 0;
     R invL2 = R(1) / (spans[0].L * spans[0].L);
@@ -596,13 +607,13 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
         sums.store(spans[cur]);
         sums = SpanSums<R>();
         while (cur < s) {
-          spans[cur].last = terms.size();
+          spans[cur].last = pos;
           ++cur;
-          spans[cur].first = terms.size();
+          spans[cur].first = pos;
         }
         invL2 = R(1) / (spans[s].L * spans[s].L);
       }
-      Term<R>& t = terms.emplace_back();
+      Term<R>& t = terms[pos++];
       LoadEffect<R> e;
       if (take_load(l, spans[s].L, invL2, K, t, e) != LoadFault::None) { fast = false; break; }
       if (t.kind == TermKind::Couple && (!(t.a > R(0)) || !(t.a < spans[s].L))) end_couples = true;
@@ -610,8 +621,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     }
     if (fast) {
       sums.store(spans[cur]);
-      spans[cur].last = terms.size();
-      for (std::size_t s = cur + 1; s < n; ++s) spans[s].first = spans[s].last = terms.size();
+      spans[cur].last = pos;
+      for (std::size_t s = cur + 1; s < n; ++s) spans[s].first = spans[s].last = pos;
+      terms.resize(pos);  // shrinks in place
     }
   }
   if (!fast) {
@@ -694,13 +706,15 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (next > 2000000000L) return give_up<R>(MS::NotApplicable, "more than 2e9 unknowns");
     if (i > 0) {
       // Half-bandwidth: the spread of span i-1's unknowns.
-      long lo = next, hi = -1;
-      for (long idx : {long(un[i - 1].thR), long(un[i - 1].dv), long(u.thL), long(u.dv)}) {
-        if (idx < 0) continue;
-        lo = std::min(lo, idx);
-        hi = std::max(hi, idx);
-      }
-      if (hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
+      // Order within a node: thL, dv, thR; so the first of span i-1's
+      // unknowns is node i-1's dv or thR, the last node i's dv or thL.
+      const NodeUnknowns& v = un[i - 1];
+      std::int32_t lo = v.thR;
+      if (v.dv >= 0 && (lo < 0 || v.dv < lo)) lo = v.dv;
+      std::int32_t hi = u.dv >= 0 ? u.dv : u.thL;
+      if (hi < 0) hi = std::max(v.thR, v.dv);
+      if (lo < 0) lo = u.thL >= 0 ? u.thL : u.dv;
+      if (lo >= 0 && hi > lo) hb = std::max(hb, static_cast<std::size_t>(hi - lo));
     }
   }
   const std::size_t nu = static_cast<std::size_t>(next);
@@ -806,8 +820,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
                                       name(node) + " (a mechanism, or too ill-conditioned)");
   }
   const std::vector<R>& x = sys.rhs;
-  for (std::size_t r = 0; r < nu; ++r)
-    if (!is_finite(x[r])) return give_up<R>(MS::Failed, "non-finite value in the solution");
+  // Every unknown enters some span's end moments (a rotation directly, a
+  // deflection through psi) and a non-finite one makes them non-finite, so
+  // the solution is scanned only when an end moment is not finite.
+  auto non_finite = [&]() {
+    for (std::size_t r = 0; r < nu; ++r)
+      if (!is_finite(x[r])) return give_up<R>(MS::Failed, "non-finite value in the solution");
+    return give_up<R>(MS::Failed, "non-finite end moment");
+  };
 
   auto value = [&](long idx, const R& known) -> const R& { return idx >= 0 ? x[static_cast<std::size_t>(idx)] : known; };
 
@@ -819,6 +839,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   // having been done the step before.
   BasicSolution<R> out;
   reserve_huge(out.nodes, N);
+  out.nodes.resize(N);
   R xpos{0};
   R Yprev{0}, Mjiprev{0};  // of span i-1: Y_j and M_ji
   for (std::size_t i = 0; i < N; ++i) {
@@ -844,14 +865,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       const R Mji = k * (ti + R(2) * tj - R(3) * psi) + femJ;
       const R RB0 = ss.MB;
       ss.MB = -Mji;
-      if (!is_finite(ss.MA) || !is_finite(ss.MB)) return give_up<R>(MS::Failed, "non-finite end moment");
+      if (!is_finite(ss.MA) || !is_finite(ss.MB)) return non_finite();
       const R dV = (ss.MB - ss.MA) * invL;
       Y += ss.RA0 + dV;
       Cn -= ss.MA;
       Yprev = RB0 - dV;
       Mjiprev = Mji;
     }
-    BasicNodeResult<R>& nr = out.nodes.emplace_back();
+    BasicNodeResult<R>& nr = out.nodes[i];
     nr.x = xpos;
     if (i < n) xpos += beam.spans[i].length;
     nr.deflection = value(un[i].dv, sp.settlement);
