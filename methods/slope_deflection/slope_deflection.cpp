@@ -751,9 +751,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     ss.RA0 = -ss.RA0 * invL;
     ss.FL = ss.RA0 * L * L * L * K.sixth + ss.FL;
     ss.MB = -ss.MB - ss.RA0;  // RB0: total load minus the left reaction
-    const R k = R(2) * ss.EI * invL;  // 2EI/L
-    const R kL = R(3) * k * invL;     // 6EI/L^2
-    const R kLL = R(2) * kL * invL;   // 12EI/L^3
+    const R k = R(2) * ss.EI / L;  // 2EI/L
+    const R kL = R(3) * k / L;     // 6EI/L^2
+    const R kLL = R(2) * kL / L;   // 12EI/L^3
     const long ti = un[s].thR, tj = un[s + 1].thL;
     const long di = un[s].dv, dj = un[s + 1].dv;
     const R& Di = known_defl(s);
@@ -791,7 +791,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     // (M_ij + M_ji)/L = kL (ti + tj) + kLL (di - dj) + (FEM_ij + FEM_ji)/L.
     // Y_i = RA0 - (M_ij + M_ji)/L; row of di gets -Y_i.
     if (di >= 0 || dj >= 0) {
-      const R femL = (femI + femJ) * invL;
+      const R femL = (femI + femJ) / L;
       if (di >= 0) {
         sys.put(di, kL, ti, zero); sys.put(di, kL, tj, zero); sys.put(di, kLL, di, Di); sys.put(di, -kLL, dj, Dj);
         sys.put_const(di, femL - ss.RA0);
@@ -853,20 +853,19 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (i < n) {
       SpanState<R>& ss = spans[i];
       const R& L = ss.L;
-      const R invL = R(1) / L;
-      const R k = R(2) * ss.EI * invL;
+      const R k = R(2) * ss.EI / L;
       const R& ti = value(un[i].thR, zero);
       const R& tj = value(un[i + 1].thL, zero);
       const R femI = ss.MA, femJ = ss.DA;
       ss.DA = value(un[i].dv, beam.supports[i].settlement);
       ss.DB = value(un[i + 1].dv, beam.supports[i + 1].settlement);
-      const R psi = (ss.DB - ss.DA) * invL;
+      const R psi = (ss.DB - ss.DA) / L;
       ss.MA = k * (R(2) * ti + tj - R(3) * psi) + femI;
       const R Mji = k * (ti + R(2) * tj - R(3) * psi) + femJ;
       const R RB0 = ss.MB;
       ss.MB = -Mji;
       if (!is_finite(ss.MA) || !is_finite(ss.MB)) return non_finite();
-      const R dV = (ss.MB - ss.MA) * invL;
+      const R dV = (ss.MB - ss.MA) / L;
       Y += ss.RA0 + dV;
       Cn -= ss.MA;
       Yprev = RB0 - dV;
