@@ -11,9 +11,14 @@
 namespace trivet::cli {
 
 void prefer_huge_pages() {
-  mallopt(M_MMAP_THRESHOLD, 32 << 20);
+  // Large blocks from the heap too, not from mappings of their own: a
+  // mapping is handed back on free and faulted in afresh next time (a
+  // million-span solve paid that on every call).
+  mallopt(M_MMAP_MAX, 0);
   mallopt(M_TRIM_THRESHOLD, -1);  // never shrink the heap (that would drop the marked part)
-  constexpr std::size_t kStep = std::size_t{1} << 30;
+  // Almost 2 GiB (mallopt takes an int): a million-span beam with three
+  // methods' results needs about 1.3 GB.
+  constexpr std::size_t kStep = (std::size_t{1} << 31) - (std::size_t{2} << 20);
   mallopt(M_TOP_PAD, static_cast<int>(kStep));
   const auto before = reinterpret_cast<std::uintptr_t>(sbrk(0));
   // More than the heap has, so it grows by the step (volatile: a malloc and
