@@ -290,10 +290,13 @@ int run_check(const CheckArgs& a) {
     if (!a.json.empty()) reports::json_beam_fragment(r, out.json);
     if (!a.junit.empty()) out.junit_counts = reports::junit_suite(r, opt.agreement, out.junit);
   };
-  std::atomic<std::size_t> next{0}, done{0};
+  std::atomic<std::size_t> next{0};
   std::atomic<bool> internal_error{false};
-  const bool progress = isatty(2) && files.size() > 5;
-  std::mutex progress_mutex, ready_mutex;
+  // Progress on a terminal, kept by the writing thread: it clears the line
+  // before a beam's text goes to the same terminal, then puts it back.
+  const bool progress = render_in_workers && isatty(2) && files.size() > 5;
+  const bool human_on_terminal = isatty(json_to_stdout ? 2 : 1);
+  std::mutex ready_mutex;
   std::condition_variable ready_cv;
   std::vector<char> ready(files.size(), 0);
   auto work = [&] {
@@ -332,11 +335,6 @@ int run_check(const CheckArgs& a) {
         }
         ready_cv.notify_one();
       }
-      const std::size_t d = ++done;
-      if (progress) {
-        std::lock_guard<std::mutex> lock(progress_mutex);
-        std::cerr << "\rchecked " << d << " of " << files.size() << " beams" << std::flush;
-      }
     }
   };
 
@@ -370,7 +368,12 @@ int run_check(const CheckArgs& a) {
         std::unique_lock<std::mutex> lock(ready_mutex);
         ready_cv.wait(lock, [&] { return ready[i] != 0; });
       }
+      if (progress && human_on_terminal) std::cerr << "\r" << std::string(40, ' ') << "\r" << std::flush;
       emit(rendered[i]);
+      if (progress) {
+        if (human_on_terminal) human.flush();
+        std::cerr << "\rchecked " << i + 1 << " of " << files.size() << " beams" << std::flush;
+      }
     }
     for (auto& t : pool) t.join();
   } else {
