@@ -194,6 +194,23 @@ TEST(Reader, DuplicateKey) {
             "plant.json: /spans/1/length (span 2): this field is given twice (each field may appear once)");
 }
 
+// The duplicate-key pass keeps a long object's keys in a hash set; a key
+// given twice far down such an object is still found.
+TEST(Reader, DuplicateKeyInAnObjectWithManyKeys) {
+  std::string factors;
+  for (int i = 0; i < 40; ++i) factors += "\"case" + std::to_string(i) + "\": 1, ";
+  factors += "\"case3\": 2";
+  std::string text = R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 5, "EI": 1000}],
+    "supports": ["pinned", "roller"], "loads": [], "combinations": [{"name": "c", "factors": {)" + factors + "}}]}";
+  const input::BeamFile f = input::parse_beam_text(text, "plant.json");
+  bool found = false;
+  for (const auto& e : f.errors)
+    found = found || e.format("plant.json") ==
+                         "plant.json: /combinations/0/factors/case3 (combination 1): this field is given twice "
+                         "(each field may appear once)";
+  EXPECT_TRUE(found);
+}
+
 TEST(Reader, AllSupportsFreeIsAMechanism) {
   EXPECT_EQ(only(with("[\"pinned\", \"roller\", \"roller\"]", "[\"free\", \"free\", \"free\"]")),
             "plant.json: /supports: the beam is unstable: the whole beam (nodes A to C) can move up and down and turn with nothing to stop it (add a support or remove a hinge)");

@@ -121,6 +121,49 @@ TEST(JunitReport, CountsMatchTheElements) {
   EXPECT_EQ(count("</testsuites>"), 1u);
 }
 
+// A batch writes its reports as it goes: the head with room for the counts,
+// the beams' parts, the tail, then the head again with the final counts. The
+// head must keep its length whatever the counts, and the document must say
+// the same as write_json / write_junit.
+TEST(StreamedReports, HeadsKeepTheirLengthAndTheDocumentIsTheSame) {
+  std::vector<compare::BeamResult> beams = {sample()};
+  beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
+  const RunInfo run{"test", {}, 1e-6};
+  Summary big;
+  big.beams = big.agree = big.claims_failed = 18446744073709551615ull;  // 20 digits, the most a count has
+  EXPECT_EQ(json_head({}, run, true).size(), json_head(big, run, true).size());
+  EXPECT_EQ(junit_head({}, true).size(), junit_head({18446744073709551615ull, 1, 22}, true).size());
+
+  const Summary s = summarize(beams);
+  std::string json = json_head(s, run, true);
+  JunitCounts total;
+  std::string xml;
+  for (std::size_t i = 0; i < beams.size(); ++i) {
+    std::string part;
+    json_beam_fragment(beams[i], part);
+    json += (i ? "," : "") + part;
+    const JunitCounts c = junit_suite(beams[i], 1e-6, xml);
+    total.tests += c.tests;
+    total.failures += c.failures;
+    total.errors += c.errors;
+  }
+  json += json_tail(true);
+  xml = junit_head(total, true) + xml + junit_tail();
+
+  std::ostringstream whole_json, whole_xml;
+  write_json(whole_json, beams, run);
+  write_junit(whole_xml, beams, 1e-6);
+  EXPECT_EQ(nlohmann::json::parse(json), nlohmann::json::parse(whole_json.str()));
+  // The JUnit document differs only by the spaces inside the root tag.
+  std::string unpadded = xml;
+  const std::size_t close = unpadded.find('>', unpadded.find("<testsuites "));
+  const std::size_t spaces = unpadded.find_last_not_of(' ', close - 1) + 1;
+  unpadded.erase(spaces, close - spaces);
+  EXPECT_EQ(unpadded, whole_xml.str());
+  EXPECT_EQ(json_head({}, run, false) + json_tail(false),
+            [&] { std::ostringstream o; write_json(o, {}, run); return o.str(); }());
+}
+
 TEST(ConsoleReport, RoundsForAPerson) {
   EXPECT_EQ(fixed(-0.0001, 2), "0.00");
   EXPECT_EQ(fixed(31.6449, 2), "31.64");

@@ -45,6 +45,12 @@ Beam long_beam(std::size_t n) {
   return b;
 }
 
+// The time per span (or per unknown) of one iteration, as a counter.
+void per_span(benchmark::State& state, std::size_t n) {
+  state.counters["ns_per_span"] = benchmark::Counter(static_cast<double>(n),
+                                                     benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+}
+
 template <Solution (*Solve)(const Beam&, const std::vector<Station>&)>
 void BM_Method(benchmark::State& state) {
   const Beam b = long_beam(static_cast<std::size_t>(state.range(0)));
@@ -53,8 +59,7 @@ void BM_Method(benchmark::State& state) {
     Solution s = Solve(b, st);
     benchmark::DoNotOptimize(s.nodes.data());
   }
-  state.counters["ns_per_span"] = benchmark::Counter(static_cast<double>(state.range(0)),
-                                                     benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+  per_span(state, static_cast<std::size_t>(state.range(0)));
 }
 Solution tm(const Beam& b, const std::vector<Station>& s) { return three_moment::solve<double>(b, s); }
 Solution sd(const Beam& b, const std::vector<Station>& s) { return slope_deflection::solve<double>(b, s); }
@@ -76,8 +81,7 @@ void BM_AllThree(benchmark::State& state) {
     Solution s3 = sf(b, st);
     benchmark::DoNotOptimize(s3.nodes.data());
   }
-  state.counters["ns_per_span"] = benchmark::Counter(static_cast<double>(state.range(0)),
-                                                     benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+  per_span(state, static_cast<std::size_t>(state.range(0)));
 }
 BENCHMARK(BM_AllThree)->Name("all_three/spans")->Arg(100000)->Arg(1000000)->Unit(benchmark::kMillisecond);
 
@@ -96,8 +100,7 @@ void BM_Thomas(benchmark::State& state) {
     for (std::size_t i = n - 1; i-- > 0;) x[i] -= cp[i] * x[i + 1];
     benchmark::DoNotOptimize(x.data());
   }
-  state.counters["ns_per_span"] = benchmark::Counter(static_cast<double>(n),
-                                                     benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+  per_span(state, n);
 }
 BENCHMARK(BM_Thomas)->Name("thomas/unknowns")->RangeMultiplier(10)->Range(10, 1000000)->Unit(benchmark::kMillisecond);
 
