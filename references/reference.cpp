@@ -354,7 +354,7 @@ const std::vector<std::string> kSourceKeys = {"title", "author", "publisher", "e
                                               "locator", "confirmed", "note"};
 const std::vector<std::string> kConfirmed = {"from memory", "from the text", "derived"};
 const std::vector<std::string> kExpectedKeys = {"quantity", "node", "x", "span", "side", "case",
-                                                "published", "multiplier", "exact", "rounding", "note"};
+                                                "published", "multiplier", "exact", "rounding", "unsigned", "note"};
 
 }  // namespace
 
@@ -538,6 +538,10 @@ ReferenceCase parse_case_text(const std::string& text, const std::string& displa
         else rd.error(ptr + "/rounding", where, "must be \"denominator\" (got \"" + *r + "\")");
       }
       if (exact && rounded_den) rd.error(ptr + "/exact", where, "a value cannot be both exact and rounded");
+      if (auto u = e.find("unsigned"); u != e.end()) {
+        if (!u->is_boolean()) rd.error(ptr + "/unsigned", where, "must be true or false (" + got(*u) + ")");
+        else ex.magnitude = u->get<bool>();
+      }
       // published: TEXT exactly as printed
       if (auto p = e.find("published"); p == e.end()) {
         rd.error(ptr + "/published", where, "required field is missing (the value as printed, as a string)");
@@ -546,8 +550,13 @@ ReferenceCase parse_case_text(const std::string& text, const std::string& displa
       } else {
         ex.published = p->get<std::string>();
         std::string reason;
-        if (auto num = parse_published(ex.published, exact, rounded_den, &reason)) ex.number = *num;
-        else rd.error(ptr + "/published", where, reason);
+        if (auto num = parse_published(ex.published, exact, rounded_den, &reason)) {
+          ex.number = *num;
+          if (ex.magnitude && num->value < 0)
+            rd.error(ptr + "/published", where, "a value printed without a sign (\"unsigned\": true) cannot be negative");
+        } else {
+          rd.error(ptr + "/published", where, reason);
+        }
       }
       ex.multiplier = "1";
       if (auto m = rd.text(e, "multiplier", ptr, where, false)) ex.multiplier = *m;

@@ -110,6 +110,9 @@ struct Expected {
   double value = 0;                   // number.value * multiplier_value
   double tolerance = 0;               // number.tolerance * |multiplier_value|
   std::string note;                   // optional remark
+  // The book prints the value without a sign (a magnitude): the computed
+  // value's magnitude is compared with it ("unsigned": true).
+  bool magnitude = false;
   // "node B", "node B (left)", "x = 3", "span 1"
   std::string where(const input::BeamFile& beam) const;
 };

@@ -218,6 +218,7 @@ CaseResult run_case(const ReferenceCase& ref, const compare::Options& options, c
     v.tolerance = ex.tolerance;
     v.tolerance_rule = ex.number.rule;
     v.form = form_name(ex.number.form);
+    v.magnitude = ex.magnitude;
     v.note = ex.note;
     const compare::LoadSet* set = &br.sets.front();
     for (const auto& s : br.sets)
@@ -240,7 +241,7 @@ CaseResult run_case(const ReferenceCase& ref, const compare::Options& options, c
         if (auto c = value_on(ex, m, *set, &reason)) {
           mv.evaluated = true;
           mv.computed = *c;
-          mv.difference = *c - ex.value;
+          mv.difference = (ex.magnitude ? std::abs(*c) : *c) - ex.value;
           // The tolerance is a closed bound; allow for the rounding of the
           // tolerance itself and of the multiplier.
           mv.holds = std::abs(mv.difference) <= ex.tolerance * (1 + 1e-12) + 1e-14 * std::abs(ex.multiplier_value);

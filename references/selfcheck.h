@@ -45,6 +45,7 @@ struct ValueResult {
   double tolerance = 0;        // absolute
   std::string tolerance_rule;  // "half a unit in the 4th decimal place"
   std::string form;            // "decimal", "exact", "rounded denominator"
+  bool magnitude = false;      // printed without a sign: |computed| is compared
   std::string note;
   std::vector<MethodValue> methods;  // in the order the methods ran
   bool holds = false;          // on every method that ran, and at least one ran

@@ -186,6 +186,46 @@ TEST(Loader, ReportsErrorsWithTheirLocation) {
   EXPECT_FALSE(run_case(c).holds);
 }
 
+// A value printed without a sign ("unsigned": true) is compared with the
+// magnitude of the computed one; a negative text cannot be unsigned. The
+// beam is a simple span under a central point load: M = PL/4 (Hicks, "Civil
+// Engineering Formulas", ch. 2, from memory), here P = 10, L = 4, M = 10.
+TEST(Loader, UnsignedValueIsAMagnitude) {
+  const std::string head = R"({
+    "id": "u", "title": "u",
+    "source": {"title": "s", "locator": "l", "confirmed": "derived"},
+    "beam": {"units": {"force": "kN", "length": "m"}, "spans": [{"length": 4, "EI": 20000}],
+             "supports": ["pinned", "roller"], "loads": [{"type": "point", "span": 1, "P": 10, "at": 2}]},
+    "symbols": {},
+    "expected": [)";
+  auto with = [&](const std::string& e) { return parse_case_text(head + e + "]}", "u.json"); };
+  // The sagging moment under the load: positive, so unsigned or not it holds.
+  const ReferenceCase plain = with(R"({"quantity": "moment", "x": 2, "side": "left", "published": "10.0", "unsigned": true})");
+  ASSERT_TRUE(plain.ok()) << errors_of(plain);
+  EXPECT_TRUE(run_case(plain).holds) << failures_of(run_case(plain));
+  // Right of the load the shear is -P/2 = -5 (V = dM/dx): only its
+  // magnitude matches "5.0", and only when the text is marked unsigned.
+  const ReferenceCase neg = with(R"({"quantity": "shear", "x": 3, "published": "5.0", "unsigned": true})");
+  ASSERT_TRUE(neg.ok()) << errors_of(neg);
+  const CaseResult rn = run_case(neg);
+  EXPECT_TRUE(rn.holds) << failures_of(rn);
+  for (const auto& mv : rn.values.at(0).methods)
+    if (mv.evaluated) { EXPECT_LT(mv.computed, 0) << mv.method; }
+  const ReferenceCase signed_neg = with(R"({"quantity": "shear", "x": 3, "published": "5.0"})");
+  ASSERT_TRUE(signed_neg.ok()) << errors_of(signed_neg);
+  EXPECT_FALSE(run_case(signed_neg).holds);
+  const ReferenceCase off = with(R"({"quantity": "shear", "x": 3, "published": "5.1", "unsigned": true})");
+  ASSERT_TRUE(off.ok()) << errors_of(off);
+  EXPECT_FALSE(run_case(off).holds);
+  const ReferenceCase bad = with(R"({"quantity": "shear", "x": 3, "published": "-5.0", "unsigned": true},
+                                    {"quantity": "shear", "x": 3, "published": "5.0", "unsigned": "yes"})");
+  EXPECT_FALSE(bad.ok());
+  std::set<std::string> pointers;
+  for (const auto& e : bad.errors) pointers.insert(e.pointer);
+  EXPECT_TRUE(pointers.count("/expected/0/published")) << errors_of(bad);
+  EXPECT_TRUE(pointers.count("/expected/1/unsigned")) << errors_of(bad);
+}
+
 TEST(Loader, NotJsonAndMissingDirectory) {
   const ReferenceCase c = parse_case_text("{ not json", "x.json");
   ASSERT_FALSE(c.ok());

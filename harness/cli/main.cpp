@@ -630,6 +630,7 @@ int run_selfcheck(const SelfcheckArgs& a) {
         std::string printed = v.published;
         if (!v.multiplier.empty() && v.multiplier != "1")
           printed = printed == "1" ? v.multiplier : printed == "-1" ? "-" + v.multiplier : printed + " " + v.multiplier;
+        if (v.magnitude) printed += " (printed without sign; the magnitude is compared)";
         std::cout << "  " << (v.holds ? "  ok " : paint("FAIL ", false)) << v.quantity << " at " << v.where << ": published "
                   << printed << " = " << g(v.expected, 10) << " +- " << g(v.tolerance, 2) << "; computed";
         for (const auto& m : v.methods) {
@@ -668,7 +669,7 @@ int run_selfcheck(const SelfcheckArgs& a) {
           nlohmann::ordered_json jv;
           jv["quantity"] = v.quantity; jv["where"] = v.where; jv["case"] = v.load_case;
           jv["published"] = v.published; jv["multiplier"] = v.multiplier; jv["expected"] = v.expected;
-          jv["tolerance"] = v.tolerance; jv["tolerance_rule"] = v.tolerance_rule; jv["holds"] = v.holds;
+          jv["tolerance"] = v.tolerance; jv["tolerance_rule"] = v.tolerance_rule; jv["unsigned"] = v.magnitude; jv["holds"] = v.holds;
           nlohmann::ordered_json ms = nlohmann::ordered_json::object();
           for (const auto& m : v.methods)
             ms[m.method] = {{"status", method_status_name(m.status)}, {"computed", m.evaluated ? nlohmann::ordered_json(m.computed) : nlohmann::ordered_json(nullptr)},
@@ -703,7 +704,7 @@ int run_selfcheck(const SelfcheckArgs& a) {
       for (std::size_t i = 0; i < c.values.size(); ++i) {
         const auto& v = c.values[i];
         h << "<tr><td>" << (i == 0 ? reports::html_escape(c.id) : "") << "</td><td>" << (i == 0 ? reports::html_escape(c.citation) : "")
-          << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier)
+          << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier + (v.magnitude ? " (printed without sign; magnitude compared)" : ""))
           << "</td><td>" << input::format_number(v.expected) << "</td><td>" << input::format_number(v.tolerance) << "</td>";
         for (const char* m : {"three-moment", "slope-deflection", "stiffness"}) {
           std::string cell = "-";
