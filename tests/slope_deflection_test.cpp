@@ -1505,5 +1505,27 @@ TEST(Scale, OneMillionSpansEquilibrium) {
   EXPECT_NEAR(s.nodes[n / 2].reaction_force, w * L, 1e-9);
 }
 
+// ---------------------------------------------------------------------------
+// A published solution by slope-deflection: Pearson Education, "Structural
+// Analysis" Instructor's Solutions Manual (R. C. Hibbeler, 8th ed., 2012;
+// author and edition from memory, through the ISBN), Problem 11-1, p. 406:
+// A and C fixed, B a roller, EI constant; AB = 9 ft with 3 k at 3 ft and at
+// 6 ft, BC = 20 ft with 4 k at mid-span. Printed (clockwise member-end
+// moments +): M_AB = -4.621, M_BA = 8.759, M_BC = -8.759, M_CB = 10.62 k-ft,
+// and theta_B = 180/(29 EI) (clockwise). In our convention (sagging +)
+// all three support moments hog.
+TEST(SlopeDeflectionPublished, HibbelerProblem11_1TwoFixedEnds) {
+  const double EI = 1e6;
+  Beam b = make<double>({T::Fixed, T::Roller, T::Fixed}, {9.0, 20.0}, EI);
+  b.loads = {span_point<double>(0, 3.0, 3.0), span_point<double>(0, 6.0, 3.0), span_point<double>(1, 10.0, 4.0)};
+  const Solution s = run(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  EXPECT_NEAR(*s.nodes[0].moment_right, -4.621, 0.0005);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -8.759, 0.0005);
+  EXPECT_NEAR(*s.nodes[1].moment_right, -8.759, 0.0005);
+  EXPECT_NEAR(*s.nodes[2].moment_left, -10.62, 0.005);
+  EXPECT_NEAR(s.nodes[1].rotation_left, 180.0 / (29.0 * EI), 1e-9 * 180.0 / (29.0 * EI));
+}
+
 }  // namespace
 }  // namespace trivet
