@@ -341,12 +341,16 @@ void compare_methods(LoadSet& set, double agreement) {
   struct PairDiff { std::size_t a, b; double worst; };
   std::vector<PairDiff> pairs;
   double best = -1;
+  // Where the largest difference is: a node (with the quantity's suffix)
+  // or a station. The text is made once, at the end, not at every value.
+  struct Place { bool node = true; std::size_t index = 0; const char* suffix = ""; };
+  Place worst_place;
   for (std::size_t a = 0; a < ok.size(); ++a)
     for (std::size_t b = a + 1; b < ok.size(); ++b) {
       const MethodResult& A = *ok[a];
       const MethodResult& B = *ok[b];
       double pair_worst = 0;
-      auto note = [&](Kind k, double va, double vb, const std::string& where, double x) {
+      auto note = [&](Kind k, double va, double vb, Place where, double x) {
         const double r = rel(k, std::abs(va - vb));
         double& md = set.max_difference[static_cast<int>(k)];
         md = std::max(md, r);
@@ -355,28 +359,27 @@ void compare_methods(LoadSet& set, double agreement) {
           best = r;
           Worst w;
           w.kind = k;
-          w.where = where;
           w.x = x;
           set.worst = w;
           set.worst->values = {{A.name, va}, {B.name, vb}};
+          worst_place = where;
         }
       };
       for (std::size_t j = 0; j < nn; ++j) {
         const NodeResult& na = A.nodes[j];
         const NodeResult& nb = B.nodes[j];
-        const std::string where = "node " + set.beam.labels[j];
-        if (na.moment_left && nb.moment_left) note(Kind::Moment, *na.moment_left, *nb.moment_left, where + " (moment left)", na.x);
-        if (na.moment_right && nb.moment_right) note(Kind::Moment, *na.moment_right, *nb.moment_right, where + " (moment right)", na.x);
-        note(Kind::Reaction, na.reaction_force, nb.reaction_force, where + " (reaction)", na.x);
-        note(Kind::Moment, na.reaction_moment, nb.reaction_moment, where + " (reaction moment)", na.x);
-        note(Kind::Deflection, na.deflection, nb.deflection, where + " (deflection)", na.x);
-        note(Kind::Rotation, na.rotation_left, nb.rotation_left, where + " (rotation)", na.x);
-        note(Kind::Rotation, na.rotation_right, nb.rotation_right, where + " (rotation right)", na.x);
+        if (na.moment_left && nb.moment_left) note(Kind::Moment, *na.moment_left, *nb.moment_left, {true, j, " (moment left)"}, na.x);
+        if (na.moment_right && nb.moment_right) note(Kind::Moment, *na.moment_right, *nb.moment_right, {true, j, " (moment right)"}, na.x);
+        note(Kind::Reaction, na.reaction_force, nb.reaction_force, {true, j, " (reaction)"}, na.x);
+        note(Kind::Moment, na.reaction_moment, nb.reaction_moment, {true, j, " (reaction moment)"}, na.x);
+        note(Kind::Deflection, na.deflection, nb.deflection, {true, j, " (deflection)"}, na.x);
+        note(Kind::Rotation, na.rotation_left, nb.rotation_left, {true, j, " (rotation)"}, na.x);
+        note(Kind::Rotation, na.rotation_right, nb.rotation_right, {true, j, " (rotation right)"}, na.x);
       }
       for (std::size_t i = 0; i < ns; ++i) {
         const StationValues& sa = A.stations[i];
         const StationValues& sb = B.stations[i];
-        const std::string where = "x = " + fmt(sa.x);
+        const Place where{false, i, ""};
         note(Kind::Moment, sa.moment, sb.moment, where, sa.x);
         note(Kind::Shear, sa.shear, sb.shear, where, sa.x);
         note(Kind::Deflection, sa.deflection, sb.deflection, where, sa.x);
@@ -384,6 +387,9 @@ void compare_methods(LoadSet& set, double agreement) {
       }
       pairs.push_back({a, b, pair_worst});
     }
+  if (set.worst)
+    set.worst->where = worst_place.node ? "node " + set.beam.labels[worst_place.index] + worst_place.suffix
+                                        : "x = " + fmt(set.worst->x);
 
   bool any_failed = false;
   for (const auto& m : set.methods)
