@@ -77,8 +77,12 @@ class JsonWriter {
   void value(std::size_t n) { separate(); buf_ += std::to_string(n); }
   void value(int n) { separate(); buf_ += std::to_string(n); }
   void null() { separate(); buf_ += "null"; }
-  // An element of the current array written beforehand by a writer of the
-  // matching depth (its text starts with its own line break and indent).
+  // How many containers are open (for a writer that makes a part to be put
+  // in here with raw_element()).
+  std::size_t depth() const { return stack_.size(); }
+  // Elements of the current array (or members of the current object)
+  // written beforehand by a writer of the matching depth (the text starts
+  // with its own line break and indent).
   void raw_element(std::string_view text) {
     if (!stack_.empty()) {
       Level& l = stack_.back();

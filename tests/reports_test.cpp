@@ -164,6 +164,62 @@ TEST(StreamedReports, HeadsKeepTheirLengthAndTheDocumentIsTheSame) {
             [&] { std::ostringstream o; write_json(o, {}, run); return o.str(); }());
 }
 
+// A long beam: its methods run side by side and its long arrays are
+// written in blocks by two threads. The results must be those of each
+// method run alone, and the report must hold every station and node once,
+// in order, with the values of the results (a general requirement of the
+// report, no published source).
+TEST(LongBeam, SideBySideMethodsAndBlockWrittenArraysKeepTheResults) {
+  std::string text = R"({"units": {"force": "kN", "length": "m"}, "stations_per_span": 4, "spans": [)";
+  const std::size_t n = 9000;
+  for (std::size_t i = 0; i < n; ++i) text += std::string(i ? "," : "") + R"({"length": )" + std::to_string(3 + i % 5) + R"(, "EI": 40000})";
+  text += R"(], "supports": ["pinned")";
+  for (std::size_t i = 0; i < n; ++i) text += R"(, "roller")";
+  text += R"(], "loads": [)";
+  for (std::size_t i = 0; i < n; ++i)
+    text += std::string(i ? "," : "") + R"({"type": "udl", "span": )" + std::to_string(i + 1) + R"(, "w": )" + std::to_string(1 + i % 7) + "}";
+  text += "]}";
+  const input::BeamFile f = input::parse_beam_text(text, "long.json");
+  ASSERT_TRUE(f.ok());
+  const compare::BeamResult all = compare::check(f, {});
+  ASSERT_EQ(all.sets.size(), 1u);
+  const compare::LoadSet& set = all.sets.front();
+  ASSERT_GE(set.stations.size(), 40000u);  // past both thresholds
+  ASSERT_EQ(set.methods.size(), 3u);
+  for (const auto& m : set.methods) {
+    compare::Options one;
+    one.methods = {m.name};
+    const compare::BeamResult alone = compare::check(f, one);
+    const compare::MethodResult& a = alone.sets.front().methods.front();
+    ASSERT_EQ(a.name, m.name);
+    ASSERT_EQ(a.stations.size(), m.stations.size());
+    ASSERT_EQ(a.nodes.size(), m.nodes.size());
+    for (std::size_t i = 0; i < a.stations.size(); ++i) {
+      ASSERT_EQ(a.stations[i].moment, m.stations[i].moment) << m.name << " station " << i;
+      ASSERT_EQ(a.stations[i].deflection, m.stations[i].deflection) << m.name << " station " << i;
+    }
+    for (std::size_t i = 0; i < a.nodes.size(); ++i) ASSERT_EQ(a.nodes[i].reaction_force, m.nodes[i].reaction_force);
+  }
+  std::ostringstream o;
+  write_json(o, {all}, RunInfo{"test", {}, 1e-6});
+  const nlohmann::json j = nlohmann::json::parse(o.str());
+  const auto& methods = j["beams"][0]["results"][set.name]["methods"];
+  for (const auto& m : set.methods) {
+    const auto& st = methods[m.name]["stations"];
+    ASSERT_EQ(st.size(), m.stations.size()) << m.name;
+    for (std::size_t i = 0; i < m.stations.size(); ++i) {
+      ASSERT_EQ(st[i]["x"].get<double>(), m.stations[i].x) << m.name << " station " << i;
+      ASSERT_EQ(st[i]["moment"].get<double>(), m.stations[i].moment) << m.name << " station " << i;
+    }
+    const auto& nodes = methods[m.name]["nodes"];
+    ASSERT_EQ(nodes.size(), m.nodes.size());
+    for (std::size_t i = 0; i < m.nodes.size(); ++i) ASSERT_EQ(nodes[i]["reaction_force"].get<double>(), m.nodes[i].reaction_force);
+  }
+  const auto& ext = j["beams"][0]["results"][set.name]["span_extremes"];
+  ASSERT_EQ(ext.size(), n);
+  for (std::size_t i = 0; i < n; ++i) ASSERT_EQ(ext[i]["span"].get<std::size_t>(), i + 1);
+}
+
 TEST(ConsoleReport, RoundsForAPerson) {
   EXPECT_EQ(fixed(-0.0001, 2), "0.00");
   EXPECT_EQ(fixed(31.6449, 2), "31.64");

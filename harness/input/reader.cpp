@@ -346,11 +346,11 @@ struct TooDeep {
 };
 
 struct DuplicateFinder {
-  // The SAX interface of nlohmann/json: a first pass over the text that
-  // finds duplicate keys and excessive depth without building anything. (A
-  // parser callback would do the same in one pass, but nlohmann/json's
-  // callback parser rescans each array at every object end, which makes a
-  // 100,000-span file quadratic.) It allocates nothing in the steady state:
+  // The SAX interface of nlohmann/json: it finds duplicate keys and
+  // excessive depth as the text is read, beside the document builder
+  // (CheckedDocument below). (A parser callback would do the same, but
+  // nlohmann/json's callback parser rescans each array at every object
+  // end, which makes a 100,000-span file quadratic.) It allocates nothing in the steady state:
   // the keys of every open object share one stack, and a container's JSON
   // Pointer is put together only when a message needs it.
   std::size_t max_depth = 64;
@@ -446,6 +446,29 @@ struct DuplicateFinder {
   }
 };
 
+// One pass over the text: the duplicate finder's checks and the document
+// built by nlohmann/json's own SAX document builder, event by event.
+struct CheckedDocument {
+  DuplicateFinder& dups;
+  nlohmann::detail::json_sax_dom_parser<json> dom;
+  CheckedDocument(json& root, DuplicateFinder& d) : dups(d), dom(root, false) {}
+  bool null() { dups.null(); return dom.null(); }
+  bool boolean(bool v) { dups.boolean(v); return dom.boolean(v); }
+  bool number_integer(json::number_integer_t v) { dups.number_integer(v); return dom.number_integer(v); }
+  bool number_unsigned(json::number_unsigned_t v) { dups.number_unsigned(v); return dom.number_unsigned(v); }
+  bool number_float(json::number_float_t v, const json::string_t& t) { dups.number_float(v, t); return dom.number_float(v, t); }
+  bool string(json::string_t& v) { dups.string(v); return dom.string(v); }
+  bool binary(json::binary_t& v) { dups.binary(v); return dom.binary(v); }
+  bool start_object(std::size_t n) { dups.start_object(n); return dom.start_object(n); }
+  bool end_object() { dups.end_object(); return dom.end_object(); }
+  bool start_array(std::size_t n) { dups.start_array(n); return dom.start_array(n); }
+  bool end_array() { dups.end_array(); return dom.end_array(); }
+  bool key(json::string_t& k) { dups.key(k); return dom.key(k); }
+  bool parse_error(std::size_t at, const std::string& token, const nlohmann::detail::exception& ex) {
+    return dups.parse_error(at, token, ex);
+  }
+};
+
 std::string where_of(const std::string& ptr) {
   // "/spans/1/..." -> "span 2", "/supports/0" -> "node 1", ...
   static const std::vector<std::pair<std::string, std::string>> prefixes = {
@@ -487,7 +510,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   DuplicateFinder dups;
   dups.max_depth = limits.max_depth;
   try {
-    if (!json::sax_parse(text, &dups, json::input_format_t::json, true, false)) {
+    CheckedDocument doc(root, dups);
+    if (!json::sax_parse(text, &doc, json::input_format_t::json, true, false)) {
       if (dups.overflow) {
         rd.error(dups.overflow_pointer, where_of(dups.overflow_pointer), "must be a finite number (the value is too large)");
         return out;
@@ -499,7 +523,6 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       rd.error("", "", "not valid JSON: " + msg);
       return out;
     }
-    root = json::parse(text, nullptr, true, false);
   } catch (const TooDeep& deep) {
     rd.error(deep.pointer, where_of(deep.pointer), "nested more than " + std::to_string(limits.max_depth) +
                                                        " levels deep (a beam file needs only a few)");
