@@ -158,15 +158,30 @@ std::string ReportFile::open(const std::string& path) {
   name.push_back('\0');
   const int fd = mkstemp(name.data());
   if (fd < 0) return "cannot create a file in " + dir.string();
-  close(fd);
   tmp_ = name.data();
-  file_.open(tmp_, std::ios::binary | std::ios::trunc);
-  if (!file_) {
+  if (!buf_.open(tmp_, std::ios::out | std::ios::binary | std::ios::trunc)) {
+    close(fd);
     std::remove(tmp_.c_str());
     tmp_.clear();
     return "cannot write " + std::string(name.data());
   }
+  buf_.fd = fd;  // kept open for the early writeback; closed in commit()
+  file_.clear();
   return "";
+}
+
+std::streamsize ReportFile::Buffer::xsputn(const char* s, std::streamsize n) {
+  const std::streamsize put = std::filebuf::xsputn(s, n);
+  since_ += put;
+  constexpr std::streamsize kStep = std::streamsize(8) << 20;
+  if (since_ >= kStep && fd >= 0) {
+    since_ = 0;
+#ifdef __linux__
+    // Start the disk writes of what is written so far; does not wait for them.
+    if (sync() == 0) sync_file_range(fd, 0, 0, SYNC_FILE_RANGE_WRITE);
+#endif
+  }
+  return put;
 }
 
 std::ostream& ReportFile::out() { return stdout_ ? std::cout : static_cast<std::ostream&>(file_); }
@@ -182,15 +197,22 @@ std::string ReportFile::commit() {
   const std::string tmp = tmp_;
   tmp_.clear();  // from here on this object no longer owns the temporary file
   file_.flush();
-  if (!file_) { file_.close(); std::remove(tmp.c_str()); return "writing " + path_ + " failed (disk full?)"; }
-  file_.close();
+  const int fd = buf_.fd;
+  buf_.fd = -1;
+  const bool written = static_cast<bool>(file_) && buf_.close() != nullptr;
+  if (!written) {
+    buf_.close();
+    if (fd >= 0) close(fd);
+    std::remove(tmp.c_str());
+    return "writing " + path_ + " failed (disk full?)";
+  }
   const fs::path target(path_);
   const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
   // On the disk before it takes the report's name (a power cut leaves the
   // old report or the new one, not an empty file).
-  if (const int sync_fd = ::open(tmp.c_str(), O_RDONLY); sync_fd >= 0) {
-    const bool synced = fsync(sync_fd) == 0;
-    close(sync_fd);
+  if (fd >= 0) {
+    const bool synced = fsync(fd) == 0;
+    close(fd);
     if (!synced) { std::remove(tmp.c_str()); return "writing " + path_ + " failed (the disk did not take it)"; }
   }
   std::error_code ec;
@@ -207,9 +229,10 @@ std::string ReportFile::commit() {
 
 ReportFile::~ReportFile() {
   if (!tmp_.empty()) {
-    file_.close();
+    buf_.close();
     std::remove(tmp_.c_str());
   }
+  if (buf_.fd >= 0) close(buf_.fd);
 }
 
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body) {

@@ -47,8 +47,20 @@ class ReportFile {
   std::string commit();  // "" or the reason it failed
 
  private:
+  // A file buffer that, every few MiB written, hands what it has to the
+  // kernel and asks it to start writing it to the disk, so that the sync
+  // before the rename has only the last part left to wait for.
+  class Buffer : public std::filebuf {
+   public:
+    int fd = -1;  // the temporary file, for the early writeback
+   protected:
+    std::streamsize xsputn(const char* s, std::streamsize n) override;
+   private:
+    std::streamsize since_ = 0;
+  };
   std::string path_, tmp_;
-  std::ofstream file_;
+  Buffer buf_;
+  std::ostream file_{&buf_};
   bool stdout_ = false;
 };
 
