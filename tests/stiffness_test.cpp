@@ -1114,6 +1114,59 @@ TEST(Scope, NegativeSpringIsNotApplicable) {
   EXPECT_NE(s.reason.find("spring"), std::string::npos) << s.reason;
 }
 
+TEST(Scope, LoadBeyondTheBeamAfterOthersIsNotApplicable) {
+  // Found while the loads are taken span by span: the reason is the full check's.
+  Beam b = make_beam<double>({3, 3}, 1e4, {T::Pinned, T::Roller, T::Roller});
+  b.loads = {span_udl<double>(0, 0, 3, 2), span_point<double>(1, 1, 4), span_point<double>(2, 1, 4)};
+  Solution s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::NotApplicable);
+  EXPECT_NE(s.reason.find("span beyond the beam"), std::string::npos) << s.reason;
+  b.loads = {span_point<double>(1, 1, 4), span_udl<double>(0, 0, 3, 2), node_point<double>(7, 1)};
+  s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::NotApplicable);
+  EXPECT_NE(s.reason.find("node beyond the beam"), std::string::npos) << s.reason;
+  b.loads = {span_point<double>(0, 1, 4), span_udl<double>(1, 1, 4, 2)};
+  s = stiffness::solve(b, {});
+  EXPECT_EQ(s.status, MethodStatus::NotApplicable);
+  EXPECT_NE(s.reason.find("load extent outside span 2"), std::string::npos) << s.reason;
+}
+
+TEST(Order, LoadsInAnyOrderGiveTheSameAnswer) {
+  // Span loads out of span order and node loads anywhere (first, between,
+  // last) are regrouped; within a span the order is kept.
+  Beam b = make_beam<double>({4, 5, 3, 6}, 2e4, {T::Fixed, T::Roller, T::Spring, T::Free, T::Pinned});
+  b.supports[2].k = 3e3;
+  b.supports[2].kr = 1e3;
+  b.supports[3].hinge = true;
+  const std::vector<Load> in_order = {
+      node_point<double>(3, 7), span_udl<double>(0, 0, 4, 3), span_point<double>(0, 1.5, 10),
+      span_linear<double>(1, 1, 4, 2, 5), node_couple<double>(2, 4), span_couple<double>(2, 1, -6),
+      span_point<double>(3, 2, 8), span_udl<double>(3, 1, 5, 1)};
+  b.loads = in_order;
+  const Solution a = solve(b, false);
+  ASSERT_EQ(a.status, MethodStatus::Ok) << a.reason;
+  b.loads = {in_order[6], in_order[1], in_order[4], in_order[7], in_order[3], in_order[2], in_order[5], in_order[0]};
+  const Solution c = solve(b, false);
+  ASSERT_EQ(c.status, MethodStatus::Ok) << c.reason;
+  expect_equilibrium(b, c);
+  ASSERT_EQ(a.nodes.size(), c.nodes.size());
+  auto near = [](double x, double y) { return std::fabs(x - y) <= 1e-12 * (1 + std::fabs(x)); };
+  for (std::size_t i = 0; i < a.nodes.size(); ++i) {
+    EXPECT_TRUE(near(a.nodes[i].deflection, c.nodes[i].deflection)) << i;
+    EXPECT_TRUE(near(a.nodes[i].rotation_left, c.nodes[i].rotation_left)) << i;
+    EXPECT_TRUE(near(a.nodes[i].rotation_right, c.nodes[i].rotation_right)) << i;
+    EXPECT_TRUE(near(a.nodes[i].reaction_force, c.nodes[i].reaction_force)) << i;
+    EXPECT_TRUE(near(a.nodes[i].reaction_moment, c.nodes[i].reaction_moment)) << i;
+  }
+  for (std::size_t sp = 0; sp < b.spans.size(); ++sp)
+    for (double t : {0.0, 0.37, 0.5, 1.0}) {
+      const double x = t * b.spans[sp].length;
+      const PointValues p = a.at(sp, x, false), q = c.at(sp, x, false);
+      EXPECT_TRUE(near(p.moment, q.moment) && near(p.shear, q.shear) && near(p.deflection, q.deflection) &&
+                  near(p.rotation, q.rotation)) << sp << " " << x;
+    }
+}
+
 TEST(Faults, MechanismFailsWithAReason) {
   // Not stable (one pinned support): the reader would refuse it; the solver
   // must still not return a number.
