@@ -572,8 +572,8 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   };
   // The element of span s: DOFs and prescribed values of (v, theta) at its
   // left end (node s, right side) and right end (node s + 1, left side).
-  auto element_dofs = [&](std::size_t s, std::size_t d[4], R g[4]) {
-    const Dofs a = node_dofs(s), b = node_dofs(s + 1);
+  // a and b: node_dofs(s) and node_dofs(s + 1).
+  auto element_dofs = [&](std::size_t s, const Dofs& a, const Dofs& b, std::size_t d[4], R g[4]) {
     d[0] = a.v; d[1] = a.thR; d[2] = b.v; d[3] = b.thL;
     g[0] = a.v == kNone ? beam.supports[s].settlement : R(0);
     g[2] = b.v == kNone ? beam.supports[s + 1].settlement : R(0);
@@ -599,16 +599,22 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   }
   if (!in_scope) return not_applicable<R>(check_scope(beam));
 
-  // Pass 2, spans with their loads. The node results start with the
-  // applied actions at the nodes (down +, clockwise +); the element end
-  // forces are subtracted in pass 3, which leaves the reactions (beam.h
-  // signs) where restrained. Each span's consistent nodal loads f_e are
+  // Pass 2, spans with their loads. The actions applied at the nodes (down
+  // +, clockwise +) are kept in a list, by node; in pass 3 each node result
+  // starts with them and the element end forces are subtracted, which
+  // leaves the reactions (beam.h signs) where restrained. Each span's consistent nodal loads f_e are
   // kept in its end displacement fields (v0, th0, v1, th1) until pass 3
   // reads them there before it writes the displacements. Prescribed
   // displacements move to the right-hand side. A spring at a node is added
   // once both its elements are in (node s after element s).
   auto st = std::make_shared<State<R>>();
   BasicSolution<R> sol;
+  struct NodeAction {
+    std::size_t node;
+    bool couple;
+    R value;
+  };
+  std::vector<NodeAction> actions;
   std::vector<R> f;
   Band<R> K(ndof, width);
   // Equilibrium (a fault check, see below): the loads' resultant (down +)
@@ -632,12 +638,12 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     const Dofs d = node_dofs(l.index);
     if (l.type == LoadType::Point) {
       if (d.v != kNone) f[d.v] += l.P;
-      sol.nodes[l.index].reaction_force += l.P;
+      actions.push_back({l.index, false, l.P});
       load_force += l.P;
       scale += abs(l.P);
     } else {  // not at a hinge (checked), so one rotation
       if (d.thL != kNone) f[d.thL] += l.C;
-      sol.nodes[l.index].reaction_moment += l.C;
+      actions.push_back({l.index, true, l.C});
       load_moment += l.C;
       mscale += abs(l.C);
     }
@@ -652,13 +658,16 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     st->first.assign(n + 1, 0);
     st->loads.clear();
     st->loads.reserve(m);
-    sol.nodes.assign(n + 1, BasicNodeResult<R>{});
+    actions.clear();
     f.assign(ndof, R(0));
     std::fill(K.a.begin(), K.a.end(), R(0));
     load_force = load_moment = scale = mscale = R(0);
     std::size_t k = 0;
     R x0(0);
+    Dofs right = node_dofs(0);
     for (std::size_t s = 0; s < n; ++s) {
+      const Dofs left = right;
+      right = node_dofs(s + 1);
       const R& L = beam.spans[s].length;
       st->first[s] = st->loads.size();
       R fe[4] = {R(0), R(0), R(0), R(0)};
@@ -715,7 +724,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       sp.v0 = fe[0]; sp.th0 = fe[1]; sp.v1 = fe[2]; sp.th1 = fe[3];
       std::size_t d[4];
       R g[4];
-      element_dofs(s, d, g);
+      element_dofs(s, left, right, d, g);
       R ke[4][4];
       element_matrix(sp.EI, sp.L, ke);
       for (int c = 0; c < 4; ++c) {
@@ -769,10 +778,23 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // at the nodes the reactions are the applied actions minus the sum of F
   // (the right end's of span i - 1, then the left end's of span i). Node i
   // is finished once the spans on both sides are recovered.
+  // The node actions by node, in their own order at a node.
+  if (!std::is_sorted(actions.begin(), actions.end(),
+                      [](const NodeAction& p, const NodeAction& q) { return p.node < q.node; }))
+    std::stable_sort(actions.begin(), actions.end(),
+                     [](const NodeAction& p, const NodeAction& q) { return p.node < q.node; });
+  sol.nodes.reserve(n + 1);
   R x(0), react_force(0), react_moment(0);
   R F2prev(0), F3prev(0);  // span i - 1's end forces at node i
+  std::size_t next_action = 0;
+  Dofs next = node_dofs(0);
   for (std::size_t i = 0; i <= n; ++i) {
-    BasicNodeResult<R>& r = sol.nodes[i];
+    BasicNodeResult<R>& r = sol.nodes.emplace_back();
+    for (; next_action < actions.size() && actions[next_action].node == i; ++next_action) {
+      const NodeAction& a = actions[next_action];
+      if (a.couple) r.reaction_moment += a.value;
+      else r.reaction_force += a.value;
+    }
     load_moment += r.reaction_force * x;  // the forces applied at the node
     if (i > 0) {
       r.reaction_force -= F2prev;
@@ -782,7 +804,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       SpanState<R>& sp = st->spans[i];
       std::size_t d[4];
       R g[4];
-      element_dofs(i, d, g);
+      const Dofs prev = next;
+      next = node_dofs(i + 1);
+      element_dofs(i, prev, next, d, g);
       const R fe[4] = {sp.v0, sp.th0, sp.v1, sp.th1};
       R ue[4];
       for (int c = 0; c < 4; ++c) ue[c] = d[c] == kNone ? g[c] : u[d[c]];
