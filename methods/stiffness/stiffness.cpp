@@ -172,27 +172,32 @@ struct State {
 // for a couple. Added to f.
 template <class R>
 void add_consistent(const SpanLoad<R>& l, const R& L, R f[4]) {
+  // Summed in locals (the same operations in the same order as into f):
+  // through the pointer f every store would make the compiler read the
+  // load's fields again.
+  R acc[4] = {f[0], f[1], f[2], f[3]};
   R N[4];
-  if (l.type == LoadType::Point) {
-    hermite(l.a / L, L, N);
-    for (int i = 0; i < 4; ++i) f[i] += l.value * N[i];
-    return;
+  const R a = l.a;
+  if (l.type == LoadType::Point || l.type == LoadType::Couple) {
+    const R value = l.value;
+    if (l.type == LoadType::Point) hermite(a / L, L, N);
+    else hermite_slope(a / L, L, N);
+    for (int i = 0; i < 4; ++i) acc[i] += value * N[i];
+  } else {
+    const GaussRule<R>& g = gauss_rule<R>();
+    const R b = l.b, wa = l.wa, wb = l.wb;
+    const R half = (b - a) / R(2), mid = (a + b) / R(2);
+    const R wmid = (wa + wb) / R(2), wslope = (wb - wa) / R(2);
+    for (int q = 0; q < kGaussPoints; ++q) {
+      const R xi = g.x[q];
+      const R t = mid + half * xi;
+      const R w = wmid + wslope * xi;
+      hermite(t / L, L, N);
+      const R c = g.w[q] * half * w;
+      for (int i = 0; i < 4; ++i) acc[i] += c * N[i];
+    }
   }
-  if (l.type == LoadType::Couple) {
-    hermite_slope(l.a / L, L, N);
-    for (int i = 0; i < 4; ++i) f[i] += l.value * N[i];
-    return;
-  }
-  const GaussRule<R>& g = gauss_rule<R>();
-  const R half = (l.b - l.a) / R(2), mid = (l.a + l.b) / R(2);
-  for (int q = 0; q < kGaussPoints; ++q) {
-    const R xi = g.x[q];
-    const R t = mid + half * xi;
-    const R w = (l.wa + l.wb) / R(2) + (l.wb - l.wa) / R(2) * xi;
-    hermite(t / L, L, N);
-    const R c = g.w[q] * half * w;
-    for (int i = 0; i < 4; ++i) f[i] += c * N[i];
-  }
+  for (int i = 0; i < 4; ++i) f[i] = acc[i];
 }
 
 // The clamped-clamped Green's function of a span of length L (EI = 1):
@@ -263,11 +268,11 @@ bool included(const R& a, const R& x, const R& L, bool after) {
 // from its left end: the end force, then every load to the left. Shared by
 // `evaluate` and the node moments, so both give the same bits.
 template <class R>
-void span_statics(const State<R>& st, std::size_t s, const R& x, bool after, R& V, R& M) {
+void span_statics(const State<R>& st, std::size_t s, const R& x, bool after, R& V_out, R& M_out) {
   const SpanState<R>& sp = st.spans[s];
   const R& L = sp.L;
-  V = sp.V0;
-  M = sp.M0 + sp.V0 * x;
+  R V = sp.V0;  // in locals: stores through V_out and M_out would reload the loads
+  R M = sp.M0 + sp.V0 * x;
   for (std::size_t k = st.first[s]; k < st.first[s + 1]; ++k) {
     const SpanLoad<R>& l = st.loads[k];
     if (l.distributed()) {
@@ -288,6 +293,8 @@ void span_statics(const State<R>& st, std::size_t s, const R& x, bool after, R& 
       }
     }
   }
+  V_out = V;
+  M_out = M;
 }
 
 template <class R>
