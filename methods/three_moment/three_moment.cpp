@@ -81,7 +81,9 @@
 
 #include "methods/three_moment/three_moment.h"
 
+#include <cmath>
 #include <cstdint>
+#include <type_traits>
 #include <memory>
 #include <string>
 #include <utility>
@@ -93,19 +95,34 @@
 namespace trivet::three_moment {
 namespace {
 
+// The per-span helpers of solve() are lambdas called from a few places;
+// GCC otherwise keeps them out of line, and the calls (arguments through
+// memory) cost more than their bodies on a long beam.
+#if defined(__GNUC__)
+#define TM_INLINE __attribute__((always_inline))
+#else
+#define TM_INLINE
+#endif
+
 template <class R>
-bool same(const R& a, const R& b) {
+TM_INLINE inline bool same(const R& a, const R& b) {
   return !(a < b) && !(b < a);
 }
 template <class R>
-bool is_zero(const R& a) {
+TM_INLINE inline bool is_zero(const R& a) {
   return same(a, R(0));
 }
 // False for NaN and infinities (x - x is NaN there; NaN compares false).
+// Built-in floats ask std::isfinite (the same answer, without the
+// subtraction and two compares).
 template <class R>
-bool finite(const R& a) {
-  const R d = a - a;
-  return d <= R(0) && d >= R(0);
+TM_INLINE inline bool finite(const R& a) {
+  if constexpr (std::is_floating_point_v<R>) {
+    return std::isfinite(a);
+  } else {
+    const R d = a - a;
+    return d <= R(0) && d >= R(0);
+  }
 }
 
 enum class Kind { Point, Couple, Ramp };
@@ -125,6 +142,7 @@ struct SpanLoad {
 template <class R>
 struct Segment {
   R L{1}, invEI{1};  // length, 1/EI
+  R invL{1};         // 1/L (set with the segment's load terms)
   R MA{0};         // node-side moment at the left end
   R V0{0};         // shear just right of the left end
   R theta0{0};     // rotation at the left end
@@ -214,7 +232,7 @@ struct Consts {
 
 // True for an exact zero (false for NaN): a uniform load's slope.
 template <class R>
-bool flat(const R& s) {
+TM_INLINE inline bool flat(const R& s) {
   return s <= R(0) && s >= R(0);
 }
 
@@ -223,7 +241,7 @@ bool flat(const R& s) {
 // over the loads [l, end): the formulas of the derivation above, times 6.
 // Summed in locals (registers, for double), returned as {6 FL, 6 FR}.
 template <class R>
-std::pair<R, R> free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
+TM_INLINE inline std::pair<R, R> free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
   const R L2 = L * L;
   R FL6{0}, FR6{0};
   for (; l != end; ++l) {
@@ -275,7 +293,7 @@ struct EndSums {
 // The sums are kept in locals (registers, for double) while the loads are
 // read; a ramp's terms are those of add_ramp with the constants of `k`.
 template <class R>
-EndSums<R> end_sums(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
+TM_INLINE inline EndSums<R> end_sums(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
   R V{0}, M{0}, I1{0}, I2{0}, PL{0}, CL{0}, P0{0}, C0{0};
   // The load w + slope tau from tau = 0, integrated to u > 0; `remove` for
   // the continuation past its end, which is taken off again.
@@ -452,7 +470,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       if (sup[i].type != SupportType::Free) real.push_back(i);
     real.push_back(n);
   }
-  auto real_of = [&](std::size_t g) { return merged ? real[g] : g; };
+  auto real_of = [&](std::size_t g) TM_INLINE { return merged ? real[g] : g; };
   auto st = std::make_shared<State<R>>();
   reserve_fresh(st->seg, m);
   if (merged) {
@@ -477,10 +495,10 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     sg.invEI = R(1) / beam.spans[real_of(g)].EI;
     st->seg.push_back(std::move(sg));
   }
-  auto seg_of = [&](std::size_t span) { return merged ? st->span_seg[span] : span; };
-  auto off_of = [&](std::size_t span) { return merged ? st->span_off[span] : R(0); };
+  auto seg_of = [&](std::size_t span) TM_INLINE { return merged ? st->span_seg[span] : span; };
+  auto off_of = [&](std::size_t span) TM_INLINE { return merged ? st->span_off[span] : R(0); };
   // Written in place: a copy of the finished struct costs more than filling it.
-  auto set_span_load = [&](SpanLoad<R>& sl, const BasicLoad<R>& l) {
+  auto set_span_load = [&](SpanLoad<R>& sl, const BasicLoad<R>& l) TM_INLINE {
     const R off = off_of(l.index);
     switch (l.type) {
       case LoadType::Point: sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; break;
@@ -508,6 +526,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   bool in_order = !merged;
   std::size_t last_span = 0;
   reserve_fresh(st->loads, beam.loads.size());
+  st->loads.resize(beam.loads.size());  // written by index; cut to `nload` after
+  std::size_t nload = 0;
   for (const auto& l : beam.loads) {
     if (l.on_node) {
       if (l.index > n) return failed<R>("node load on a node that does not exist");
@@ -529,8 +549,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       continue;
     }
     last_span = l.index;
-    st->loads.emplace_back();
-    set_span_load(st->loads.back(), l);
+    set_span_load(st->loads[nload++], l);
     ++st->seg[l.index].last;  // a count for now
   }
   std::vector<R> nodeP, nodeC;
@@ -543,12 +562,13 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       else nodeC[l.index] += l.C;
     }
   }
-  auto node_P = [&](std::size_t i) { return nodeP.empty() ? R(0) : nodeP[i]; };
-  auto node_C = [&](std::size_t i) { return nodeC.empty() ? R(0) : nodeC[i]; };
+  auto node_P = [&](std::size_t i) TM_INLINE { return nodeP.empty() ? R(0) : nodeP[i]; };
+  auto node_C = [&](std::size_t i) TM_INLINE { return nodeC.empty() ? R(0) : nodeC[i]; };
   for (std::size_t i = 1; i < n; ++i)
     if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>("couple at hinge " + label(i));
 
   if (in_order) {  // counts to ranges
+    st->loads.resize(nload);
     std::size_t total = 0;
     for (auto& sg : st->seg) {
       sg.first = total;
@@ -594,9 +614,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   // difference). Each row is built and eliminated at once (Thomas forward
   // sweep), so no matrix is stored; each segment's load terms are made
   // once and serve the rows at both its ends.
-  auto type_of = [&](std::size_t k) { return sup[real_of(k)].type; };
-  auto settle = [&](std::size_t k) -> const R& { return sup[real_of(k)].settlement; };
-  auto offA = [&](std::size_t g) {  // MA_g = (unknown at node g) + offA(g)
+  auto type_of = [&](std::size_t k) TM_INLINE { return sup[real_of(k)].type; };
+  auto settle = [&](std::size_t k) TM_INLINE -> const R& { return sup[real_of(k)].settlement; };
+  auto offA = [&](std::size_t g) TM_INLINE {  // MA_g = (unknown at node g) + offA(g)
     return g > 0 && type_of(g) != SupportType::Fixed ? node_C(real_of(g)) : R(0);
   };
   struct Terms {
@@ -604,9 +624,10 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     R f;         // L/EI
     R psi;       // chord rotation (vB - vA)/L
   };
-  auto terms = [&](std::size_t g) {
-    const Segment<R>& sg = st->seg[g];
-    const R invL = R(1) / sg.L;
+  auto terms = [&](std::size_t g) TM_INLINE {
+    Segment<R>& sg = st->seg[g];
+    sg.invL = R(1) / sg.L;
+    const R& invL = sg.invL;
     const R& invEI = sg.invEI;
     const auto fm = free_moments6(loads + sg.first, loads + sg.last, sg.L, K);
     const R q = invEI * invL;
@@ -641,27 +662,35 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   };
   std::vector<Row> rows;
   reserve_fresh(rows, nv);
+  rows.resize(nv);     // written by index, row `nrow` next
+  std::size_t nrow = 0;
   bool ok = true;
   // One row a x[i-1] + b x[i] + c x[i+1] = d. No pivoting: the rows are
   // strictly diagonally dominant (2(f1+f2) > f1+f2; fixed rows 2f > f;
   // known rows 1 > 0), so no pivot vanishes.
-  auto emit = [&](const R& a, const R& b, const R& c, const R& d) {
-    const R piv = rows.empty() ? b : R(b - a * rows.back().cp);
-    if (is_zero(piv) || !finite(piv)) {
+  auto emit = [&](const R& a, const R& b, const R& c, const R& d) TM_INLINE {
+    if (nrow == nv) {  // more rows than unknowns: cannot happen, refused below
       ok = false;
-      rows.push_back(Row{R(0), R(0)});
       return;
     }
-    const R rhs = rows.empty() ? d : R(d - a * rows.back().dp);
-    rows.push_back(Row{R(c / piv), R(rhs / piv)});
+    const R piv = nrow == 0 ? b : R(b - a * rows[nrow - 1].cp);
+    if (is_zero(piv) || !finite(piv)) {
+      ok = false;
+      ++nrow;
+      return;
+    }
+    const R rhs = nrow == 0 ? d : R(d - a * rows[nrow - 1].dp);
+    Row& r = rows[nrow++];
+    r.cp = c / piv;
+    r.dp = rhs / piv;
   };
-  auto known = [&](const R& value) { emit(R(0), R(1), R(0), value); };
+  auto known = [&](const R& value) TM_INLINE { emit(R(0), R(1), R(0), value); };
   // theta(0) = 0 of segment g (fixed at its left end), unknown MA then MB.
-  auto fixed_left_row = [&](const Terms& t) {
+  auto fixed_left_row = [&](const Terms& t) TM_INLINE {
     emit(R(0), K.two * t.f, t.f, R(-t.gr6 - K.six * t.psi));
   };
   // theta(L) = 0 of segment g (fixed at its right end), unknown MA then MB.
-  auto fixed_right_row = [&](std::size_t g, const Terms& t) {
+  auto fixed_right_row = [&](std::size_t g, const Terms& t) TM_INLINE {
     emit(t.f, K.two * t.f, R(0), R(-t.gl6 + K.six * t.psi - t.f * offA(g)));
   };
   Terms prev{}, cur = terms(0);  // the segments left and right of node k
@@ -697,7 +726,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   if (type_of(m) != SupportType::Fixed) known(R(R(0) - node_C(real_of(m))));
   else if (m == 1 && left_free) known(MB_left);
   else fixed_right_row(m - 1, cur);
-  if (!ok || rows.size() != nv) return failed<R>("zero or non-finite pivot in the three-moment system");
+  if (!ok || nrow != nv) return failed<R>("zero or non-finite pivot in the three-moment system");
   if (!finite(rows[nv - 1].dp)) return failed<R>("non-finite support moment");
   for (std::size_t i = nv - 1; i-- > 0;) {
     rows[i].dp = rows[i].dp - rows[i].cp * rows[i + 1].dp;
@@ -717,11 +746,11 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     R MB;      // node-side moment at the right end
     R I1, I2;  // int_0^L M and int_0^L int M
   };
-  auto finish = [&](std::size_t g, const R& MA, const R& MB) {
+  auto finish = [&](std::size_t g, const R& MA, const R& MB) TM_INLINE {
     Segment<R>& sg = st->seg[g];
     const R& L = sg.L;
     Done d{end_sums(loads + sg.first, loads + sg.last, L, K), MB, R(0), R(0)};
-    const R invL = R(1) / L;
+    const R& invL = sg.invL;
     sg.MA = MA;
     if (g == 0 && left_free) sg.V0 = V0_left;
     else if (g == m - 1 && right_free) sg.V0 = V0_right;
@@ -743,7 +772,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   BasicPointValues<R> lv;   // values just left of the next node
   R Ml{0};                  // MB of the segment ending at the next node
   auto emit_node = [&](std::size_t i, const BasicPointValues<R>& left, const BasicPointValues<R>& right,
-                       const R& Mr) {
+                       const R& Mr) TM_INLINE {
     out.nodes.emplace_back();
     BasicNodeResult<R>& nr = out.nodes.back();  // filled in place
     nr.x = x;
@@ -764,13 +793,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       nr.rotation_left = nr.rotation_right = R(0);
       nr.reaction_moment = (i > 0 ? Ml : R(0)) + node_C(i) - (i < n ? Mr : R(0));  // M jumps by +C - couple
     }
-    if (!finite(nr.deflection) || !finite(nr.reaction_force) || !finite(nr.reaction_moment) ||
-        !finite(nr.rotation_left) || !finite(nr.rotation_right))
-      bad = true;
+    // Without short-circuits: one test of the five, not five branches.
+    const bool fin = finite(nr.deflection) & finite(nr.reaction_force) & finite(nr.reaction_moment) &
+                     finite(nr.rotation_left) & finite(nr.rotation_right);
+    bad = bad | !fin;
   };
   // The nodes from the left end of segment g up to (not including) its
   // right end; then `lv` and `Ml` for the node at its right end.
-  auto emit_segment = [&](std::size_t g, const Done& d) {
+  auto emit_segment = [&](std::size_t g, const Done& d) TM_INLINE {
     const Segment<R>& sg = st->seg[g];
     const std::size_t i0 = real_of(g), i1 = real_of(g + 1);
     BasicPointValues<R> rv;  // inside segment g at 0: after the loads at 0
