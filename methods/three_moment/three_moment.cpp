@@ -127,15 +127,57 @@ TM_INLINE inline bool finite(const R& a) {
 
 enum class Kind { Point, Couple, Ramp };
 
-// One load on a (possibly merged) span, local positions.
+// One load on a (possibly merged) span, local positions. No default
+// member values: the array of them is allocated uninitialised (for
+// built-in numbers) and every element is written whole before it is read;
+// a lone one is made with `{}` (zeros).
 template <class R>
 struct SpanLoad {
-  Kind kind = Kind::Point;
-  R a{0};   // Point/Couple: position; Ramp: start c
-  R d{0};   // Ramp: end
-  R p{0};   // Point: P; Couple: C; Ramp: w1 (intensity at c)
-  R w2{0};  // Ramp: intensity at d
-  R s{0};   // Ramp: slope (w2 - w1)/(d - c)
+  Kind kind;
+  R a;   // Point/Couple: position; Ramp: start c
+  R d;   // Ramp: end
+  R p;   // Point: P; Couple: C; Ramp: w1 (intensity at c)
+  R w2;  // Ramp: intensity at d
+  R s;   // Ramp: slope (w2 - w1)/(d - c)
+};
+
+// An array written once by index straight after it is allocated. Unlike
+// std::vector::resize, the elements are default-initialised, so the
+// memory of an array of built-in numbers is not zeroed first and then
+// written again (on a long beam the arrays do not stay in cache, and the
+// zeroing doubles their memory traffic). Large arrays are advised onto
+// transparent huge pages, as reserve_fresh does.
+template <class T>
+class FreshArray {
+ public:
+  void allocate(std::size_t count) {
+    p_.reset(new T[count]);
+    n_ = count;
+    advise_huge(p_.get(), count * sizeof(T));
+  }
+  void shrink(std::size_t count) { n_ = count < n_ ? count : n_; }  // keeps the memory
+  void release() { p_.reset(); n_ = 0; }
+  T& operator[](std::size_t i) { return p_[i]; }
+  const T& operator[](std::size_t i) const { return p_[i]; }
+  T* data() { return p_.get(); }
+  const T* data() const { return p_.get(); }
+  std::size_t size() const { return n_; }
+
+ private:
+  static void advise_huge(void* data, std::size_t bytes) {
+#if defined(__linux__) && defined(MADV_HUGEPAGE)
+    constexpr std::uintptr_t huge = std::uintptr_t(1) << 21;
+    if (bytes < 4 * huge) return;
+    const auto p = reinterpret_cast<std::uintptr_t>(data);
+    const std::uintptr_t b = (p + huge - 1) & ~(huge - 1), e = (p + bytes) & ~(huge - 1);
+    if (e > b) (void)madvise(reinterpret_cast<void*>(b), e - b, MADV_HUGEPAGE);
+#else
+    (void)data;
+    (void)bytes;
+#endif
+  }
+  std::unique_ptr<T[]> p_;
+  std::size_t n_ = 0;
 };
 
 // One span of the solved model (interior unsupported nodes merged away).
@@ -153,7 +195,7 @@ struct Segment {
 template <class R>
 struct State {
   std::vector<Segment<R>> seg;
-  std::vector<SpanLoad<R>> loads;
+  FreshArray<SpanLoad<R>> loads;
   // Filled only when unsupported interior nodes were merged (else a span
   // is its own segment):
   std::vector<std::size_t> span_seg;  // original span -> segment
@@ -297,7 +339,7 @@ TM_INLINE inline EndSums<R> end_sums(const SpanLoad<R>* l, const SpanLoad<R>* en
   R V{0}, M{0}, I1{0}, I2{0}, PL{0}, CL{0}, P0{0}, C0{0};
   // The load w + slope tau from tau = 0, integrated to u > 0; `remove` for
   // the continuation past its end, which is taken off again.
-  auto ramp = [&](const R& u, const R& w, const R& slope, bool flat_load, bool remove) {
+  auto ramp = [&](const R& u, const R& w, const R& slope, bool flat_load, bool remove) TM_INLINE {
     const R u2 = u * u, u3 = u2 * u, u4 = u3 * u;
     R dV = w * u, dM = w * u2 * k.half, d1 = w * u3 * k.sixth, d2 = w * u4 * k.r24;
     if (!flat_load) {
@@ -501,8 +543,12 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   auto set_span_load = [&](SpanLoad<R>& sl, const BasicLoad<R>& l) TM_INLINE {
     const R off = off_of(l.index);
     switch (l.type) {
-      case LoadType::Point: sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; break;
-      case LoadType::Couple: sl.kind = Kind::Couple; sl.a = off + l.at; sl.p = l.C; break;
+      case LoadType::Point:
+        sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; sl.d = sl.w2 = sl.s = R(0);  // all written
+        break;
+      case LoadType::Couple:
+        sl.kind = Kind::Couple; sl.a = off + l.at; sl.p = l.C; sl.d = sl.w2 = sl.s = R(0);
+        break;
       case LoadType::Udl:
       case LoadType::Linear: {
         const R& w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
@@ -525,9 +571,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   bool any_node_load = false;
   bool in_order = !merged;
   std::size_t last_span = 0;
-  reserve_fresh(st->loads, beam.loads.size());
-  st->loads.resize(beam.loads.size());  // written by index; cut to `nload` after
+  st->loads.allocate(beam.loads.size());  // written by index; cut to `nload` after
   std::size_t nload = 0;
+  std::size_t next_span = 0;  // in order: spans before it have their `first`
   for (const auto& l : beam.loads) {
     if (l.on_node) {
       if (l.index > n) return failed<R>("node load on a node that does not exist");
@@ -549,8 +595,9 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       continue;
     }
     last_span = l.index;
+    for (; next_span <= l.index; ++next_span) st->seg[next_span].first = st->seg[next_span].last = nload;
     set_span_load(st->loads[nload++], l);
-    ++st->seg[l.index].last;  // a count for now
+    st->seg[l.index].last = nload;
   }
   std::vector<R> nodeP, nodeC;
   if (any_node_load) {
@@ -564,19 +611,14 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   }
   auto node_P = [&](std::size_t i) TM_INLINE { return nodeP.empty() ? R(0) : nodeP[i]; };
   auto node_C = [&](std::size_t i) TM_INLINE { return nodeC.empty() ? R(0) : nodeC[i]; };
-  for (std::size_t i = 1; i < n; ++i)
-    if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>("couple at hinge " + label(i));
+  if (any_node_load)  // (a couple at a hinge is a node load)
+    for (std::size_t i = 1; i < n; ++i)
+      if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>("couple at hinge " + label(i));
 
-  if (in_order) {  // counts to ranges
-    st->loads.resize(nload);
-    std::size_t total = 0;
-    for (auto& sg : st->seg) {
-      sg.first = total;
-      total += sg.last;
-      sg.last = total;
-    }
+  if (in_order) {  // the ranges are set; the spans after the last loaded one have none
+    st->loads.shrink(nload);
+    for (; next_span < m; ++next_span) st->seg[next_span].first = st->seg[next_span].last = nload;
   } else {  // bucket the loads by segment: count (in `last`), offsets, fill
-    st->loads.clear();
     for (auto& sg : st->seg) sg.last = 0;
     for (const auto& l : beam.loads)
       if (!l.on_node) ++st->seg[seg_of(l.index)].last;
@@ -590,7 +632,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       sg.first = sg.last = total;
       total += count;
     }
-    st->loads.resize(total);
+    st->loads.allocate(total);
     auto push = [&](std::size_t g, const SpanLoad<R>& sl) { st->loads[st->seg[g].last++] = sl; };
     for (const auto& l : beam.loads)
       if (!l.on_node) set_span_load(st->loads[st->seg[seg_of(l.index)].last++], l);
@@ -598,7 +640,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (merged)
       for (std::size_t i = 1; i < n; ++i) {
         if (sup[i].type != SupportType::Free) continue;
-        SpanLoad<R> sl;
+        SpanLoad<R> sl{};
         sl.a = st->span_off[i];
         if (!is_zero(node_P(i))) { sl.kind = Kind::Point; sl.p = node_P(i); push(seg_of(i), sl); }
         if (!is_zero(node_C(i))) { sl.kind = Kind::Couple; sl.p = node_C(i); push(seg_of(i), sl); }
@@ -660,9 +702,8 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   struct Row {
     R cp, dp;  // Thomas: modified super-diagonal, right-hand side
   };
-  std::vector<Row> rows;
-  reserve_fresh(rows, nv);
-  rows.resize(nv);     // written by index, row `nrow` next
+  FreshArray<Row> rows;
+  rows.allocate(nv);     // written by index, row `nrow` next
   std::size_t nrow = 0;
   bool ok = true;
   // One row a x[i-1] + b x[i] + c x[i+1] = d. No pivoting: the rows are
@@ -676,6 +717,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     const R piv = nrow == 0 ? b : R(b - a * rows[nrow - 1].cp);
     if (is_zero(piv) || !finite(piv)) {
       ok = false;
+      rows[nrow].cp = rows[nrow].dp = R(0);  // read by the next row
       ++nrow;
       return;
     }
@@ -859,7 +901,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     }
     emit_node(n, lv, lv, R(0));
   }
-  std::vector<Row>().swap(rows);
+  rows.release();
   if (bad) return failed<R>("non-finite result");
   std::shared_ptr<const State<R>> cst = std::move(st);
   out.status = MethodStatus::Ok;
