@@ -538,6 +538,209 @@ struct SpanSums {
   }
 };
 
+// ---------------------------------------------------------------------------
+// The rotations-only path: every support pinned or roller and no hinge, no
+// node load, the span loads in span order (the common beam). The unknowns
+// are the node rotations, one per node, and the system is tridiagonal. The
+// work is that of the general path below (the same operations in the same
+// order, so the same numbers), fused into two passes: forward, each span's
+// loads, its stiffness and at once the elimination of the row it completes;
+// backward, the back substitution with each span's end moments and the node
+// results. Whatever it does not cover (or any fault, or a bad pivot) it
+// leaves to the general path, which then also gives the reason.
+
+// True for a support of the rotations-only path.
+template <class R>
+bool rotation_only(const BasicSupport<R>& sp) {
+  return (sp.type == SupportType::Pinned || sp.type == SupportType::Roller) && !sp.hinge;
+}
+
+// One row of the tridiagonal system as the forward elimination leaves it.
+template <class R>
+struct RotationRow {
+  R ip{0};  // 1 / pivot
+  R r{0};   // the reduced right-hand side
+  R k{0};   // 2EI/L of the span right of the node: the entry right of the diagonal
+  R x{0};   // global x of the node
+};
+
+template <class R>
+bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSolution<R>& out) {
+  const std::size_t n = beam.spans.size();
+  const std::size_t N = n + 1;
+  if (N > std::size_t(2000000000)) return false;
+  if (!rotation_only(beam.supports[0])) return false;
+  const auto& loads = beam.loads;
+  const std::size_t nl = loads.size();
+  auto state = std::make_shared<SolvedState<R>>();
+  auto& spans = state->spans;
+  auto& terms = state->terms;
+  reserve_huge(spans, n);
+  reserve_huge(terms, nl);
+  std::vector<RotationRow<R>> rows;
+  reserve_huge(rows, N);
+  const R tol = pivot_tolerance<R>();
+  bool end_couples = false;
+  std::size_t lp = 0;    // the next load
+  R Dcur{0}, bcur{0};    // diagonal and right-hand side of row s, as assembled so far
+  R xpos{0};
+  // Reduces row s (complete) by the row before it, checks the pivot and
+  // keeps the row (as banded_solve's tridiagonal path).
+  auto eliminate = [&](const R& k, std::size_t s) -> bool {
+    R p = Dcur;
+    if (s > 0) {
+      const RotationRow<R>& pr = rows.back();
+      if (!is_zero(pr.k)) {
+        const R f = pr.k * pr.ip;
+        p -= f * pr.k;
+        bcur -= f * pr.r;
+      }
+    }
+    if (bad_pivot(p, Dcur, tol)) return false;
+    RotationRow<R> row;
+    row.ip = R(1) / p;
+    row.r = std::move(bcur);
+    row.k = k;
+    row.x = xpos;
+    rows.push_back(std::move(row));
+    return true;
+  };
+  for (std::size_t s = 0; s < n; ++s) {
+    const BasicSupport<R>& right = beam.supports[s + 1];
+    if (!rotation_only(right)) return false;
+    const BasicSpan<R>& bs = beam.spans[s];
+    if (!(bs.length > R(0)) || !is_finite(bs.length) || !(bs.EI > R(0)) || !is_finite(bs.EI)) return false;
+    SpanState<R> ss;
+    ss.L = bs.length;
+    ss.EI = bs.EI;
+    const R& L = ss.L;
+    ss.first = terms.size();
+    SpanSums<R> sums;
+    if (lp < nl && !loads[lp].on_node && loads[lp].index == s) {
+      const R invL2 = R(1) / (L * L);
+      do {
+        Term<R> t;
+        LoadEffect<R> e;
+        if (take_load(loads[lp], L, invL2, K, t, e) != LoadFault::None) return false;
+        if (t.kind == TermKind::Couple && (!(t.a > R(0)) || !(t.a < L))) end_couples = true;
+        sums.add(e);
+        terms.push_back(std::move(t));
+      } while (++lp < nl && !loads[lp].on_node && loads[lp].index == s);
+    }
+    sums.store(ss);
+    ss.last = terms.size();
+    // As the general path: the simple-beam data, then the span's stiffness
+    // into rows s and s + 1.
+    const R invL = R(1) / L;
+    ss.RA0 = -ss.RA0 * invL;
+    ss.FL = ss.RA0 * L * L * L * K.sixth + ss.FL;
+    ss.MB = -ss.MB - ss.RA0;
+    const R k = R(2) * ss.EI / L;
+    const R twok = R(2) * k;
+    const R& Di = beam.supports[s].settlement;
+    const R& Dj = right.settlement;
+    R bnext{0};
+    if (!is_zero(Di) || !is_zero(Dj)) {
+      const R kL = R(3) * k / L;
+      if (!is_zero(Di)) { bcur -= kL * Di; bnext -= kL * Di; }
+      if (!is_zero(Dj)) { bcur -= -kL * Dj; bnext -= -kL * Dj; }
+    }
+    bcur -= ss.MA;   // FEM_ij
+    bnext -= ss.DA;  // FEM_ji
+    Dcur += twok;
+    spans.push_back(std::move(ss));
+    if (!eliminate(k, s)) return false;
+    xpos += bs.length;
+    Dcur = twok;  // 0 + 2k in the general path (2k is never -0)
+    bcur = std::move(bnext);
+  }
+  if (lp != nl) return false;
+  if (!eliminate(R(0), n)) return false;
+
+  // Backward: rotation of node i from that of node i + 1, then span i's end
+  // moments, then node i + 1 complete (span i + 1 done the step before).
+  reserve_huge(out.nodes, N);
+  out.nodes.resize(N);
+  R xr = rows[n].r * rows[n].ip;  // rotation of node i + 1
+  R Yright{0};                    // span i + 1's part of node i + 1's reaction
+  for (std::size_t i = n; i-- > 0;) {
+    const RotationRow<R>& row = rows[i];
+    const R xi = (row.r - row.k * xr) * row.ip;
+    SpanState<R>& ss = spans[i];
+    const R& L = ss.L;
+    const R& k = row.k;  // 2EI/L, as the general path computes it again
+    const R femI = ss.MA, femJ = ss.DA;
+    ss.DA = beam.supports[i].settlement;
+    ss.DB = beam.supports[i + 1].settlement;
+    const R d = ss.DB - ss.DA;
+    const R psi = is_zero(d) ? d : R(d / L);  // 0 / L is that same 0
+    ss.MA = k * (R(2) * xi + xr - R(3) * psi) + femI;
+    const R Mji = k * (xi + R(2) * xr - R(3) * psi) + femJ;
+    const R RB0 = ss.MB;
+    ss.MB = -Mji;
+    if (!is_finite(ss.MA) || !is_finite(ss.MB)) return false;
+    const R dV = (ss.MB - ss.MA) / L;
+    BasicNodeResult<R>& nr = out.nodes[i + 1];
+    R Y{0};
+    Y += RB0 - dV;
+    if (i + 1 < n) Y += Yright;
+    nr.x = rows[i + 1].x;
+    nr.deflection = ss.DB;
+    nr.rotation_left = xr;
+    nr.rotation_right = xr;
+    {
+      R m = ss.MB;
+      if (end_couples) {
+        for (std::size_t q = ss.first; q < ss.last; ++q) {
+          const Term<R>& t = terms[q];
+          if (t.kind == TermKind::Couple && !(t.a < ss.L)) m -= t.p;
+        }
+      }
+      nr.moment_left = std::move(m);
+    }
+    if (i + 1 < n) {
+      const SpanState<R>& sr = spans[i + 1];
+      R m = sr.MA;
+      if (end_couples) {
+        for (std::size_t q = sr.first; q < sr.last; ++q) {
+          const Term<R>& t = terms[q];
+          if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
+        }
+      }
+      nr.moment_right = std::move(m);
+    }
+    nr.reaction_force = std::move(Y);
+    Yright = ss.RA0 + dV;
+    xr = xi;
+  }
+  {
+    BasicNodeResult<R>& nr = out.nodes[0];
+    const SpanState<R>& sr = spans[0];
+    R Y{0};
+    Y += Yright;
+    nr.x = rows[0].x;
+    nr.deflection = sr.DA;
+    nr.rotation_left = xr;
+    nr.rotation_right = xr;
+    R m = sr.MA;
+    if (end_couples) {
+      for (std::size_t q = sr.first; q < sr.last; ++q) {
+        const Term<R>& t = terms[q];
+        if (t.kind == TermKind::Couple && !(t.a > R(0))) m += t.p;
+      }
+    }
+    nr.moment_right = std::move(m);
+    nr.reaction_force = std::move(Y);
+  }
+
+  std::shared_ptr<const SolvedState<R>> frozen = std::move(state);
+  out.at = [frozen](std::size_t span, const R& local, bool after) {
+    return SpanMath<R>::evaluate(*frozen, span, local, after);
+  };
+  out.status = MethodStatus::Ok;
+  return true;
+}
+
 }  // namespace
 
 template <class R>
@@ -552,6 +755,10 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   auto name = [&](std::size_t i) { return node_name(labels, i); };
 
   const Consts<R> K;
+  {
+    BasicSolution<R> fast;
+    if (solve_rotations_only(beam, K, fast)) return fast;
+  }
   // Node loads, only when there are any (empty: none).
   std::vector<R> nodeP, nodeC;
   // The solved state is filled as we go (see `SpanSums` for what its
