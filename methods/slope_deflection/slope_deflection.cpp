@@ -564,6 +564,32 @@ struct RotationRow {
   R x{0};   // global x of the node
 };
 
+// Reduces the next row (diagonal D, right-hand side b, complete) by the row
+// before it, checks the pivot and keeps the row (as banded_solve's
+// tridiagonal path does); false for a bad pivot. Filled in place: a copy
+// from the stack would read the fresh stores back in wider pieces, which
+// store forwarding cannot serve.
+template <class R>
+TRIVET_SD_INLINE bool eliminate_row(std::vector<RotationRow<R>>& rows, const R& D, R& b, const R& k, const R& x,
+                                    const R& tol) {
+  R p = D;
+  if (!rows.empty()) {
+    const RotationRow<R>& pr = rows.back();
+    if (!is_zero(pr.k)) {
+      const R f = pr.k * pr.ip;
+      p -= f * pr.k;
+      b -= f * pr.r;
+    }
+  }
+  if (bad_pivot(p, D, tol)) return false;
+  RotationRow<R>& row = rows.emplace_back();
+  row.ip = R(1) / p;
+  row.r = std::move(b);
+  row.k = k;
+  row.x = x;
+  return true;
+}
+
 template <class R>
 bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSolution<R>& out) {
   const std::size_t n = beam.spans.size();
@@ -584,33 +610,12 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
   std::size_t lp = 0;    // the next load
   R Dcur{0}, bcur{0};    // diagonal and right-hand side of row s, as assembled so far
   R xpos{0};
-  // Reduces row s (complete) by the row before it, checks the pivot and
-  // keeps the row (as banded_solve's tridiagonal path).
-  auto eliminate = [&](const R& k, std::size_t s) -> bool {
-    R p = Dcur;
-    if (s > 0) {
-      const RotationRow<R>& pr = rows.back();
-      if (!is_zero(pr.k)) {
-        const R f = pr.k * pr.ip;
-        p -= f * pr.k;
-        bcur -= f * pr.r;
-      }
-    }
-    if (bad_pivot(p, Dcur, tol)) return false;
-    RotationRow<R> row;
-    row.ip = R(1) / p;
-    row.r = std::move(bcur);
-    row.k = k;
-    row.x = xpos;
-    rows.push_back(std::move(row));
-    return true;
-  };
   for (std::size_t s = 0; s < n; ++s) {
     const BasicSupport<R>& right = beam.supports[s + 1];
     if (!rotation_only(right)) return false;
     const BasicSpan<R>& bs = beam.spans[s];
     if (!(bs.length > R(0)) || !is_finite(bs.length) || !(bs.EI > R(0)) || !is_finite(bs.EI)) return false;
-    SpanState<R> ss;
+    SpanState<R>& ss = spans.emplace_back();  // in place, as the rows
     ss.L = bs.length;
     ss.EI = bs.EI;
     const R& L = ss.L;
@@ -619,12 +624,11 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
     if (lp < nl && !loads[lp].on_node && loads[lp].index == s) {
       const R invL2 = R(1) / (L * L);
       do {
-        Term<R> t;
+        Term<R>& t = terms.emplace_back();
         LoadEffect<R> e;
         if (take_load(loads[lp], L, invL2, K, t, e) != LoadFault::None) return false;
         if (t.kind == TermKind::Couple && (!(t.a > R(0)) || !(t.a < L))) end_couples = true;
         sums.add(e);
-        terms.push_back(std::move(t));
       } while (++lp < nl && !loads[lp].on_node && loads[lp].index == s);
     }
     sums.store(ss);
@@ -648,14 +652,13 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
     bcur -= ss.MA;   // FEM_ij
     bnext -= ss.DA;  // FEM_ji
     Dcur += twok;
-    spans.push_back(std::move(ss));
-    if (!eliminate(k, s)) return false;
+    if (!eliminate_row(rows, Dcur, bcur, k, xpos, tol)) return false;
     xpos += bs.length;
     Dcur = twok;  // 0 + 2k in the general path (2k is never -0)
     bcur = std::move(bnext);
   }
   if (lp != nl) return false;
-  if (!eliminate(R(0), n)) return false;
+  if (!eliminate_row(rows, Dcur, bcur, R(0), xpos, tol)) return false;
 
   // Backward: rotation of node i from that of node i + 1, then span i's end
   // moments, then node i + 1 complete (span i + 1 done the step before).
