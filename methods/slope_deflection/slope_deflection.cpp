@@ -34,6 +34,9 @@
 #if defined(__linux__)
 #include <sys/mman.h>
 #endif
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
 
 namespace trivet::slope_deflection {
 namespace {
@@ -556,13 +559,32 @@ bool rotation_only(const BasicSupport<R>& sp) {
 }
 
 // One row of the tridiagonal system as the forward elimination leaves it.
+// Every field is written before it is read (no initializers: for double
+// the array is not cleared first).
 template <class R>
 struct RotationRow {
-  R ip{0};  // 1 / pivot
-  R r{0};   // the reduced right-hand side
-  R k{0};   // 2EI/L of the span right of the node: the entry right of the diagonal
-  R x{0};   // global x of the node
+  R ip;  // 1 / pivot
+  R r;   // the reduced right-hand side
+  R k;   // 2EI/L of the span right of the node: the entry right of the diagonal
+  R x;   // global x of the node
 };
+
+// q0 = a0 / b0 and q1 = a1 / b1. For double in one packed division (each
+// lane an IEEE division, so the same quotients): the divider is shared by
+// the several divisions of a span and the pivot's.
+template <class R>
+TRIVET_SD_INLINE void divide2(const R& a0, const R& b0, const R& a1, const R& b1, R& q0, R& q1) {
+  q0 = a0 / b0;
+  q1 = a1 / b1;
+}
+#if defined(__SSE2__)
+TRIVET_SD_INLINE void divide2(const double& a0, const double& b0, const double& a1, const double& b1, double& q0,
+                              double& q1) {
+  const __m128d q = _mm_div_pd(_mm_set_pd(a1, a0), _mm_set_pd(b1, b0));
+  q0 = _mm_cvtsd_f64(q);
+  q1 = _mm_cvtsd_f64(_mm_unpackhi_pd(q, q));
+}
+#endif
 
 // Reduces the next row (diagonal D, right-hand side b, complete) by the row
 // before it, checks the pivot and keeps the row (as banded_solve's
@@ -570,11 +592,11 @@ struct RotationRow {
 // from the stack would read the fresh stores back in wider pieces, which
 // store forwarding cannot serve.
 template <class R>
-TRIVET_SD_INLINE bool eliminate_row(std::vector<RotationRow<R>>& rows, const R& D, R& b, const R& k, const R& x,
+TRIVET_SD_INLINE bool eliminate_row(RotationRow<R>* rows, std::size_t s, const R& D, R& b, const R& k, const R& x,
                                     const R& tol) {
   R p = D;
-  if (!rows.empty()) {
-    const RotationRow<R>& pr = rows.back();
+  if (s > 0) {
+    const RotationRow<R>& pr = rows[s - 1];
     if (!is_zero(pr.k)) {
       const R f = pr.k * pr.ip;
       p -= f * pr.k;
@@ -582,7 +604,7 @@ TRIVET_SD_INLINE bool eliminate_row(std::vector<RotationRow<R>>& rows, const R& 
     }
   }
   if (bad_pivot(p, D, tol)) return false;
-  RotationRow<R>& row = rows.emplace_back();
+  RotationRow<R>& row = rows[s];
   row.ip = R(1) / p;
   row.r = std::move(b);
   row.k = k;
@@ -603,8 +625,9 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
   auto& terms = state->terms;
   reserve_huge(spans, n);
   reserve_huge(terms, nl);
-  std::vector<RotationRow<R>> rows;
-  reserve_huge(rows, N);
+  const std::unique_ptr<RotationRow<R>[]> row_store(new RotationRow<R>[N]);
+  RotationRow<R>* const rows = row_store.get();
+  advise_huge(rows, N * sizeof(RotationRow<R>));
   const R tol = pivot_tolerance<R>();
   bool end_couples = false;
   std::size_t lp = 0;    // the next load
@@ -621,8 +644,11 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
     const R& L = ss.L;
     ss.first = terms.size();
     SpanSums<R> sums;
+    // 1/L^2 for the loads, 1/L and 2EI/L for the span (as the general path).
+    R invL2, invL;
+    divide2(R(1), R(L * L), R(1), L, invL2, invL);
+    const R k = R(2) * ss.EI / L;
     if (lp < nl && !loads[lp].on_node && loads[lp].index == s) {
-      const R invL2 = R(1) / (L * L);
       do {
         Term<R>& t = terms.emplace_back();
         LoadEffect<R> e;
@@ -635,11 +661,9 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
     ss.last = terms.size();
     // As the general path: the simple-beam data, then the span's stiffness
     // into rows s and s + 1.
-    const R invL = R(1) / L;
     ss.RA0 = -ss.RA0 * invL;
     ss.FL = ss.RA0 * L * L * L * K.sixth + ss.FL;
     ss.MB = -ss.MB - ss.RA0;
-    const R k = R(2) * ss.EI / L;
     const R twok = R(2) * k;
     const R& Di = beam.supports[s].settlement;
     const R& Dj = right.settlement;
@@ -652,13 +676,13 @@ bool solve_rotations_only(const BasicBeam<R>& beam, const Consts<R>& K, BasicSol
     bcur -= ss.MA;   // FEM_ij
     bnext -= ss.DA;  // FEM_ji
     Dcur += twok;
-    if (!eliminate_row(rows, Dcur, bcur, k, xpos, tol)) return false;
+    if (!eliminate_row(rows, s, Dcur, bcur, k, xpos, tol)) return false;
     xpos += bs.length;
     Dcur = twok;  // 0 + 2k in the general path (2k is never -0)
     bcur = std::move(bnext);
   }
   if (lp != nl) return false;
-  if (!eliminate_row(rows, Dcur, bcur, R(0), xpos, tol)) return false;
+  if (!eliminate_row(rows, n, Dcur, bcur, R(0), xpos, tol)) return false;
 
   // Backward: rotation of node i from that of node i + 1, then span i's end
   // moments, then node i + 1 complete (span i + 1 done the step before).
