@@ -1505,6 +1505,60 @@ TEST(Scale, OneMillionSpansEquilibrium) {
   EXPECT_NEAR(s.nodes[n / 2].reaction_force, w * L, 1e-9);
 }
 
+// The fused path for beams on pinned and roller supports (no hinge, no node
+// load) does the general path's operations in the same order. A node load
+// of zero sends the same beam down the general path: the two must give the
+// same numbers (a property of the code, no published source).
+TEST(SlopeDeflectionPaths, FusedPathMatchesTheGeneralPath) {
+  std::mt19937 rng(4711u);
+  std::uniform_real_distribution<double> U(0.0, 1.0);
+  for (int trial = 0; trial < 300; ++trial) {
+    const std::size_t n = 1 + static_cast<std::size_t>(U(rng) * 12);
+    std::vector<T> types(n + 1, T::Roller);
+    types[0] = T::Pinned;
+    std::vector<double> lengths(n);
+    for (auto& L : lengths) L = 2 + 8 * U(rng);
+    Beam b = make<double>(types, lengths);
+    for (auto& sp : b.spans) sp.EI = 1e4 * (1 + 9 * U(rng));
+    if (trial % 3 == 0) b.supports[static_cast<std::size_t>(U(rng) * double(n + 1))].settlement = 0.01 * U(rng);
+    for (std::size_t i = 0; i < n; ++i) {
+      const double L = lengths[i], a = L * (0.1 + 0.8 * U(rng)), c = a + (L - a) * U(rng);
+      switch (static_cast<int>(U(rng) * 5)) {
+        case 0: b.loads.push_back(span_udl<double>(i, 0.0, L, 1 + 9 * U(rng))); break;
+        case 1: b.loads.push_back(span_udl<double>(i, a, c, 1 + 9 * U(rng))); break;
+        case 2: b.loads.push_back(span_linear<double>(i, a, c, 9 * U(rng), 9 * U(rng))); break;
+        case 3: b.loads.push_back(span_point<double>(i, a, 1 + 20 * U(rng))); break;
+        default: b.loads.push_back(span_couple<double>(i, trial % 2 ? a : 0.0, 20 * U(rng) - 10)); break;
+      }
+      if (U(rng) < 0.5) b.loads.push_back(span_point<double>(i, a, 5 * U(rng)));
+    }
+    Beam g = b;
+    g.loads.push_back(node_point<double>(0, 0.0));
+    const auto st = build_stations(b, 4);
+    const Solution fast = sd::solve(b, st), general = sd::solve(g, st);
+    ASSERT_EQ(fast.status, MethodStatus::Ok) << fast.reason;
+    ASSERT_EQ(general.status, MethodStatus::Ok) << general.reason;
+    double scale = 0;
+    for (const auto& nr : general.nodes) scale = std::max({scale, std::abs(nr.reaction_force), std::abs(nr.moment_left.value_or(0))});
+    const double tol = 1e-13 * std::max(scale, 1.0);
+    for (std::size_t i = 0; i <= n; ++i) {
+      const auto& f = fast.nodes[i];
+      const auto& r = general.nodes[i];
+      EXPECT_NEAR(f.reaction_force, r.reaction_force, tol) << "trial " << trial << " node " << i;
+      EXPECT_NEAR(f.moment_left.value_or(0), r.moment_left.value_or(0), tol) << "trial " << trial << " node " << i;
+      EXPECT_NEAR(f.moment_right.value_or(0), r.moment_right.value_or(0), tol) << "trial " << trial << " node " << i;
+      EXPECT_NEAR(f.rotation_left, r.rotation_left, 1e-13 * std::max(std::abs(r.rotation_left), 1e-9));
+      EXPECT_NEAR(f.deflection, r.deflection, 1e-15);
+    }
+    for (const auto& x : st) {
+      const PointValues pf = fast.at(x.span, x.local, x.after), pg = general.at(x.span, x.local, x.after);
+      EXPECT_NEAR(pf.moment, pg.moment, tol) << "trial " << trial;
+      EXPECT_NEAR(pf.shear, pg.shear, tol) << "trial " << trial;
+      EXPECT_NEAR(pf.deflection, pg.deflection, 1e-13 * std::max(std::abs(pg.deflection), 1e-9)) << "trial " << trial;
+    }
+  }
+}
+
 // ---------------------------------------------------------------------------
 // A published solution by slope-deflection: Pearson Education, "Structural
 // Analysis" Instructor's Solutions Manual (R. C. Hibbeler, 8th ed., 2012;
