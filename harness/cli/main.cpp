@@ -299,10 +299,9 @@ int run_check(const CheckArgs& a) {
   std::mutex ready_mutex;
   std::condition_variable ready_cv;
   std::vector<char> ready(files.size(), 0);
-  auto work = [&] {
-    for (;;) {
-      const std::size_t i = next++;
-      if (i >= files.size()) return;
+  // Checks beam i (and, for a library, renders it and marks it ready).
+  auto check_one = [&](std::size_t i) {
+    {
       compare::BeamResult& r = results[i];
       try {
         std::string text;
@@ -337,6 +336,9 @@ int run_check(const CheckArgs& a) {
       }
     }
   };
+  auto work = [&] {
+    for (std::size_t i; (i = next++) < files.size();) check_one(i);
+  };
 
   std::ostream& human = json_to_stdout ? std::cerr : std::cout;
   reports::Summary s;
@@ -361,20 +363,34 @@ int run_check(const CheckArgs& a) {
     if (junit_stream || !junit_err.empty()) std::string().swap(r.junit);
   };
   if (render_in_workers) {
+    // The main thread is one of the `jobs` checkers: between beams of its
+    // own it writes, in file order, every beam that is ready, and at the
+    // end it waits for the rest. (A separate writing thread would make one
+    // thread more than cores, and a wake-up per beam.)
     std::vector<std::thread> pool;
-    for (unsigned t = 0; t < jobs; ++t) pool.emplace_back(work);
-    for (std::size_t i = 0; i < files.size(); ++i) {
-      {
-        std::unique_lock<std::mutex> lock(ready_mutex);
-        ready_cv.wait(lock, [&] { return ready[i] != 0; });
+    for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work);
+    std::size_t written = 0;
+    auto write_ready = [&](bool wait) {
+      while (written < files.size()) {
+        {
+          std::unique_lock<std::mutex> lock(ready_mutex);
+          if (wait) ready_cv.wait(lock, [&] { return ready[written] != 0; });
+          else if (!ready[written]) return;
+        }
+        if (progress && human_on_terminal) std::cerr << "\r" << std::string(40, ' ') << "\r" << std::flush;
+        emit(rendered[written]);
+        ++written;
+        if (progress) {
+          if (human_on_terminal) human.flush();
+          std::cerr << "\rchecked " << written << " of " << files.size() << " beams" << std::flush;
+        }
       }
-      if (progress && human_on_terminal) std::cerr << "\r" << std::string(40, ' ') << "\r" << std::flush;
-      emit(rendered[i]);
-      if (progress) {
-        if (human_on_terminal) human.flush();
-        std::cerr << "\rchecked " << i + 1 << " of " << files.size() << " beams" << std::flush;
-      }
+    };
+    for (std::size_t i; (i = next++) < files.size();) {
+      check_one(i);
+      write_ready(false);
     }
+    write_ready(true);
     for (auto& t : pool) t.join();
   } else {
     std::vector<std::thread> pool;
