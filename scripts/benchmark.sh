@@ -42,6 +42,7 @@ run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |", the median of three 
   done
   secs=$(printf '%s\n' "${times[@]}" | sort -n | sed -n 2p)
   echo "$secs" > "$work/last"
+  echo $((kb / 1024)) > "$work/last_mib"
   printf '| %s | %s s (runs: %s) | %d MiB |\n' "$label" "$secs" "${times[*]}" $((kb / 1024))
 }
 {
@@ -55,6 +56,7 @@ run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |", the median of three 
   one=$(cat "$work/last")
   echo "| speed-up of --jobs 2 over --jobs 1 (medians) | $(awk -v a="$one" -v b="$two" 'BEGIN { printf "%.2fx", a / b }') | |"
   run "100,000-span beam, all methods, --stations-per-span 1, JSON" "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json"
+  long=$(cat "$work/last"); long_mib=$(cat "$work/last_mib")
   echo
   echo "| benchmark | time per iteration | per span (or unknown) | against Thomas |"
   echo "| --- | --- | --- | --- |"
@@ -75,6 +77,33 @@ run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |", the median of three 
         if ((p[1] == "three_moment" || p[1] == "slope_deflection" || p[1] == "stiffness") && thomas[p[3]] > 0)
           ratio = sprintf("%.1fx", ns(perspan[r]) / (k * thomas[p[3]]))
         printf "| %s | %s | %s | %s |\n", name[r], time[r], perspan[r], ratio
+      }
+    }' "$work/bench.txt"
+  # The targets of the speed work, each read off the figures above.
+  echo
+  echo "| target | measured | met |"
+  echo "| --- | --- | --- |"
+  awk -v two="$two" -v one="$one" -v long="$long" -v long_mib="$long_mib" '
+    function ns(t) { if (t ~ /us$/) return t * 1000; if (t ~ /ms$/) return t * 1e6; return t + 0 }
+    function ms(v, u) { if (u == "us") return v / 1000; if (u == "s") return v * 1000; if (u == "ns") return v / 1e6; return v + 0 }
+    function yes(c) { return c ? "yes" : "**no**" }
+    /^(three_moment|slope_deflection|stiffness|thomas|all_three)\// {
+      per = ""; for (i = 1; i <= NF; i++) if ($i ~ /^ns_per_span=/) per = substr($i, 13)
+      split($1, p, "/")
+      if (p[1] == "thomas") thomas[p[3]] = ns(per)
+      else if (p[1] == "all_three") { if (p[2] == "spans" && p[3] == 1000000) warm = ms($2, $3); if (p[2] == "first_call") first = ms($2, $3) }
+      else if (p[3] >= 1000) { m[p[1], p[3]] = ns(per); sizes[p[3]] = 1 }
+    }
+    END {
+      printf "| 10,000 typical beams, JSON + JUnit, --jobs 2: under 2 s | %s s | %s |\n", two, yes(two < 2)
+      printf "| --jobs 2 at least 1.7x faster than --jobs 1 | %.2fx | %s |\n", one / two, yes(one / two >= 1.7)
+      printf "| 100,000-span beam, JSON: under 2 s and 1 GiB | %s s, %d MiB | %s |\n", long, long_mib, yes(long < 2 && long_mib < 1024)
+      printf "| three solvers on 1,000,000 spans: under 1 s together | %.0f ms (one first call in a fresh process: %.0f ms) | %s |\n", warm, first, yes(warm < 1000 && first < 1000)
+      split("three_moment slope_deflection stiffness", names, " ")
+      for (k = 1; k <= 3; k++) {
+        worst = 0; unk = names[k] == "stiffness" ? 2 : 1
+        for (n in sizes) if ((names[k], n) in m && thomas[n] > 0) { r = m[names[k], n] / (unk * thomas[n]); if (r > worst) worst = r }
+        printf "| %s within 5x of Thomas, 1,000 to 1,000,000 spans | at most %.1fx | %s |\n", names[k], worst, yes(worst > 0 && worst <= 5)
       }
     }' "$work/bench.txt"
 } > "$work/table.md"
