@@ -21,6 +21,7 @@ add_test(NAME cli_exit_codes COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_exit_c
 
 # The verification record: every cited reference case on every method.
 add_test(NAME selfcheck COMMAND trivet selfcheck)
+add_test(NAME cli_selfcheck COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_selfcheck.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/references/cases)
 add_test(NAME cli_against COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_against.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
 
 # Plots and the HTML report; the browser test needs Chromium (skipped, not passed, without it).
