@@ -167,22 +167,29 @@ struct State {
 };
 
 // Work-equivalent (consistent) loads of one span load on the element of
-// length L: f_i = integral of w N_i over the load's own [a, b] by the Gauss
-// rule (degree 1 x 3 = 4 <= 5: exact), P N_i(a) for a force, C N_i'(a)
-// for a couple. Added to f.
+// length L (invL = 1 / L, made once per span): f_i = integral of w N_i over
+// the load's own [a, b] by the Gauss rule (degree 1 x 3 = 4 <= 5: exact),
+// in closed form for a uniform load over the whole span (wL/2, wL^2/12,
+// wL/2, -wL^2/12: the same integral, other rounding), P N_i(a) for a force,
+// C N_i'(a) for a couple. Added to f.
 template <class R>
-void add_consistent(const SpanLoad<R>& l, const R& L, R f[4]) {
-  // Summed in locals (the same operations in the same order as into f):
-  // through the pointer f every store would make the compiler read the
-  // load's fields again.
+inline __attribute__((always_inline)) void add_consistent(const SpanLoad<R>& l, const R& L, const R& invL, R f[4]) {
+  // Summed in locals: through the pointer f every store would make the
+  // compiler read the load's fields again.
   R acc[4] = {f[0], f[1], f[2], f[3]};
   R N[4];
   const R a = l.a;
   if (l.type == LoadType::Point || l.type == LoadType::Couple) {
     const R value = l.value;
-    if (l.type == LoadType::Point) hermite(a / L, L, N);
-    else hermite_slope(a / L, L, N);
+    if (l.type == LoadType::Point) hermite(a * invL, L, N);
+    else hermite_slope(a * invL, L, N);
     for (int i = 0; i < 4; ++i) acc[i] += value * N[i];
+  } else if (!(R(0) < a) && !(l.b < L) && !(l.wa < l.wb) && !(l.wb < l.wa)) {  // a == 0, b == L, uniform
+    const R half_W = l.wa * L / R(2), fm = l.wa * L * L / R(12);
+    acc[0] += half_W;
+    acc[1] += fm;
+    acc[2] += half_W;
+    acc[3] -= fm;
   } else {
     const GaussRule<R>& g = gauss_rule<R>();
     const R b = l.b, wa = l.wa, wb = l.wb;
@@ -192,7 +199,7 @@ void add_consistent(const SpanLoad<R>& l, const R& L, R f[4]) {
       const R xi = g.x[q];
       const R t = mid + half * xi;
       const R w = wmid + wslope * xi;
-      hermite(t / L, L, N);
+      hermite(t * invL, L, N);
       const R c = g.w[q] * half * w;
       for (int i = 0; i < 4; ++i) acc[i] += c * N[i];
     }
@@ -339,18 +346,41 @@ BasicPointValues<R> evaluate(const State<R>& st, std::size_t s, const R& local, 
 
 // The limits of the moment just inside span s at its left end (after any
 // load at local 0) and at its right end (before any load at L), as
-// `evaluate` gives them.
+// `evaluate` gives them: span_statics at x = 0 and at x = L in one pass
+// over the span's loads, the same operations for each (so the same bits).
+// At x = 0 only the point loads and couples at local 0 count (none of a
+// distributed load lies left of 0); at x = L every load except a point
+// load or couple at L.
 template <class R>
-R moment_at_left_end(const State<R>& st, std::size_t s) {
-  R V, M;
-  span_statics(st, s, R(0), false, V, M);
-  return M;
-}
-template <class R>
-R moment_at_right_end(const State<R>& st, std::size_t s) {
-  R V, M;
-  span_statics(st, s, st.spans[s].L, false, V, M);
-  return M;
+inline __attribute__((always_inline)) void end_moments(const State<R>& st, std::size_t s, R& M_left, R& M_right) {
+  const SpanState<R>& sp = st.spans[s];
+  const R L = sp.L;
+  R ML = sp.M0 + sp.V0 * R(0);
+  R MR = sp.M0 + sp.V0 * L;
+  for (std::size_t k = st.first[s]; k < st.first[s + 1]; ++k) {
+    const SpanLoad<R>& l = st.loads[k];
+    if (l.distributed()) {
+      if (l.a < L) {
+        const R e = L < l.b ? L : l.b;
+        const R c = e - l.a;
+        const R we = l.wa + (l.wb - l.wa) * (c / (l.b - l.a));
+        const R W = (l.wa + we) / R(2) * c;
+        MR -= (L - e) * W + c * c * (R(2) * l.wa + we) / R(6);
+      }
+      continue;
+    }
+    const bool point = l.type == LoadType::Point;
+    if (!(R(0) < l.a)) {  // included(l.a, 0, L, false)
+      if (point) ML -= l.value * (R(0) - l.a);
+      else ML += l.value;
+    }
+    if (l.a < L) {  // included(l.a, L, L, false)
+      if (point) MR -= l.value * (L - l.a);
+      else MR += l.value;
+    }
+  }
+  M_left = ML;
+  M_right = MR;
 }
 
 // --- Banded symmetric LDL^T (no pivoting) --------------------------------------
@@ -677,6 +707,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       right = node_dofs(s + 1);
       const R& L = beam.spans[s].length;
       st->first[s] = st->loads.size();
+      const R invL = R(1) / L;
       R fe[4] = {R(0), R(0), R(0), R(0)};
       bool loaded = false;
       for (; k < m; ++k) {
@@ -721,7 +752,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
           default:
             return false;
         }
-        add_consistent(t, L, fe);
+        add_consistent(t, L, invL, fe);
         st->loads.push_back(t);
         loaded = true;
       }
@@ -793,6 +824,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   sol.nodes.reserve(n + 1);
   R x(0), react_force(0), react_moment(0);
   R F2prev(0), F3prev(0);  // span i - 1's end forces at node i
+  R Mprev(0);               // span i - 1's moment at its right end
   std::size_t next_action = 0;
   Dofs next = node_dofs(0);
   for (std::size_t i = 0; i <= n; ++i) {
@@ -828,6 +860,13 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       r.reaction_moment -= F[1];
       F2prev = F[2];
       F3prev = F[3];
+      R Mleft, Mright;
+      end_moments(*st, i, Mleft, Mright);
+      if (i > 0) r.moment_left = Mprev;
+      r.moment_right = Mleft;
+      Mprev = Mright;
+    } else {
+      r.moment_left = Mprev;
     }
     const BasicSupport<R>& sp = beam.supports[i];
     r.x = x;
@@ -837,8 +876,6 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     r.deflection = right ? right->v0 : left->v1;
     r.rotation_left = left ? left->th1 : right->th0;
     r.rotation_right = right ? right->th0 : left->th1;
-    if (left) r.moment_left = moment_at_right_end(*st, i - 1);
-    if (right) r.moment_right = moment_at_left_end(*st, i);
     // Where nothing restrains, the sum is the solve's residual: zero.
     if (!restrains_deflection(sp.type)) r.reaction_force = R(0);
     if (!restrains_rotation(sp.type)) r.reaction_moment = R(0);
