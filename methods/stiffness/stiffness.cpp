@@ -132,7 +132,7 @@ void stiffness_times(const R& EI, const R& h, const R u[4], R out[4]) {
 
 // The element stiffness matrix itself (symmetric).
 template <class R>
-void element_matrix(const R& EI, const R& h, R k[4][4]) {
+inline __attribute__((always_inline)) void element_matrix(const R& EI, const R& h, R k[4][4]) {
   const R c = EI / (h * h * h);
   const R a = R(12) * c, b = R(6) * h * c, d = R(4) * h * h * c, e = R(2) * h * h * c;
   const R m[4][4] = {{a, b, -a, b}, {b, d, -b, e}, {-a, -b, a, -b}, {b, e, -b, d}};
@@ -162,7 +162,9 @@ struct SpanState {
 template <class R>
 struct State {
   std::vector<SpanState<R>> spans;
-  std::vector<std::size_t> first;  // per span + 1: the span's loads are loads[first[s] .. first[s+1])
+  // Per span + 1: the span's loads are loads[first[s] .. first[s+1]).
+  // Written by index in the assembly pass, so not filled before.
+  std::unique_ptr<std::size_t[]> first;
   std::vector<SpanLoad<R>> loads;
 };
 
@@ -395,7 +397,7 @@ struct Band {
   std::size_t n = 0, w = 0;
   std::vector<R> a;
   Band(std::size_t size, std::size_t width) : n(size), w(width), a(size * (width + 1), R(0)) {}
-  R& at(std::size_t i, std::size_t j) {  // any order, |i - j| <= w
+  __attribute__((always_inline)) R& at(std::size_t i, std::size_t j) {  // any order, |i - j| <= w
     return i >= j ? a[i * (w + 1) + (i - j)] : a[j * (w + 1) + (j - i)];
   }
 };
@@ -598,7 +600,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   constexpr std::size_t kNone = static_cast<std::size_t>(-1);
   std::vector<std::size_t> base(n + 1);
   struct Dofs { std::size_t v, thL, thR; };
-  auto node_dofs = [&](std::size_t i) {
+  auto node_dofs = [&](std::size_t i) __attribute__((always_inline)) {
     const BasicSupport<R>& sp = beam.supports[i];
     std::size_t c = base[i];
     Dofs d;
@@ -610,7 +612,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // The element of span s: DOFs and prescribed values of (v, theta) at its
   // left end (node s, right side) and right end (node s + 1, left side).
   // a and b: node_dofs(s) and node_dofs(s + 1).
-  auto element_dofs = [&](std::size_t s, const Dofs& a, const Dofs& b, std::size_t d[4], R g[4]) {
+  auto element_dofs = [&](std::size_t s, const Dofs& a, const Dofs& b, std::size_t d[4], R g[4]) __attribute__((always_inline)) {
     d[0] = a.v; d[1] = a.thR; d[2] = b.v; d[3] = b.thL;
     g[0] = a.v == kNone ? beam.supports[s].settlement : R(0);
     g[2] = b.v == kNone ? beam.supports[s + 1].settlement : R(0);
@@ -622,14 +624,20 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // d[0..3]).
   std::size_t ndof = 0, width = 0;
   bool in_scope = true;
+  Dofs prev_dofs{};
   for (std::size_t i = 0; i <= n; ++i) {
     const BasicSupport<R>& sp = beam.supports[i];
     if (i < n) in_scope = in_scope && R(0) < beam.spans[i].length && R(0) < beam.spans[i].EI;
     in_scope = in_scope && support_in_scope(sp, i, n);
     base[i] = ndof;
     ndof += (restrains_deflection(sp.type) ? 0 : 1) + (restrains_rotation(sp.type) ? 0 : 1) + (sp.hinge ? 1 : 0);
-    if (i == 0) continue;
-    const Dofs a = node_dofs(i - 1), b = node_dofs(i);
+    const Dofs b = node_dofs(i);
+    if (i == 0) {
+      prev_dofs = b;
+      continue;
+    }
+    const Dofs a = prev_dofs;
+    prev_dofs = b;
     const std::size_t lo = a.v != kNone ? a.v : a.thR != kNone ? a.thR : b.v != kNone ? b.v : b.thL;
     const std::size_t hi = b.thL != kNone ? b.thL : b.v != kNone ? b.v : a.thR != kNone ? a.thR : a.v;
     if (lo != kNone && hi - lo > width) width = hi - lo;
@@ -652,8 +660,10 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     R value;
   };
   std::vector<NodeAction> actions;
-  std::vector<R> f;
-  Band<R> K(ndof, width);
+  std::vector<R> f(ndof, R(0));
+  Band<R> K(ndof, width);  // zero, as f: cleared again only for a second assembly pass
+  bool assembled_once = false;
+  st->first.reset(new std::size_t[n + 1]);
   // Equilibrium (a fault check, see below): the loads' resultant (down +)
   // and moment about x = 0 (clockwise +) and the sizes involved. The moment
   // of the forces applied at the nodes is added in pass 3, where the
@@ -692,12 +702,14 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   auto assemble = [&](auto&& load_at, std::size_t m) {
     st->spans.clear();
     st->spans.reserve(n);
-    st->first.assign(n + 1, 0);
     st->loads.clear();
     st->loads.reserve(m);
     actions.clear();
-    f.assign(ndof, R(0));
-    std::fill(K.a.begin(), K.a.end(), R(0));
+    if (assembled_once) {
+      std::fill(f.begin(), f.end(), R(0));
+      std::fill(K.a.begin(), K.a.end(), R(0));
+    }
+    assembled_once = true;
     load_force = load_moment = scale = mscale = R(0);
     std::size_t k = 0;
     R x0(0);
@@ -765,18 +777,43 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       element_dofs(s, left, right, d, g);
       R ke[4][4];
       element_matrix(sp.EI, sp.L, ke);
-      for (int c = 0; c < 4; ++c) {
-        const bool known = d[c] == kNone;
-        if (known && !nonzero(g[c])) continue;
-        for (int r = 0; r < 4; ++r) {
-          if (d[r] == kNone) continue;
-          if (known) f[d[r]] -= ke[r][c] * g[c];
-          else if (d[c] <= d[r]) K.at(d[r], d[c]) += ke[r][c];
+      if (d[0] == kNone && d[2] == kNone && d[1] != kNone && d[3] != kNone) {
+        // Only the rotations free (pinned, roller or hinge at both ends):
+        // the loop below unrolled for this pattern, the same operations on
+        // each entry in the same order.
+        const std::size_t d1 = d[1], d3 = d[3];
+        R f1 = f[d1], f3 = f[d3];
+        if (nonzero(g[0])) {
+          f1 -= ke[1][0] * g[0];
+          f3 -= ke[3][0] * g[0];
         }
+        K.at(d1, d1) += ke[1][1];
+        K.at(d3, d1) += ke[3][1];
+        if (nonzero(g[2])) {
+          f1 -= ke[1][2] * g[2];
+          f3 -= ke[3][2] * g[2];
+        }
+        K.at(d3, d3) += ke[3][3];
+        if (loaded) {
+          f1 += fe[1];
+          f3 += fe[3];
+        }
+        f[d1] = f1;
+        f[d3] = f3;
+      } else {
+        for (int c = 0; c < 4; ++c) {
+          const bool known = d[c] == kNone;
+          if (known && !nonzero(g[c])) continue;
+          for (int r = 0; r < 4; ++r) {
+            if (d[r] == kNone) continue;
+            if (known) f[d[r]] -= ke[r][c] * g[c];
+            else if (d[c] <= d[r]) K.at(d[r], d[c]) += ke[r][c];
+          }
+        }
+        if (loaded)
+          for (int r = 0; r < 4; ++r)
+            if (d[r] != kNone) f[d[r]] += fe[r];
       }
-      if (loaded)
-        for (int r = 0; r < 4; ++r)
-          if (d[r] != kNone) f[d[r]] += fe[r];
       st->spans.push_back(sp);
       add_spring(s);
       x0 += L;
