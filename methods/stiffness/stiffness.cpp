@@ -441,10 +441,9 @@ std::size_t factor_solve_w(Band<R>& K, std::vector<R>& b) {
     for (std::size_t k = lo; k < i; ++k) xi -= row[i - k] * x[k];
     x[i] = xi;
   }
-  for (std::size_t i = 0; i < n; ++i) x[i] /= a[i * kRow];
-  for (std::size_t i = n; i-- > 0;) {  // back: L^T u = D^-1 y
+  for (std::size_t i = n; i-- > 0;) {  // back: L^T u = D^-1 y (the division by D in the same pass)
     const std::size_t hi = std::min(n - 1, i + W);
-    R xi = x[i];
+    R xi = x[i] / a[i * kRow];
     for (std::size_t k = i + 1; k <= hi; ++k) xi -= a[k * kRow + (k - i)] * x[k];
     x[i] = xi;
   }
@@ -668,7 +667,12 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // and moment about x = 0 (clockwise +) and the sizes involved. The moment
   // of the forces applied at the nodes is added in pass 3, where the
   // node's x is known.
-  R load_force(0), load_moment(0), scale(0), mscale(0);
+  // Summed in locals of each pass (through references the compiler kept
+  // them in memory: the stores into f and K might alias them).
+  struct Sums {
+    R force{0}, moment{0}, scale{0}, mscale{0};
+  };
+  Sums sums;
   auto add_spring = [&](std::size_t i) {
     const BasicSupport<R>& sp = beam.supports[i];
     if (sp.type != SupportType::Spring) return;
@@ -678,7 +682,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     K.at(d.thL, d.thL) += sp.kr;  // no hinge here when kr > 0 (checked)
   };
   // A load on a node; false when outside the scope.
-  auto node_load = [&](const BasicLoad<R>& l) {
+  auto node_load = [&](const BasicLoad<R>& l, Sums& acc) __attribute__((always_inline)) {
     if (l.index > n) return false;
     if (l.type != LoadType::Point && l.type != LoadType::Couple) return false;
     if (l.type == LoadType::Couple && beam.supports[l.index].hinge) return false;
@@ -686,13 +690,13 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     if (l.type == LoadType::Point) {
       if (d.v != kNone) f[d.v] += l.P;
       actions.push_back({l.index, false, l.P});
-      load_force += l.P;
-      scale += abs(l.P);
+      acc.force += l.P;
+      acc.scale += abs(l.P);
     } else {  // not at a hinge (checked), so one rotation
       if (d.thL != kNone) f[d.thL] += l.C;
       actions.push_back({l.index, true, l.C});
-      load_moment += l.C;
-      mscale += abs(l.C);
+      acc.moment += l.C;
+      acc.mscale += abs(l.C);
     }
     return true;
   };
@@ -710,7 +714,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       std::fill(K.a.begin(), K.a.end(), R(0));
     }
     assembled_once = true;
-    load_force = load_moment = scale = mscale = R(0);
+    Sums acc;
     std::size_t k = 0;
     R x0(0);
     Dofs right = node_dofs(0);
@@ -725,7 +729,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       for (; k < m; ++k) {
         const BasicLoad<R>& l = load_at(k);
         if (l.on_node) {
-          if (!node_load(l)) return false;
+          if (!node_load(l, acc)) return false;
           continue;
         }
         if (l.index != s) {
@@ -738,15 +742,15 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
           case LoadType::Point:
             if (l.at < R(0) || L < l.at || !is_finite(l.at)) return false;
             t.value = l.P; t.a = t.b = l.at;
-            load_force += l.P;
-            load_moment += l.P * (x0 + l.at);
-            scale += abs(l.P);
+            acc.force += l.P;
+            acc.moment += l.P * (x0 + l.at);
+            acc.scale += abs(l.P);
             break;
           case LoadType::Couple:
             if (l.at < R(0) || L < l.at || !is_finite(l.at)) return false;
             t.value = l.C; t.a = t.b = l.at;
-            load_moment += l.C;
-            mscale += abs(l.C);
+            acc.moment += l.C;
+            acc.mscale += abs(l.C);
             break;
           case LoadType::Udl: case LoadType::Linear: {
             if (l.from < R(0) || L < l.to || !(l.from < l.to)) return false;
@@ -756,9 +760,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
             t.wb = l.type == LoadType::Udl ? l.w1 : l.w2;
             const R c = t.b - t.a;
             const R W = (t.wa + t.wb) / R(2) * c;
-            load_force += W;
-            load_moment += (x0 + t.a) * W + c * c * (t.wa + R(2) * t.wb) / R(6);
-            scale += (abs(t.wa) + abs(t.wb)) * c;
+            acc.force += W;
+            acc.moment += (x0 + t.a) * W + c * c * (t.wa + R(2) * t.wb) / R(6);
+            acc.scale += (abs(t.wa) + abs(t.wb)) * c;
             break;
           }
           default:
@@ -822,8 +826,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     add_spring(n);
     for (; k < m; ++k) {  // what is left: node loads, or loads out of order or beyond the beam
       const BasicLoad<R>& l = load_at(k);
-      if (!l.on_node || !node_load(l)) return false;
+      if (!l.on_node || !node_load(l, acc)) return false;
     }
+    sums = acc;
     return true;
   };
   const std::vector<BasicLoad<R>>& loads = beam.loads;
@@ -860,6 +865,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
                      [](const NodeAction& p, const NodeAction& q) { return p.node < q.node; });
   sol.nodes.reserve(n + 1);
   R x(0), react_force(0), react_moment(0);
+  R load_moment = sums.moment, scale = sums.scale, mscale = sums.mscale;
   R F2prev(0), F3prev(0);  // span i - 1's end forces at node i
   R Mprev(0);               // span i - 1's moment at its right end
   std::size_t next_action = 0;
@@ -934,7 +940,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // element per span the residual is a few ulps; this catches a fault, it
   // is not the accuracy claim.
   {
-    const R force = load_force - react_force, moment = load_moment - react_moment;
+    const R force = sums.force - react_force, moment = load_moment - react_moment;
     const R length = sol.nodes[n].x;
     const R tol = sqrt(std::numeric_limits<R>::epsilon());
     const R fscale = scale + mscale / length;  // couples count as forces over the beam's length
