@@ -147,25 +147,44 @@ inline __attribute__((always_inline)) void element_matrix(const R& EI, const R& 
 // `a` varying linearly to wb at `b`.
 template <class R>
 struct SpanLoad {
-  LoadType type = LoadType::Point;
-  R value{0}, a{0}, b{0}, wa{0}, wb{0};
+  // No default member initialisers: the solver's arrays of these are made
+  // without a fill pass (every field is written before it is read).
+  LoadType type;
+  R value, a, b, wa, wb;
   bool distributed() const { return type == LoadType::Udl || type == LoadType::Linear; }
 };
 
 template <class R>
 struct SpanState {
-  R L{1}, EI{1};
-  R v0{0}, th0{0}, v1{0}, th1{0};  // end displacements (this span's side at a hinge)
-  R V0{0}, M0{0};                  // shear and moment from the left end force (before loads at 0)
+  R L, EI;                // no initialisers, as SpanLoad
+  R v0, th0, v1, th1;      // end displacements (this span's side at a hinge)
+  R V0, M0;                // shear and moment from the left end force (before loads at 0)
+};
+
+// An array of `size` elements written by index, allocated once for its
+// largest size and not filled first (for double the elements are left
+// uninitialised by new T[]: nothing reads them before they are written).
+template <class T>
+struct FreshArray {
+  std::unique_ptr<T[]> p;
+  std::size_t count = 0;
+  void allocate(std::size_t capacity) {
+    p.reset(new T[capacity]);
+    count = 0;
+  }
+  std::size_t size() const { return count; }
+  T& operator[](std::size_t i) { return p[i]; }
+  const T& operator[](std::size_t i) const { return p[i]; }
+  T& push() { return p[count++]; }
 };
 
 template <class R>
 struct State {
-  std::vector<SpanState<R>> spans;
+  FreshArray<SpanState<R>> spans;
   // Per span + 1: the span's loads are loads[first[s] .. first[s+1]).
   // Written by index in the assembly pass, so not filled before.
   std::unique_ptr<std::size_t[]> first;
-  std::vector<SpanLoad<R>> loads;
+  FreshArray<SpanLoad<R>> loads;
 };
 
 // Work-equivalent (consistent) loads of one span load on the element of
@@ -663,6 +682,8 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   Band<R> K(ndof, width);  // zero, as f: cleared again only for a second assembly pass
   bool assembled_once = false;
   st->first.reset(new std::size_t[n + 1]);
+  st->spans.allocate(n);
+  st->loads.allocate(beam.loads.size());
   // Equilibrium (a fault check, see below): the loads' resultant (down +)
   // and moment about x = 0 (clockwise +) and the sizes involved. The moment
   // of the forces applied at the nodes is added in pass 3, where the
@@ -704,10 +725,8 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
   // the scope or out of span order (span loads of a span after those of a
   // later span).
   auto assemble = [&](auto&& load_at, std::size_t m) {
-    st->spans.clear();
-    st->spans.reserve(n);
-    st->loads.clear();
-    st->loads.reserve(m);
+    st->spans.count = 0;
+    st->loads.count = 0;  // m <= beam.loads.size(), the capacity
     actions.clear();
     if (assembled_once) {
       std::fill(f.begin(), f.end(), R(0));
@@ -736,24 +755,27 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
           if (l.index < s) return false;
           break;  // a later span's (or beyond the beam: left over at the end)
         }
-        SpanLoad<R> t;
+        // Built in place (a copy from the stack was a 16-byte reload of
+        // fresh 8-byte stores, a store-forwarding stall, for every load).
+        SpanLoad<R>& t = st->loads.push();
         t.type = l.type;
         switch (l.type) {
           case LoadType::Point:
             if (l.at < R(0) || L < l.at || !is_finite(l.at)) return false;
-            t.value = l.P; t.a = t.b = l.at;
+            t.value = l.P; t.a = t.b = l.at; t.wa = t.wb = R(0);
             acc.force += l.P;
             acc.moment += l.P * (x0 + l.at);
             acc.scale += abs(l.P);
             break;
           case LoadType::Couple:
             if (l.at < R(0) || L < l.at || !is_finite(l.at)) return false;
-            t.value = l.C; t.a = t.b = l.at;
+            t.value = l.C; t.a = t.b = l.at; t.wa = t.wb = R(0);
             acc.moment += l.C;
             acc.mscale += abs(l.C);
             break;
           case LoadType::Udl: case LoadType::Linear: {
             if (l.from < R(0) || L < l.to || !(l.from < l.to)) return false;
+            t.value = R(0);
             t.a = l.from;
             t.b = l.to;
             t.wa = l.w1;
@@ -769,13 +791,13 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
             return false;
         }
         add_consistent(t, L, invL, fe);
-        st->loads.push_back(t);
         loaded = true;
       }
-      SpanState<R> sp;
+      SpanState<R>& sp = st->spans.push();  // in place, as the loads
       sp.L = L;
       sp.EI = beam.spans[s].EI;
       sp.v0 = fe[0]; sp.th0 = fe[1]; sp.v1 = fe[2]; sp.th1 = fe[3];
+      sp.V0 = sp.M0 = R(0);  // pass 3's
       std::size_t d[4];
       R g[4];
       element_dofs(s, left, right, d, g);
@@ -818,7 +840,6 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
           for (int r = 0; r < 4; ++r)
             if (d[r] != kNone) f[d[r]] += fe[r];
       }
-      st->spans.push_back(sp);
       add_spring(s);
       x0 += L;
     }
