@@ -1185,5 +1185,113 @@ TEST(Faults, NonFiniteLoadFails) {
   EXPECT_FALSE(s.reason.empty());
 }
 
+
+// The special cases for the common pinned/roller shape (rotations-only
+// element assembly, tridiagonal factorisation) against the general path of
+// the same solver, on 300 seeded random beams of that shape: every span
+// load type (full and partial UDL, linear, point, couple, at the span ends
+// too), node loads, settlements, hinges on rollers, varying L and EI.
+TEST(FastPath, PinnedRollerBeamsMatchTheGeneralPath) {
+  std::mt19937 rng(20261202);
+  std::uniform_real_distribution<double> U(0.0, 1.0);
+  auto rel = [](double a, double b, double scale) { return std::abs(a - b) / scale; };
+  for (int trial = 0; trial < 300; ++trial) {
+    const std::size_t n = 1 + static_cast<std::size_t>(U(rng) * 12);
+    Beam b;
+    for (std::size_t s = 0; s < n; ++s) b.spans.push_back({1.0 + 9.0 * U(rng), 1e3 * (1.0 + 99.0 * U(rng))});
+    b.supports.assign(n + 1, Support{});
+    for (std::size_t i = 0; i <= n; ++i) {
+      b.supports[i].type = U(rng) < 0.3 ? SupportType::Pinned : SupportType::Roller;
+      if (U(rng) < 0.4) b.supports[i].settlement = 0.01 * (U(rng) - 0.5);
+      if (i > 0 && i < n && b.supports[i].type == SupportType::Roller && U(rng) < 0.15) b.supports[i].hinge = true;
+    }
+    for (std::size_t s = 0; s < n; ++s) {
+      const double L = b.spans[s].length;
+      // At least one load on the first span: a beam with settlements only
+      // can have reactions of rounding size only, which the equilibrium
+      // check (relative to the loads and reactions) refuses.
+      const int count = static_cast<int>(U(rng) * 5) + (s == 0 ? 1 : 0);
+      for (int k = 0; k < count; ++k) {
+        Load l;
+        l.index = s;
+        const double r = U(rng);
+        if (r < 0.25) {
+          l.type = LoadType::Udl; l.w1 = l.w2 = 20.0 * (U(rng) - 0.3);
+          if (U(rng) < 0.5) {
+            l.from = 0; l.to = L;
+          } else {
+            l.from = 0.5 * L * U(rng); l.to = l.from + (L - l.from) * (0.1 + 0.9 * U(rng));
+          }
+        } else if (r < 0.45) {
+          l.type = LoadType::Linear; l.w1 = 20.0 * U(rng); l.w2 = 20.0 * (U(rng) - 0.5);
+          l.from = 0.5 * L * U(rng); l.to = U(rng) < 0.3 ? L : l.from + (L - l.from) * (0.1 + 0.9 * U(rng));
+        } else if (r < 0.75) {
+          l.type = LoadType::Point; l.P = 50.0 * (U(rng) - 0.2);
+          const double q = U(rng);
+          l.at = q < 0.1 ? 0.0 : q < 0.2 ? L : L * U(rng);
+        } else {
+          l.type = LoadType::Couple; l.C = 40.0 * (U(rng) - 0.5);
+          const double q = U(rng);
+          l.at = q < 0.1 ? 0.0 : q < 0.2 ? L : L * U(rng);
+        }
+        b.loads.push_back(l);
+      }
+    }
+    if (U(rng) < 0.5) {  // a node load: a force anywhere, a couple where no hinge is
+      Load l;
+      l.on_node = true;
+      l.index = static_cast<std::size_t>(U(rng) * static_cast<double>(n + 1)) % (n + 1);
+      if (b.supports[l.index].hinge || U(rng) < 0.5) {
+        l.type = LoadType::Point; l.P = 30.0 * (U(rng) - 0.5);
+      } else {
+        l.type = LoadType::Couple; l.C = 30.0 * (U(rng) - 0.5);
+      }
+      b.loads.push_back(l);
+    }
+    const Solution fast = stiffness::solve<double>(b, {});
+    const Solution general = stiffness::detail::solve_general<double>(b);
+    ASSERT_EQ(fast.status, MethodStatus::Ok) << "trial " << trial << ": " << fast.reason;
+    ASSERT_EQ(general.status, MethodStatus::Ok) << "trial " << trial << ": " << general.reason;
+    ASSERT_EQ(fast.nodes.size(), general.nodes.size());
+    double fscale = 1e-300, mscale = 1e-300, vscale = 1e-300, tscale = 1e-300;
+    for (const NodeResult& r : general.nodes) {
+      fscale = std::max(fscale, std::abs(r.reaction_force));
+      mscale = std::max({mscale, std::abs(r.reaction_moment), std::abs(r.moment_left.value_or(0.0)), std::abs(r.moment_right.value_or(0.0))});
+      vscale = std::max(vscale, std::abs(r.deflection));
+      tscale = std::max({tscale, std::abs(r.rotation_left), std::abs(r.rotation_right)});
+    }
+    for (std::size_t i = 0; i < fast.nodes.size(); ++i) {
+      const NodeResult& p = fast.nodes[i];
+      const NodeResult& q = general.nodes[i];
+      EXPECT_LE(rel(p.reaction_force, q.reaction_force, fscale), 1e-13) << "trial " << trial << " node " << i;
+      EXPECT_LE(rel(p.reaction_moment, q.reaction_moment, mscale), 1e-13) << "trial " << trial << " node " << i;
+      EXPECT_LE(rel(p.deflection, q.deflection, vscale), 1e-13) << "trial " << trial << " node " << i;
+      EXPECT_LE(rel(p.rotation_left, q.rotation_left, tscale), 1e-13) << "trial " << trial << " node " << i;
+      EXPECT_LE(rel(p.rotation_right, q.rotation_right, tscale), 1e-13) << "trial " << trial << " node " << i;
+      ASSERT_EQ(p.moment_left.has_value(), q.moment_left.has_value());
+      ASSERT_EQ(p.moment_right.has_value(), q.moment_right.has_value());
+      if (p.moment_left) {
+        EXPECT_LE(rel(*p.moment_left, *q.moment_left, mscale), 1e-13) << "trial " << trial << " node " << i;
+      }
+      if (p.moment_right) {
+        EXPECT_LE(rel(*p.moment_right, *q.moment_right, mscale), 1e-13) << "trial " << trial << " node " << i;
+      }
+    }
+    for (std::size_t s = 0; s < n; ++s) {
+      const double L = b.spans[s].length;
+      for (int k = 0; k <= 8; ++k) {
+        const double x = L * k / 8.0;
+        for (bool after : {false, true}) {
+          const PointValues p = fast.at(s, x, after), q = general.at(s, x, after);
+          EXPECT_LE(rel(p.shear, q.shear, fscale + mscale / L), 1e-13) << "trial " << trial << " span " << s;
+          EXPECT_LE(rel(p.moment, q.moment, mscale + fscale * L), 1e-13) << "trial " << trial << " span " << s;
+          EXPECT_LE(rel(p.deflection, q.deflection, vscale + tscale * L), 1e-13) << "trial " << trial << " span " << s;
+          EXPECT_LE(rel(p.rotation, q.rotation, tscale + vscale / L), 1e-13) << "trial " << trial << " span " << s;
+        }
+      }
+    }
+  }
+}
+
 }  // namespace
 }  // namespace trivet

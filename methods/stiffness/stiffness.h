@@ -52,4 +52,14 @@ extern template BasicSolution<double> solve<double>(const BasicBeam<double>&,
 extern template BasicSolution<Extended> solve<Extended>(const BasicBeam<Extended>&,
                                                         const std::vector<BasicStation<Extended>>&);
 
+namespace detail {
+// The same solve without its special cases for the common pinned/roller
+// shape (the unrolled assembly of a rotations-only element, the
+// tridiagonal factorisation): the general path, for tests that compare the
+// two. Not for other use.
+template <class R>
+BasicSolution<R> solve_general(const BasicBeam<R>& beam);
+extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&);
+}  // namespace detail
+
 }  // namespace trivet::stiffness
