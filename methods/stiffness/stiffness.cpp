@@ -121,7 +121,7 @@ void hermite_slope(const R& s, const R& h, R D[4]) {
 
 // Element stiffness times end displacements.
 template <class R>
-void stiffness_times(const R& EI, const R& h, const R u[4], R out[4]) {
+inline __attribute__((always_inline)) void stiffness_times(const R& EI, const R& h, const R u[4], R out[4]) {
   const R c = EI / (h * h * h);
   const R h2 = h * h;
   out[0] = c * (R(12) * u[0] + R(6) * h * u[1] - R(12) * u[2] + R(6) * h * u[3]);
@@ -951,8 +951,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
       sp.v0 = ue[0]; sp.th0 = ue[1]; sp.v1 = ue[2]; sp.th1 = ue[3];
       R F[4];
       stiffness_times(sp.EI, sp.L, ue, F);
-      if (st->first[i] < st->first[i + 1])
-        for (int c = 0; c < 4; ++c) F[c] -= fe[c];
+      // Unconditionally: a span without loads has fe = +0, and F - (+0)
+      // is F, bit for bit (-0 included).
+      for (int c = 0; c < 4; ++c) F[c] -= fe[c];
       sp.V0 = -F[0];
       sp.M0 = F[1];
       r.reaction_force -= F[0];
