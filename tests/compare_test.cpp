@@ -134,6 +134,22 @@ TEST(Compare, NoiseOnlyKindsAreNotCalledDisagreement) {
   EXPECT_NEAR(r.sets[0].consensus_nodes[0].reaction_force, 1.0, 1e-12);
 }
 
+// A statically determinate beam whose support settles turns without
+// bending: no reaction and no moment (statics, no published source), only a
+// rigid rotation D/L. The methods' moments are rounding noise and must not
+// be told apart by it.
+TEST(Compare, SettlementOfADeterminateBeamMovesItWithoutBending) {
+  BeamResult r = run(R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 5, "EI": 20000}],
+    "supports": ["pinned", {"type": "roller", "settlement": 0.01}], "loads": []})");
+  ASSERT_EQ(r.sets[0].ok_count(), 3u);
+  EXPECT_EQ(r.sets[0].verdict, Verdict::Agree) << r.sets[0].problem;
+  for (const auto& n : r.sets[0].consensus_nodes) {
+    EXPECT_NEAR(n.reaction_force, 0.0, 1e-12);
+    EXPECT_NEAR(n.rotation_right, 0.01 / 5, 1e-15);
+  }
+  EXPECT_NEAR(r.sets[0].consensus_nodes[1].deflection, 0.01, 1e-15);
+}
+
 TEST(Compare, InvalidFileCarriesItsErrors) {
   input::BeamFile f = input::parse_beam_text("[]", "bad.json");
   BeamResult r = check(f, {});

@@ -252,8 +252,10 @@ void compute_extremes(LoadSet& set) {
 // A kind whose values are all rounding noise (the moments of a beam whose
 // only load sits on a support, say) must not be scaled by that noise, or
 // agreement to the last bit reads as a difference of 100%. Each kind's scale
-// is floored from the others: forces and moments through the beam's length,
-// deflections and rotations through the moments, span length and stiffness.
+// is floored from the others: moments through the movement (rotations and
+// deflections, through stiffness and span length), forces and moments through
+// the beam's length, deflections and rotations through the moments, span
+// length and stiffness.
 void floor_scales(double* scale, const Beam& beam) {
   double total = 0, longest = 0, ei = 0;
   for (const auto& sp : beam.spans) {
@@ -271,6 +273,11 @@ void floor_scales(double* scale, const Beam& beam) {
   // below what the other kinds imply, never a real one (a claim's 1% stays
   // 1% of the largest value of its own kind).
   const double k = 1e-3;
+  // A beam moved without bending (a settlement of a statically determinate
+  // beam, say) has only rounding noise for its forces and moments: floor the
+  // moments from the movement, through EI/L (rotation) and EI/L^2
+  // (deflection), before the forces are floored from the moments.
+  M = std::max({M, k * ei * T / longest, k * ei * D / (longest * longest)});
   const double force = std::max({V, R, M / total});
   V = std::max(V, k * force);
   R = std::max(R, k * force);
