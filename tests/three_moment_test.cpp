@@ -24,7 +24,9 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cstdio>
+#include <random>
 #include <ctime>
 #include <cmath>
 #include <string>
@@ -931,3 +933,127 @@ TEST(ThreeMomentPublished, HicksTheoremOfThreeMomentsUnequalSpans) {
 }
 
 }  // namespace
+
+// ---------------------------------------------------------------------------
+// The lean path (pinned/roller supports, no hinge, no node load, span loads
+// in span order) against the general path on the same beams: a zero point
+// force on a node is a node load, which the lean path refuses, so the
+// general path answers. Every span load type (full and partial UDL, linear,
+// point, couple inside and at a span end), settlements, varying EI. The two
+// make the same operations in the same order; 1e-13 relative is the test.
+namespace {
+
+Beam random_plain_beam(std::mt19937& rng) {
+  std::uniform_real_distribution<double> U(0.0, 1.0);
+  std::uniform_int_distribution<int> N(1, 12), K(0, 3), T(0, 5);
+  const std::size_t n = static_cast<std::size_t>(N(rng));
+  Beam b;
+  for (std::size_t i = 0; i < n; ++i) b.spans.push_back({1.0 + 9.0 * U(rng), 1e3 * (0.5 + 4.0 * U(rng))});
+  for (std::size_t i = 0; i <= n; ++i) {
+    Support s;
+    s.type = U(rng) < 0.5 ? ST::Pinned : ST::Roller;
+    if (U(rng) < 0.3) s.settlement = 0.01 * (U(rng) - 0.5);
+    b.supports.push_back(s);
+    b.labels.push_back("N" + std::to_string(i));
+  }
+  for (std::size_t i = 0; i < n; ++i) {
+    const double L = b.spans[i].length;
+    const int k = K(rng);
+    for (int j = 0; j < k; ++j) {
+      const double a = L * U(rng), c = L * U(rng);
+      const double lo = std::min(a, c), hi = std::max(a, c) + 1e-3 * L;
+      switch (T(rng)) {
+        case 0: add_udl(b, i, 20.0 * (U(rng) - 0.3)); break;
+        case 1: b.loads.push_back(span_udl(i, 15.0 * U(rng), lo, std::min(hi, L))); break;
+        case 2: add_linear(b, i, 10.0 * U(rng), -5.0 + 20.0 * U(rng), lo, std::min(hi, L)); break;
+        case 3: add_point(b, i, 50.0 * (U(rng) - 0.2), L * (0.05 + 0.9 * U(rng))); break;
+        case 4: add_couple(b, i, 40.0 * (U(rng) - 0.5), L * (0.05 + 0.9 * U(rng))); break;
+        default: add_couple(b, i, 30.0 * (U(rng) - 0.5), U(rng) < 0.5 ? 0.0 : L); break;
+      }
+    }
+  }
+  return b;
+}
+
+void expect_rel(double a, double b, double scale, const std::string& what) {
+  EXPECT_LE(std::fabs(a - b), 1e-13 * (std::fabs(a) + std::fabs(b) + scale)) << what << ": " << a << " vs " << b;
+}
+
+}  // namespace
+
+TEST(ThreeMomentLean, SameAsGeneralPathOnRandomBeams) {
+  std::mt19937 rng(20261202);
+  for (int trial = 0; trial < 400; ++trial) {
+    const Beam b = random_plain_beam(rng);
+    Beam g = b;
+    add_node_point(g, static_cast<std::size_t>(trial) % (b.spans.size() + 1), 0.0);  // forces the general path
+    const std::vector<Station> stations = build_stations(b, 4);
+    const Solution fast = tmm::solve(b, stations), slow = tmm::solve(g, stations);
+    ASSERT_EQ(fast.status, MethodStatus::Ok) << fast.reason;
+    ASSERT_EQ(slow.status, MethodStatus::Ok) << slow.reason;
+    ASSERT_EQ(fast.nodes.size(), slow.nodes.size());
+    // Scales: a small absolute floor per quantity, so exact zeros compare.
+    double Ms = 0, Fs = 0, rs = 0, vs = 0;
+    for (const auto& nr : slow.nodes) {
+      Ms = std::max({Ms, std::fabs(nr.moment_left.value_or(0)), std::fabs(nr.moment_right.value_or(0))});
+      Fs = std::max(Fs, std::fabs(nr.reaction_force));
+      rs = std::max({rs, std::fabs(nr.rotation_left), std::fabs(nr.rotation_right)});
+      vs = std::max(vs, std::fabs(nr.deflection));
+    }
+    Ms *= 1e-3; Fs *= 1e-3; rs *= 1e-3; vs *= 1e-3;
+    const std::string t = "trial " + std::to_string(trial);
+    for (std::size_t i = 0; i < fast.nodes.size(); ++i) {
+      const auto &p = fast.nodes[i], &q = slow.nodes[i];
+      const std::string w = t + " node " + std::to_string(i);
+      EXPECT_EQ(p.x, q.x) << w;
+      ASSERT_EQ(p.moment_left.has_value(), q.moment_left.has_value()) << w;
+      ASSERT_EQ(p.moment_right.has_value(), q.moment_right.has_value()) << w;
+      if (p.moment_left) expect_rel(*p.moment_left, *q.moment_left, Ms, w + " moment_left");
+      if (p.moment_right) expect_rel(*p.moment_right, *q.moment_right, Ms, w + " moment_right");
+      expect_rel(p.reaction_force, q.reaction_force, Fs, w + " reaction");
+      expect_rel(p.reaction_moment, q.reaction_moment, Ms, w + " reaction moment");
+      expect_rel(p.rotation_left, q.rotation_left, rs, w + " rotation_left");
+      expect_rel(p.rotation_right, q.rotation_right, rs, w + " rotation_right");
+      expect_rel(p.deflection, q.deflection, vs, w + " deflection");
+    }
+    double Vs = 0;
+    for (const auto& sn : stations) Vs = std::max(Vs, std::fabs(slow.at(sn.span, sn.local, sn.after).shear));
+    Vs *= 1e-3;
+    for (const auto& sn : stations) {
+      const PointValues p = fast.at(sn.span, sn.local, sn.after), q = slow.at(sn.span, sn.local, sn.after);
+      const std::string w = t + " span " + std::to_string(sn.span) + " at " + std::to_string(sn.local);
+      expect_rel(p.shear, q.shear, Vs, w + " shear");
+      expect_rel(p.moment, q.moment, Ms, w + " moment");
+      expect_rel(p.rotation, q.rotation, rs, w + " rotation");
+      expect_rel(p.deflection, q.deflection, vs, w + " deflection");
+    }
+  }
+}
+
+// The lean path refuses what it does not cover; the general path's answer
+// (and reason) stands: out-of-order span loads, a fixed end, a hinge.
+TEST(ThreeMomentLean, OutOfScopeFallsBack) {
+  Beam b = make_beam<double>({4.0, 5.0, 3.0}, {ST::Pinned, ST::Roller, ST::Roller, ST::Roller}, 2e3);
+  add_udl(b, 2, 3.0);
+  add_point(b, 0, 7.0, 1.5);
+  add_udl(b, 1, 2.0);
+  Beam sorted = make_beam<double>({4.0, 5.0, 3.0}, {ST::Pinned, ST::Roller, ST::Roller, ST::Roller}, 2e3);
+  add_point(sorted, 0, 7.0, 1.5);
+  add_udl(sorted, 1, 2.0);
+  add_udl(sorted, 2, 3.0);
+  const Solution a = run(b), c = run(sorted);
+  ASSERT_EQ(a.status, MethodStatus::Ok) << a.reason;
+  ASSERT_EQ(c.status, MethodStatus::Ok) << c.reason;
+  for (std::size_t i = 0; i < a.nodes.size(); ++i) {
+    EXPECT_NEAR(a.nodes[i].reaction_force, c.nodes[i].reaction_force, 1e-12);
+    EXPECT_NEAR(a.nodes[i].rotation_left, c.nodes[i].rotation_left, 1e-15);
+  }
+  Beam bad = sorted;
+  bad.loads.push_back(span_udl<double>(5, 1.0, 0.0, 1.0));
+  EXPECT_EQ(run(bad).status, MethodStatus::Failed);
+  Beam far = sorted;
+  add_point(far, 1, 1.0, 6.0);  // outside span 2
+  const Solution f = run(far);
+  EXPECT_EQ(f.status, MethodStatus::Failed);
+  EXPECT_NE(f.reason.find("outside span 2"), std::string::npos) << f.reason;
+}

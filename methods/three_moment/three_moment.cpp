@@ -461,6 +461,195 @@ BasicSolution<R> failed(std::string why) {
   return s;
 }
 
+// ---- The lean path: the usual beam (every support pinned or roller, no
+// hinge, no node load, span loads listed span by span) in three passes
+// instead of seven: (1) validation, segments, load copies, load terms and
+// the Thomas forward sweep, each row eliminated as soon as its two spans
+// are read; (2) back substitution; (3) span statics and node results. It
+// makes the SAME operations in the SAME order as the general path of
+// solve() for such a beam (the same bits: tests/three_moment_test.cpp
+// compares them), reading its inputs once; anything it does not cover, a
+// fault or a bad pivot makes it return false, and solve() runs the general
+// path, which gives its usual answer and reason.
+template <class R>
+struct LeanRow {
+  R cp, dp;  // Thomas: modified super-diagonal, right-hand side
+  R invL;    // 1/L of the segment to the right of the row's node
+};
+
+template <class R>
+bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
+  const std::size_t n = beam.spans.size();
+  const auto* const sup = beam.supports.data();
+  const auto* const spans = beam.spans.data();
+  const BasicLoad<R>* const bl = beam.loads.data();
+  const std::size_t nl = beam.loads.size();
+  const Consts<R> K;
+  auto st = std::make_shared<State<R>>();
+  reserve_fresh(st->seg, n);
+  st->loads.allocate(nl);
+  SpanLoad<R>* const loads = st->loads.data();
+  FreshArray<LeanRow<R>> rows;
+  rows.allocate(n + 1);
+  LeanRow<R>* const rw = rows.data();
+  auto plain = [&](std::size_t i) TM_INLINE {
+    return (sup[i].type == SupportType::Pinned || sup[i].type == SupportType::Roller) && !sup[i].hinge;
+  };
+
+  // ---- Pass 1.
+  // Node 0: known(0) of the general path: emit(0, 1, 0, 0), pivot 1.
+  rw[0].cp = R(0) / R(1);
+  rw[0].dp = R(0) / R(1);
+  std::size_t li = 0, nload = 0;
+  R pgl6{0}, pf{0}, ppsi{0};  // terms of the segment left of node g
+  // Anything out of scope returns at once, before it is divided by (a
+  // zero division throws in rational arithmetic).
+  if (!plain(0)) return false;
+  for (std::size_t g = 0; g < n; ++g) {
+    const R& len = spans[g].length;
+    const R& EI = spans[g].EI;
+    if (!(plain(g + 1) && len > R(0) && EI > R(0) && finite(len) && finite(EI))) return false;
+    st->seg.emplace_back();
+    Segment<R>& sg = st->seg.back();
+    sg.L = R(0) + len;  // the general path sums the segment's spans from 0
+    sg.invEI = R(1) / EI;
+    sg.v0 = sup[g].settlement;
+    sg.first = nload;
+    for (; li < nl && bl[li].index == g; ++li) {
+      const BasicLoad<R>& l = bl[li];
+      SpanLoad<R>& sl = loads[nload++];
+      const R off{0};
+      switch (l.type) {
+        case LoadType::Point:
+        case LoadType::Couple:
+          if (l.on_node || l.at < R(0) || len < l.at) return false;
+          sl.kind = l.type == LoadType::Point ? Kind::Point : Kind::Couple;
+          sl.a = off + l.at;
+          sl.p = l.type == LoadType::Point ? l.P : l.C;
+          sl.d = sl.w2 = sl.s = R(0);
+          break;
+        case LoadType::Udl:
+        case LoadType::Linear: {
+          if (l.on_node || l.from < R(0) || !(l.from < l.to) || len < l.to) return false;
+          const R& w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
+          sl.kind = Kind::Ramp;
+          sl.a = off + l.from;
+          sl.d = off + l.to;
+          sl.p = l.w1;
+          sl.w2 = w2;
+          if (l.type == LoadType::Udl) sl.s = R(0);
+          else sl.s = (w2 - l.w1) / (l.to - l.from);
+          break;
+        }
+      }
+    }
+    sg.last = nload;
+    // The next load, if any, must be on a later span.
+    if (li < nl && !(bl[li].index > g && bl[li].index < n)) return false;
+    // terms(g).
+    const R invL = R(1) / sg.L;
+    const auto fm = free_moments6(loads + sg.first, loads + sg.last, sg.L, K);
+    const R q = sg.invEI * invL;
+    const R gl6 = fm.first * q, gr6 = fm.second * q, f = sg.L * sg.invEI;
+    const R psi = (sup[g + 1].settlement - sup[g].settlement) * invL;
+    rw[g].invL = invL;
+    if (g > 0) {  // the three-moment equation at support g
+      const R d = -pgl6 - gr6 + K.six * (ppsi - psi);
+      const R a = pf, b = K.two * (pf + f);
+      const R piv = b - a * rw[g - 1].cp;
+      if (is_zero(piv) || !finite(piv)) return false;
+      const R rhs = d - a * rw[g - 1].dp;
+      rw[g].cp = f / piv;
+      rw[g].dp = rhs / piv;
+    }
+    pgl6 = gl6;
+    pf = f;
+    ppsi = psi;
+  }
+  {  // Node n: known(0 - 0): emit(0, 1, 0, 0) after row n - 1.
+    const R zero{0}, one{1};
+    const R piv = one - zero * rw[n - 1].cp;
+    if (is_zero(piv) || !finite(piv)) return false;
+    const R rhs = R(zero - zero) - zero * rw[n - 1].dp;
+    rw[n].cp = zero / piv;
+    rw[n].dp = rhs / piv;
+  }
+
+  // ---- Pass 2: back substitution.
+  if (!finite(rw[n].dp)) return false;
+  for (std::size_t i = n; i-- > 0;) {
+    rw[i].dp = rw[i].dp - rw[i].cp * rw[i + 1].dp;
+    if (!finite(rw[i].dp)) return false;
+  }
+
+  // ---- Pass 3: span statics, rotations and deflections, node results.
+  reserve_fresh(out.nodes, n + 1);
+  bool bad = false;
+  R x{0};
+  BasicPointValues<R> lv;  // values just left of node g
+  auto node = [&](std::size_t i, const R& settlement, const R& left_shear, const R& right_shear) TM_INLINE
+      -> BasicNodeResult<R>& {
+    out.nodes.emplace_back();
+    BasicNodeResult<R>& nr = out.nodes.back();
+    nr.x = x;
+    nr.deflection = settlement;
+    const R Vl = i > 0 ? left_shear : R(0);
+    const R Vr = i < n ? right_shear : R(0);
+    nr.reaction_force = Vr - Vl + R(0);
+    return nr;
+  };
+  auto check = [&](const BasicNodeResult<R>& nr) TM_INLINE {
+    const bool fin = finite(nr.deflection) & finite(nr.reaction_force) & finite(nr.reaction_moment) &
+                     finite(nr.rotation_left) & finite(nr.rotation_right);
+    bad = bad | !fin;
+  };
+  R MA = rw[0].dp;
+  for (std::size_t g = 0; g < n; ++g) {
+    Segment<R>& sg = st->seg[g];
+    const R& L = sg.L;
+    const R MB = rw[g + 1].dp;
+    const R& invL = rw[g].invL;
+    const EndSums<R> es = end_sums(loads + sg.first, loads + sg.last, L, K);
+    const R& vA = sg.v0;  // the settlement of node g, set in pass 1
+    const R& vB = g + 1 < n ? st->seg[g + 1].v0 : sup[n].settlement;
+    sg.MA = MA;
+    sg.V0 = (MB - MA - (es.s.M + es.CL)) * invL;
+    const R L2 = L * L;
+    const R I1 = MA * L + sg.V0 * L2 * K.half + es.s.I1;
+    const R I2 = MA * L2 * K.half + sg.V0 * L2 * L * K.sixth + es.s.I2;
+    sg.theta0 = (vB - vA) * invL + I2 * sg.invEI * invL;
+    // Node g: left values `lv` (from segment g - 1), right ones at 0 of g.
+    BasicNodeResult<R>& nr = node(g, vA, lv.shear, R(sg.V0 - es.P0));
+    if (g > 0) nr.moment_left = lv.moment;
+    nr.moment_right = MA + es.C0;
+    nr.rotation_left = g > 0 ? lv.rotation : sg.theta0;
+    nr.rotation_right = sg.theta0;
+    check(nr);
+    x += L;
+    lv.shear = sg.V0 + es.s.V;
+    lv.moment = sg.MA + sg.V0 * L + es.s.M;
+    lv.rotation = sg.theta0 - I1 * sg.invEI;
+    lv.deflection = sg.v0 + sg.theta0 * L - I2 * sg.invEI;
+    MA = MB + R(0);
+  }
+  {
+    BasicNodeResult<R>& nr = node(n, sup[n].settlement, lv.shear, lv.shear);
+    nr.moment_left = lv.moment;
+    nr.rotation_left = lv.rotation;
+    nr.rotation_right = lv.rotation;
+    check(nr);
+  }
+  rows.release();
+  if (bad) {
+    out.nodes.clear();
+    return false;
+  }
+  std::shared_ptr<const State<R>> cst = std::move(st);
+  out.status = MethodStatus::Ok;
+  out.at = [cst](std::size_t span, const R& local, bool after) { return eval_span(*cst, span, local, after); };
+  return true;
+}
+
 }  // namespace
 
 template <class R>
@@ -472,6 +661,10 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     return failed<R>("supports/labels do not match the number of spans");
   const auto& sup = beam.supports;
   auto label = [&](std::size_t i) { return "node " + beam.labels[i]; };
+  {
+    BasicSolution<R> lean;
+    if (solve_lean(beam, lean)) return lean;
+  }
 
   // ---- Scope and sanity.
   for (std::size_t s = 0; s < n; ++s)
