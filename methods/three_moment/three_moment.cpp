@@ -474,7 +474,6 @@ BasicSolution<R> failed(std::string why) {
 template <class R>
 struct LeanRow {
   R cp, dp;  // Thomas: modified super-diagonal, right-hand side
-  R invL;    // 1/L of the segment to the right of the row's node
 };
 
 template <class R>
@@ -547,12 +546,12 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     // The next load, if any, must be on a later span.
     if (li < nl && !(bl[li].index > g && bl[li].index < n)) return false;
     // terms(g).
-    const R invL = R(1) / sg.L;
+    sg.invL = R(1) / sg.L;
+    const R& invL = sg.invL;
     const auto fm = free_moments6(loads + sg.first, loads + sg.last, sg.L, K);
     const R q = sg.invEI * invL;
     const R gl6 = fm.first * q, gr6 = fm.second * q, f = sg.L * sg.invEI;
     const R psi = (sup[g + 1].settlement - sup[g].settlement) * invL;
-    rw[g].invL = invL;
     if (g > 0) {  // the three-moment equation at support g
       const R d = -pgl6 - gr6 + K.six * (ppsi - psi);
       const R a = pf, b = K.two * (pf + f);
@@ -608,7 +607,7 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     Segment<R>& sg = st->seg[g];
     const R& L = sg.L;
     const R MB = rw[g + 1].dp;
-    const R& invL = rw[g].invL;
+    const R& invL = sg.invL;
     const EndSums<R> es = end_sums(loads + sg.first, loads + sg.last, L, K);
     const R& vA = sg.v0;  // the settlement of node g, set in pass 1
     const R& vB = g + 1 < n ? st->seg[g + 1].v0 : sup[n].settlement;
