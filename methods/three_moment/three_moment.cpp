@@ -574,12 +574,9 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     rw[n].dp = rhs / piv;
   }
 
-  // ---- Pass 2: back substitution.
-  if (!finite(rw[n].dp)) return false;
-  for (std::size_t i = n; i-- > 0;) {
-    rw[i].dp = rw[i].dp - rw[i].cp * rw[i + 1].dp;
-    if (!finite(rw[i].dp)) return false;
-  }
+  // ---- Pass 2: back substitution. The general path refuses a non-finite
+  // support moment; here each one is tested in pass 3 with its node.
+  for (std::size_t i = n; i-- > 0;) rw[i].dp = rw[i].dp - rw[i].cp * rw[i + 1].dp;
 
   // ---- Pass 3: span statics, rotations and deflections, node results.
   reserve_fresh(out.nodes, n + 1);
@@ -597,9 +594,20 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     nr.reaction_force = Vr - Vl + R(0);
     return nr;
   };
-  auto check = [&](const BasicNodeResult<R>& nr) TM_INLINE {
-    const bool fin = finite(nr.deflection) & finite(nr.reaction_force) & finite(nr.reaction_moment) &
-                     finite(nr.rotation_left) & finite(nr.rotation_right);
+  // The node's values and the support moment `Ms` at it are finite (the
+  // general path tests both; reaction_moment stays 0 here). For built-in
+  // floats one test of a sum of x - x, which is 0 for a finite x and NaN
+  // otherwise (NaN then propagates through the sum).
+  auto check = [&](const BasicNodeResult<R>& nr, const R& Ms) TM_INLINE {
+    bool fin;
+    if constexpr (std::is_floating_point_v<R>) {
+      fin = std::isfinite(((nr.deflection - nr.deflection) + (nr.reaction_force - nr.reaction_force)) +
+                          ((nr.rotation_left - nr.rotation_left) + (nr.rotation_right - nr.rotation_right)) +
+                          (Ms - Ms));
+    } else {
+      fin = finite(nr.deflection) & finite(nr.reaction_force) & finite(nr.rotation_left) &
+            finite(nr.rotation_right) & finite(Ms);
+    }
     bad = bad | !fin;
   };
   R MA = rw[0].dp;
@@ -623,7 +631,7 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     nr.moment_right = MA + es.C0;
     nr.rotation_left = g > 0 ? lv.rotation : sg.theta0;
     nr.rotation_right = sg.theta0;
-    check(nr);
+    check(nr, MA);
     x += L;
     lv.shear = sg.V0 + es.s.V;
     lv.moment = sg.MA + sg.V0 * L + es.s.M;
@@ -636,7 +644,7 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     nr.moment_left = lv.moment;
     nr.rotation_left = lv.rotation;
     nr.rotation_right = lv.rotation;
-    check(nr);
+    check(nr, MA);
   }
   rows.release();
   if (bad) {
