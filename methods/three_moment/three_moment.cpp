@@ -282,44 +282,48 @@ TM_INLINE inline bool flat(const R& s) {
 // moment diagram about its left end (6 FL) and right end (6 FR), summed
 // over the loads [l, end): the formulas of the derivation above, times 6.
 // Summed in locals (registers, for double), returned as {6 FL, 6 FR}.
+// One load's terms of free_moments6, added to FL6 and FR6 (L2 = L * L).
+template <class R>
+TM_INLINE inline void add_free_moments6(R& FL6, R& FR6, const SpanLoad<R>* l, const R& L, const R& L2,
+                                        const Consts<R>& k) {
+  switch (l->kind) {
+    case Kind::Point: {
+      const R b = L - l->a;
+      const R pab = l->p * l->a * b;
+      FL6 += pab * (L + l->a);
+      FR6 += pab * (L + b);
+      break;
+    }
+    case Kind::Couple: {
+      const R a2 = l->a * l->a;
+      FL6 += l->p * (L2 - k.three * a2);
+      FR6 += l->p * (k.two * L2 - k.six * l->a * L + k.three * a2);
+      break;
+    }
+    case Kind::Ramp: {
+      const R& c = l->a;
+      const R e = L - c, dl = l->d - c;
+      const R d2 = dl * dl, d3 = d2 * dl, d4 = d3 * dl;
+      R m0 = l->p * dl, m1 = l->p * d2 * k.half, m2 = l->p * d3 * k.third, m3 = l->p * d4 * k.quarter;
+      if (!flat(l->s)) {
+        const R d5 = d4 * dl;
+        m0 += l->s * d2 * k.half;
+        m1 += l->s * d3 * k.third;
+        m2 += l->s * d4 * k.quarter;
+        m3 += l->s * d5 * k.fifth;
+      }
+      const R c2 = c * c, e2 = e * e;
+      FL6 += (L2 * c - c2 * c) * m0 + (L2 - k.three * c2) * m1 - k.three * c * m2 - m3;
+      FR6 += (L2 * e - e2 * e) * m0 - (L2 - k.three * e2) * m1 - k.three * e * m2 + m3;
+      break;
+    }
+  }
+}
 template <class R>
 TM_INLINE inline std::pair<R, R> free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
   const R L2 = L * L;
   R FL6{0}, FR6{0};
-  for (; l != end; ++l) {
-    switch (l->kind) {
-      case Kind::Point: {
-        const R b = L - l->a;
-        const R pab = l->p * l->a * b;
-        FL6 += pab * (L + l->a);
-        FR6 += pab * (L + b);
-        break;
-      }
-      case Kind::Couple: {
-        const R a2 = l->a * l->a;
-        FL6 += l->p * (L2 - k.three * a2);
-        FR6 += l->p * (k.two * L2 - k.six * l->a * L + k.three * a2);
-        break;
-      }
-      case Kind::Ramp: {
-        const R& c = l->a;
-        const R e = L - c, dl = l->d - c;
-        const R d2 = dl * dl, d3 = d2 * dl, d4 = d3 * dl;
-        R m0 = l->p * dl, m1 = l->p * d2 * k.half, m2 = l->p * d3 * k.third, m3 = l->p * d4 * k.quarter;
-        if (!flat(l->s)) {
-          const R d5 = d4 * dl;
-          m0 += l->s * d2 * k.half;
-          m1 += l->s * d3 * k.third;
-          m2 += l->s * d4 * k.quarter;
-          m3 += l->s * d5 * k.fifth;
-        }
-        const R c2 = c * c, e2 = e * e;
-        FL6 += (L2 * c - c2 * c) * m0 + (L2 - k.three * c2) * m1 - k.three * c * m2 - m3;
-        FR6 += (L2 * e - e2 * e) * m0 - (L2 - k.three * e2) * m1 - k.three * e * m2 + m3;
-        break;
-      }
-    }
-  }
+  for (; l != end; ++l) add_free_moments6(FL6, FR6, l, L, L2, k);
   return {std::move(FL6), std::move(FR6)};
 }
 
@@ -514,17 +518,26 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     sg.invEI = R(1) / EI;
     sg.v0 = sup[g].settlement;
     sg.first = nload;
+    // free_moments6 of the segment, each load's terms added as it is copied.
+    const R L2 = sg.L * sg.L;
+    R FL6{0}, FR6{0};
     for (; li < nl && bl[li].index == g; ++li) {
       const BasicLoad<R>& l = bl[li];
       SpanLoad<R>& sl = loads[nload++];
       const R off{0};
       switch (l.type) {
         case LoadType::Point:
+          if (l.on_node || l.at < R(0) || len < l.at) return false;
+          sl.kind = Kind::Point;
+          sl.a = off + l.at;
+          sl.p = l.P;
+          sl.d = sl.w2 = sl.s = R(0);
+          break;
         case LoadType::Couple:
           if (l.on_node || l.at < R(0) || len < l.at) return false;
-          sl.kind = l.type == LoadType::Point ? Kind::Point : Kind::Couple;
+          sl.kind = Kind::Couple;
           sl.a = off + l.at;
-          sl.p = l.type == LoadType::Point ? l.P : l.C;
+          sl.p = l.C;
           sl.d = sl.w2 = sl.s = R(0);
           break;
         case LoadType::Udl:
@@ -541,6 +554,7 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
           break;
         }
       }
+      add_free_moments6(FL6, FR6, &sl, sg.L, L2, K);
     }
     sg.last = nload;
     // The next load, if any, must be on a later span.
@@ -548,9 +562,8 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
     // terms(g).
     sg.invL = R(1) / sg.L;
     const R& invL = sg.invL;
-    const auto fm = free_moments6(loads + sg.first, loads + sg.last, sg.L, K);
     const R q = sg.invEI * invL;
-    const R gl6 = fm.first * q, gr6 = fm.second * q, f = sg.L * sg.invEI;
+    const R gl6 = FL6 * q, gr6 = FR6 * q, f = sg.L * sg.invEI;
     const R psi = (sup[g + 1].settlement - sup[g].settlement) * invL;
     if (g > 0) {  // the three-moment equation at support g
       const R d = -pgl6 - gr6 + K.six * (ppsi - psi);
