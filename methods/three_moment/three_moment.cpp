@@ -488,6 +488,12 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
   const BasicLoad<R>* const bl = beam.loads.data();
   const std::size_t nl = beam.loads.size();
   const Consts<R> K;
+  auto plain = [&](std::size_t i) TM_INLINE {
+    return (sup[i].type == SupportType::Pinned || sup[i].type == SupportType::Roller) && !sup[i].hinge;
+  };
+  // Both ends first, before anything is allocated: a fixed or free end
+  // (the commonest refusal) then costs the general path no wasted pass.
+  if (!plain(0) || !plain(n)) return false;
   auto st = std::make_shared<State<R>>();
   reserve_fresh(st->seg, n);
   st->loads.allocate(nl);
@@ -495,9 +501,6 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
   FreshArray<LeanRow<R>> rows;
   rows.allocate(n + 1);
   LeanRow<R>* const rw = rows.data();
-  auto plain = [&](std::size_t i) TM_INLINE {
-    return (sup[i].type == SupportType::Pinned || sup[i].type == SupportType::Roller) && !sup[i].hinge;
-  };
 
   // ---- Pass 1.
   // Node 0: known(0) of the general path: emit(0, 1, 0, 0), pivot 1.
@@ -507,7 +510,6 @@ bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
   R pgl6{0}, pf{0}, ppsi{0};  // terms of the segment left of node g
   // Anything out of scope returns at once, before it is divided by (a
   // zero division throws in rational arithmetic).
-  if (!plain(0)) return false;
   for (std::size_t g = 0; g < n; ++g) {
     const R& len = spans[g].length;
     const R& EI = spans[g].EI;
