@@ -57,25 +57,15 @@ class JsonWriter {
 
   void value(double v) {
     separate();
-    if (!std::isfinite(v)) {
-      buf_ += "null";
-    } else {
-      char b[32];
-      auto r = std::to_chars(b, b + sizeof b, v);
-      std::string_view s(b, static_cast<std::size_t>(r.ptr - b));
-      buf_ += s;
-      // Keep a double recognisable as one ("2" -> "2.0"), as JSON readers
-      // that distinguish integers expect.
-      if (s.find_first_of(".eEn") == std::string_view::npos) buf_ += ".0";
-    }
+    number_body(v);
     maybe_flush();
   }
   void value(std::string_view s) { separate(); string_body(s); maybe_flush(); }
   void value(const char* s) { value(std::string_view(s)); }
   void value(const std::string& s) { value(std::string_view(s)); }
   void value(bool b) { separate(); buf_ += b ? "true" : "false"; }
-  void value(std::size_t n) { separate(); buf_ += std::to_string(n); }
-  void value(int n) { separate(); buf_ += std::to_string(n); }
+  void value(std::size_t n) { separate(); integer_body(n); }
+  void value(int n) { separate(); integer_body(n); }
   void null() { separate(); buf_ += "null"; }
   // How many containers are open (for a writer that makes a part to be put
   // in here with raw_element()).
@@ -100,6 +90,25 @@ class JsonWriter {
 
   template <class T>
   void member(std::string_view k, const T& v) { key(k); value(v); }
+
+  // A compact object of many small fields (a station, a node), written
+  // field by field without the general bookkeeping: the same bytes as
+  // begin_object(true), member()s and end_object(). Keys must be plain
+  // ASCII that needs no escaping (the report's own field names).
+  void record_begin() {
+    separate();
+    buf_ += '{';
+    record_first_ = true;
+  }
+  void record(std::string_view k, double v) { record_key(k); number_body(v); }
+  void record(std::string_view k, std::size_t v) { record_key(k); integer_body(v); }
+  void record(std::string_view k, std::string_view v) { record_key(k); string_body(v); }
+  void record_null(std::string_view k) { record_key(k); buf_ += "null"; }
+  void record_end() {
+    buf_ += '}';
+    if (stack_.empty()) buf_ += '\n';
+    maybe_flush();
+  }
   void member_null(std::string_view k) { key(k); null(); }
 
   void flush() {
@@ -177,6 +186,31 @@ class JsonWriter {
     }
     buf_ += '"';
   }
+  void record_key(std::string_view k) {
+    buf_ += record_first_ ? "\"" : ",\"";
+    record_first_ = false;
+    buf_ += k;
+    buf_ += "\":";  // a record is compact
+  }
+  void number_body(double v) {
+    if (!std::isfinite(v)) {
+      buf_ += "null";
+      return;
+    }
+    char b[32];
+    auto r = std::to_chars(b, b + sizeof b, v);
+    std::string_view s(b, static_cast<std::size_t>(r.ptr - b));
+    buf_ += s;
+    // Keep a double recognisable as one ("2" -> "2.0"), as JSON readers
+    // that distinguish integers expect.
+    if (s.find_first_of(".eEn") == std::string_view::npos) buf_ += ".0";
+  }
+  template <class I>
+  void integer_body(I n) {
+    char b[24];
+    auto r = std::to_chars(b, b + sizeof b, n);
+    buf_.append(b, static_cast<std::size_t>(r.ptr - b));
+  }
   void maybe_flush() {
     if (out_ && buf_.size() > (1 << 16)) flush();
   }
@@ -186,6 +220,7 @@ class JsonWriter {
   std::string& buf_;
   std::vector<Level> stack_;
   bool after_key_ = false;
+  bool record_first_ = true;
 };
 
 }  // namespace trivet::reports
