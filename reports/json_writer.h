@@ -203,7 +203,9 @@ class JsonWriter {
     buf_ += s;
     // Keep a double recognisable as one ("2" -> "2.0"), as JSON readers
     // that distinguish integers expect.
-    if (s.find_first_of(".eEn") == std::string_view::npos) buf_ += ".0";
+    bool plain = true;  // digits only (a finite double from to_chars: no 'E', no "nan")
+    for (const char c : s) plain = plain && c != '.' && c != 'e';
+    if (plain) buf_ += ".0";
   }
   template <class I>
   void integer_body(I n) {
