@@ -18,9 +18,10 @@ work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
 # warm memory (the first call at a million spans also pays the first touch
 # of its pages; the whole-run rows below include it).
 # The machine is shared (a virtual machine on a busy host): every row is the
-# median of three repetitions.
+# median of three repetitions, run in a random interleaved order so that a
+# change in the host's load does not fall on one row alone.
 "$bench" --benchmark_filter='^(three_moment|slope_deflection|stiffness|thomas|typical)/' --benchmark_min_time=0.5 \
-  --benchmark_repetitions=3 --benchmark_report_aggregates_only=true \
+  --benchmark_repetitions=3 --benchmark_enable_random_interleaving=true --benchmark_report_aggregates_only=true \
   --benchmark_format=console 2>/dev/null | sed 's/\x1b\[[0-9;]*m//g' | grep '_median ' | sed 's/_median / /' > "$work/bench.txt"
 # The three solvers together at a million spans take longer per call: five
 # seconds of repeats, so the first (cold) call does not stand for them.
@@ -34,31 +35,39 @@ work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
 # Whole runs: a library of 10,000 typical beams, and a 100,000-span beam.
 "$gen" "$work/lib" 10000 1
 "$gen" --long "$work/long.json" 100000 1
-run() {  # run LABEL CMD... -> "| LABEL | seconds | MiB |", the median of five runs
-  local label="$1"; shift
-  local times=() kb=0 secs mem k
-  for k in 1 2 3 4 5; do
-    /usr/bin/time -f "%e %M" -o "$work/t" "$@" >/dev/null 2>&1 || true
-    read -r secs mem < "$work/t"
-    times+=("$secs")
-    if [ "$mem" -gt "$kb" ]; then kb=$mem; fi
-  done
-  secs=$(printf '%s\n' "${times[@]}" | sort -n | sed -n 3p)
+once() {  # once CMD... -> "seconds KiB" of one run
+  /usr/bin/time -f "%e %M" -o "$work/t" "$@" >/dev/null 2>&1 || true
+  cat "$work/t"
+}
+row() {  # row LABEL FILE -> "| LABEL | median s (runs) | MiB |"; the median to $work/last, MiB to $work/last_mib
+  local label="$1" secs kb
+  secs=$(cut -d' ' -f1 "$2" | sort -n | sed -n 3p)
+  kb=$(cut -d' ' -f2 "$2" | sort -n | tail -1)
   echo "$secs" > "$work/last"
   echo $((kb / 1024)) > "$work/last_mib"
-  printf '| %s | %s s (runs: %s) | %d MiB |\n' "$label" "$secs" "${times[*]}" $((kb / 1024))
+  printf '| %s | %s s (runs: %s) | %d MiB |\n' "$label" "$secs" "$(cut -d' ' -f1 "$2" | tr '\n' ' ' | sed 's/ $//')" $((kb / 1024))
 }
+# Five runs of each, --jobs 2 and --jobs 1 taking turns, so that a change
+# in the shared host's load falls on both alike.
+: > "$work/j2"; : > "$work/j1"; : > "$work/long"
+for k in 1 2 3 4 5; do
+  once "$trivet" check "$work/lib" --jobs 2 --json "$work/a.json" --junit "$work/a.xml" >> "$work/j2"
+  once "$trivet" check "$work/lib" --jobs 1 --json "$work/b.json" --junit "$work/b.xml" >> "$work/j1"
+done
+for k in 1 2 3 4 5; do
+  once "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json" >> "$work/long"
+done
 {
   echo "Measured on $(nproc) cores ($(grep -m1 'model name' /proc/cpuinfo | cut -d: -f2 | sed 's/^ *//')), $(date -u +%Y-%m-%d), by \`scripts/benchmark.sh\`."
   echo
   echo "| whole run | wall time | peak memory |"
   echo "| --- | --- | --- |"
-  run "10,000 typical beams, all methods, JSON + JUnit, --jobs 2" "$trivet" check "$work/lib" --jobs 2 --json "$work/a.json" --junit "$work/a.xml"
+  row "10,000 typical beams, all methods, JSON + JUnit, --jobs 2" "$work/j2"
   two=$(cat "$work/last")
-  run "10,000 typical beams, all methods, JSON + JUnit, --jobs 1" "$trivet" check "$work/lib" --jobs 1 --json "$work/b.json" --junit "$work/b.xml"
+  row "10,000 typical beams, all methods, JSON + JUnit, --jobs 1" "$work/j1"
   one=$(cat "$work/last")
   echo "| speed-up of --jobs 2 over --jobs 1 (medians) | $(awk -v a="$one" -v b="$two" 'BEGIN { printf "%.2fx", a / b }') | |"
-  run "100,000-span beam, all methods, --stations-per-span 1, JSON" "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json"
+  row "100,000-span beam, all methods, --stations-per-span 1, JSON" "$work/long"
   long=$(cat "$work/last"); long_mib=$(cat "$work/last_mib")
   echo
   echo "| benchmark | time per iteration | per span (or unknown) | against Thomas |"
