@@ -18,10 +18,11 @@ work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
 # warm memory (the first call at a million spans also pays the first touch
 # of its pages; the whole-run rows below include it).
 # The machine is shared (a virtual machine on a busy host): every row is the
-# median of three repetitions, run in a random interleaved order so that a
-# change in the host's load does not fall on one row alone.
+# median of three repetitions. (Random interleaving of the repetitions was
+# tried: it splits the minimum time and made the million-span rows slower
+# and the table's order random.)
 "$bench" --benchmark_filter='^(three_moment|slope_deflection|stiffness|thomas|typical)/' --benchmark_min_time=0.5 \
-  --benchmark_repetitions=3 --benchmark_enable_random_interleaving=true --benchmark_report_aggregates_only=true \
+  --benchmark_repetitions=3 --benchmark_report_aggregates_only=true \
   --benchmark_format=console 2>/dev/null | sed 's/\x1b\[[0-9;]*m//g' | grep '_median ' | sed 's/_median / /' > "$work/bench.txt"
 # The three solvers together at a million spans take longer per call: five
 # seconds of repeats, so the first (cold) call does not stand for them.
