@@ -301,39 +301,37 @@ int run_check(const CheckArgs& a) {
   std::vector<char> ready(files.size(), 0);
   // Checks beam i (and, for a library, renders it and marks it ready).
   auto check_one = [&](std::size_t i) {
-    {
-      compare::BeamResult& r = results[i];
-      try {
-        std::string text;
-        input::BeamFile f = input::read_beam_file(files[i], {}, &text);
-        if (a.arithmetic == "double" && a.reference.empty()) std::string().swap(text);  // only exact reading needs it
-        // --stations-per-span may ask for more stations than the file's limit allows.
-        if (f.ok() && a.stations_per_span > 0)
-          if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
-        r = compare::check(f, opt);
-        if (r.status != compare::BeamStatus::Invalid && f.ok()) {
-          try { apply_precision_text(r, text, f, a.arithmetic, a.reference, opt); }
-          catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
-        }
-      } catch (const std::exception& e) {
+    compare::BeamResult& r = results[i];
+    try {
+      std::string text;
+      input::BeamFile f = input::read_beam_file(files[i], {}, &text);
+      if (a.arithmetic == "double" && a.reference.empty()) std::string().swap(text);  // only exact reading needs it
+      // --stations-per-span may ask for more stations than the file's limit allows.
+      if (f.ok() && a.stations_per_span > 0)
+        if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
+      r = compare::check(f, opt);
+      if (r.status != compare::BeamStatus::Invalid && f.ok()) {
+        try { apply_precision_text(r, text, f, a.arithmetic, a.reference, opt); }
+        catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
+      }
+    } catch (const std::exception& e) {
+      internal_error = true;
+      r = compare::BeamResult{};
+      r.file = files[i];
+      r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
+    }
+    if (render_in_workers) {
+      try { render(r, rendered[i]); }
+      catch (const std::exception& e) {
         internal_error = true;
-        r = compare::BeamResult{};
-        r.file = files[i];
-        r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
+        rendered[i].console = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
       }
-      if (render_in_workers) {
-        try { render(r, rendered[i]); }
-        catch (const std::exception& e) {
-          internal_error = true;
-          rendered[i].console = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
-        }
-        if (!keep_results) r = compare::BeamResult{};
-        {
-          std::lock_guard<std::mutex> lock(ready_mutex);
-          ready[i] = 1;
-        }
-        ready_cv.notify_one();
+      if (!keep_results) r = compare::BeamResult{};
+      {
+        std::lock_guard<std::mutex> lock(ready_mutex);
+        ready[i] = 1;
       }
+      ready_cv.notify_one();
     }
   };
   auto work = [&] {

@@ -983,11 +983,9 @@ void finish(BeamResult& out, const input::BeamFile& file) {
   out.status = disagree ? BeamStatus::Disagree : unconfirmed ? BeamStatus::Unconfirmed : BeamStatus::Agree;
 }
 
-}  // namespace
-
-namespace {
 // Stations from which a load set's methods run side by side.
 constexpr std::size_t kParallelStations = 20000;
+
 }  // namespace
 
 BeamResult check(const input::BeamFile& file, const Options& options) {
