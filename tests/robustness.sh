@@ -42,6 +42,31 @@ cmp -s "$work/core.orig" "$work/lib/core-wall-beam.json" && ok "the input is unt
 ln -s "$work/lib/balcony-cantilever.json" "$work/alias.json"
 "$trivet" check "$work/lib" --json "$work/alias.json" >/dev/null 2>"$work/err"; rc=$?
 [ "$rc" = 2 ] && ok "--json through a link to an input: exit 2" || no "--json through a link to an input: exit $rc"
+ln "$work/lib/core-wall-beam.json" "$work/hard.json"
+"$trivet" check "$work/lib" --json "$work/hard.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 2 ] && cmp -s "$work/core.orig" "$work/lib/core-wall-beam.json" && ok "--json naming a hard link of an input: exit 2" \
+  || no "--json naming a hard link of an input: exit $rc"
+mkdir -p "$work/lib2"; cp "$root/examples/core-wall-beam.json" "$work/lib2/"
+echo "an earlier report" > "$work/earlier.json"
+ln -s "$work/earlier.json" "$work/lib2/linked.json"     # an input that is a link to the report
+"$trivet" check "$work/lib2" --json "$work/earlier.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 2 ] && grep -q "linked.json" "$work/err" && [ "$(cat "$work/earlier.json")" = "an earlier report" ] \
+  && ok "--json naming the target of a link in the library: exit 2" || no "--json naming the target of a link in the library: exit $rc: $(cat "$work/err")"
+"$trivet" check "$work/lib2/../lib/core-wall-beam.json" --json "$work/lib/core-wall-beam.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 2 ] && ok "--json naming an input spelt through ..: exit 2" || no "--json naming an input spelt through ..: exit $rc"
+cmp -s "$work/core.orig" "$work/lib/core-wall-beam.json" && ok "the input is still untouched" || no "the input was changed"
+# A report replaces an old one whole, and leaves no temporary file; a
+# report path that is a directory is refused and the directory stays.
+mkdir -p "$work/rep"; echo "the report of an earlier run" > "$work/rep/r.json"
+"$trivet" check "$work/lib" --json "$work/rep/r.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 0 ] && python3 -c "import json,sys; json.load(open(sys.argv[1]))" "$work/rep/r.json" \
+  && ok "a report replaces an old one" || no "a report over an old one: exit $rc, $(head -c 80 "$work/rep/r.json")"
+[ "$(ls -A "$work/rep")" = "r.json" ] && ok "no temporary file is left beside the report" || no "left in the report's directory: $(ls -A "$work/rep")"
+mkdir -p "$work/rep/d.json"; touch "$work/rep/d.json/keep"
+"$trivet" check "$work/lib" --json "$work/rep/d.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 2 ] && [ -f "$work/rep/d.json/keep" ] && grep -q "trivet: --json: " "$work/err" \
+  && ok "--json naming a directory: exit 2, the directory stays" || no "--json naming a directory: exit $rc: $(cat "$work/err")"
+[ "$(ls -A "$work/rep" | sort | tr '\n' ' ')" = "d.json r.json " ] && ok "no temporary file is left after the refusal" || no "left: $(ls -A "$work/rep")"
 "$trivet" merge "$work/lib/core-wall-beam.json" --json "$work/lib/core-wall-beam.json" >/dev/null 2>"$work/err"; rc=$?
 [ "$rc" = 2 ] && cmp -s "$work/core.orig" "$work/lib/core-wall-beam.json" && ok "merge --json naming an input: exit 2" \
   || no "merge --json naming an input: exit $rc"

@@ -6,15 +6,22 @@
 #include <fstream>
 #include <iostream>
 #include <system_error>
+#include <unordered_map>
 
 #include <cerrno>
 #include <cstdlib>
 
+#include <dirent.h>
 #include <fcntl.h>
 #include <poll.h>
 #include <signal.h>
 #include <sys/stat.h>
 #include <unistd.h>
+
+#ifdef __linux__
+#include <linux/fs.h>  // RENAME_EXCHANGE
+#include <sys/syscall.h>
+#endif
 
 namespace trivet::cli {
 
@@ -100,14 +107,56 @@ std::string report_clashes_with_input(const std::string& report, const std::vect
   if (report.empty() || report == "-") return "";
   // A report that does not exist yet cannot be a file being read; one that
   // does is the same file as an input when both name the same inode (which
-  // also sees through links). One stat per input, no path resolution: a
-  // library of 10,000 files pays microseconds here.
+  // also sees through links: the exact test, one stat). Only candidates are
+  // stat'ed: an entry of a directory listing names a regular file with the
+  // listing's inode number, so only entries with the report's inode number,
+  // links and entries of unknown type can be it (a stat per input cost a
+  // library of 10,000 files most of its start-up).
   struct stat r{};
   if (::stat(report.c_str(), &r) != 0) return "";
-  for (const auto& in : inputs) {
+  const auto clash = [&](const std::string& in) {
     struct stat i{};
-    if (::stat(in.c_str(), &i) == 0 && i.st_dev == r.st_dev && i.st_ino == r.st_ino)
-      return "'" + report + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)";
+    return ::stat(in.c_str(), &i) == 0 && i.st_dev == r.st_dev && i.st_ino == r.st_ino;
+  };
+  const auto why = [&](const std::string& in) {
+    return "'" + report + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)";
+  };
+  // The inputs by directory, in order of first appearance.
+  std::unordered_map<std::string, std::unordered_map<std::string, std::size_t>> by_dir;  // dir -> name -> input
+  std::vector<std::string> dirs;
+  for (std::size_t k = 0; k < inputs.size(); ++k) {
+    const std::string& in = inputs[k];
+    const std::size_t slash = in.rfind('/');
+    const std::string dir = slash == std::string::npos ? "." : slash == 0 ? "/" : in.substr(0, slash);
+    const std::string name = slash == std::string::npos ? in : in.substr(slash + 1);
+    auto [it, fresh] = by_dir.try_emplace(dir);
+    if (fresh) dirs.push_back(dir);
+    it->second.emplace(name, k);
+  }
+  for (const std::string& dir : dirs) {
+    auto& names = by_dir[dir];
+    DIR* d = ::opendir(dir.c_str());
+    if (d == nullptr) {  // not listable: a stat each
+      for (const auto& [name, k] : names)
+        if (clash(inputs[k])) return why(inputs[k]);
+      continue;
+    }
+    std::vector<std::size_t> candidates;
+    std::size_t listed = 0;
+    while (const dirent* e = ::readdir(d)) {
+      const auto it = names.find(e->d_name);
+      if (it == names.end()) continue;
+      ++listed;
+      if (e->d_type != DT_REG || e->d_ino == r.st_ino) candidates.push_back(it->second);
+    }
+    ::closedir(d);
+    if (listed < names.size()) {  // some named files were not in the listing ("a/../b.json", or gone): a stat each
+      candidates.clear();
+      for (const auto& [name, k] : names) candidates.push_back(k);
+    }
+    std::sort(candidates.begin(), candidates.end());
+    for (const std::size_t k : candidates)
+      if (clash(inputs[k])) return why(inputs[k]);
   }
   return "";
 }
@@ -142,6 +191,30 @@ void remove_stale_temporaries(const fs::path& dir, const std::string& name) {
   }
 }
 
+
+// Puts the finished file `tmp` at `target` in one step for any reader:
+// `target` holds the old report or the new one, never a part. An old
+// regular file is swapped out (renameat2 RENAME_EXCHANGE) and then removed
+// under the temporary name: a plain rename over it makes ext4 start the
+// disk writes of the whole new file, and free the old one, inside the
+// rename. Where the swap is not supported: a plain rename.
+std::string replace_file(const std::string& tmp, const std::string& target) {
+#ifdef __linux__
+  struct stat old{};
+  if (::lstat(target.c_str(), &old) == 0 && S_ISREG(old.st_mode) &&
+      ::syscall(SYS_renameat2, AT_FDCWD, tmp.c_str(), AT_FDCWD, target.c_str(), RENAME_EXCHANGE) == 0) {
+    if (::unlink(tmp.c_str()) == 0) return "";
+    // What was swapped out is not the old report (it changed under us):
+    // swap it back, and the plain rename below decides.
+    ::syscall(SYS_renameat2, AT_FDCWD, tmp.c_str(), AT_FDCWD, target.c_str(), RENAME_EXCHANGE);
+  }
+#endif
+  std::error_code ec;
+  fs::rename(tmp, target, ec);
+  if (ec) return "cannot rename the report into place: " + ec.message();
+  return "";
+}
+
 }  // namespace
 
 std::string ReportFile::open(const std::string& path) {
@@ -159,29 +232,17 @@ std::string ReportFile::open(const std::string& path) {
   const int fd = mkstemp(name.data());
   if (fd < 0) return "cannot create a file in " + dir.string();
   tmp_ = name.data();
-  if (!buf_.open(tmp_, std::ios::out | std::ios::binary | std::ios::trunc)) {
-    close(fd);
+  // The file mkstemp made is opened again without truncating it ("r+"):
+  // ext4 takes a truncated file for one being replaced and writes all of it
+  // to the disk when it is closed, in the closing thread.
+  close(fd);
+  if (!buf_.open(tmp_, std::ios::in | std::ios::out | std::ios::binary)) {
     std::remove(tmp_.c_str());
     tmp_.clear();
     return "cannot write " + std::string(name.data());
   }
-  buf_.fd = fd;  // kept open for the early writeback; closed in commit()
   file_.clear();
   return "";
-}
-
-std::streamsize ReportFile::Buffer::xsputn(const char* s, std::streamsize n) {
-  const std::streamsize put = std::filebuf::xsputn(s, n);
-  since_ += put;
-  constexpr std::streamsize kStep = std::streamsize(8) << 20;
-  if (since_ >= kStep && fd >= 0) {
-    since_ = 0;
-#ifdef __linux__
-    // Start the disk writes of what is written so far; does not wait for them.
-    if (sync() == 0) sync_file_range(fd, 0, 0, SYNC_FILE_RANGE_WRITE);
-#endif
-  }
-  return put;
 }
 
 std::ostream& ReportFile::out() { return stdout_ ? std::cout : static_cast<std::ostream&>(file_); }
@@ -197,32 +258,18 @@ std::string ReportFile::commit() {
   const std::string tmp = tmp_;
   tmp_.clear();  // from here on this object no longer owns the temporary file
   file_.flush();
-  const int fd = buf_.fd;
-  buf_.fd = -1;
   const bool written = static_cast<bool>(file_) && buf_.close() != nullptr;
   if (!written) {
     buf_.close();
-    if (fd >= 0) close(fd);
     std::remove(tmp.c_str());
     return "writing " + path_ + " failed (disk full?)";
-  }
-  const fs::path target(path_);
-  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
-  // On the disk before it takes the report's name (a power cut leaves the
-  // old report or the new one, not an empty file).
-  if (fd >= 0) {
-    const bool synced = fsync(fd) == 0;
-    close(fd);
-    if (!synced) { std::remove(tmp.c_str()); return "writing " + path_ + " failed (the disk did not take it)"; }
   }
   std::error_code ec;
   fs::permissions(tmp, fs::perms::owner_read | fs::perms::owner_write | fs::perms::group_read | fs::perms::others_read,
                   fs::perm_options::replace, ec);
-  fs::rename(tmp, target, ec);
-  if (ec) { std::remove(tmp.c_str()); return "cannot rename the report into place: " + ec.message(); }
-  if (const int dir_fd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY); dir_fd >= 0) {
-    fsync(dir_fd);  // the new name on the disk too (best effort)
-    close(dir_fd);
+  if (std::string err = replace_file(tmp, path_); !err.empty()) {
+    std::remove(tmp.c_str());
+    return err;
   }
   return "";
 }
@@ -232,7 +279,6 @@ ReportFile::~ReportFile() {
     buf_.close();
     std::remove(tmp_.c_str());
   }
-  if (buf_.fd >= 0) close(buf_.fd);
 }
 
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body) {

@@ -23,11 +23,14 @@ std::vector<std::string> collect_beam_files(const std::vector<std::string>& path
 std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs);
 
 // Writes a report file whole or not at all: into a temporary file in the
-// same directory (".NAME.trivet-tmp.PID.XXXXXX", synced to disk), then
-// renamed over `path`. A run killed mid-write leaves the old report (or
-// none) at `path` and its hidden temporary file, which the next write of
-// the same report removes once process PID is gone. "-" writes to standard
-// output; a reader that has gone away (a broken pipe) is not an error.
+// same directory (".NAME.trivet-tmp.PID.XXXXXX"), then put in place of
+// `path` in one step. A reader, or a run killed mid-write, sees the old
+// report (or none) or the new one, never a part; a killed run leaves its
+// hidden temporary file, which the next write of the same report removes
+// once process PID is gone. The file is not synced to the disk (the kernel
+// writes it out within seconds): a power cut just after a run can leave an
+// empty or cut-short report, which no JSON or XML reader takes for whole. "-" writes to standard output; a reader
+// that has gone away (a broken pipe) is not an error.
 // Returns an empty string, or the reason it failed.
 std::string write_report_file(const std::string& path, const std::function<void(std::ostream&)>& body);
 
@@ -47,19 +50,8 @@ class ReportFile {
   std::string commit();  // "" or the reason it failed
 
  private:
-  // A file buffer that, every few MiB written, hands what it has to the
-  // kernel and asks it to start writing it to the disk, so that the sync
-  // before the rename has only the last part left to wait for.
-  class Buffer : public std::filebuf {
-   public:
-    int fd = -1;  // the temporary file, for the early writeback
-   protected:
-    std::streamsize xsputn(const char* s, std::streamsize n) override;
-   private:
-    std::streamsize since_ = 0;
-  };
   std::string path_, tmp_;
-  Buffer buf_;
+  std::filebuf buf_;
   std::ostream file_{&buf_};
   bool stdout_ = false;
 };

@@ -1288,26 +1288,6 @@ std::optional<Error> station_limit_error(const BeamFile& file, int per_span, con
 }
 
 BeamFile read_beam_file(const std::string& path, const Limits& limits, std::string* text_out) {
-  {
-    std::error_code ec;
-    const auto st = std::filesystem::status(path, ec);
-    std::string why;
-    if (ec || !std::filesystem::exists(st)) {
-      const auto link = std::filesystem::symlink_status(path, ec);
-      why = !ec && std::filesystem::is_symlink(link) ? "a symbolic link to nothing (or a loop of links); nothing to read"
-                                                      : "cannot open the file for reading (it does not exist)";
-    } else if (std::filesystem::is_directory(st)) why = "is a directory, not a beam file";
-    else if (!std::filesystem::is_regular_file(st)) {
-      why = std::string("is not a regular file (") + (std::filesystem::is_fifo(st) ? "a named pipe" :
-             std::filesystem::is_socket(st) ? "a socket" : "a device") + "); trivet reads beam files only";
-    }
-    if (!why.empty()) {
-      BeamFile out;
-      out.path = path;
-      out.errors.push_back({"", "", why});
-      return out;
-    }
-  }
   auto failed = [&](const std::string& why) {
     BeamFile out;
     out.path = path;
@@ -1315,12 +1295,29 @@ BeamFile read_beam_file(const std::string& path, const Limits& limits, std::stri
     return out;
   };
   // POSIX calls, not a stream: one open, one fstat, the reads, one close.
-  const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
-  if (fd < 0) return failed("cannot open the file for reading");
+  // O_NONBLOCK: opening a named pipe does not wait for a writer (fstat then
+  // tells what it is); it changes nothing for a regular file.
+  const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC | O_NONBLOCK | O_NOCTTY);
+  if (fd < 0) {
+    std::error_code ec;
+    const auto st = std::filesystem::status(path, ec);
+    if (ec || !std::filesystem::exists(st)) {
+      const auto link = std::filesystem::symlink_status(path, ec);
+      return failed(!ec && std::filesystem::is_symlink(link) ? "a symbolic link to nothing (or a loop of links); nothing to read"
+                                                             : "cannot open the file for reading (it does not exist)");
+    }
+    return failed(std::filesystem::is_directory(st) ? "is a directory, not a beam file" : "cannot open the file for reading");
+  }
   struct stat st{};
   if (::fstat(fd, &st) != 0) {
     ::close(fd);
     return failed("cannot read the file");
+  }
+  if (!S_ISREG(st.st_mode)) {
+    ::close(fd);
+    if (S_ISDIR(st.st_mode)) return failed("is a directory, not a beam file");
+    return failed(std::string("is not a regular file (") + (S_ISFIFO(st.st_mode) ? "a named pipe" :
+                  S_ISSOCK(st.st_mode) ? "a socket" : "a device") + "); trivet reads beam files only");
   }
   if (st.st_size > 0 && static_cast<std::uint64_t>(st.st_size) > limits.max_file_bytes) {
     ::close(fd);
