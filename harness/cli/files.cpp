@@ -30,12 +30,12 @@ namespace fs = std::filesystem;
 namespace {
 
 // What a directory entry named *.json is, when it is not a readable file.
-std::string not_a_beam_file(const fs::directory_entry& e) {
+std::string not_a_beam_file(const fs::path& p) {
   std::error_code ec;
-  const fs::file_status st = fs::status(e.path(), ec);
+  const fs::file_status st = fs::status(p, ec);
   if (ec || !fs::exists(st)) {
     std::error_code ec2;
-    if (fs::is_symlink(fs::symlink_status(e.path(), ec2)))
+    if (fs::is_symlink(fs::symlink_status(p, ec2)))
       return "a symbolic link to nothing (or a loop of links); nothing to read";
     return "cannot read the file: " + (ec ? ec.message() : std::string("it has gone"));
   }
@@ -44,37 +44,61 @@ std::string not_a_beam_file(const fs::directory_entry& e) {
          (fs::is_fifo(st) ? "a named pipe" : fs::is_socket(st) ? "a socket" : "a device") + "); skipped";
 }
 
+// A name that fs::path would give the extension ".json" ("x.json", not ".json").
+bool json_name(const char* name, std::size_t n) {
+  return n > 5 && std::char_traits<char>::compare(name + n - 5, ".json", 5) == 0;
+}
+
 // Every *.json below `dir` into `found`; directories that cannot be read,
 // and *.json entries that are not files, into `problems`. Symbolic links to
 // directories are not followed (so a loop of links cannot trap the walk).
-void walk(const fs::path& dir, std::vector<std::string>* found,
+// readdir's entry types: no stat for a regular file or a directory.
+void walk(const std::string& dir, std::vector<std::string>* found,
           std::vector<std::pair<std::string, std::string>>* problems) {
-  std::error_code ec;
-  fs::directory_iterator it(dir, ec), end;
-  if (ec) {
-    problems->push_back({dir.string(), "cannot read the directory: " + ec.message()});
+  DIR* d = ::opendir(dir.c_str());
+  if (d == nullptr) {
+    problems->push_back({dir, "cannot read the directory: " + std::error_code(errno, std::generic_category()).message()});
     return;
   }
-  std::vector<fs::path> subdirs;
-  while (it != end) {
-    const fs::directory_entry& e = *it;
-    std::error_code e2;
-    const bool link = e.is_symlink(e2);
-    if (!link && e.is_directory(e2)) subdirs.push_back(e.path());
-    else if (e.path().extension() == ".json") {
-      if (e.is_regular_file(e2)) found->push_back(e.path().string());
-      else if (!(link && e.is_directory(e2))) {
-        const std::string why = not_a_beam_file(e);
-        if (!why.empty()) problems->push_back({e.path().string(), why});
-      }
-    }
-    it.increment(ec);
-    if (ec) {
-      problems->push_back({dir.string(), "stopped reading the directory: " + ec.message()});
+  const std::string prefix = !dir.empty() && dir.back() == '/' ? dir : dir + "/";
+  std::vector<std::string> subdirs;
+  for (;;) {
+    errno = 0;
+    const dirent* e = ::readdir(d);
+    if (e == nullptr) {
+      if (errno != 0)
+        problems->push_back({dir, "stopped reading the directory: " + std::error_code(errno, std::generic_category()).message()});
       break;
     }
+    const std::size_t n = std::char_traits<char>::length(e->d_name);
+    if ((n == 1 && e->d_name[0] == '.') || (n == 2 && e->d_name[0] == '.' && e->d_name[1] == '.')) continue;
+    unsigned char type = e->d_type;
+    if (type == DT_UNKNOWN) {  // a file system that does not fill in the type
+      struct stat st{};
+      const std::string p = prefix + e->d_name;
+      type = ::lstat(p.c_str(), &st) != 0 ? DT_UNKNOWN : S_ISDIR(st.st_mode) ? DT_DIR : S_ISREG(st.st_mode) ? DT_REG
+                                          : S_ISLNK(st.st_mode) ? DT_LNK : DT_FIFO;
+    }
+    if (type == DT_DIR) {
+      subdirs.push_back(prefix + e->d_name);
+      continue;
+    }
+    if (!json_name(e->d_name, n)) continue;
+    std::string p = prefix + e->d_name;
+    if (type == DT_REG) {
+      found->push_back(std::move(p));
+      continue;
+    }
+    if (type == DT_LNK) {  // a link to a file is read; a link to a directory is not followed
+      struct stat st{};
+      if (::stat(p.c_str(), &st) == 0 && S_ISREG(st.st_mode)) { found->push_back(std::move(p)); continue; }
+      if (::stat(p.c_str(), &st) == 0 && S_ISDIR(st.st_mode)) continue;
+    }
+    const std::string why = not_a_beam_file(p);
+    if (!why.empty()) problems->push_back({p, why});
   }
-  for (const auto& d : subdirs) walk(d, found, problems);
+  ::closedir(d);
+  for (const auto& sub : subdirs) walk(sub, found, problems);
 }
 
 }  // namespace
@@ -103,23 +127,30 @@ std::vector<std::string> collect_beam_files(const std::vector<std::string>& path
   return out;
 }
 
-std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs) {
-  if (report.empty() || report == "-") return "";
+std::pair<std::size_t, std::string> report_clashes_with_input(const std::vector<std::string>& reports,
+                                                              const std::vector<std::string>& inputs) {
+  const std::pair<std::size_t, std::string> none{reports.size(), ""};
   // A report that does not exist yet cannot be a file being read; one that
   // does is the same file as an input when both name the same inode (which
   // also sees through links: the exact test, one stat). Only candidates are
   // stat'ed: an entry of a directory listing names a regular file with the
-  // listing's inode number, so only entries with the report's inode number,
-  // links and entries of unknown type can be it (a stat per input cost a
+  // listing's inode number, so only entries with a report's inode number,
+  // links and entries of unknown type can be one (a stat per input cost a
   // library of 10,000 files most of its start-up).
-  struct stat r{};
-  if (::stat(report.c_str(), &r) != 0) return "";
-  const auto clash = [&](const std::string& in) {
+  std::vector<std::pair<std::size_t, struct stat>> existing;  // (report, its stat)
+  for (std::size_t k = 0; k < reports.size(); ++k) {
+    struct stat r{};
+    if (!reports[k].empty() && reports[k] != "-" && ::stat(reports[k].c_str(), &r) == 0) existing.push_back({k, r});
+  }
+  if (existing.empty()) return none;
+  // The first report that the input is, or none.
+  const auto clash = [&](const std::string& in) -> std::pair<std::size_t, std::string> {
     struct stat i{};
-    return ::stat(in.c_str(), &i) == 0 && i.st_dev == r.st_dev && i.st_ino == r.st_ino;
-  };
-  const auto why = [&](const std::string& in) {
-    return "'" + report + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)";
+    if (::stat(in.c_str(), &i) == 0)
+      for (const auto& [k, r] : existing)
+        if (i.st_dev == r.st_dev && i.st_ino == r.st_ino)
+          return {k, "'" + reports[k] + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)"};
+    return none;
   };
   // The inputs by directory, in order of first appearance.
   std::unordered_map<std::string, std::unordered_map<std::string, std::size_t>> by_dir;  // dir -> name -> input
@@ -133,32 +164,35 @@ std::string report_clashes_with_input(const std::string& report, const std::vect
     if (fresh) dirs.push_back(dir);
     it->second.emplace(name, k);
   }
+  std::vector<std::size_t> candidates;
   for (const std::string& dir : dirs) {
-    auto& names = by_dir[dir];
-    DIR* d = ::opendir(dir.c_str());
-    if (d == nullptr) {  // not listable: a stat each
-      for (const auto& [name, k] : names)
-        if (clash(inputs[k])) return why(inputs[k]);
-      continue;
-    }
-    std::vector<std::size_t> candidates;
+    const auto& names = by_dir[dir];
+    candidates.clear();
     std::size_t listed = 0;
-    while (const dirent* e = ::readdir(d)) {
-      const auto it = names.find(e->d_name);
-      if (it == names.end()) continue;
-      ++listed;
-      if (e->d_type != DT_REG || e->d_ino == r.st_ino) candidates.push_back(it->second);
+    if (DIR* d = ::opendir(dir.c_str())) {
+      while (const dirent* e = ::readdir(d)) {
+        const auto it = names.find(e->d_name);
+        if (it == names.end()) continue;
+        ++listed;
+        bool maybe = e->d_type != DT_REG;
+        for (const auto& er : existing) maybe = maybe || e->d_ino == er.second.st_ino;
+        if (maybe) candidates.push_back(it->second);
+      }
+      ::closedir(d);
     }
-    ::closedir(d);
-    if (listed < names.size()) {  // some named files were not in the listing ("a/../b.json", or gone): a stat each
+    if (listed < names.size()) {  // not listable, or named files not in the listing ("a/../b.json", gone): a stat each
       candidates.clear();
-      for (const auto& [name, k] : names) candidates.push_back(k);
+      for (const auto& name_input : names) candidates.push_back(name_input.second);
     }
     std::sort(candidates.begin(), candidates.end());
     for (const std::size_t k : candidates)
-      if (clash(inputs[k])) return why(inputs[k]);
+      if (auto c = clash(inputs[k]); !c.second.empty()) return c;
   }
-  return "";
+  return none;
+}
+
+std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs) {
+  return report_clashes_with_input(std::vector<std::string>{report}, inputs).second;
 }
 
 namespace {

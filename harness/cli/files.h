@@ -5,6 +5,7 @@
 #include <functional>
 #include <ostream>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace trivet::cli {
@@ -21,6 +22,11 @@ std::vector<std::string> collect_beam_files(const std::vector<std::string>& path
 // Why `report` (a --json or --junit path) must not be written: it names
 // one of the input beam files (then the reason), or "" when it may.
 std::string report_clashes_with_input(const std::string& report, const std::vector<std::string>& inputs);
+// The same for several reports at once (one reading of the inputs'
+// directories): the first report that names an input and the reason, or
+// (reports.size(), "") when none does. Empty and "-" reports are skipped.
+std::pair<std::size_t, std::string> report_clashes_with_input(const std::vector<std::string>& reports,
+                                                              const std::vector<std::string>& inputs);
 
 // Writes a report file whole or not at all: into a temporary file in the
 // same directory (".NAME.trivet-tmp.PID.XXXXXX"), then put in place of

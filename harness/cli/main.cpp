@@ -206,13 +206,11 @@ int run_check(const CheckArgs& a) {
     // A report path must not name a file being read (it would be overwritten).
     std::vector<std::string> inputs = files;
     inputs.insert(inputs.end(), a.against.begin(), a.against.end());
-    const std::pair<const char*, std::string> reports[] = {{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}};
-    for (const auto& [option, report] : reports) {
-      const std::string why = report_clashes_with_input(report, inputs);
-      if (!why.empty()) {
-        std::cerr << "trivet: " << option << ": " << why << "\n";
-        return kExitInvalid;
-      }
+    const char* const options[] = {"--json", "--junit", "--html"};
+    const auto [which, why] = report_clashes_with_input(std::vector<std::string>{a.json, a.junit, a.html}, inputs);
+    if (!why.empty()) {
+      std::cerr << "trivet: " << options[which] << ": " << why << "\n";
+      return kExitInvalid;
     }
   }
   if (!a.shard.empty()) {
