@@ -24,7 +24,7 @@
 
 namespace trivet::input {
 
-using nlohmann::json;
+using json = nlohmann::ordered_json;  // objects as a vector of members (one allocation each, not a tree node per key)
 
 std::string Error::format(const std::string& file) const {
   std::string s = file + ": " + (pointer.empty() ? std::string("/") : pointer);
