@@ -8,6 +8,8 @@
 #include <charconv>
 #include <cmath>
 #include <cstdint>
+#include <cstdio>
+#include <cstring>
 #include <algorithm>
 #include <ostream>
 #include <string>
@@ -30,13 +32,20 @@ inline std::size_t utf8_sequence_length(std::string_view s, std::size_t i) {
 
 class JsonWriter {
  public:
-  explicit JsonWriter(std::ostream& out) : out_(&out), buf_(own_) { buf_.reserve(1 << 16); }
+  explicit JsonWriter(std::ostream& out) : out_(&out), buf_(own_) { start(); }
   // Writes into `target` instead, as if `depth` non-compact containers were
   // already open (so a part written here and put into the outer document
   // with raw_element() has the same bytes as one written in place).
-  // The text is appended to `target` as it is made.
-  JsonWriter(std::string& target, std::size_t depth) : buf_(target) { stack_.assign(depth, Level{false}); }
-  ~JsonWriter() { flush(); }
+  // The text is appended to `target`; `target` holds it all once the
+  // writer is destroyed (not before: it is written through a cursor).
+  JsonWriter(std::string& target, std::size_t depth) : buf_(target) {
+    stack_.assign(depth, Level{false});
+    start();
+  }
+  ~JsonWriter() {
+    flush();
+    buf_.resize(used());  // a string target: its text, without the room left for more
+  }
   JsonWriter(const JsonWriter&) = delete;
   JsonWriter& operator=(const JsonWriter&) = delete;
 
@@ -50,7 +59,7 @@ class JsonWriter {
   JsonWriter& key(std::string_view k) {
     separate();
     string_body(k);
-    buf_ += compact() ? ":" : ": ";
+    put(compact() ? std::string_view(":") : std::string_view(": "));
     after_key_ = true;
     return *this;
   }
@@ -63,10 +72,10 @@ class JsonWriter {
   void value(std::string_view s) { separate(); string_body(s); maybe_flush(); }
   void value(const char* s) { value(std::string_view(s)); }
   void value(const std::string& s) { value(std::string_view(s)); }
-  void value(bool b) { separate(); buf_ += b ? "true" : "false"; }
+  void value(bool b) { separate(); put(b ? std::string_view("true") : std::string_view("false")); }
   void value(std::size_t n) { separate(); integer_body(n); }
   void value(int n) { separate(); integer_body(n); }
-  void null() { separate(); buf_ += "null"; }
+  void null() { separate(); put("null"); }
   // How many containers are open (for a writer that makes a part to be put
   // in here with raw_element()).
   std::size_t depth() const { return stack_.size(); }
@@ -76,7 +85,7 @@ class JsonWriter {
   void raw_element(std::string_view text) {
     if (!stack_.empty()) {
       Level& l = stack_.back();
-      if (!l.empty) buf_ += ',';
+      if (!l.empty) put(',');
       l.empty = false;
     }
     if (out_ && text.size() > 4096) {  // a large part goes to the stream as it is, without a copy
@@ -84,7 +93,7 @@ class JsonWriter {
       out_->write(text.data(), static_cast<std::streamsize>(text.size()));
       return;
     }
-    buf_ += text;
+    put(text);
     maybe_flush();
   }
 
@@ -97,24 +106,24 @@ class JsonWriter {
   // ASCII that needs no escaping (the report's own field names).
   void record_begin() {
     separate();
-    buf_ += '{';
+    put('{');
     record_first_ = true;
   }
   void record(std::string_view k, double v) { record_key(k); number_body(v); }
   void record(std::string_view k, std::size_t v) { record_key(k); integer_body(v); }
   void record(std::string_view k, std::string_view v) { record_key(k); string_body(v); }
-  void record_null(std::string_view k) { record_key(k); buf_ += "null"; }
+  void record_null(std::string_view k) { record_key(k); put("null"); }
   void record_end() {
-    buf_ += '}';
-    if (stack_.empty()) buf_ += '\n';
+    put('}');
+    if (stack_.empty()) put('\n');
     maybe_flush();
   }
   void member_null(std::string_view k) { key(k); null(); }
 
   void flush() {
     if (!out_) return;  // writing into a string: it is already there
-    out_->write(buf_.data(), static_cast<std::streamsize>(buf_.size()));
-    buf_.clear();
+    out_->write(buf_.data(), static_cast<std::streamsize>(used()));
+    cur_ = buf_.data();
   }
 
  private:
@@ -122,104 +131,150 @@ class JsonWriter {
     bool compact;
     bool empty = true;
   };
+  // The text goes into buf_ through a cursor: buf_ is kept longer than the
+  // text (its size is the room), so that a character or a number is one
+  // copy, not a call to std::string's append.
+  static constexpr std::size_t kRoom = std::size_t(1) << 16;
+  void start() {
+    const std::size_t n = buf_.size();
+    buf_.resize(n + kRoom);
+    cur_ = buf_.data() + n;
+    end_ = buf_.data() + buf_.size();
+  }
+  std::size_t used() const { return static_cast<std::size_t>(cur_ - buf_.data()); }
+  // At least n bytes of room at the cursor.
+  void room(std::size_t n) {
+    if (static_cast<std::size_t>(end_ - cur_) >= n) return;
+    grow(n);
+  }
+  void grow(std::size_t n) {
+    flush();  // a stream writer empties its buffer instead of growing it, when it can
+    const std::size_t u = used();
+    if (buf_.size() - u < n) buf_.resize(std::max(2 * buf_.size(), u + n + kRoom));
+    cur_ = buf_.data() + u;
+    end_ = buf_.data() + buf_.size();
+  }
+  void put(char c) {
+    room(1);
+    *cur_++ = c;
+  }
+  void put(std::string_view s) {
+    room(s.size());
+    std::memcpy(cur_, s.data(), s.size());
+    cur_ += s.size();
+  }
   bool compact() const { return !stack_.empty() && stack_.back().compact; }
   void separate() {
     if (after_key_) { after_key_ = false; return; }
     if (stack_.empty()) return;
     Level& l = stack_.back();
-    if (!l.empty) buf_ += ',';
+    if (!l.empty) put(',');
     l.empty = false;
     if (!l.compact) newline();
   }
   void newline() {
-    buf_ += '\n';
-    buf_.append(stack_.size(), ' ');
+    room(1 + stack_.size());
+    *cur_++ = '\n';
+    std::memset(cur_, ' ', stack_.size());
+    cur_ += stack_.size();
   }
   void open(char c, bool compact_here) {
     separate();
-    buf_ += c;
+    put(c);
     stack_.push_back({compact_here || compact()});
   }
   void close(char c) {
     const Level l = stack_.back();
     stack_.pop_back();
     if (!l.empty && !l.compact) newline();
-    buf_ += c;
-    if (stack_.empty()) buf_ += '\n';
+    put(c);
+    if (stack_.empty()) put('\n');
     maybe_flush();
   }
   void string_body(std::string_view s) {
-    buf_ += '"';
-    // Most strings (every key) need no escaping: one scan, one append.
+    // Most strings (every key) need no escaping: one scan, one copy.
     if (std::none_of(s.begin(), s.end(), [](char ch) {
           const unsigned char c = static_cast<unsigned char>(ch);
           return c < 0x20 || c >= 0x80 || c == '"' || c == '\\';
         })) {
-      buf_.append(s);
-      buf_ += '"';
+      room(s.size() + 2);
+      *cur_++ = '"';
+      std::memcpy(cur_, s.data(), s.size());
+      cur_ += s.size();
+      *cur_++ = '"';
       return;
     }
+    put('"');
     for (std::size_t i = 0; i < s.size();) {
       const unsigned char c = static_cast<unsigned char>(s[i]);
       if (c >= 0x80) {
         const std::size_t n = utf8_sequence_length(s, i);
-        if (n == 0) { buf_ += "\\ufffd"; ++i; }  // not UTF-8: the replacement character
-        else { buf_.append(s.substr(i, n)); i += n; }
+        if (n == 0) { put("\\ufffd"); ++i; }  // not UTF-8: the replacement character
+        else { put(s.substr(i, n)); i += n; }
         continue;
       }
       ++i;
       switch (c) {
-        case '"': buf_ += "\\\""; break;
-        case '\\': buf_ += "\\\\"; break;
-        case '\n': buf_ += "\\n"; break;
-        case '\r': buf_ += "\\r"; break;
-        case '\t': buf_ += "\\t"; break;
+        case '"': put("\\\""); break;
+        case '\\': put("\\\\"); break;
+        case '\n': put("\\n"); break;
+        case '\r': put("\\r"); break;
+        case '\t': put("\\t"); break;
         default:
           if (c < 0x20) {
             char b[8];
             std::snprintf(b, sizeof b, "\\u%04x", c);
-            buf_ += b;
+            put(std::string_view(b));
           } else {
-            buf_ += static_cast<char>(c);
+            put(static_cast<char>(c));
           }
       }
     }
-    buf_ += '"';
+    put('"');
   }
   void record_key(std::string_view k) {
-    buf_ += record_first_ ? "\"" : ",\"";
+    room(k.size() + 4);
+    if (!record_first_) *cur_++ = ',';
     record_first_ = false;
-    buf_ += k;
-    buf_ += "\":";  // a record is compact
+    *cur_++ = '"';
+    std::memcpy(cur_, k.data(), k.size());
+    cur_ += k.size();
+    *cur_++ = '"';
+    *cur_++ = ':';  // a record is compact
   }
   void number_body(double v) {
     if (!std::isfinite(v)) {
-      buf_ += "null";
+      put("null");
       return;
     }
-    char b[32];
-    auto r = std::to_chars(b, b + sizeof b, v);
-    std::string_view s(b, static_cast<std::size_t>(r.ptr - b));
-    buf_ += s;
+    // The shortest form that reads back to the same double is at most 24
+    // characters; 2 more for ".0".
+    room(32);
+    char* const first = cur_;
+    cur_ = std::to_chars(first, first + 30, v).ptr;
     // Keep a double recognisable as one ("2" -> "2.0"), as JSON readers
     // that distinguish integers expect.
     bool plain = true;  // digits only (a finite double from to_chars: no 'E', no "nan")
-    for (const char c : s) plain = plain && c != '.' && c != 'e';
-    if (plain) buf_ += ".0";
+    for (const char* q = first; q != cur_; ++q) plain = plain && *q != '.' && *q != 'e';
+    if (plain) {
+      *cur_++ = '.';
+      *cur_++ = '0';
+    }
   }
   template <class I>
   void integer_body(I n) {
-    char b[24];
-    auto r = std::to_chars(b, b + sizeof b, n);
-    buf_.append(b, static_cast<std::size_t>(r.ptr - b));
+    room(24);
+    cur_ = std::to_chars(cur_, cur_ + 24, n).ptr;
   }
   void maybe_flush() {
-    if (out_ && buf_.size() > (1 << 16)) flush();
+    if (out_ && used() > kRoom / 2) flush();
   }
 
   std::ostream* out_ = nullptr;
   std::string own_;
   std::string& buf_;
+  char* cur_ = nullptr;
+  char* end_ = nullptr;
   std::vector<Level> stack_;
   bool after_key_ = false;
   bool record_first_ = true;
