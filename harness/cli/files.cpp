@@ -77,7 +77,7 @@ void walk(const std::string& dir, std::vector<std::string>* found,
       struct stat st{};
       const std::string p = prefix + e->d_name;
       type = ::lstat(p.c_str(), &st) != 0 ? DT_UNKNOWN : S_ISDIR(st.st_mode) ? DT_DIR : S_ISREG(st.st_mode) ? DT_REG
-                                          : S_ISLNK(st.st_mode) ? DT_LNK : DT_FIFO;
+                                          : S_ISLNK(st.st_mode) ? DT_LNK : DT_FIFO;  // DT_FIFO: "not a file" (told apart below)
     }
     if (type == DT_DIR) {
       subdirs.push_back(prefix + e->d_name);
@@ -91,8 +91,10 @@ void walk(const std::string& dir, std::vector<std::string>* found,
     }
     if (type == DT_LNK) {  // a link to a file is read; a link to a directory is not followed
       struct stat st{};
-      if (::stat(p.c_str(), &st) == 0 && S_ISREG(st.st_mode)) { found->push_back(std::move(p)); continue; }
-      if (::stat(p.c_str(), &st) == 0 && S_ISDIR(st.st_mode)) continue;
+      if (::stat(p.c_str(), &st) == 0) {
+        if (S_ISREG(st.st_mode)) found->push_back(std::move(p));
+        if (S_ISREG(st.st_mode) || S_ISDIR(st.st_mode)) continue;
+      }
     }
     const std::string why = not_a_beam_file(p);
     if (!why.empty()) problems->push_back({p, why});
@@ -224,7 +226,6 @@ void remove_stale_temporaries(const fs::path& dir, const std::string& name) {
     }
   }
 }
-
 
 // Puts the finished file `tmp` at `target` in one step for any reader:
 // `target` holds the old report or the new one, never a part. An old

@@ -1306,7 +1306,9 @@ BeamFile read_beam_file(const std::string& path, const Limits& limits, std::stri
       return failed(!ec && std::filesystem::is_symlink(link) ? "a symbolic link to nothing (or a loop of links); nothing to read"
                                                              : "cannot open the file for reading (it does not exist)");
     }
-    return failed(std::filesystem::is_directory(st) ? "is a directory, not a beam file" : "cannot open the file for reading");
+    if (std::filesystem::is_directory(st)) return failed("is a directory, not a beam file");
+    if (std::filesystem::is_socket(st)) return failed("is not a regular file (a socket); trivet reads beam files only");
+    return failed("cannot open the file for reading");
   }
   struct stat st{};
   if (::fstat(fd, &st) != 0) {
