@@ -54,6 +54,9 @@ ln -s "$work/earlier.json" "$work/lib2/linked.json"     # an input that is a lin
   && ok "--json naming the target of a link in the library: exit 2" || no "--json naming the target of a link in the library: exit $rc: $(cat "$work/err")"
 "$trivet" check "$work/lib2/../lib/core-wall-beam.json" --json "$work/lib/core-wall-beam.json" >/dev/null 2>"$work/err"; rc=$?
 [ "$rc" = 2 ] && ok "--json naming an input spelt through ..: exit 2" || no "--json naming an input spelt through ..: exit $rc"
+ln -s "$work/lib" "$work/lib-alias"                     # the library's directory under another name
+"$trivet" check "$work/lib" --json "$work/lib-alias/core-wall-beam.json" >/dev/null 2>"$work/err"; rc=$?
+[ "$rc" = 2 ] && ok "--json naming an input through a linked directory: exit 2" || no "--json naming an input through a linked directory: exit $rc"
 cmp -s "$work/core.orig" "$work/lib/core-wall-beam.json" && ok "the input is still untouched" || no "the input was changed"
 # A report replaces an old one whole, and leaves no temporary file; a
 # report path that is a directory is refused and the directory stays.

@@ -135,33 +135,51 @@ std::pair<std::size_t, std::string> report_clashes_with_input(const std::vector<
   // A report that does not exist yet cannot be a file being read; one that
   // does is the same file as an input when both name the same inode (which
   // also sees through links: the exact test, one stat). Only candidates are
-  // stat'ed: an entry of a directory listing names a regular file with the
-  // listing's inode number, so only entries with a report's inode number,
-  // links and entries of unknown type can be one (a stat per input cost a
-  // library of 10,000 files most of its start-up).
-  std::vector<std::pair<std::size_t, struct stat>> existing;  // (report, its stat)
+  // stat'ed (a stat per input cost a library of 10,000 files most of its
+  // start-up). An entry of an input directory's listing is one when it has
+  // the report's name in the report's directory (the two directories told
+  // apart by stat, which sees through links and spellings), when it is a
+  // link or of unknown type, or when its inode number is the report's (a
+  // hard link). The listing's inode numbers are used for hard links only:
+  // some file systems (overlayfs) list other numbers than stat gives. A hard
+  // link they hide is harmless: the report takes the place of its own path
+  // only, and the other name keeps the input.
+  struct Existing {
+    std::size_t report;
+    struct stat st;      // of the report
+    struct stat dir_st;  // of its directory (st_ino 0: unknown)
+    std::string name;    // its last path component
+  };
+  const auto split = [](const std::string& path) {
+    const std::size_t slash = path.rfind('/');
+    return std::pair<std::string, std::string>{
+        slash == std::string::npos ? "." : slash == 0 ? "/" : path.substr(0, slash),
+        slash == std::string::npos ? path : path.substr(slash + 1)};
+  };
+  std::vector<Existing> existing;
   for (std::size_t k = 0; k < reports.size(); ++k) {
-    struct stat r{};
-    if (!reports[k].empty() && reports[k] != "-" && ::stat(reports[k].c_str(), &r) == 0) existing.push_back({k, r});
+    Existing e{k, {}, {}, {}};
+    if (reports[k].empty() || reports[k] == "-" || ::stat(reports[k].c_str(), &e.st) != 0) continue;
+    const auto [dir, name] = split(reports[k]);
+    if (::stat(dir.c_str(), &e.dir_st) != 0) e.dir_st.st_ino = 0;
+    e.name = name;
+    existing.push_back(std::move(e));
   }
   if (existing.empty()) return none;
   // The first report that the input is, or none.
   const auto clash = [&](const std::string& in) -> std::pair<std::size_t, std::string> {
     struct stat i{};
     if (::stat(in.c_str(), &i) == 0)
-      for (const auto& [k, r] : existing)
-        if (i.st_dev == r.st_dev && i.st_ino == r.st_ino)
-          return {k, "'" + reports[k] + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)"};
+      for (const auto& r : existing)
+        if (i.st_dev == r.st.st_dev && i.st_ino == r.st.st_ino)
+          return {r.report, "'" + reports[r.report] + "' is the beam file '" + in + "'; the report would overwrite it (choose another path)"};
     return none;
   };
   // The inputs by directory, in order of first appearance.
   std::unordered_map<std::string, std::unordered_map<std::string, std::size_t>> by_dir;  // dir -> name -> input
   std::vector<std::string> dirs;
   for (std::size_t k = 0; k < inputs.size(); ++k) {
-    const std::string& in = inputs[k];
-    const std::size_t slash = in.rfind('/');
-    const std::string dir = slash == std::string::npos ? "." : slash == 0 ? "/" : in.substr(0, slash);
-    const std::string name = slash == std::string::npos ? in : in.substr(slash + 1);
+    auto [dir, name] = split(inputs[k]);
     auto [it, fresh] = by_dir.try_emplace(dir);
     if (fresh) dirs.push_back(dir);
     it->second.emplace(name, k);
@@ -172,12 +190,19 @@ std::pair<std::size_t, std::string> report_clashes_with_input(const std::vector<
     candidates.clear();
     std::size_t listed = 0;
     if (DIR* d = ::opendir(dir.c_str())) {
+      // The reports that live in this directory: their names are candidates.
+      std::vector<const std::string*> here;
+      struct stat dst{};
+      if (::fstat(dirfd(d), &dst) == 0)
+        for (const auto& r : existing)
+          if (r.dir_st.st_ino != 0 && r.dir_st.st_dev == dst.st_dev && r.dir_st.st_ino == dst.st_ino) here.push_back(&r.name);
       while (const dirent* e = ::readdir(d)) {
         const auto it = names.find(e->d_name);
         if (it == names.end()) continue;
         ++listed;
         bool maybe = e->d_type != DT_REG;
-        for (const auto& er : existing) maybe = maybe || e->d_ino == er.second.st_ino;
+        for (const auto& r : existing) maybe = maybe || e->d_ino == r.st.st_ino;
+        for (const std::string* n : here) maybe = maybe || *n == e->d_name;
         if (maybe) candidates.push_back(it->second);
       }
       ::closedir(d);
