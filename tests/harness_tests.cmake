@@ -36,3 +36,4 @@ add_test(NAME cli_plot COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_plot.sh $<TA
 include(${CMAKE_CURRENT_SOURCE_DIR}/corpus/tests.cmake)
 add_test(NAME cli_arithmetic COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_arithmetic.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
 add_test(NAME cli_library COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_library.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
+trivet_add_test(extremes_test ${CMAKE_CURRENT_SOURCE_DIR}/extremes_test.cpp trivet_compare)

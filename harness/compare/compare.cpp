@@ -1,5 +1,8 @@
 #include "harness/compare/compare.h"
 
+#include "harness/compare/detail.h"
+#include "harness/compare/extremes.h"
+
 #include <algorithm>
 #include <cmath>
 #include <exception>
@@ -79,15 +82,8 @@ std::optional<std::size_t> node_at(const Beam& beam, double x) {
   return std::nullopt;
 }
 
-Beam beam_for_case(const Beam& beam, const std::string& load_case) {
-  Beam b = beam;
-  b.loads.clear();
-  for (const auto& l : beam.loads)
-    if (l.load_case == load_case) b.loads.push_back(l);
-  return b;
-}
 
-namespace {
+namespace detail {
 
 double median(std::vector<double>& v) {
   if (v.empty()) return 0.0;
@@ -158,97 +154,6 @@ Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& node
 
 std::string fmt(double v) { return input::format_number(v); }
 
-// Finds x in [a, b] where g changes sign (g(a), g(b) of opposite signs),
-// by the Illinois variant of regula falsi.
-template <class G>
-double find_root(G&& g, double a, double b, double ga, double gb) {
-  int side = 0;
-  for (int it = 0; it < 80; ++it) {
-    const double c = (a * gb - b * ga) / (gb - ga);
-    if (!(c > a && c < b)) return 0.5 * (a + b);
-    const double gc = g(c);
-    if ((gc > 0) == (gb > 0)) {
-      b = c; gb = gc;
-      if (side == -1) ga *= 0.5;
-      side = -1;
-    } else {
-      a = c; ga = gc;
-      if (side == +1) gb *= 0.5;
-      side = +1;
-    }
-    if (std::abs(b - a) <= 1e-14 * (std::abs(a) + std::abs(b) + 1e-300) || !(std::abs(gc) > 0)) break;
-  }
-  return std::abs(ga) < std::abs(gb) ? a : b;
-}
-
-void compute_extremes(LoadSet& set) {
-  const Beam& beam = set.beam;
-  std::vector<const MethodResult*> ok;
-  for (const auto& m : set.methods)
-    if (m.status == MethodStatus::Ok) ok.push_back(&m);
-  set.extremes.assign(beam.spans.size(), {});
-  if (ok.empty()) return;
-  const MethodResult& lead = *ok.front();
-  std::vector<double> tmp;
-  auto consensus = [&](std::size_t s, double local, bool after) {
-    PointValues pv{};
-    tmp.clear();
-    for (auto* m : ok) tmp.push_back(m->solution.at(s, local, after).moment);
-    pv.moment = median(tmp);
-    tmp.clear();
-    for (auto* m : ok) tmp.push_back(m->solution.at(s, local, after).deflection);
-    pv.deflection = median(tmp);
-    return pv;
-  };
-  std::size_t i = 0;
-  double x0 = 0;
-  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
-    SpanExtremes e;
-    bool first = true;
-    auto consider = [&](double local, double moment, double defl) {
-      const double x = x0 + local;
-      if (first || moment > e.max_moment) { e.max_moment = moment; e.max_moment_x = x; }
-      if (first || moment < e.min_moment) { e.min_moment = moment; e.min_moment_x = x; }
-      if (first || std::abs(defl) > std::abs(e.max_deflection)) { e.max_deflection = defl; e.max_deflection_x = x; }
-      first = false;
-    };
-    std::size_t begin = i;
-    while (i < set.stations.size() && set.stations[i].span == s) {
-      consider(set.stations[i].local, set.consensus_stations[i].moment, set.consensus_stations[i].deflection);
-      ++i;
-    }
-    // Between consecutive stations the diagrams are smooth: look for a
-    // turning point of M (V = 0) and of the deflection (rotation = 0).
-    for (std::size_t k = begin; k + 1 < i; ++k) {
-      const Station& a = set.stations[k];
-      const Station& b = set.stations[k + 1];
-      if (!(b.local > a.local)) continue;
-      const double la = a.local, lb = b.local, lm = 0.5 * (la + lb);
-      auto shear = [&](double t) { return lead.solution.at(s, t, false).shear; };
-      auto rot = [&](double t) { return lead.solution.at(s, t, false).rotation; };
-      const PointValues pa = lead.solution.at(s, la, a.after || la <= 0.0);
-      const PointValues pb = lead.solution.at(s, lb, false);
-      const PointValues pm = lead.solution.at(s, lm, false);
-      auto scan = [&](auto&& g, double ga, double gm, double gb) {
-        std::vector<double> roots;
-        if ((ga > 0 && gm < 0) || (ga < 0 && gm > 0)) roots.push_back(find_root(g, la, lm, ga, gm));
-        if ((gm > 0 && gb < 0) || (gm < 0 && gb > 0)) roots.push_back(find_root(g, lm, lb, gm, gb));
-        return roots;
-      };
-      for (double t : scan(shear, pa.shear, pm.shear, pb.shear)) {
-        PointValues c = consensus(s, t, false);
-        consider(t, c.moment, c.deflection);
-      }
-      for (double t : scan(rot, pa.rotation, pm.rotation, pb.rotation)) {
-        PointValues c = consensus(s, t, false);
-        consider(t, c.moment, c.deflection);
-      }
-    }
-    set.extremes[s] = e;
-    x0 += beam.spans[s].length;
-  }
-}
-
 // A kind whose values are all rounding noise (the moments of a beam whose
 // only load sits on a support, say) must not be scaled by that noise, or
 // agreement to the last bit reads as a difference of 100%. Each kind's scale
@@ -285,6 +190,90 @@ void floor_scales(double* scale, const Beam& beam) {
   D = std::max({D, k * T * longest, k * M * longest * longest / ei});
   T = std::max({T, k * D / longest, k * M * longest / ei});
 }
+
+SpanExtremes method_span_extremes(const MethodResult& m, const LoadSet& set, std::size_t s, std::size_t begin,
+                                  std::size_t end, double x0) {
+  SpanExtremes e;
+  bool first = true;
+  auto consider = [&](double local, double moment, double defl) {
+    const double x = x0 + local;
+    if (first || moment > e.max_moment) { e.max_moment = moment; e.max_moment_x = x; }
+    if (first || moment < e.min_moment) { e.min_moment = moment; e.min_moment_x = x; }
+    if (first || std::abs(defl) > std::abs(e.max_deflection)) { e.max_deflection = defl; e.max_deflection_x = x; }
+    first = false;
+  };
+  for (std::size_t k = begin; k < end; ++k) consider(set.stations[k].local, m.stations[k].moment, m.stations[k].deflection);
+  // Between consecutive stations at different positions (the first at its
+  // position is the left-hand limit, the last the right-hand one) the
+  // moment and the deflection are polynomials: their turning points exactly.
+  std::vector<double> cand;
+  for (std::size_t k = begin; k + 1 < end; ++k) {
+    const double a = set.stations[k].local, b = set.stations[k + 1].local;
+    if (!(b > a)) continue;
+    const auto inner_x = sample_points(a, b);
+    std::array<double, kDegree - 1> im{}, iv{};
+    for (std::size_t j = 0; j < inner_x.size(); ++j) {
+      const PointValues p = m.solution.at(s, inner_x[j], false);
+      im[j] = p.moment;
+      iv[j] = p.deflection;
+    }
+    cand.clear();
+    turning_points(a, b, m.stations[k].moment, im, m.stations[k + 1].moment, cand);
+    turning_points(a, b, m.stations[k].deflection, iv, m.stations[k + 1].deflection, cand);
+    for (double t : cand) {
+      const PointValues p = m.solution.at(s, t, false);
+      consider(t, p.moment, p.deflection);
+    }
+  }
+  return e;
+}
+
+void method_extremes(MethodResult& m, const LoadSet& set) {
+  m.extremes.assign(set.beam.spans.size(), {});
+  std::size_t i = 0;
+  double x0 = 0;
+  for (std::size_t s = 0; s < set.beam.spans.size(); ++s) {
+    const std::size_t begin = i;
+    while (i < set.stations.size() && set.stations[i].span == s) ++i;
+    if (i > begin) m.extremes[s] = method_span_extremes(m, set, s, begin, i, x0);
+    x0 += set.beam.spans[s].length;
+  }
+}
+
+void consensus_extremes(LoadSet& set) {
+  std::vector<const MethodResult*> ok;
+  for (const auto& m : set.methods)
+    if (m.status == MethodStatus::Ok && m.extremes.size() == set.beam.spans.size()) ok.push_back(&m);
+  set.extremes.assign(set.beam.spans.size(), {});
+  if (ok.empty()) return;
+  std::vector<double> v;
+  for (std::size_t s = 0; s < set.extremes.size(); ++s) {
+    SpanExtremes& c = set.extremes[s];
+    // The median value, with the position and what governs from the method
+    // that gave it.
+    auto pick = [&](auto value) -> const SpanExtremes& {
+      v.clear();
+      for (auto* m : ok) v.push_back(value(m->extremes[s]));
+      const double med = median(v);
+      const SpanExtremes* best = &ok.front()->extremes[s];
+      for (auto* m : ok)
+        if (std::abs(value(m->extremes[s]) - med) < std::abs(value(*best) - med)) best = &m->extremes[s];
+      return *best;
+    };
+    const SpanExtremes& a = pick([](const SpanExtremes& e) { return e.max_moment; });
+    c.max_moment = a.max_moment; c.max_moment_x = a.max_moment_x; c.max_moment_by = a.max_moment_by;
+    const SpanExtremes& b = pick([](const SpanExtremes& e) { return e.min_moment; });
+    c.min_moment = b.min_moment; c.min_moment_x = b.min_moment_x; c.min_moment_by = b.min_moment_by;
+    const SpanExtremes& d = pick([](const SpanExtremes& e) { return e.max_deflection; });
+    c.max_deflection = d.max_deflection; c.max_deflection_x = d.max_deflection_x; c.max_deflection_by = d.max_deflection_by;
+  }
+}
+
+}  // namespace detail
+
+namespace {
+
+using namespace detail;
 
 void compare_methods(LoadSet& set, double agreement) {
   std::vector<MethodResult*> ok;
@@ -354,7 +343,7 @@ void compare_methods(LoadSet& set, double agreement) {
   double best = -1;
   // Where the largest difference is: a node (with the quantity's suffix)
   // or a station. The text is made once, at the end, not at every value.
-  struct Place { bool node = true; std::size_t index = 0; const char* suffix = ""; };
+  struct Place { bool node = true; std::size_t index = 0; const char* suffix = ""; bool span = false; };
   Place worst_place;
   for (std::size_t a = 0; a < ok.size(); ++a)
     for (std::size_t b = a + 1; b < ok.size(); ++b) {
@@ -396,11 +385,20 @@ void compare_methods(LoadSet& set, double agreement) {
         note(Kind::Deflection, sa.deflection, sb.deflection, where, sa.x);
         note(Kind::Rotation, sa.rotation, sb.rotation, where, sa.x);
       }
+      // Each method's own span extremes.
+      for (std::size_t s = 0; s < A.extremes.size() && s < B.extremes.size(); ++s) {
+        const SpanExtremes& ea = A.extremes[s];
+        const SpanExtremes& eb = B.extremes[s];
+        note(Kind::Moment, ea.max_moment, eb.max_moment, {false, s, " (largest moment)", true}, ea.max_moment_x);
+        note(Kind::Moment, ea.min_moment, eb.min_moment, {false, s, " (smallest moment)", true}, ea.min_moment_x);
+        note(Kind::Deflection, ea.max_deflection, eb.max_deflection, {false, s, " (largest deflection)", true}, ea.max_deflection_x);
+      }
       pairs.push_back({a, b, pair_worst});
     }
   if (set.worst)
-    set.worst->where = worst_place.node ? "node " + set.beam.labels[worst_place.index] + worst_place.suffix
-                                        : "x = " + fmt(set.worst->x);
+    set.worst->where = worst_place.span   ? "span " + std::to_string(worst_place.index + 1) + worst_place.suffix
+                       : worst_place.node ? "node " + set.beam.labels[worst_place.index] + worst_place.suffix
+                                          : "x = " + fmt(set.worst->x);
 
   bool any_failed = false;
   for (const auto& m : set.methods)
@@ -589,381 +587,7 @@ ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const 
 
 }  // namespace
 
-// ---------------------------------------------------------------------------
-// Envelopes of combinations with a pattern or a factor range. Each method's
-// envelope is the superposition of that method's own unit solutions: one per
-// span for each patterned case, one for everything else of each case.
-
-class EnvelopeModel {
- public:
-  struct Unit {
-    std::size_t factor = 0;  // index into comb.factors
-    bool patterned = false;
-    std::size_t span = 0;    // patterned units: the span whose loads these are
-    Beam beam;
-    Solution solution;
-  };
-  input::Combination comb;
-  std::size_t spans = 0;
-  std::vector<Unit> units;
-  std::vector<std::vector<std::size_t>> arrangements;  // adjacent-and-alternate
-
-  // Combines the units' values of one quantity at one point.
-  Bound combine(const std::vector<double>& g) const {
-    const std::size_t nf = comb.factors.size();
-    Bound b;
-    b.max_by.factors.assign(nf, 0.0);
-    b.min_by.factors.assign(nf, 0.0);
-    for (std::size_t k = 0; k < nf; ++k) b.max_by.factors[k] = b.min_by.factors[k] = comb.factors[k].second.high;
-    double hi = 0, lo = 0;
-    for (std::size_t u = 0; u < units.size(); ++u) {
-      if (units[u].patterned) continue;
-      const input::Factor& f = comb.factors[units[u].factor].second;
-      const double a = f.low * g[u], c = f.high * g[u];
-      hi += std::max(a, c);
-      lo += std::min(a, c);
-      b.max_by.factors[units[u].factor] = a > c ? f.low : f.high;
-      b.min_by.factors[units[u].factor] = a < c ? f.low : f.high;
-    }
-    if (comb.arrangements == input::Arrangements::All) {
-      for (std::size_t u = 0; u < units.size(); ++u) {
-        if (!units[u].patterned) continue;
-        const input::Factor& f = comb.factors[units[u].factor].second;
-        const double a = f.low * g[u], c = f.high * g[u];
-        if (std::max(a, c) > 0) {
-          hi += std::max(a, c);
-          add_span(b.max_by.spans, units[u].span);
-          b.max_by.factors[units[u].factor] = a > c ? f.low : f.high;
-        }
-        if (std::min(a, c) < 0) {
-          lo += std::min(a, c);
-          add_span(b.min_by.spans, units[u].span);
-          b.min_by.factors[units[u].factor] = a < c ? f.low : f.high;
-        }
-      }
-      b.max = hi;
-      b.min = lo;
-      return b;
-    }
-    bool first = true;
-    for (const auto& arr : arrangements) {
-      double vmax = hi, vmin = lo;
-      for (std::size_t u = 0; u < units.size(); ++u) {
-        if (!units[u].patterned || !std::binary_search(arr.begin(), arr.end(), units[u].span)) continue;
-        const input::Factor& f = comb.factors[units[u].factor].second;
-        const double a = f.low * g[u], c = f.high * g[u];
-        vmax += std::max(a, c);
-        vmin += std::min(a, c);
-      }
-      if (first || vmax > b.max) { b.max = vmax; b.max_by.spans = arr; }
-      if (first || vmin < b.min) { b.min = vmin; b.min_by.spans = arr; }
-      first = false;
-    }
-    return b;
-  }
-
-  Bound at(std::size_t span, double local, bool after, int what) const {
-    std::vector<double> g(units.size());
-    for (std::size_t u = 0; u < units.size(); ++u) {
-      const PointValues p = units[u].solution.at(span, local, after);
-      g[u] = what == 0 ? p.moment : what == 1 ? p.shear : p.deflection;
-    }
-    return combine(g);
-  }
-  Bound reaction(std::size_t node) const {
-    std::vector<double> g(units.size());
-    for (std::size_t u = 0; u < units.size(); ++u) g[u] = units[u].solution.nodes[node].reaction_force;
-    return combine(g);
-  }
-
- private:
-  static void add_span(std::vector<std::size_t>& v, std::size_t s) {
-    if (v.empty() || v.back() != s) v.push_back(s);
-  }
-};
-
-std::string describe(const Governs& g, const input::Combination& c) {
-  std::string s;
-  if (!c.pattern.empty()) {
-    if (g.spans.empty()) s = "no span loaded";
-    else {
-      s = g.spans.size() == 1 ? "span " : "spans ";
-      for (std::size_t i = 0; i < g.spans.size(); ++i) s += (i ? ", " : "") + std::to_string(g.spans[i] + 1);
-      s += " loaded";
-    }
-    s += "; ";
-  }
-  for (std::size_t k = 0; k < c.factors.size() && k < g.factors.size(); ++k)
-    s += (k ? ", " : "") + c.factors[k].first + " x" + fmt(g.factors[k]);
-  return s;
-}
-
-double envelope_value(const EnvelopeModel& model, input::Quantity q, std::size_t span, double local, bool after) {
-  using Q = input::Quantity;
-  switch (q) {
-    case Q::MomentMax: return model.at(span, local, after, 0).max;
-    case Q::MomentMin: return model.at(span, local, after, 0).min;
-    case Q::ShearMax: return model.at(span, local, after, 1).max;
-    case Q::ShearMin: return model.at(span, local, after, 1).min;
-    case Q::ReactionMax: return model.reaction(span).max;
-    case Q::ReactionMin: return model.reaction(span).min;
-    default: return 0.0;
-  }
-}
-
 namespace {
-
-std::vector<std::vector<std::size_t>> code_arrangements(std::size_t n) {
-  // All spans; alternate spans, both sets; each pair of adjacent spans.
-  std::vector<std::vector<std::size_t>> out;
-  auto push = [&](std::vector<std::size_t> a) {
-    if (a.empty()) return;
-    if (std::find(out.begin(), out.end(), a) == out.end()) out.push_back(std::move(a));
-  };
-  std::vector<std::size_t> all, odd, even;
-  for (std::size_t s = 0; s < n; ++s) {
-    all.push_back(s);
-    (s % 2 == 0 ? odd : even).push_back(s);
-  }
-  push(all);
-  push(odd);
-  push(even);
-  for (std::size_t s = 0; s + 1 < n; ++s) push({s, s + 1});
-  return out;
-}
-
-// Runs one method over the unit load sets of a combination.
-void run_envelope_method(const Method& method, const Beam& full, const input::Combination& comb,
-                         const std::vector<Station>& stations, MethodResult& r) {
-  auto model = std::make_shared<EnvelopeModel>();
-  model->comb = comb;
-  model->spans = full.spans.size();
-  if (comb.arrangements == input::Arrangements::AdjacentAndAlternate) model->arrangements = code_arrangements(full.spans.size());
-  for (std::size_t k = 0; k < comb.factors.size(); ++k) {
-    const std::string& cs = comb.factors[k].first;
-    const bool patterned = std::find(comb.pattern.begin(), comb.pattern.end(), cs) != comb.pattern.end();
-    Beam rest = full;
-    rest.loads.clear();
-    std::vector<Beam> per_span(patterned ? full.spans.size() : 0, rest);
-    for (const auto& l : full.loads) {
-      if (l.load_case != cs) continue;
-      if (patterned && !l.on_node) per_span[l.index].loads.push_back(l);
-      else rest.loads.push_back(l);
-    }
-    if (!rest.loads.empty() || !patterned) model->units.push_back({k, false, 0, std::move(rest), {}});
-    for (std::size_t sp = 0; sp < per_span.size(); ++sp)
-      if (!per_span[sp].loads.empty()) model->units.push_back({k, true, sp, std::move(per_span[sp]), {}});
-  }
-  r.status = MethodStatus::Ok;
-  for (auto& u : model->units) {
-    u.solution = method.solve(u.beam, stations);
-    if (u.solution.status != MethodStatus::Ok) {
-      r.status = u.solution.status;
-      r.reason = u.solution.reason;
-      return;
-    }
-    if (u.solution.nodes.size() != full.node_count() || !u.solution.at) {
-      r.status = MethodStatus::Failed;
-      r.reason = "the method returned an incomplete result";
-      return;
-    }
-    const Equilibrium e = equilibrium_of(u.beam, u.solution.nodes);
-    r.equilibrium.force_residual = std::max(r.equilibrium.force_residual, e.force_residual);
-    r.equilibrium.moment_residual = std::max(r.equilibrium.moment_residual, e.moment_residual);
-  }
-  Envelope env;
-  for (const auto& st : stations) {
-    env.moment.push_back(model->at(st.span, st.local, st.after, 0));
-    env.shear.push_back(model->at(st.span, st.local, st.after, 1));
-    env.deflection.push_back(model->at(st.span, st.local, st.after, 2));
-  }
-  for (std::size_t j = 0; j < full.node_count(); ++j) env.reaction.push_back(model->reaction(j));
-  auto finite = [](const std::vector<Bound>& v) {
-    for (const auto& b : v)
-      if (!std::isfinite(b.max) || !std::isfinite(b.min)) return false;
-    return true;
-  };
-  if (!finite(env.moment) || !finite(env.shear) || !finite(env.deflection) || !finite(env.reaction)) {
-    r.status = MethodStatus::Failed;
-    r.reason = "the method produced a non-finite number";
-    return;
-  }
-  r.envelope = std::move(env);
-  r.envelope_model = model;
-}
-
-void compare_envelopes(LoadSet& set, double agreement) {
-  std::vector<MethodResult*> ok;
-  for (auto& m : set.methods)
-    if (m.status == MethodStatus::Ok && m.envelope) ok.push_back(&m);
-  for (double& d : set.scale) d = 0;
-  for (double& d : set.max_difference) d = 0;
-  auto idx = [](Kind k) { return static_cast<int>(k); };
-  for (auto* m : ok) {
-    auto grow = [&](Kind k, const std::vector<Bound>& v) {
-      for (const auto& b : v) set.scale[idx(k)] = std::max({set.scale[idx(k)], std::abs(b.max), std::abs(b.min)});
-    };
-    grow(Kind::Moment, m->envelope->moment);
-    grow(Kind::Shear, m->envelope->shear);
-    grow(Kind::Deflection, m->envelope->deflection);
-    grow(Kind::Reaction, m->envelope->reaction);
-  }
-  floor_scales(set.scale, set.beam);
-  // Consensus: the median of the methods' bounds; what governs from the first.
-  std::vector<double> tmp;
-  auto med = [&](auto get) { tmp.clear(); for (auto* m : ok) tmp.push_back(get(*m)); return median(tmp); };
-  if (!ok.empty()) {
-    set.consensus_envelope = *ok.front()->envelope;
-    auto fill = [&](std::vector<Bound> Envelope::*field) {
-      auto& out = set.consensus_envelope.*field;
-      for (std::size_t i = 0; i < out.size(); ++i) {
-        out[i].max = med([&](const MethodResult& m) { return ((*m.envelope).*field)[i].max; });
-        out[i].min = med([&](const MethodResult& m) { return ((*m.envelope).*field)[i].min; });
-      }
-    };
-    fill(&Envelope::moment);
-    fill(&Envelope::shear);
-    fill(&Envelope::deflection);
-    fill(&Envelope::reaction);
-  }
-  double best = -1;
-  std::vector<std::pair<std::pair<std::size_t, std::size_t>, double>> pairs;
-  for (std::size_t a = 0; a < ok.size(); ++a)
-    for (std::size_t b = a + 1; b < ok.size(); ++b) {
-      double pw = 0;
-      auto cmp = [&](Kind k, const std::vector<Bound>& A, const std::vector<Bound>& B, bool nodes) {
-        const double sc = set.scale[idx(k)];
-        for (std::size_t i = 0; i < A.size() && i < B.size(); ++i)
-          for (int side = 0; side < 2; ++side) {
-            const double va = side ? A[i].min : A[i].max, vb = side ? B[i].min : B[i].max;
-            const double r = sc > 0 ? std::abs(va - vb) / sc : std::abs(va - vb);
-            set.max_difference[idx(k)] = std::max(set.max_difference[idx(k)], r);
-            pw = std::max(pw, r);
-            if (r > best) {
-              best = r;
-              Worst w;
-              w.kind = k;
-              w.where = nodes ? "node " + set.beam.labels[i] + (side ? " (reaction_min)" : " (reaction_max)")
-                              : "x = " + fmt(set.stations[i].x) + (side ? " (min)" : " (max)");
-              w.x = nodes ? set.beam.node_x(i) : set.stations[i].x;
-              w.values = {{ok[a]->name, va}, {ok[b]->name, vb}};
-              set.worst = w;
-            }
-          }
-      };
-      cmp(Kind::Moment, ok[a]->envelope->moment, ok[b]->envelope->moment, false);
-      cmp(Kind::Shear, ok[a]->envelope->shear, ok[b]->envelope->shear, false);
-      cmp(Kind::Deflection, ok[a]->envelope->deflection, ok[b]->envelope->deflection, false);
-      cmp(Kind::Reaction, ok[a]->envelope->reaction, ok[b]->envelope->reaction, true);
-      pairs.push_back({{a, b}, pw});
-    }
-  double worst_all = 0;
-  for (double d : set.max_difference) worst_all = std::max(worst_all, d);
-  bool failed = false;
-  for (const auto& m : set.methods)
-    if (m.status == MethodStatus::Failed) {
-      failed = true;
-      set.odd_one_out = m.name;
-      set.problem = m.name + " failed: " + m.reason;
-    }
-  std::string unbalanced;
-  for (auto* m : ok)
-    if (m->equilibrium.force_residual > agreement || m->equilibrium.moment_residual > agreement) unbalanced = m->name;
-  if (!unbalanced.empty()) {
-    set.verdict = Verdict::Disagree;
-    set.odd_one_out = unbalanced;
-    set.problem = unbalanced + " is out of equilibrium in one of its unit solutions";
-  } else if (failed) {
-    set.verdict = Verdict::Disagree;
-  } else if (ok.size() < 2) {
-    set.verdict = Verdict::Unconfirmed;
-    set.problem = ok.empty() ? "no method could analyse this beam" : "only " + ok.front()->name + " could analyse this beam; nothing confirms it";
-  } else if (worst_all <= agreement) {
-    set.verdict = Verdict::Agree;
-  } else {
-    set.verdict = Verdict::Disagree;
-    if (ok.size() == 3)
-      for (const auto& p : pairs)
-        if (p.second <= agreement)
-          for (std::size_t k = 0; k < 3; ++k)
-            if (k != p.first.first && k != p.first.second) set.odd_one_out = ok[k]->name;
-    if (set.worst)
-      set.problem = std::string("the envelopes differ in ") + kind_name(set.worst->kind) + " at " + set.worst->where + " by " +
-                    fmt(best) + " of the largest " + kind_name(set.worst->kind) +
-                    (set.odd_one_out.empty() ? "" : "; " + set.odd_one_out + " is the odd one out");
-  }
-}
-
-// Span extremes of an envelope: the largest moment_max and the smallest
-// moment_min in each span, refined between stations by golden-section
-// search (the envelope is a maximum of smooth curves there).
-void envelope_extremes(LoadSet& set) {
-  const MethodResult* lead = nullptr;
-  std::vector<const MethodResult*> ok;
-  for (const auto& m : set.methods)
-    if (m.status == MethodStatus::Ok && m.envelope_model) { ok.push_back(&m); if (!lead) lead = &m; }
-  set.extremes.assign(set.beam.spans.size(), {});
-  if (!lead) return;
-  std::vector<double> tmp;
-  auto consensus = [&](std::size_t s, double t, bool want_max) {
-    tmp.clear();
-    for (auto* m : ok) {
-      const Bound b = m->envelope_model->at(s, t, false, 0);
-      tmp.push_back(want_max ? b.max : b.min);
-    }
-    return median(tmp);
-  };
-  double x0 = 0;
-  std::size_t i = 0;
-  for (std::size_t s = 0; s < set.beam.spans.size(); ++s) {
-    SpanExtremes e;
-    std::size_t begin = i;
-    while (i < set.stations.size() && set.stations[i].span == s) ++i;
-    for (int want = 0; want < 2; ++want) {
-      const bool want_max = want == 0;
-      std::size_t best = begin;
-      for (std::size_t k = begin; k < i; ++k) {
-        const double v = want_max ? set.consensus_envelope.moment[k].max : set.consensus_envelope.moment[k].min;
-        const double b = want_max ? set.consensus_envelope.moment[best].max : set.consensus_envelope.moment[best].min;
-        if (want_max ? v > b : v < b) best = k;
-      }
-      double bx = set.stations[best].local;
-      double bv = want_max ? set.consensus_envelope.moment[best].max : set.consensus_envelope.moment[best].min;
-      auto f = [&](double t) {
-        const Bound b = lead->envelope_model->at(s, t, false, 0);
-        return want_max ? b.max : -b.min;
-      };
-      for (int dir = -1; dir <= 1; dir += 2) {
-        const long nb = static_cast<long>(best) + dir;
-        if (nb < static_cast<long>(begin) || nb >= static_cast<long>(i)) continue;
-        double a = std::min(set.stations[best].local, set.stations[nb].local);
-        double c = std::max(set.stations[best].local, set.stations[nb].local);
-        if (!(c > a)) continue;
-        const double gr = 0.6180339887498949;
-        double x1 = c - gr * (c - a), x2 = a + gr * (c - a);
-        double f1 = f(x1), f2 = f(x2);
-        for (int it = 0; it < 60 && c - a > 1e-12 * set.beam.spans[s].length; ++it) {
-          if (f1 > f2) { c = x2; x2 = x1; f2 = f1; x1 = c - gr * (c - a); f1 = f(x1); }
-          else { a = x1; x1 = x2; f1 = f2; x2 = a + gr * (c - a); f2 = f(x2); }
-        }
-        const double t = 0.5 * (a + c);
-        const double v = consensus(s, t, want_max);
-        if (want_max ? v > bv : v < bv) { bv = v; bx = t; }
-      }
-      const Bound gov = lead->envelope_model->at(s, bx, false, 0);
-      if (want_max) { e.max_moment = bv; e.max_moment_x = x0 + bx; e.max_moment_by = describe(gov.max_by, lead->envelope_model->comb); }
-      else { e.min_moment = bv; e.min_moment_x = x0 + bx; e.min_moment_by = describe(gov.min_by, lead->envelope_model->comb); }
-    }
-    // Largest deflection of the envelope at the stations.
-    for (std::size_t k = begin; k < i; ++k) {
-      const Bound& d = set.consensus_envelope.deflection[k];
-      const double v = std::abs(d.max) >= std::abs(d.min) ? d.max : d.min;
-      if (k == begin || std::abs(v) > std::abs(e.max_deflection)) { e.max_deflection = v; e.max_deflection_x = set.stations[k].x; }
-    }
-    set.extremes[s] = e;
-    x0 += set.beam.spans[s].length;
-  }
-}
 
 // Claims against their load sets, then the beam's status.
 void finish(BeamResult& out, const input::BeamFile& file) {
@@ -1018,19 +642,12 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
   for (const auto& case_name : file.cases)
     specs.push_back({case_name, file.cases.size() == 1 ? file.beam : beam_for_case(file.beam, case_name), std::nullopt});
   for (const auto& comb : file.combinations) {
-    Beam b = file.beam;
-    b.loads.clear();
-    for (const auto& l : file.beam.loads)
-      for (const auto& [cs, f] : comb.factors)
-        if (l.load_case == cs) {
-          Load scaled = l;
-          if (!comb.is_envelope()) {
-            // An ordinary combination: one load set of factored loads.
-            scaled.P *= f.high; scaled.C *= f.high; scaled.w1 *= f.high; scaled.w2 *= f.high;
-          }
-          b.loads.push_back(scaled);
-        }
-    specs.push_back({comb.name, std::move(b), comb});
+    // An ordinary combination: one load set of factored loads (and
+    // settlements by the rule of load_sets.h). An envelope: the loads of its
+    // cases as they are; each method splits them into shares.
+    std::vector<std::pair<std::string, double>> factors;
+    for (const auto& [cs, f] : comb.factors) factors.emplace_back(cs, comb.is_envelope() ? 1.0 : f.high);
+    specs.push_back({comb.name, beam_for_factors(file.beam, factors), comb});
   }
   for (auto& spec : specs) {
     LoadSet set;
@@ -1066,6 +683,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
                 r.reason = "the method produced a non-finite number (the beam may be too badly conditioned for double precision)";
               } else {
                 r.equilibrium = equilibrium_of(set.beam, r.nodes);
+                method_extremes(r, set);
               }
             }
           }
@@ -1100,10 +718,11 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
       set.methods.push_back(later[k].valid() ? later[k].get() : run_method(chosen[k]));
     if (set.envelope) {
       compare_envelopes(set, options.agreement);
-      envelope_extremes(set);
+      consensus_extremes(set);
+      second_route(set, chosen, options.agreement);
     } else {
       compare_methods(set, options.agreement);
-      compute_extremes(set);
+      consensus_extremes(set);
     }
     out.sets.push_back(std::move(set));
   }
@@ -1116,12 +735,15 @@ void refresh(BeamResult& result, const input::BeamFile& file, const Options& opt
   for (auto& set : result.sets) {
     if (set.envelope) continue;
     for (auto& m : set.methods)
-      if (m.status == MethodStatus::Ok) m.equilibrium = equilibrium_of(set.beam, m.nodes);
+      if (m.status == MethodStatus::Ok) {
+        m.equilibrium = equilibrium_of(set.beam, m.nodes);
+        method_extremes(m, set);
+      }
     set.worst.reset();
     set.odd_one_out.clear();
     set.problem.clear();
     compare_methods(set, options.agreement);
-    compute_extremes(set);
+    consensus_extremes(set);
   }
   result.claims.clear();
   finish(result, file);

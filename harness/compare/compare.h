@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "harness/compare/load_sets.h"
 #include "harness/input/reader.h"
 #include "methods/beam/beam.h"
 
@@ -56,6 +57,9 @@ struct Equilibrium {
 struct Governs {
   std::vector<std::size_t> spans;
   std::vector<double> factors;
+  // Loaded spans whose share of a patterned case with a factor range took
+  // the other end of the range than `factors` names for that case.
+  std::vector<std::size_t> spans_other_factor;
 };
 
 // The largest and smallest value of a quantity over a combination's
@@ -72,6 +76,18 @@ struct Envelope {
   std::vector<Bound> reaction;                   // one per node
 };
 
+// The extreme values of one span, anywhere in it (between stations too).
+// Each method finds its own (MethodResult::extremes); the load set's are
+// their median. For an envelope: the largest moment_max, the smallest
+// moment_min and the largest magnitude of deflection_max / deflection_min,
+// with what governs them.
+struct SpanExtremes {
+  double max_moment = 0, max_moment_x = 0;
+  double min_moment = 0, min_moment_x = 0;
+  double max_deflection = 0, max_deflection_x = 0;  // signed, largest magnitude
+  std::string max_moment_by, min_moment_by, max_deflection_by;  // envelopes only
+};
+
 class EnvelopeModel;  // a method's unit solutions, for envelope values anywhere
 
 struct MethodResult {
@@ -86,6 +102,24 @@ struct MethodResult {
   // and the unit solutions it came from.
   std::optional<Envelope> envelope;
   std::shared_ptr<const EnvelopeModel> envelope_model;
+  // This method's own span extremes (of its envelope, for an envelope).
+  std::vector<SpanExtremes> extremes;
+};
+
+// The second route for an envelope: a value the envelope reports as
+// governing (a span's largest or smallest moment, a node's largest or
+// smallest reaction, a span's largest deflection), and the governing
+// arrangement with its factors solved directly, as an ordinary load set,
+// by every method.
+struct RouteCheck {
+  std::string quantity;     // "max_moment", "min_moment", "max_deflection", "reaction_max", "reaction_min"
+  std::string where;        // "span 2", "node B"
+  double x = 0;             // global
+  std::string arrangement;  // plain words (describe())
+  double envelope = 0;      // the envelope's value (consensus)
+  std::vector<std::pair<std::string, double>> values;  // method -> value of the direct solve
+  double difference = 0;    // largest |value - envelope|, relative to the largest of that kind
+  bool holds = false;       // difference within the agreement bound, every method ok
 };
 
 // The value of `q` (moment_max ... reaction_min) of one method's envelope
@@ -93,14 +127,6 @@ struct MethodResult {
 // reactions, at a node (`span` is then the node).
 double envelope_value(const EnvelopeModel& model, input::Quantity q, std::size_t span, double local, bool after);
 
-// The extreme values of one span (from the consensus of the methods). For
-// an envelope: of moment_max and moment_min, with what governs them.
-struct SpanExtremes {
-  double max_moment = 0, max_moment_x = 0;
-  double min_moment = 0, min_moment_x = 0;
-  double max_deflection = 0, max_deflection_x = 0;  // signed, largest magnitude
-  std::string max_moment_by, min_moment_by;          // envelopes only
-};
 
 enum class Verdict { Agree, Disagree, Unconfirmed };
 const char* verdict_name(Verdict v);  // "agree", "disagree", "unconfirmed"
@@ -129,7 +155,8 @@ struct LoadSet {
   std::optional<Worst> worst;                       // where agreement is worst
   std::string odd_one_out;                          // method that disagrees with the others
   std::string problem;                              // plain words when not agree
-  std::vector<SpanExtremes> extremes;               // per span
+  std::vector<SpanExtremes> extremes;               // per span: median of the methods'
+  std::vector<RouteCheck> second_route;             // envelopes only
   std::vector<NodeResult> consensus_nodes;          // median of ok methods
   std::vector<StationValues> consensus_stations;
   std::size_t ok_count() const;
@@ -194,8 +221,7 @@ std::pair<std::size_t, double> locate(const Beam& beam, double x);
 // The node at global x (within 1e-12 of the beam's length), if any.
 std::optional<std::size_t> node_at(const Beam& beam, double x);
 
-// The loads of one load case.
-Beam beam_for_case(const Beam& beam, const std::string& load_case);
+// The loads of one load case: beam_for_case in load_sets.h.
 
 // The caution every report carries.
 const char* caution_text();

@@ -728,12 +728,32 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (s.contains("kr")) { rd.error(ptr + "/kr", where, "only a spring support takes a rotational stiffness 'kr' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
         }
         if (s.contains("settlement")) {
-          auto st = rd.field(s, "settlement", ptr, where, kLength, false);
-          if (st && (sup.type == SupportType::Free || sup.type == SupportType::Guided)) {
+          // A number (acts once in every load set) or {"value": v, "case": C}
+          // (belongs to load case C and is factored with it).
+          double st = 0;
+          bool st_ok = false;
+          const json& sv = *s.find("settlement");
+          if (sv.is_object()) {
+            const std::string sptr = ptr + "/settlement";
+            rd.check_keys(sv, sptr, where, {"value", "case"});
+            if (auto v = rd.field(sv, "value", sptr, where, kLength, true)) { st = *v; st_ok = true; }
+            if (auto c = sv.find("case"); c != sv.end()) {
+              if (!c->is_string() || c->get<std::string>().empty()) {
+                rd.error(sptr + "/case", where, "must be a non-empty name of a load case (" + got(*c) + ")");
+                st_ok = false;
+              } else {
+                sup.settlement_case = c->get<std::string>();
+              }
+            }
+          } else if (auto v = rd.field(s, "settlement", ptr, where, kLength, false)) {
+            st = *v;
+            st_ok = true;
+          }
+          if (st_ok && (sup.type == SupportType::Free || sup.type == SupportType::Guided)) {
             rd.error(ptr + "/settlement", where, std::string("a settlement needs a support that holds the node up; a ") +
                                                      support_type_name(sup.type) + " node is free to deflect");
             supports_ok = false;
-          } else if (st) sup.settlement = *st;
+          } else if (st_ok) sup.settlement = st;
           else supports_ok = false;
         }
         if (auto h = s.find("hinge"); h != s.end()) {
@@ -951,6 +971,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       }
     }
   }
+  // A settlement that names its case makes that case, even with no loads.
+  for (const auto& sup : beam.supports)
+    if (!sup.settlement_case.empty() &&
+        std::find(out.cases.begin(), out.cases.end(), sup.settlement_case) == out.cases.end())
+      out.cases.push_back(sup.settlement_case);
   if (out.cases.empty()) out.cases.push_back("loads");
 
   // combinations

@@ -312,7 +312,7 @@ BasicBeam<Extended> to_extended(const BasicBeam<Exact>& b) {
   r.stations_per_span = b.stations_per_span;
   for (const auto& s : b.spans) r.spans.push_back({to_extended(s.length), to_extended(s.EI)});
   for (const auto& s : b.supports)
-    r.supports.push_back({s.type, to_extended(s.k), to_extended(s.kr), to_extended(s.settlement), s.hinge});
+    r.supports.push_back({s.type, to_extended(s.k), to_extended(s.kr), to_extended(s.settlement), s.hinge, s.settlement_case});
   for (const auto& l : b.loads) {
     BasicLoad<Extended> t;
     t.type = l.type; t.on_node = l.on_node; t.index = l.index;
@@ -527,7 +527,9 @@ struct ExactWalker {
       if (s.kind == Value::Kind::Object) {
         if (auto k = field(s, "k", kLineLoad, where)) { check(where + " k", *k, db.supports[i].k); sup.k = k->v; }
         if (auto kr = field(s, "kr", kMoment, where)) { check(where + " kr", *kr, db.supports[i].kr); sup.kr = kr->v; }
-        if (auto st = field(s, "settlement", kLength, where)) {
+        const Value* sv = s.find("settlement");
+        const Value& so = sv && sv->kind == Value::Kind::Object ? *sv : s;  // {"value": v, "case": C}
+        if (auto st = field(so, sv && sv->kind == Value::Kind::Object ? "value" : "settlement", kLength, where)) {
           check(where + " settlement", *st, db.supports[i].settlement);
           sup.settlement = st->v;
         }

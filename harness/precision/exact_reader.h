@@ -25,6 +25,7 @@
 
 #include "harness/input/reader.h"
 #include "harness/input/units.h"
+#include "harness/compare/load_sets.h"
 #include "methods/beam/beam.h"
 #include "methods/beam/numbers.h"
 
@@ -41,14 +42,11 @@ struct ExactBeamFile {
 // input::parse_beam_text made of the same text; it must be ok().
 ExactBeamFile read_exact_beam(const std::string& text, const input::BeamFile& file);
 
-// The loads of one load case (the same filtering as compare::beam_for_case).
+// The beam of one load case: compare::beam_for_case (loads and settlements
+// by the one rule of harness/compare/load_sets.h).
 template <class R>
 BasicBeam<R> exact_beam_for_case(const BasicBeam<R>& beam, const std::string& load_case) {
-  BasicBeam<R> b = beam;
-  b.loads.clear();
-  for (const auto& l : beam.loads)
-    if (l.load_case == load_case) b.loads.push_back(l);
-  return b;
+  return compare::beam_for_case(beam, load_case);
 }
 
 // ---------------------------------------------------------------------------

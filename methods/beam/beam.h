@@ -58,6 +58,11 @@ struct BasicSupport {
   // never on a fixed or guided support, a spring with kr > 0, or a node that
   // carries a couple (the reader refuses those).
   bool hinge = false;
+  // The load case the settlement belongs to; empty: it acts once, with
+  // factor 1, in every load set (harness/compare/load_sets.h). The methods
+  // never read this: the harness puts into `settlement` the value of the
+  // load set being analysed.
+  std::string settlement_case;
 };
 
 template <class R>
@@ -252,7 +257,7 @@ BasicBeam<To> beam_cast(const BasicBeam<From>& b) {
   for (const auto& s : b.spans) r.spans.push_back({static_cast<To>(s.length), static_cast<To>(s.EI)});
   for (const auto& s : b.supports)
     r.supports.push_back({s.type, static_cast<To>(s.k), static_cast<To>(s.kr),
-                          static_cast<To>(s.settlement), s.hinge});
+                          static_cast<To>(s.settlement), s.hinge, s.settlement_case});
   for (const auto& l : b.loads) {
     BasicLoad<To> t;
     t.type = l.type; t.on_node = l.on_node; t.index = l.index;

@@ -1,0 +1,42 @@
+// trivet: helpers shared inside harness/compare (not a public header).
+#pragma once
+
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include "harness/compare/compare.h"
+
+namespace trivet::compare::detail {
+
+// The median (of three: the middle one); 0 for none. Reorders v.
+double median(std::vector<double>& v);
+// False when any node or station value of the result is NaN or infinite.
+bool finite_solution(const MethodResult& r);
+// Vertical-force and moment balance of one solution.
+Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& nodes);
+// Floors each kind's largest magnitude from the others (see compare.cpp).
+void floor_scales(double* scale, const Beam& beam);
+std::string fmt(double v);
+
+// One method's extremes of span `s` (stations [begin, end) of the load
+// set), from the method's own values at the stations and its own `at`
+// between them (harness/compare/extremes.h). Positions global.
+SpanExtremes method_span_extremes(const MethodResult& m, const LoadSet& set, std::size_t s, std::size_t begin,
+                                  std::size_t end, double x0);
+
+// A method's own extremes of every span (MethodResult::extremes).
+void method_extremes(MethodResult& m, const LoadSet& set);
+// The load set's extremes: per span the median of the methods' values,
+// with the position (and what governs) of the method that gave it.
+void consensus_extremes(LoadSet& set);
+
+// Envelopes (envelope.cpp): one method over the shares of a combination,
+// with its envelope at the stations and its own span extremes of the
+// envelope; then the methods compared; then the second route.
+void run_envelope_method(const Method& method, const Beam& full, const input::Combination& comb,
+                         const std::vector<Station>& stations, MethodResult& r);
+void compare_envelopes(LoadSet& set, double agreement);
+void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement);
+
+}  // namespace trivet::compare::detail

@@ -1,0 +1,63 @@
+// trivet: the envelope of a combination with a pattern or a factor range,
+// for one method (internal to harness/compare).
+//
+// The combination's loads are split into shares, each solved once by the
+// method (superposition; README, "Load combinations and patterned
+// envelopes"):
+//   - a case that is not patterned: one share (its loads and the
+//     settlements that name it), factor from F_k = {f} or {low, high};
+//   - a patterned case: one share per span (its loads on that span),
+//     factor from {0} u F_k; and one share of its node loads and the
+//     settlements that name it, factor from F_k;
+//   - the settlements that name no case: one share, factor exactly 1.
+// "all": every share picks its factor independently. "adjacent-and-
+// alternate": an arrangement (all spans, odd spans, even spans, or a pair
+// of adjacent spans) switches the patterned span shares on (F_k) or off.
+#pragma once
+
+#include <cstddef>
+#include <limits>
+#include <vector>
+
+#include "harness/compare/compare.h"
+
+namespace trivet::compare {
+
+class EnvelopeModel {
+ public:
+  static constexpr std::size_t kAlways = std::numeric_limits<std::size_t>::max();
+  struct Unit {
+    std::size_t factor = kAlways;  // index into comb.factors; kAlways: factor 1, always on
+    bool patterned = false;        // a patterned case's share of one span
+    std::size_t span = 0;          // for a patterned share: its span
+    Beam beam;
+    Solution solution;
+  };
+  // A factor for every unit (0: off): one arrangement with its factors.
+  using Choice = std::vector<double>;
+  enum What { kMoment, kShear, kDeflection };
+
+  input::Combination comb;
+  std::size_t spans = 0;
+  std::vector<Unit> units;
+  std::vector<std::vector<std::size_t>> arrangements;  // adjacent-and-alternate only
+
+  // The largest (want_max) or smallest combined value of units' values g
+  // (one per unit), and the choice that gives it.
+  double extreme(const std::vector<double>& g, bool want_max, Choice* choice) const;
+  // Both bounds, with what governs them.
+  Bound combine(const std::vector<double>& g) const;
+  Bound at(std::size_t span, double local, bool after, What what) const;
+  Bound reaction(std::size_t node) const;
+  // The units' values of every quantity at a point.
+  void values(std::size_t span, double local, bool after, std::vector<PointValues>& out) const;
+  Governs governs(const Choice& c) const;
+  // The beam of one arrangement with its factors: every unit's loads and
+  // settlements times its factor, as an ordinary load set.
+  Beam arrangement_beam(const Choice& c) const;
+
+ private:
+  double pick(std::size_t u, double g, bool want_max, bool allow_off, double* factor) const;
+};
+
+}  // namespace trivet::compare

@@ -1,0 +1,49 @@
+// trivet: turning points of a diagram between two breakpoints, exactly.
+//
+// Between two consecutive stations of a span no point force or couple acts
+// and the distributed load is linear (the stations hold every load's ends),
+// so by Euler-Bernoulli theory the shear is a polynomial of degree <= 2,
+// the moment <= 3, the rotation <= 4 and the deflection <= 5 in x. A
+// polynomial of degree <= kDegree is fixed by its values at kDegree + 1
+// points: we take them at the Chebyshev-Lobatto points of the piece, find
+// the interpolating polynomial, and the zeros of its derivative by
+// recursion on the derivatives (between two consecutive zeros of p' a
+// polynomial p is monotone, so a sign change there holds exactly one zero,
+// found by bisection, which always converges; a zero at an end of a bracket
+// counts). Nothing is stepped or sampled, so no turning point is missed,
+// whatever the number of stations.
+//
+// This code is shared by the answers of all three methods (each method's
+// own values are fed through it). What catches a bug in it:
+// tests/extremes_test.cpp (polynomials with known roots, the handbook
+// 0.10125 wL^2 at any stations per span) and tests/envelope_bruteforce_test.cpp
+// (dense sampling of every method), and the selfcheck's own dense scan
+// (references/selfcheck.cpp) on every cited span extreme.
+#pragma once
+
+#include <array>
+#include <cstddef>
+#include <functional>
+#include <vector>
+
+namespace trivet::compare {
+
+// The degree the interpolation takes: exact for the deflection (degree 5
+// under a linear load), so exact for the moment as well.
+constexpr int kDegree = 5;
+
+// The interior sample points of [a, b] (the kDegree - 1 Chebyshev-Lobatto
+// points other than a and b), in increasing order.
+std::array<double, kDegree - 1> sample_points(double a, double b);
+
+// The points strictly inside (a, b) where the derivative of the polynomial
+// through (a, fa), the interior samples (in the order of sample_points) and
+// (b, fb) vanishes: the candidates for a turning point. Appends to `out`.
+void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
+                    std::vector<double>& out);
+
+// The real zeros in [lo, hi] of the polynomial sum c[k] t^k (any degree),
+// in increasing order. Exposed for the tests.
+std::vector<double> polynomial_zeros(const std::vector<double>& c, double lo, double hi);
+
+}  // namespace trivet::compare
