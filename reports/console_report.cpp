@@ -1,6 +1,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <set>
 #include <sstream>
 
 #include "harness/compare/against.h"
@@ -145,6 +146,20 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
       }
       if (!cb.source.empty()) out << "; " << cb.source;
       out << "\n";
+      {
+        // The second route: each governing arrangement solved directly.
+        std::size_t holds = 0;
+        double worst = 0;
+        for (const auto& rc : set.second_route) {
+          holds += rc.holds;
+          worst = std::max(worst, rc.difference);
+        }
+        std::set<std::string> arrangements;
+        for (const auto& rc : set.second_route) arrangements.insert(rc.arrangement);
+        out << "  second route: " << set.second_route.size() << " governing values re-solved directly ("
+            << arrangements.size() << " arrangements, every method): " << holds << " reproduced, largest difference "
+            << sci(worst) << " (of the largest value)\n";
+      }
       const Envelope& e = set.consensus_envelope;
       const int dm = decimals_for(set.scale[static_cast<int>(Kind::Moment)]);
       const int dr = decimals_for(set.scale[static_cast<int>(Kind::Reaction)]);

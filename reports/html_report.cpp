@@ -364,7 +364,44 @@ struct Writer {
           << html_escape(e.min_moment_by) << "</td></tr>\n";
       }
       o << "</table>\n";
+      const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
+      o << "<table class=\"envelope-deflections\"><tr><th>span</th><th>largest deflection [" << L << "]</th><th>at x ["
+        << L << "]</th><th>governed by</th></tr>\n";
+      for (std::size_t i = 0; i < set.extremes.size(); ++i) {
+        const SpanExtremes& e = set.extremes[i];
+        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(e.max_deflection, dd) << "</td><td class=\"n\">"
+          << fixed(e.max_deflection_x, dx) << "</td><td>" << html_escape(e.max_deflection_by) << "</td></tr>\n";
+      }
+      o << "</table>\n";
     }
+    second_route_table(set, dx);
+  }
+
+  // The second route: each value the envelope reports as governing, and its
+  // arrangement solved directly by every method.
+  void second_route_table(const LoadSet& set, int dx) {
+    if (set.second_route.empty()) return;
+    std::size_t holds = 0;
+    for (const auto& rc : set.second_route) holds += rc.holds;
+    o << "<details class=\"second-route\"" << (holds == set.second_route.size() ? "" : " open")
+      << "><summary>Second route: " << set.second_route.size()
+      << " governing values re-solved directly by every method, " << holds << " reproduced</summary>\n";
+    o << "<table class=\"second-route\"><tr><th>value</th><th>where</th><th>x</th><th>arrangement</th><th>envelope</th>";
+    for (const auto& m : set.methods) o << "<th>" << html_escape(m.name) << "</th>";
+    o << "<th>difference</th><th>holds</th></tr>\n";
+    for (const auto& rc : set.second_route) {
+      o << "<tr><td>" << html_escape(rc.quantity) << "</td><td>" << html_escape(rc.where) << "</td><td class=\"n\">"
+        << fixed(rc.x, dx) << "</td><td>" << html_escape(rc.arrangement) << "</td><td class=\"n\">"
+        << html_escape(input::format_number(rc.envelope)) << "</td>";
+      for (const auto& m : set.methods) {
+        const auto it = std::find_if(rc.values.begin(), rc.values.end(), [&](const auto& p) { return p.first == m.name; });
+        o << "<td class=\"n\">" << (it == rc.values.end() ? std::string("-") : html_escape(input::format_number(it->second))) << "</td>";
+      }
+      char buf[32];
+      std::snprintf(buf, sizeof buf, "%.1e", rc.difference);
+      o << "<td class=\"n\">" << buf << "</td><td>" << (rc.holds ? "yes" : "<b>NO</b>") << "</td></tr>\n";
+    }
+    o << "</table></details>\n";
   }
 
   // Another program's results (--against): per comparison, per quantity.

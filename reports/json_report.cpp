@@ -82,6 +82,12 @@ void governs(JsonWriter& w, std::string_view k, const Governs& g, const input::C
     w.begin_array(true);
     for (auto sp : g.spans) w.value(sp + 1);
     w.end_array();
+    if (!g.spans_other_factor.empty()) {
+      w.key("spans_with_other_factor");
+      w.begin_array(true);
+      for (auto sp : g.spans_other_factor) w.value(sp + 1);
+      w.end_array();
+    }
   }
   w.key("factors");
   w.begin_object(true);
@@ -136,6 +142,53 @@ void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
   w.end_object();
 }
 
+// The extremes of each span (anywhere in it), with what governs them in an envelope.
+void span_extremes(JsonWriter& w, const std::vector<SpanExtremes>& extremes, bool envelope) {
+  w.key("span_extremes");
+  w.begin_array();
+  elements(w, extremes.size(), [&](JsonWriter& o, std::size_t i) {
+    const auto& e = extremes[i];
+    o.record_begin();
+    o.record("span", i + 1);
+    o.record("max_moment", e.max_moment);
+    o.record("max_moment_x", e.max_moment_x);
+    o.record("min_moment", e.min_moment);
+    o.record("min_moment_x", e.min_moment_x);
+    o.record("max_deflection", e.max_deflection);
+    o.record("max_deflection_x", e.max_deflection_x);
+    if (envelope) {
+      o.record("max_moment_governs", std::string_view(e.max_moment_by));
+      o.record("min_moment_governs", std::string_view(e.min_moment_by));
+      o.record("max_deflection_governs", std::string_view(e.max_deflection_by));
+    }
+    o.record_end();
+  });
+  w.end_array();
+}
+
+// The second route of an envelope: each governing arrangement solved directly.
+void second_route(JsonWriter& w, const LoadSet& set) {
+  if (!set.envelope) return;
+  w.key("second_route");
+  w.begin_array();
+  for (const auto& rc : set.second_route) {
+    w.begin_object(true);
+    w.member("quantity", rc.quantity);
+    w.member("where", rc.where);
+    w.member("x", rc.x);
+    w.member("arrangement", rc.arrangement);
+    w.member("envelope", rc.envelope);
+    w.key("direct");
+    w.begin_object(true);
+    for (const auto& [name, v] : rc.values) w.member(name, v);
+    w.end_object();
+    w.member("difference", rc.difference);
+    w.member("holds", rc.holds);
+    w.end_object();
+  }
+  w.end_array();
+}
+
 void equilibrium(JsonWriter& w, const MethodResult& m) {
   if (m.status != MethodStatus::Ok) return;
   w.key("equilibrium");
@@ -152,6 +205,7 @@ void method(JsonWriter& w, const MethodResult& m, const LoadSet& set) {
   w.member("reason", m.reason);
   if (set.envelope) {
     if (m.envelope) envelope(w, *m.envelope, set);
+    if (m.status == MethodStatus::Ok) span_extremes(w, m.extremes, true);
     equilibrium(w, m);
     w.end_object();
     return;
@@ -188,6 +242,7 @@ void method(JsonWriter& w, const MethodResult& m, const LoadSet& set) {
     o.record_end();
   });
   w.end_array();
+  if (m.status == MethodStatus::Ok) span_extremes(w, m.extremes, false);
   equilibrium(w, m);
   w.end_object();
 }
@@ -337,25 +392,8 @@ void load_set(JsonWriter& w, const LoadSet& set, const BeamResult& b) {
     w.end_object();
     w.end_object();
   }
-  w.key("span_extremes");
-  w.begin_array();
-  elements(w, set.extremes.size(), [&](JsonWriter& o, std::size_t i) {
-    const auto& e = set.extremes[i];
-    o.record_begin();
-    o.record("span", i + 1);
-    o.record("max_moment", e.max_moment);
-    o.record("max_moment_x", e.max_moment_x);
-    o.record("min_moment", e.min_moment);
-    o.record("min_moment_x", e.min_moment_x);
-    o.record("max_deflection", e.max_deflection);
-    o.record("max_deflection_x", e.max_deflection_x);
-    if (set.envelope) {
-      o.record("max_moment_governs", std::string_view(e.max_moment_by));
-      o.record("min_moment_governs", std::string_view(e.min_moment_by));
-    }
-    o.record_end();
-  });
-  w.end_array();
+  span_extremes(w, set.extremes, set.envelope);
+  second_route(w, set);
   w.key("methods");
   w.begin_object();
   for (const auto& m : set.methods) method(w, m, set);

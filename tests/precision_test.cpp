@@ -161,6 +161,31 @@ TEST(PrecisionPublished, RunReportsFractionsAndDecimals) {
   }
 }
 
+// A settlement that names its case acts in that case only, in every
+// arithmetic. Two equal spans L = 6, EI = 50000, the middle support settles
+// d = 0.01 alone: M_B = 3 EI d / L^2 = 125/3 exactly (the three-moment
+// equation with settlement terms, closed form); in the dead case it is absent.
+TEST(ExactReader, ASettlementNamingItsCaseStaysInThatCase) {
+  const Loaded l = load_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6, "EI": 50000}, {"length": 6, "EI": 50000}],
+    "supports": ["pinned", {"type": "roller", "settlement": {"value": 0.01, "case": "imposed"}}, "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 4, "case": "dead"}, {"type": "udl", "span": 2, "w": 4, "case": "dead"}]})");
+  ASSERT_TRUE(l.file.ok());
+  ASSERT_TRUE(l.exact.ok) << l.exact.error;
+  Options o;
+  o.arithmetic = Arithmetic::Exact;
+  o.methods = {"three-moment"};
+  const auto imposed = run_load_set(l.exact, l.file, "imposed", o);
+  ASSERT_EQ(imposed.methods.size(), 1u);
+  ASSERT_EQ(imposed.methods[0].status, MethodStatus::Ok) << imposed.methods[0].reason;
+  EXPECT_EQ(imposed.methods[0].nodes[1].moment_left->fraction, "125/3");
+  EXPECT_EQ(imposed.methods[0].nodes[1].deflection.fraction, "1/100");
+  const auto dead = run_load_set(l.exact, l.file, "dead", o);
+  ASSERT_EQ(dead.methods[0].status, MethodStatus::Ok) << dead.methods[0].reason;
+  EXPECT_EQ(dead.methods[0].nodes[1].moment_left->fraction, "-18");  // -wL^2/8
+  EXPECT_NEAR(dead.methods[0].nodes[1].deflection.value, 0.0, 1e-300);
+}
+
 // ---------------------------------------------------------------------------
 // The exact reader.
 

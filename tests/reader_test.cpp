@@ -46,6 +46,22 @@ TEST(Reader, GoodFileHasNoErrors) {
   EXPECT_EQ(f.cases, std::vector<std::string>{"loads"});
 }
 
+TEST(Reader, SettlementNamingItsCase) {
+  BeamFile f = parse_beam_text(with("\"roller\", \"roller\"]", "{\"type\": \"roller\", \"settlement\": {\"value\": \"12 mm\", \"case\": \"imposed\"}}, \"roller\"]"), "plant.json");
+  ASSERT_TRUE(f.ok()) << f.errors.front().format("plant.json");
+  EXPECT_NEAR(f.beam.supports[1].settlement, 0.012, 1e-15);
+  EXPECT_EQ(f.beam.supports[1].settlement_case, "imposed");
+  // The settlement makes its case, though no load names it.
+  EXPECT_EQ(f.cases, (std::vector<std::string>{"loads", "imposed"}));
+}
+
+TEST(Reader, SettlementObjectNeedsItsValueAndAName) {
+  EXPECT_EQ(only(with("\"roller\", \"roller\"]", "{\"type\": \"roller\", \"settlement\": {\"case\": \"imposed\"}}, \"roller\"]")),
+            "plant.json: /supports/1/settlement/value (node 2): required field is missing");
+  EXPECT_EQ(only(with("\"roller\", \"roller\"]", "{\"type\": \"roller\", \"settlement\": {\"value\": 0.01, \"case\": 3}}, \"roller\"]")),
+            "plant.json: /supports/1/settlement/case (node 2): must be a non-empty name of a load case (got 3)");
+}
+
 TEST(Reader, NegativeLength) {
   EXPECT_EQ(only(with("\"length\": 6.5", "\"length\": -6.5")),
             "plant.json: /spans/1/length (span 2): must be greater than 0 (got -6.5)");

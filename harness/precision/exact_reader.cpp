@@ -524,6 +524,7 @@ struct ExactWalker {
       BasicSupport<Exact> sup;
       sup.type = db.supports[i].type;
       sup.hinge = db.supports[i].hinge;
+      sup.settlement_case = db.supports[i].settlement_case;
       if (s.kind == Value::Kind::Object) {
         if (auto k = field(s, "k", kLineLoad, where)) { check(where + " k", *k, db.supports[i].k); sup.k = k->v; }
         if (auto kr = field(s, "kr", kMoment, where)) { check(where + " kr", *kr, db.supports[i].kr); sup.kr = kr->v; }
