@@ -3,6 +3,7 @@ trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_inp
 trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
 trivet_add_test(against_test ${CMAKE_CURRENT_SOURCE_DIR}/against_test.cpp trivet_compare)
 trivet_add_test(envelope_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_test.cpp trivet_compare)
+trivet_add_test(envelope_bruteforce_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_bruteforce_test.cpp trivet_compare)
 trivet_add_test(precision_test ${CMAKE_CURRENT_SOURCE_DIR}/precision_test.cpp trivet_precision)
 trivet_add_test(compare_test ${CMAKE_CURRENT_SOURCE_DIR}/compare_test.cpp trivet_compare)
 trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp

@@ -328,6 +328,25 @@ TEST(Supports, FixedFixedSettlement) {
   expect_equilibrium(b, s);
 }
 
+// A statically determinate beam moved by a settlement only: it moves as
+// rigid bodies and every force is zero (statics). Its reactions are then
+// of rounding size, and the method's own equilibrium check must measure
+// their rounding against the forces the movement makes, not against
+// themselves (it called this beam out of equilibrium before).
+TEST(Supports, RigidBodySettlementOfADeterminateBeam) {
+  Beam b = make_beam<double>({4.0, 6.0}, 1e4, {T::Pinned, T::Roller, T::Spring});
+  b.supports[1].hinge = true;
+  b.supports[2].k = 1e5;
+  b.supports[2].settlement = 0.01;  // the spring's base
+  Solution s = solve(b);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  for (const auto& n : s.nodes) EXPECT_NEAR(n.reaction_force, 0.0, 1e-9);
+  // Span 2 turns about B: the spring's base moved 0.01, the spring carries nothing.
+  EXPECT_NEAR(s.nodes[2].deflection, 0.01, 1e-15);
+  EXPECT_NEAR(s.at(1, 3.0, false).deflection, 0.005, 1e-15);
+  EXPECT_NEAR(s.at(1, 3.0, false).moment, 0.0, 1e-9);
+}
+
 TEST(Supports, FixedGuidedTipLoad) {
   // Fixed at A, guided at B (rotation held, deflection free), load P at B.
   // [Roark] Table 8.1 case 1b (guided end, fixed end; from memory), and

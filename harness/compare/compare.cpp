@@ -141,6 +141,21 @@ Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& node
     force(-nodes[i].reaction_force, xs[i]);
     couple(-nodes[i].reaction_moment);
   }
+  // The forces the node movements alone make (each span's end forces from
+  // its end deflections and rotations, term by term; springs' k v): a beam
+  // moved without bending (a settlement of a statically determinate beam)
+  // has reactions of rounding size only, whose rounding is measured against
+  // these, not against themselves.
+  double moved = 0;
+  for (std::size_t i = 0; i + 1 < nodes.size() && i < beam.spans.size(); ++i) {
+    const double L = beam.spans[i].length, EI = beam.spans[i].EI;
+    moved += 12 * EI / (L * L * L) * (std::abs(nodes[i].deflection) + std::abs(nodes[i + 1].deflection)) +
+             6 * EI / (L * L) * (std::abs(nodes[i].rotation_right) + std::abs(nodes[i + 1].rotation_left));
+  }
+  for (std::size_t i = 0; i < nodes.size() && i < beam.supports.size(); ++i)
+    if (beam.supports[i].type == SupportType::Spring)
+      moved += beam.supports[i].k * (std::abs(nodes[i].deflection) + std::abs(beam.supports[i].settlement));
+  if (std::isfinite(moved)) fs += moved;
   Equilibrium e;
   e.force_residual = fs > 0 ? std::abs(f) / fs : std::abs(f);
   // Moments are measured against the total load times the beam's length as

@@ -156,6 +156,7 @@ Beam EnvelopeModel::arrangement_beam(const Choice& c) const {
       s.P *= f; s.C *= f; s.w1 *= f; s.w2 *= f;
       b.loads.push_back(s);
     }
+    if (units[u].patterned) continue;  // a span's share carries no settlement
     for (std::size_t i = 0; i < b.supports.size(); ++i) b.supports[i].settlement += f * units[u].beam.supports[i].settlement;
   }
   return b;
@@ -218,82 +219,241 @@ std::vector<std::vector<std::size_t>> code_arrangements(std::size_t n) {
   return out;
 }
 
-// The four extremes looked for in each span of an envelope.
-struct Target {
-  EnvelopeModel::What what;
-  bool want_max;
-};
-constexpr std::array<Target, 4> kTargets = {{{EnvelopeModel::kMoment, true},
-                                             {EnvelopeModel::kMoment, false},
-                                             {EnvelopeModel::kDeflection, true},
-                                             {EnvelopeModel::kDeflection, false}}};
-
 double quantity(const PointValues& p, EnvelopeModel::What w) {
   return w == EnvelopeModel::kMoment ? p.moment : w == EnvelopeModel::kShear ? p.shear : p.deflection;
 }
-// The derivative along x of that quantity (V = dM/dx, rotation = dv/dx).
-double slope(const PointValues& p, EnvelopeModel::What w) {
-  return w == EnvelopeModel::kMoment ? p.shear : p.rotation;
-}
-
 struct Best {
   double value = 0, local = 0;
   std::string by;
 };
 
-// The units' values at the Chebyshev-Lobatto points of one piece [a, b].
+// One piece [a, b] of a span between consecutive stations, and each unit's
+// moment and deflection on it as polynomials (extremes.h): exact, as no
+// point force or couple acts inside and the distributed loads are linear.
 struct Piece {
   double a = 0, b = 0;
-  std::vector<PointValues> ga, gb;
-  std::array<std::vector<PointValues>, kDegree - 1> inner;
+  std::vector<Poly> poly[2];  // [0] moment, [1] deflection; one per unit
+  std::vector<std::vector<double>> zeros[2];  // each unit's zeros in (-1, 1), found when first asked
+  std::vector<char> have_zeros[2];
 };
 
-// Refines the extreme of one target on one piece. The envelope is the
-// largest (smallest) of the arrangements' polynomials, so its kinks are
-// convex (concave) and its extreme inside the piece lies where one
-// arrangement's polynomial turns: take the arrangements that govern at the
-// ends, the turning points of their polynomials (exactly, extremes.h), the
-// arrangement that governs there, and so on until no new one appears.
-void refine(const EnvelopeModel& model, std::size_t span, const Piece& pc, const Target& t, Best& best) {
-  using Choice = EnvelopeModel::Choice;
-  std::vector<double> g(model.units.size());
-  auto gather = [&](const std::vector<PointValues>& v) {
-    for (std::size_t u = 0; u < v.size(); ++u) g[u] = quantity(v[u], t.what);
+// The factor a unit takes where its value is positive (pos) and where it
+// is negative (neg), to make sign * (factor * value) largest; `on` false
+// for a unit that is off (AA arrangement without its span).
+struct Factors {
+  double pos = 0, neg = 0;
+};
+
+Factors factors_of(const EnvelopeModel& model, std::size_t u, double sign, bool allow_off) {
+  const auto& un = model.units[u];
+  std::vector<double> opts;
+  if (un.factor == EnvelopeModel::kAlways) opts = {1.0};
+  else {
+    const input::Factor& f = model.comb.factors[un.factor].second;
+    if (allow_off) opts.push_back(0.0);
+    opts.push_back(f.high);
+    if (f.range) opts.push_back(f.low);
+  }
+  Factors r{opts.front(), opts.front()};
+  for (double f : opts) {
+    if (sign * f > sign * r.pos) r.pos = f;  // largest sign*f where the value is positive
+    if (sign * f < sign * r.neg) r.neg = f;  // smallest where it is negative
+  }
+  return r;
+}
+
+// A rigorous bound on a polynomial on [-1, 1]: c0 -+ the sum of |c_k|.
+std::pair<double, double> range_of(const Poly& p) {
+  double spread = 0;
+  for (std::size_t k = 1; k < p.size(); ++k) spread += std::abs(p[k]);
+  return {p[0] - spread, p[0] + spread};
+}
+
+// The largest of sign * E on the piece, where E is the sum over `units` of
+// each unit's value times its factor (pos where the value is positive, neg
+// where it is negative; factors[u]). Exact: between consecutive zeros of
+// the units whose factor changes with the sign (the kinks of E), E is one
+// polynomial, whose largest value is at an end or a zero of its derivative.
+// Returns (largest sign * E, t).
+std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>& units,
+                               const std::vector<Factors>& factors, double sign) {
+  // The cuts: (t, unit, the middle of the unit's stretch after t, before
+  // its next zero). A unit's sign is read in the middle of its own stretch
+  // between its zeros, never near a zero of another unit, where a tiny
+  // sub-piece would leave only rounding to read.
+  struct Cut {
+    double t;
+    std::size_t u;
+    double mid_after;
   };
-  std::vector<Choice> tried, queue(2);
-  gather(pc.ga);
-  model.extreme(g, t.want_max, &queue[0]);
-  gather(pc.gb);
-  model.extreme(g, t.want_max, &queue[1]);
-  std::vector<PointValues> pv;
-  std::vector<double> cand;
-  for (int round = 0; round < 8 && !queue.empty(); ++round) {
-    Choice c = std::move(queue.back());
-    queue.pop_back();
-    if (std::any_of(tried.begin(), tried.end(), [&](const Choice& o) { return same_choice(o, c); })) continue;
-    auto sum = [&](const std::vector<PointValues>& v) {
-      double s = 0;
-      for (std::size_t u = 0; u < v.size(); ++u) s += c[u] * quantity(v[u], t.what);
-      return s;
-    };
-    std::array<double, kDegree - 1> inner{};
-    for (std::size_t j = 0; j < inner.size(); ++j) inner[j] = sum(pc.inner[j]);
-    cand.clear();
-    turning_points(pc.a, pc.b, sum(pc.ga), inner, sum(pc.gb), cand);
-    tried.push_back(std::move(c));
-    for (double x : cand) {
-      model.values(span, x, false, pv);
-      gather(pv);
-      Choice here;
-      const double v = model.extreme(g, t.want_max, &here);
-      if (t.want_max ? v > best.value : v < best.value) {
-        best.value = v;
-        best.local = x;
-        best.by = describe(model.governs(here), model.comb);
-      }
-      if (std::none_of(tried.begin(), tried.end(), [&](const Choice& o) { return same_choice(o, here); }))
-        queue.push_back(std::move(here));
+  std::vector<Cut> cuts;
+  std::vector<double> first_mid(pc.poly[q].size(), 0.0);
+  for (std::size_t u : units) {
+    if (same(factors[u].pos, factors[u].neg)) continue;  // no kink
+    const Poly& p = pc.poly[q][u];
+    const auto rg = range_of(p);
+    if (rg.first > 0 || rg.second < 0) continue;  // no zero on the piece
+    if (!pc.have_zeros[q][u]) {
+      for (double t : polynomial_zeros(std::vector<double>(p.begin(), p.end()), -1.0, 1.0))
+        if (t > -1.0 && t < 1.0) pc.zeros[q][u].push_back(t);
+      pc.have_zeros[q][u] = 1;
     }
+    const auto& z = pc.zeros[q][u];
+    if (!z.empty()) first_mid[u] = 0.5 * (-1.0 + z.front());
+    for (std::size_t k = 0; k < z.size(); ++k)
+      cuts.push_back({z[k], u, 0.5 * (z[k] + (k + 1 < z.size() ? z[k + 1] : 1.0))});
+  }
+  std::sort(cuts.begin(), cuts.end(), [](const Cut& x, const Cut& y) { return x.t < y.t; });
+  std::vector<double> ts{-1.0};
+  for (const auto& c : cuts)
+    if (c.t > ts.back()) ts.push_back(c.t);
+  ts.push_back(1.0);
+  std::vector<double> taken(pc.poly[q].size(), 0.0);
+  Poly sum{};
+  auto take = [&](std::size_t u, double t) {
+    const double y = evaluate(pc.poly[q][u], t);
+    const double f = y < 0 ? factors[u].neg : factors[u].pos;
+    const double df = f - taken[u];
+    if (nonzero(df))
+      for (std::size_t k = 0; k < sum.size(); ++k) sum[k] += df * pc.poly[q][u][k];
+    taken[u] = f;
+  };
+  for (std::size_t u : units) take(u, first_mid[u]);
+  std::pair<double, double> best{0.0, -1.0};
+  bool first = true;
+  std::size_t c = 0;
+  for (std::size_t i = 0; i + 1 < ts.size(); ++i) {
+    // Past each cut at ts[i]: its unit takes the factor of its next stretch.
+    while (c < cuts.size() && !(cuts[c].t > ts[i])) {
+      take(cuts[c].u, cuts[c].mid_after);
+      ++c;
+    }
+    const auto m = largest(sum, ts[i], ts[i + 1], sign);
+    if (first || m.first > best.first) { best = m; first = false; }
+  }
+  return best;
+}
+
+// One method's span extremes of its envelope, exactly: per span the
+// largest moment_max, the smallest moment_min and the largest magnitude of
+// the deflection envelope, anywhere (README, "How the check works"). On each
+// piece between stations every unit's moment and deflection is a polynomial;
+// the envelope is, for "all", the sum of each unit's best share, and for
+// "adjacent-and-alternate" the best over the arrangements of such sums;
+// `walk` finds the largest of such a sum exactly. A piece (or an
+// arrangement) whose rigorous upper bound cannot beat the best value so far
+// is skipped. The value found is evaluated again from the units at its
+// point, with what governs it.
+void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::vector<Station>& stations,
+                       const Envelope& env, std::vector<SpanExtremes>& out) {
+  using M = EnvelopeModel;
+  const std::size_t ns = stations.size(), nu = model.units.size();
+  const bool all = model.comb.arrangements == input::Arrangements::All || model.arrangements.empty();
+  // The units of each "walk": every unit for "all"; per arrangement, the
+  // units that are not patterned and the patterned ones on its spans.
+  std::vector<std::vector<std::size_t>> walks;
+  std::vector<std::vector<std::size_t>> by_span(model.spans);
+  std::vector<std::size_t> fixed_units;
+  for (std::size_t u = 0; u < nu; ++u)
+    (model.units[u].patterned ? by_span[model.units[u].span] : fixed_units).push_back(u);
+  if (all) {
+    walks.emplace_back();
+    for (std::size_t u = 0; u < nu; ++u) walks.back().push_back(u);
+  } else {
+    for (const auto& arr : model.arrangements) {
+      walks.push_back(fixed_units);
+      for (std::size_t sp : arr) walks.back().insert(walks.back().end(), by_span[sp].begin(), by_span[sp].end());
+    }
+  }
+  // Each unit's factors where its value is positive / negative, for the
+  // largest (sign +1) and the smallest (sign -1) envelope.
+  std::vector<Factors> fac[2];
+  for (int k = 0; k < 2; ++k)
+    for (std::size_t u = 0; u < nu; ++u)
+      fac[k].push_back(factors_of(model, u, k == 0 ? 1.0 : -1.0, all && model.units[u].patterned));
+
+  out.assign(full.spans.size(), {});
+  std::vector<PointValues> pv;
+  std::vector<double> g(nu);
+  Piece pc;
+  std::size_t i = 0;
+  double x0 = 0;
+  for (std::size_t s = 0; s < full.spans.size(); ++s) {
+    const std::size_t begin = i;
+    while (i < ns && stations[i].span == s) ++i;
+    const std::size_t end = i;
+    if (end == begin) { x0 += full.spans[s].length; continue; }
+    // Targets: 0 moment max, 1 moment min, 2 deflection max, 3 deflection min.
+    std::array<Best, 4> best;
+    for (int t = 0; t < 4; ++t) {
+      const auto& v = t < 2 ? env.moment : env.deflection;
+      const bool want_max = t % 2 == 0;
+      std::size_t at = begin;
+      for (std::size_t k = begin; k < end; ++k) {
+        const double x = want_max ? v[k].max : v[k].min;
+        const double b = want_max ? v[at].max : v[at].min;
+        if (want_max ? x > b : x < b) at = k;
+      }
+      best[static_cast<std::size_t>(t)] = {want_max ? v[at].max : v[at].min, stations[at].local,
+                                           describe(want_max ? v[at].max_by : v[at].min_by, model.comb)};
+    }
+    for (std::size_t k = begin; k + 1 < end; ++k) {
+      const double a = stations[k].local, b = stations[k + 1].local;
+      if (!(b > a)) continue;
+      pc.a = a;
+      pc.b = b;
+      const auto xs = sample_points(a, b);
+      std::array<std::vector<PointValues>, kDegree + 1> smp;
+      model.values(s, a, stations[k].after, smp[0]);
+      for (std::size_t j = 0; j < xs.size(); ++j) model.values(s, xs[j], false, smp[j + 1]);
+      model.values(s, b, stations[k + 1].after, smp[kDegree]);
+      for (int q = 0; q < 2; ++q) {
+        pc.poly[q].resize(nu);
+        pc.zeros[q].assign(nu, {});
+        pc.have_zeros[q].assign(nu, 0);
+        const M::What w = q == 0 ? M::kMoment : M::kDeflection;
+        for (std::size_t u = 0; u < nu; ++u) {
+          std::array<double, kDegree - 1> inner{};
+          for (std::size_t j = 0; j < inner.size(); ++j) inner[j] = quantity(smp[j + 1][u], w);
+          pc.poly[q][u] = interpolate(quantity(smp[0][u], w), inner, quantity(smp[kDegree][u], w));
+        }
+      }
+      for (int t = 0; t < 4; ++t) {
+        const int q = t / 2;
+        const int k2 = t % 2;
+        const double sign = k2 == 0 ? 1.0 : -1.0;
+        Best& bt = best[static_cast<std::size_t>(t)];
+        // The upper bound of each unit's sign * (factor * value) on the piece.
+        std::pair<double, double> found{0.0, 0.0};
+        bool any = false;
+        for (const auto& units : walks) {
+          double bound = 0;
+          for (std::size_t u : units) {
+            const auto rg = range_of(pc.poly[q][u]);
+            const Factors& f = fac[k2][u];
+            bound += std::max({sign * f.pos * rg.second, sign * f.neg * rg.first, sign * f.pos * rg.first,
+                               sign * f.neg * rg.second});
+          }
+          if (!(bound > sign * bt.value)) continue;
+          const auto m = walk(pc, q, units, fac[k2], sign);
+          if (!any || m.first > found.first) { found = m; any = true; }
+        }
+        if (!any || !(found.first > sign * bt.value)) continue;
+        // The envelope itself at that point, from the units, and what governs it.
+        const double x = 0.5 * (a + b) + 0.5 * (b - a) * found.second;
+        model.values(s, x, false, pv);
+        for (std::size_t u = 0; u < nu; ++u) g[u] = quantity(pv[u], q == 0 ? M::kMoment : M::kDeflection);
+        M::Choice c;
+        const double v = model.extreme(g, sign > 0, &c);
+        if (sign * v > sign * bt.value) bt = {v, x, describe(model.governs(c), model.comb)};
+      }
+    }
+    SpanExtremes& e = out[s];
+    e.max_moment = best[0].value; e.max_moment_x = x0 + best[0].local; e.max_moment_by = best[0].by;
+    e.min_moment = best[1].value; e.min_moment_x = x0 + best[1].local; e.min_moment_by = best[1].by;
+    const Best& d = std::abs(best[2].value) >= std::abs(best[3].value) ? best[2] : best[3];
+    e.max_deflection = d.value; e.max_deflection_x = x0 + d.local; e.max_deflection_by = d.by;
+    x0 += full.spans[s].length;
   }
 }
 
@@ -363,37 +523,20 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
     r.equilibrium.moment_residual = std::max(r.equilibrium.moment_residual, e.moment_residual);
   }
 
-  // The envelope at the stations, and the one-sided slope of each target's
-  // bound there (from the governing arrangement's shear or rotation).
+  // The envelope at the stations.
   Envelope env;
   const std::size_t ns = stations.size(), nu = model->units.size();
   env.moment.reserve(ns);
   env.shear.reserve(ns);
   env.deflection.reserve(ns);
-  std::array<std::vector<double>, kTargets.size()> slopes;
-  for (auto& s : slopes) s.resize(ns);
   std::vector<PointValues> pv;
   std::vector<double> g(nu);
-  M::Choice choice;
   for (std::size_t i = 0; i < ns; ++i) {
     const Station& st = stations[i];
     model->values(st.span, st.local, st.after, pv);
     for (M::What w : {M::kMoment, M::kShear, M::kDeflection}) {
       for (std::size_t u = 0; u < nu; ++u) g[u] = quantity(pv[u], w);
-      Bound b;
-      M::Choice lo;
-      b.max = model->extreme(g, true, &choice);
-      b.min = model->extreme(g, false, &lo);
-      b.max_by = model->governs(choice);
-      b.min_by = model->governs(lo);
-      for (std::size_t t = 0; t < kTargets.size(); ++t) {
-        if (kTargets[t].what != w) continue;
-        const M::Choice& c = kTargets[t].want_max ? choice : lo;
-        double sl = 0;
-        for (std::size_t u = 0; u < nu; ++u) sl += c[u] * slope(pv[u], w);
-        slopes[t][i] = sl;
-      }
-      (w == M::kMoment ? env.moment : w == M::kShear ? env.shear : env.deflection).push_back(std::move(b));
+      (w == M::kMoment ? env.moment : w == M::kShear ? env.shear : env.deflection).push_back(model->combine(g));
     }
   }
   for (std::size_t j = 0; j < full.node_count(); ++j) env.reaction.push_back(model->reaction(j));
@@ -407,62 +550,7 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
     r.reason = "the method produced a non-finite number";
     return;
   }
-
-  // This method's span extremes of its envelope: the best station, then
-  // each piece next to it and each piece whose ends slope towards an
-  // extreme inside it, refined exactly.
-  r.extremes.assign(full.spans.size(), {});
-  std::size_t i = 0;
-  double x0 = 0;
-  for (std::size_t s = 0; s < full.spans.size(); ++s) {
-    const std::size_t begin = i;
-    while (i < ns && stations[i].span == s) ++i;
-    const std::size_t end = i;
-    if (end == begin) { x0 += full.spans[s].length; continue; }
-    std::array<Best, kTargets.size()> best;
-    std::array<std::size_t, kTargets.size()> at_station{};
-    for (std::size_t t = 0; t < kTargets.size(); ++t) {
-      const auto& v = kTargets[t].what == M::kMoment ? env.moment : env.deflection;
-      for (std::size_t k = begin; k < end; ++k) {
-        const double x = kTargets[t].want_max ? v[k].max : v[k].min;
-        if (k == begin || (kTargets[t].want_max ? x > best[t].value : x < best[t].value)) {
-          best[t].value = x;
-          best[t].local = stations[k].local;
-          at_station[t] = k;
-        }
-      }
-      const Bound& bd = v[at_station[t]];
-      best[t].by = describe(kTargets[t].want_max ? bd.max_by : bd.min_by, comb);
-    }
-    Piece pc;
-    for (std::size_t k = begin; k + 1 < end; ++k) {
-      const double a = stations[k].local, b = stations[k + 1].local;
-      if (!(b > a)) continue;
-      std::array<bool, kTargets.size()> go{};
-      bool any = false;
-      for (std::size_t t = 0; t < kTargets.size(); ++t) {
-        const double sign = kTargets[t].want_max ? 1.0 : -1.0;
-        const bool next_to_best = same(stations[at_station[t]].local, a) || same(stations[at_station[t]].local, b);
-        go[t] = next_to_best || (sign * slopes[t][k] > 0 && sign * slopes[t][k + 1] < 0);
-        any = any || go[t];
-      }
-      if (!any) continue;
-      pc.a = a;
-      pc.b = b;
-      model->values(s, a, stations[k].after, pc.ga);
-      model->values(s, b, stations[k + 1].after, pc.gb);
-      const auto xs = sample_points(a, b);
-      for (std::size_t j = 0; j < xs.size(); ++j) model->values(s, xs[j], false, pc.inner[j]);
-      for (std::size_t t = 0; t < kTargets.size(); ++t)
-        if (go[t]) refine(*model, s, pc, kTargets[t], best[t]);
-    }
-    SpanExtremes& e = r.extremes[s];
-    e.max_moment = best[0].value; e.max_moment_x = x0 + best[0].local; e.max_moment_by = best[0].by;
-    e.min_moment = best[1].value; e.min_moment_x = x0 + best[1].local; e.min_moment_by = best[1].by;
-    const Best& d = std::abs(best[2].value) >= std::abs(best[3].value) ? best[2] : best[3];
-    e.max_deflection = d.value; e.max_deflection_x = x0 + d.local; e.max_deflection_by = d.by;
-    x0 += full.spans[s].length;
-  }
+  envelope_extremes(*model, full, stations, env, r.extremes);
   r.envelope = std::move(env);
   r.envelope_model = model;
 }
@@ -671,8 +759,11 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     }
   }
 
-  // Each arrangement solved directly by every method, as an ordinary load set.
-  std::vector<std::vector<Solution>> solved(choices.size());
+  // Each arrangement solved directly by every method, as an ordinary load
+  // set, and read at the points it governs (one solution at a time).
+  std::vector<std::vector<std::size_t>> uses(choices.size());
+  for (std::size_t i = 0; i < items.size(); ++i) uses[items[i].arrangement].push_back(i);
+  for (auto& it : items) it.check.holds = true;
   for (std::size_t k = 0; k < choices.size(); ++k) {
     const Beam b = model.arrangement_beam(choices[k]);
     const std::vector<Station> st = build_stations(b, 1);
@@ -684,38 +775,40 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
         sol.status = MethodStatus::Failed;
         sol.reason = std::string("internal error: ") + e.what();
       }
-      solved[k].push_back(std::move(sol));
+      const bool ok = sol.status == MethodStatus::Ok && sol.at && sol.nodes.size() == beam.node_count();
+      for (std::size_t i : uses[k]) {
+        Item& it = items[i];
+        RouteCheck& rc = it.check;
+        if (!ok) {
+          if (sol.status != MethodStatus::NotApplicable) rc.holds = false;
+          continue;
+        }
+        double v;
+        if (it.node) {
+          v = sol.nodes[it.index].reaction_force;
+        } else {
+          // At a point force or couple the value reported may be either
+          // limit: the nearer one is the value the arrangement has there.
+          const double l = quantity(sol.at(it.index, it.local, false), it.what);
+          const double r = quantity(sol.at(it.index, it.local, true), it.what);
+          v = std::abs(l - rc.envelope) <= std::abs(r - rc.envelope) ? l : r;
+        }
+        rc.values.emplace_back(m->name, v);
+        const double sc = set.scale[static_cast<int>(it.kind)];
+        const double d = sc > 0 ? std::abs(v - rc.envelope) / sc : std::abs(v - rc.envelope);
+        rc.difference = std::max(rc.difference, d);
+      }
     }
   }
-  const RouteCheck* worst = nullptr;
+  set.second_route.reserve(items.size());
   for (auto& it : items) {
     RouteCheck& rc = it.check;
-    const double sc = set.scale[static_cast<int>(it.kind)];
-    rc.holds = true;
-    for (std::size_t mi = 0; mi < methods.size(); ++mi) {
-      const Solution& sol = solved[it.arrangement][mi];
-      if (sol.status != MethodStatus::Ok || !sol.at || sol.nodes.size() != beam.node_count()) {
-        if (sol.status != MethodStatus::NotApplicable) rc.holds = false;
-        continue;
-      }
-      double v;
-      if (it.node) {
-        v = sol.nodes[it.index].reaction_force;
-      } else {
-        // At a point force or couple the value reported may be either
-        // limit: the nearer one is the value the arrangement has there.
-        const double l = quantity(sol.at(it.index, it.local, false), it.what);
-        const double r = quantity(sol.at(it.index, it.local, true), it.what);
-        v = std::abs(l - rc.envelope) <= std::abs(r - rc.envelope) ? l : r;
-      }
-      rc.values.emplace_back(methods[mi]->name, v);
-      const double d = sc > 0 ? std::abs(v - rc.envelope) / sc : std::abs(v - rc.envelope);
-      rc.difference = std::max(rc.difference, d);
-    }
     if (rc.values.empty() || !(rc.difference <= agreement)) rc.holds = false;
-    if (!rc.holds && (!worst || rc.difference > worst->difference)) worst = &rc;
-    set.second_route.push_back(rc);
+    set.second_route.push_back(std::move(rc));
   }
+  const RouteCheck* worst = nullptr;
+  for (const auto& rc : set.second_route)
+    if (!rc.holds && (!worst || rc.difference > worst->difference)) worst = &rc;
   if (worst) {
     set.verdict = Verdict::Disagree;
     std::string vals;

@@ -18,18 +18,31 @@ double eval(const std::vector<double>& c, double t) {
 bool is_zero(double v) { return !(std::abs(v) > 0); }
 bool opposite(double a, double b) { return (a > 0 && b < 0) || (a < 0 && b > 0); }
 
-// The zero of p in [u, v], where p(u) and p(v) have opposite signs, by
-// bisection: always converges, to the resolution of the doubles.
-double bisect(const std::vector<double>& c, double u, double v, double pu) {
+// The zero of p in [u, v], where p(u) and p(v) have opposite signs (neither
+// zero), by the Illinois variant of regula falsi: the bracket shrinks at
+// every step, a step outside it is replaced by bisection, and a step that
+// lands on the zero returns it. Always converges, to the resolution of the
+// doubles in t (|t| <= 1 here).
+double bracketed_zero(const std::vector<double>& c, double u, double v, double pu, double pv) {
+  int side = 0;
   for (int it = 0; it < 200; ++it) {
-    const double m = 0.5 * (u + v);
-    if (!(m > u && m < v)) break;
-    const double pm = eval(c, m);
-    if (is_zero(pm)) return m;
-    if (opposite(pm, pu)) v = m;
-    else { u = m; pu = pm; }
+    double w = (u * pv - v * pu) / (pv - pu);
+    if (!(w > u && w < v)) w = 0.5 * (u + v);
+    if (!(w > u && w < v)) break;  // no double left between u and v
+    const double pw = eval(c, w);
+    if (is_zero(pw)) return w;
+    if (opposite(pw, pu)) {
+      v = w; pv = pw;
+      if (side == -1) pu *= 0.5;
+      side = -1;
+    } else {
+      u = w; pu = pw;
+      if (side == +1) pv *= 0.5;
+      side = +1;
+    }
+    if (v - u <= 1e-15) break;
   }
-  return 0.5 * (u + v);
+  return std::abs(pu) <= std::abs(pv) ? u : v;
 }
 
 }  // namespace
@@ -42,6 +55,18 @@ std::vector<double> polynomial_zeros(const std::vector<double>& coefficients, do
   if (c.size() == 2) {
     const double t = -c[0] / c[1];
     if (t >= lo && t <= hi) out.push_back(t);
+    return out;
+  }
+  if (c.size() == 3) {
+    // A quadratic in closed form (the stable pair of formulas). A double
+    // zero (no sign change) counts only where the discriminant is exactly 0.
+    const double disc = c[1] * c[1] - 4 * c[2] * c[0];
+    if (disc < 0) return out;
+    const double q = -0.5 * (c[1] + std::copysign(std::sqrt(disc), c[1]));
+    double t1 = q / c[2], t2 = is_zero(q) ? t1 : c[0] / q;
+    if (t2 < t1) std::swap(t1, t2);
+    if (t1 >= lo && t1 <= hi) out.push_back(t1);
+    if (t2 >= lo && t2 <= hi && (out.empty() || t2 > out.back())) out.push_back(t2);
     return out;
   }
   // Between consecutive zeros of p' the polynomial is monotone.
@@ -58,7 +83,7 @@ std::vector<double> polynomial_zeros(const std::vector<double>& coefficients, do
     const double u = cuts[i], v = cuts[i + 1];
     const double pu = eval(c, u), pv = eval(c, v);
     if (is_zero(pu)) add(u);  // a zero at the end of a bracket counts
-    if (opposite(pu, pv)) add(bisect(c, u, v, pu));
+    if (opposite(pu, pv)) add(bracketed_zero(c, u, v, pu, pv));
   }
   if (is_zero(eval(c, hi))) add(hi);
   return out;
@@ -71,38 +96,90 @@ std::array<double, kDegree - 1> sample_points(double a, double b) {
   return x;
 }
 
+namespace {
+
+// The inverse of the Vandermonde matrix at the Chebyshev-Lobatto points
+// t_j = -cos(pi j / kDegree), j = 0..kDegree: coefficients = inv * values.
+// Gaussian elimination with partial pivoting, once (6 x 6, well conditioned).
+struct InverseVandermonde {
+  double m[kDegree + 1][kDegree + 1];
+  InverseVandermonde() {
+    constexpr int n = kDegree + 1;
+    double A[n][2 * n];
+    for (int j = 0; j < n; ++j) {
+      const double t = -std::cos(kPi * j / kDegree);
+      double p = 1;
+      for (int k = 0; k < n; ++k) { A[j][k] = p; p *= t; }
+      for (int k = 0; k < n; ++k) A[j][n + k] = j == k ? 1.0 : 0.0;
+    }
+    for (int col = 0; col < n; ++col) {
+      int piv = col;
+      for (int r = col + 1; r < n; ++r)
+        if (std::abs(A[r][col]) > std::abs(A[piv][col])) piv = r;
+      if (piv != col)
+        for (int k = 0; k < 2 * n; ++k) std::swap(A[piv][k], A[col][k]);
+      const double d = A[col][col];
+      for (int k = 0; k < 2 * n; ++k) A[col][k] /= d;
+      for (int r = 0; r < n; ++r) {
+        if (r == col) continue;
+        const double f = A[r][col];
+        for (int k = 0; k < 2 * n; ++k) A[r][k] -= f * A[col][k];
+      }
+    }
+    for (int r = 0; r < n; ++r)
+      for (int k = 0; k < n; ++k) m[r][k] = A[r][n + k];
+  }
+};
+
+const InverseVandermonde& inverse_vandermonde() {
+  static const InverseVandermonde v;
+  return v;
+}
+
+}  // namespace
+
+Poly interpolate(double fa, const std::array<double, kDegree - 1>& inner, double fb) {
+  const auto& V = inverse_vandermonde();
+  std::array<double, kDegree + 1> y{};
+  y[0] = fa;
+  for (std::size_t j = 0; j < inner.size(); ++j) y[j + 1] = inner[j];
+  y[kDegree] = fb;
+  Poly c{};
+  for (int r = 0; r <= kDegree; ++r) {
+    double s = 0;
+    for (int k = 0; k <= kDegree; ++k) s += V.m[r][k] * y[static_cast<std::size_t>(k)];
+    c[static_cast<std::size_t>(r)] = s;
+  }
+  return c;
+}
+
+double evaluate(const Poly& p, double t) {
+  double v = 0;
+  for (std::size_t k = p.size(); k-- > 0;) v = v * t + p[k];
+  return v;
+}
+
+std::pair<double, double> largest(const Poly& p, double t0, double t1, double sign) {
+  double best = sign * evaluate(p, t0), at = t0;
+  const double e1 = sign * evaluate(p, t1);
+  if (e1 > best) { best = e1; at = t1; }
+  std::vector<double> d(p.size() - 1);
+  for (std::size_t k = 1; k < p.size(); ++k) d[k - 1] = static_cast<double>(k) * p[k];
+  for (double t : polynomial_zeros(d, t0, t1)) {
+    const double e = sign * evaluate(p, t);
+    if (e > best) { best = e; at = t; }
+  }
+  return {best, at};
+}
+
 void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
                     std::vector<double>& out) {
-  if (!(b > a)) return;
+  if (!(b > a) || !std::isfinite(fa) || !std::isfinite(fb)) return;
+  for (double v : inner)
+    if (!std::isfinite(v)) return;
+  const Poly p = interpolate(fa, inner, fb);
+  std::vector<double> c(p.begin(), p.end());
   constexpr int n = kDegree + 1;
-  // The interpolation in t = (x - m) / h on [-1, 1]: solve the Vandermonde
-  // system by Gaussian elimination with partial pivoting (6 x 6, well
-  // conditioned at the Chebyshev-Lobatto points).
-  double A[n][n + 1];
-  for (int j = 0; j < n; ++j) {
-    const double t = -std::cos(kPi * j / kDegree);
-    double p = 1;
-    for (int k = 0; k < n; ++k) { A[j][k] = p; p *= t; }
-    A[j][n] = j == 0 ? fa : j == kDegree ? fb : inner[static_cast<std::size_t>(j - 1)];
-    if (!std::isfinite(A[j][n])) return;
-  }
-  for (int col = 0; col < n; ++col) {
-    int piv = col;
-    for (int r = col + 1; r < n; ++r)
-      if (std::abs(A[r][col]) > std::abs(A[piv][col])) piv = r;
-    if (piv != col)
-      for (int k = 0; k <= n; ++k) std::swap(A[piv][k], A[col][k]);
-    for (int r = col + 1; r < n; ++r) {
-      const double f = A[r][col] / A[col][col];
-      for (int k = col; k <= n; ++k) A[r][k] -= f * A[col][k];
-    }
-  }
-  std::vector<double> c(n);
-  for (int r = n - 1; r >= 0; --r) {
-    double s = A[r][n];
-    for (int k = r + 1; k < n; ++k) s -= A[r][k] * c[static_cast<std::size_t>(k)];
-    c[static_cast<std::size_t>(r)] = s / A[r][r];
-  }
   // Drop coefficients that are rounding noise of the values, so a quadratic
   // is not given spurious turning points by 1e-17 cubic terms (harmless, as
   // every candidate is evaluated, but wasted work).

@@ -9,8 +9,8 @@
 // the interpolating polynomial, and the zeros of its derivative by
 // recursion on the derivatives (between two consecutive zeros of p' a
 // polynomial p is monotone, so a sign change there holds exactly one zero,
-// found by bisection, which always converges; a zero at an end of a bracket
-// counts). Nothing is stepped or sampled, so no turning point is missed,
+// found by a bracketed search that always converges; a zero at an end of a
+// bracket counts). Nothing is stepped or sampled, so no turning point is missed,
 // whatever the number of stations.
 //
 // This code is shared by the answers of all three methods (each method's
@@ -23,7 +23,7 @@
 
 #include <array>
 #include <cstddef>
-#include <functional>
+#include <utility>
 #include <vector>
 
 namespace trivet::compare {
@@ -41,6 +41,17 @@ std::array<double, kDegree - 1> sample_points(double a, double b);
 // (b, fb) vanishes: the candidates for a turning point. Appends to `out`.
 void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
                     std::vector<double>& out);
+
+// A polynomial of degree <= kDegree on a piece [a, b], in t = (x - m) / h
+// (m the middle, h the half length, so t in [-1, 1]); c[k] multiplies t^k.
+using Poly = std::array<double, kDegree + 1>;
+// The polynomial through fa (t = -1), the interior samples (in the order
+// of sample_points) and fb (t = +1).
+Poly interpolate(double fa, const std::array<double, kDegree - 1>& inner, double fb);
+double evaluate(const Poly& p, double t);
+// The largest value of sign * p(t) on [t0, t1] (sign +1 or -1), and where:
+// at an end or at a zero of p' inside.
+std::pair<double, double> largest(const Poly& p, double t0, double t1, double sign);
 
 // The real zeros in [lo, hi] of the polynomial sum c[k] t^k (any degree),
 // in increasing order. Exposed for the tests.

@@ -1000,7 +1000,22 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam) {
     const R force = sums.force - react_force, moment = load_moment - react_moment;
     const R length = sol.nodes[n].x;
     const R tol = sqrt(std::numeric_limits<R>::epsilon());
-    const R fscale = scale + mscale / length;  // couples count as forces over the beam's length
+    // The end forces the displacements alone make (k u, term by term) are
+    // counted too: a beam moved without bending (a settlement of a
+    // statically determinate beam) has reactions of rounding size only,
+    // and their rounding is measured against these, not against themselves.
+    R moved(0);
+    for (std::size_t i = 0; i < n; ++i) {
+      const SpanState<R>& sp = st->spans[i];
+      const R k3 = sp.EI / (sp.L * sp.L * sp.L), k2 = sp.EI / (sp.L * sp.L);
+      moved += R(12) * k3 * (abs(sp.v0) + abs(sp.v1)) + R(6) * k2 * (abs(sp.th0) + abs(sp.th1));
+    }
+    for (std::size_t i = 0; i <= n; ++i) {
+      const BasicSupport<R>& sp = beam.supports[i];
+      if (sp.type == SupportType::Spring)
+        moved += sp.k * (abs(sol.nodes[i].deflection) + abs(sp.settlement)) + sp.kr * abs(sol.nodes[i].rotation_left) / length;
+    }
+    const R fscale = scale + mscale / length + moved;  // couples count as forces over the beam's length
     if (tol * fscale < abs(force))
       return failed<R>("equilibrium residual in force exceeds sqrt(epsilon) of the loads");
     if (tol * fscale * length < abs(moment))
