@@ -172,8 +172,8 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
           t.rows.push_back({"  ... " + std::to_string(n - opt.max_rows) + " nodes not shown ..."});
           i = n - opt.max_rows / 2;
         }
-        t.rows.push_back({set.beam.labels[i], fixed(e.reaction[i].max, dr), describe(e.reaction[i].max_by, cb),
-                          fixed(e.reaction[i].min, dr), describe(e.reaction[i].min_by, cb)});
+        t.rows.push_back({set.beam.labels[i], fixed(e.reaction[i].max, dr), describe(governs_of(e.reaction[i].max_by), cb),
+                          fixed(e.reaction[i].min, dr), describe(governs_of(e.reaction[i].min_by), cb)});
       }
       t.print(out, "  ");
       Table x;

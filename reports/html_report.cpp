@@ -347,8 +347,8 @@ struct Writer {
         if (!(restrains_deflection(sup.type) || sup.type == SupportType::Spring)) continue;
         o << "<tr><td>" << html_escape(i < beam.labels.size() ? beam.labels[i] : input::default_label(i))
           << "</td><td class=\"n\">" << fixed(node_x[i], dx) << "</td><td class=\"n\">" << fixed(re[i].max, dr)
-          << "</td><td>" << governs(re[i].max_by) << "</td><td class=\"n\">" << fixed(re[i].min, dr) << "</td><td>"
-          << governs(re[i].min_by) << "</td></tr>\n";
+          << "</td><td>" << governs(governs_of(re[i].max_by)) << "</td><td class=\"n\">" << fixed(re[i].min, dr) << "</td><td>"
+          << governs(governs_of(re[i].min_by)) << "</td></tr>\n";
       }
       o << "</table>\n";
     }

@@ -113,12 +113,12 @@ void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
     w.member("deflection_min", e.deflection[i].min);
     w.key("governs");
     w.begin_object(true);
-    governs(w, "moment_max", e.moment[i].max_by, c);
-    governs(w, "moment_min", e.moment[i].min_by, c);
-    governs(w, "shear_max", e.shear[i].max_by, c);
-    governs(w, "shear_min", e.shear[i].min_by, c);
-    governs(w, "deflection_max", e.deflection[i].max_by, c);
-    governs(w, "deflection_min", e.deflection[i].min_by, c);
+    governs(w, "moment_max", governs_of(e.moment[i].max_by), c);
+    governs(w, "moment_min", governs_of(e.moment[i].min_by), c);
+    governs(w, "shear_max", governs_of(e.shear[i].max_by), c);
+    governs(w, "shear_min", governs_of(e.shear[i].min_by), c);
+    governs(w, "deflection_max", governs_of(e.deflection[i].max_by), c);
+    governs(w, "deflection_min", governs_of(e.deflection[i].min_by), c);
     w.end_object();
     w.end_object();
   }
@@ -133,8 +133,8 @@ void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
     w.member("reaction_min", e.reaction[i].min);
     w.key("governs");
     w.begin_object(true);
-    governs(w, "reaction_max", e.reaction[i].max_by, c);
-    governs(w, "reaction_min", e.reaction[i].min_by, c);
+    governs(w, "reaction_max", governs_of(e.reaction[i].max_by), c);
+    governs(w, "reaction_min", governs_of(e.reaction[i].min_by), c);
     w.end_object();
     w.end_object();
   }

@@ -162,7 +162,7 @@ TEST(Envelope, AllEqualsBruteForceOnRandomBeams) {
     // envelope value (maximum and minimum).
     for (std::size_t probe = 0; probe < env->stations.size(); ++probe) {
       for (int want_max = 0; want_max < 2; ++want_max) {
-        const Governs& g = want_max ? e.moment[probe].max_by : e.moment[probe].min_by;
+        const Governs& g = governs_of(want_max ? e.moment[probe].max_by : e.moment[probe].min_by);
         Beam b = f.beam;
         b.loads.clear();
         for (const auto& l : f.beam.loads) {

@@ -624,6 +624,7 @@ void finish(BeamResult& out, const input::BeamFile& file) {
 
 // Stations from which a load set's methods run side by side.
 constexpr std::size_t kParallelStations = 20000;
+constexpr std::size_t kParallelEnvelopeSpans = 100;
 
 }  // namespace
 
@@ -721,7 +722,9 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
     // already checks beams of its own, one after the other. The order of
     // the results is the order of the methods either way.
     std::vector<std::future<MethodResult>> later(chosen.size());
-    if (set.stations.size() >= kParallelStations)
+    // An envelope costs about its spans times a plain load set: from
+    // kParallelEnvelopeSpans spans its methods run side by side too.
+    if (set.stations.size() >= kParallelStations || (set.envelope && set.beam.spans.size() >= kParallelEnvelopeSpans))
       for (std::size_t k = 1; k < chosen.size(); ++k) {
         try {
           later[k] = std::async(std::launch::async, run_method, chosen[k]);

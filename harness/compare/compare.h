@@ -66,8 +66,11 @@ struct Governs {
 // arrangements and factor choices, with what governs each.
 struct Bound {
   double max = 0, min = 0;
-  Governs max_by, min_by;
+  // Shared: many points of an envelope have the same governing arrangement.
+  std::shared_ptr<const Governs> max_by, min_by;
 };
+// What governs a bound (an empty Governs where nothing was recorded).
+const Governs& governs_of(const std::shared_ptr<const Governs>& g);
 
 // Envelope of one method for a combination with a pattern or a factor
 // range: per station (moment, shear, deflection) and per node (reaction).

@@ -18,9 +18,6 @@ namespace {
 
 bool nonzero(double v) { return std::abs(v) > 0; }
 bool same(double a, double b) { return !(a < b) && !(b < a); }
-bool same_choice(const EnvelopeModel::Choice& a, const EnvelopeModel::Choice& b) {
-  return a.size() == b.size() && std::equal(a.begin(), a.end(), b.begin(), same);
-}
 
 }  // namespace
 
@@ -61,20 +58,20 @@ double EnvelopeModel::extreme(const std::vector<double>& g, bool want_max, Choic
   }
   // Named arrangements: the shares that are not patterned pick their best;
   // each span's patterned shares are on or off together.
-  double base = 0;
+  double fixed_part = 0;
   std::vector<double> on(spans, 0.0);
   for (std::size_t u = 0; u < units.size(); ++u) {
     const double v = pick(u, g[u], want_max, false, &f);
     if (units[u].patterned) on[units[u].span] += v;
     else {
-      base += v;
+      fixed_part += v;
       if (choice) (*choice)[u] = f;
     }
   }
   std::size_t best_a = 0;
   double best = 0;
   for (std::size_t a = 0; a < arrangements.size(); ++a) {
-    double v = base;
+    double v = fixed_part;
     for (std::size_t s : arrangements[a]) v += on[s];
     if (a == 0 || (want_max ? v > best : v < best)) { best = v; best_a = a; }
   }
@@ -106,7 +103,7 @@ Governs EnvelopeModel::governs(const Choice& c) const {
     else if (fixed[k] == 2 && !same(gv.factors[k], c[u])) gv.spans_other_factor.push_back(units[u].span);
   }
   auto tidy = [](std::vector<std::size_t>& v) {
-    std::sort(v.begin(), v.end());
+    if (!std::is_sorted(v.begin(), v.end())) std::sort(v.begin(), v.end());
     v.erase(std::unique(v.begin(), v.end()), v.end());
   };
   tidy(gv.spans);
@@ -114,13 +111,37 @@ Governs EnvelopeModel::governs(const Choice& c) const {
   return gv;
 }
 
-Bound EnvelopeModel::combine(const std::vector<double>& g) const {
+const Governs& governs_of(const std::shared_ptr<const Governs>& g) {
+  static const Governs none;
+  return g ? *g : none;
+}
+
+namespace {
+bool same_governs(const Governs& a, const Governs& b) {
+  return a.spans == b.spans && a.spans_other_factor == b.spans_other_factor && a.factors.size() == b.factors.size() &&
+         std::equal(a.factors.begin(), a.factors.end(), b.factors.begin(), same);
+}
+}  // namespace
+
+std::shared_ptr<const Governs> EnvelopeModel::intern(Governs g, Interned* pool) const {
+  if (!pool) return std::make_shared<const Governs>(std::move(g));
+  // The pool is keyed by the loaded spans' count and first span; the few
+  // arrangements under one key are compared whole.
+  const std::pair<std::size_t, std::size_t> key{g.spans.size(), g.spans.empty() ? 0 : g.spans.front()};
+  auto& bucket = (*pool)[key];
+  for (const auto& p : bucket)
+    if (same_governs(*p, g)) return p;
+  bucket.push_back(std::make_shared<const Governs>(std::move(g)));
+  return bucket.back();
+}
+
+Bound EnvelopeModel::combine(const std::vector<double>& g, Interned* pool) const {
   Bound b;
   Choice hi, lo;
   b.max = extreme(g, true, &hi);
   b.min = extreme(g, false, &lo);
-  b.max_by = governs(hi);
-  b.min_by = governs(lo);
+  b.max_by = intern(governs(hi), pool);
+  b.min_by = intern(governs(lo), pool);
   return b;
 }
 
@@ -140,25 +161,29 @@ Bound EnvelopeModel::at(std::size_t span, double local, bool after, What what) c
 
 Bound EnvelopeModel::reaction(std::size_t node) const {
   std::vector<double> g(units.size());
-  for (std::size_t u = 0; u < units.size(); ++u) g[u] = units[u].solution.nodes[node].reaction_force;
+  for (std::size_t u = 0; u < units.size(); ++u) g[u] = units[u].reactions[node];
   return combine(g);
 }
 
 Beam EnvelopeModel::arrangement_beam(const Choice& c) const {
-  Beam b = units.front().beam;
-  b.loads.clear();
-  for (auto& s : b.supports) { s.settlement = 0; s.settlement_case.clear(); }
+  Beam b = base;
   for (std::size_t u = 0; u < units.size() && u < c.size(); ++u) {
     const double f = c[u];
     if (!nonzero(f)) continue;
-    for (const auto& l : units[u].beam.loads) {
+    for (const auto& l : units[u].loads) {
       Load s = l;
       s.P *= f; s.C *= f; s.w1 *= f; s.w2 *= f;
       b.loads.push_back(s);
     }
-    if (units[u].patterned) continue;  // a span's share carries no settlement
-    for (std::size_t i = 0; i < b.supports.size(); ++i) b.supports[i].settlement += f * units[u].beam.supports[i].settlement;
+    for (const auto& [i, d] : units[u].settlements) b.supports[i].settlement += f * d;
   }
+  return b;
+}
+
+Beam EnvelopeModel::unit_beam(std::size_t u) const {
+  Beam b = base;
+  b.loads = units[u].loads;
+  for (const auto& [i, d] : units[u].settlements) b.supports[i].settlement = d;
   return b;
 }
 
@@ -230,11 +255,16 @@ struct Best {
 // One piece [a, b] of a span between consecutive stations, and each unit's
 // moment and deflection on it as polynomials (extremes.h): exact, as no
 // point force or couple acts inside and the distributed loads are linear.
+struct Zeros {
+  std::array<double, kDegree> t{};  // a polynomial of degree kDegree has at most kDegree zeros
+  int count = -1;                   // -1: not found yet
+};
 struct Piece {
   double a = 0, b = 0;
-  std::vector<Poly> poly[2];  // [0] moment, [1] deflection; one per unit
-  std::vector<std::vector<double>> zeros[2];  // each unit's zeros in (-1, 1), found when first asked
-  std::vector<char> have_zeros[2];
+  std::vector<Poly> poly[2];   // [0] moment, [1] deflection; one per unit
+  std::vector<double> size[2]; // a bound on each unit's |value| on the piece
+  std::vector<Zeros> zeros[2]; // each unit's zeros in (-1, 1), found when first asked
+  double negligible[2] = {0, 0};  // below this a unit's kinks are rounding (see walk)
 };
 
 // The factor a unit takes where its value is positive (pos) and where it
@@ -274,9 +304,10 @@ std::pair<double, double> range_of(const Poly& p) {
 // where it is negative; factors[u]). Exact: between consecutive zeros of
 // the units whose factor changes with the sign (the kinks of E), E is one
 // polynomial, whose largest value is at an end or a zero of its derivative.
-// Returns (largest sign * E, t).
+// Sub-pieces that cannot beat `floor` (the best value so far, times sign)
+// are skipped. Returns (largest sign * E, t).
 std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>& units,
-                               const std::vector<Factors>& factors, double sign) {
+                               const std::vector<Factors>& factors, double sign, double floor) {
   // The cuts: (t, unit, the middle of the unit's stretch after t, before
   // its next zero). A unit's sign is read in the middle of its own stretch
   // between its zeros, never near a zero of another unit, where a tiny
@@ -290,18 +321,23 @@ std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>&
   std::vector<double> first_mid(pc.poly[q].size(), 0.0);
   for (std::size_t u : units) {
     if (same(factors[u].pos, factors[u].neg)) continue;  // no kink
+    // A unit whose whole value on the piece is below rounding of the sum
+    // (far spans: influence decays span by span) changes the sum by less
+    // than its rounding wherever it switches: its kinks are not cut.
+    if (pc.size[q][u] <= pc.negligible[q]) continue;
     const Poly& p = pc.poly[q][u];
     const auto rg = range_of(p);
     if (rg.first > 0 || rg.second < 0) continue;  // no zero on the piece
-    if (!pc.have_zeros[q][u]) {
+    Zeros& z = pc.zeros[q][u];
+    if (z.count < 0) {
+      z.count = 0;
       for (double t : polynomial_zeros(std::vector<double>(p.begin(), p.end()), -1.0, 1.0))
-        if (t > -1.0 && t < 1.0) pc.zeros[q][u].push_back(t);
-      pc.have_zeros[q][u] = 1;
+        if (t > -1.0 && t < 1.0 && z.count < kDegree) z.t[static_cast<std::size_t>(z.count++)] = t;
     }
-    const auto& z = pc.zeros[q][u];
-    if (!z.empty()) first_mid[u] = 0.5 * (-1.0 + z.front());
-    for (std::size_t k = 0; k < z.size(); ++k)
-      cuts.push_back({z[k], u, 0.5 * (z[k] + (k + 1 < z.size() ? z[k + 1] : 1.0))});
+    const std::size_t nz = static_cast<std::size_t>(z.count);
+    if (nz > 0) first_mid[u] = 0.5 * (-1.0 + z.t[0]);
+    for (std::size_t k = 0; k < nz; ++k)
+      cuts.push_back({z.t[k], u, 0.5 * (z.t[k] + (k + 1 < nz ? z.t[k + 1] : 1.0))});
   }
   std::sort(cuts.begin(), cuts.end(), [](const Cut& x, const Cut& y) { return x.t < y.t; });
   std::vector<double> ts{-1.0};
@@ -328,24 +364,34 @@ std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>&
       take(cuts[c].u, cuts[c].mid_after);
       ++c;
     }
+    // A rigorous bound first: sign * sum at the middle plus the largest
+    // slope on [-1, 1] times the half width. A sub-piece that cannot beat
+    // the best so far is not searched.
+    const double mid = 0.5 * (ts[i] + ts[i + 1]), half = 0.5 * (ts[i + 1] - ts[i]);
+    double slope = 0;
+    for (std::size_t k = 1; k < sum.size(); ++k) slope += static_cast<double>(k) * std::abs(sum[k]);
+    if (!first && !(sign * evaluate(sum, mid) + slope * half > std::max(best.first, floor))) continue;
     const auto m = largest(sum, ts[i], ts[i + 1], sign);
     if (first || m.first > best.first) { best = m; first = false; }
   }
   return best;
 }
 
-// One method's span extremes of its envelope, exactly: per span the
-// largest moment_max, the smallest moment_min and the largest magnitude of
-// the deflection envelope, anywhere (README, "How the check works"). On each
-// piece between stations every unit's moment and deflection is a polynomial;
-// the envelope is, for "all", the sum of each unit's best share, and for
-// "adjacent-and-alternate" the best over the arrangements of such sums;
-// `walk` finds the largest of such a sum exactly. A piece (or an
-// arrangement) whose rigorous upper bound cannot beat the best value so far
-// is skipped. The value found is evaluated again from the units at its
-// point, with what governs it.
-void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::vector<Station>& stations,
-                       const Envelope& env, std::vector<SpanExtremes>& out) {
+// One method's envelope at the stations, and its span extremes, exactly:
+// per span the largest moment_max, the smallest moment_min and the largest
+// magnitude of the deflection envelope, anywhere (README, "How the check
+// works"). On each piece between stations every unit's moment and
+// deflection is a polynomial: for a unit with no load on the span, its
+// moment is linear and its deflection the cubic through its end values and
+// slopes (the rotation is dv/dx); a unit with loads there is sampled at the
+// piece's Chebyshev-Lobatto points. The envelope is, for "all", the sum of
+// each unit's best share, and for "adjacent-and-alternate" the best over
+// the arrangements of such sums; `walk` finds the largest of such a sum
+// exactly. A piece (or an arrangement) whose rigorous upper bound cannot
+// beat the best value so far is skipped. The value found is evaluated again
+// from the units at its point, with what governs it.
+void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const std::vector<Station>& stations,
+                           Envelope& env, std::vector<SpanExtremes>& out) {
   using M = EnvelopeModel;
   const std::size_t ns = stations.size(), nu = model.units.size();
   const bool all = model.comb.arrangements == input::Arrangements::All || model.arrangements.empty();
@@ -365,14 +411,32 @@ void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::
       for (std::size_t sp : arr) walks.back().insert(walks.back().end(), by_span[sp].begin(), by_span[sp].end());
     }
   }
+  // The units with a load on each span (the others are polynomials of the
+  // end values there).
+  std::vector<std::vector<std::size_t>> loading(full.spans.size());
+  for (std::size_t u = 0; u < nu; ++u) {
+    std::vector<char> on(full.spans.size(), 0);
+    for (const auto& l : model.units[u].loads)
+      if (!l.on_node && l.index < on.size()) on[l.index] = 1;
+    for (std::size_t sp = 0; sp < on.size(); ++sp)
+      if (on[sp]) loading[sp].push_back(u);
+  }
   // Each unit's factors where its value is positive / negative, for the
   // largest (sign +1) and the smallest (sign -1) envelope.
   std::vector<Factors> fac[2];
   for (int k = 0; k < 2; ++k)
     for (std::size_t u = 0; u < nu; ++u)
       fac[k].push_back(factors_of(model, u, k == 0 ? 1.0 : -1.0, all && model.units[u].patterned));
+  double max_factor = 1.0;
+  for (const auto& [cs, f] : model.comb.factors) max_factor = std::max({max_factor, std::abs(f.low), std::abs(f.high)});
 
+  env.moment.reserve(ns);
+  env.shear.reserve(ns);
+  env.deflection.reserve(ns);
+  M::Interned pool;
   out.assign(full.spans.size(), {});
+  std::vector<std::vector<PointValues>> at_station;  // the units' values at the span's stations
+  std::array<std::vector<PointValues>, kDegree - 1> inner_values;
   std::vector<PointValues> pv;
   std::vector<double> g(nu);
   Piece pc;
@@ -382,6 +446,15 @@ void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::
     const std::size_t begin = i;
     while (i < ns && stations[i].span == s) ++i;
     const std::size_t end = i;
+    at_station.resize(std::max(at_station.size(), end - begin));
+    for (std::size_t k = begin; k < end; ++k) {
+      auto& v = at_station[k - begin];
+      model.values(s, stations[k].local, stations[k].after, v);
+      for (M::What w : {M::kMoment, M::kShear, M::kDeflection}) {
+        for (std::size_t u = 0; u < nu; ++u) g[u] = quantity(v[u], w);
+        (w == M::kMoment ? env.moment : w == M::kShear ? env.shear : env.deflection).push_back(model.combine(g, &pool));
+      }
+    }
     if (end == begin) { x0 += full.spans[s].length; continue; }
     // Targets: 0 moment max, 1 moment min, 2 deflection max, 3 deflection min.
     std::array<Best, 4> best;
@@ -395,28 +468,54 @@ void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::
         if (want_max ? x > b : x < b) at = k;
       }
       best[static_cast<std::size_t>(t)] = {want_max ? v[at].max : v[at].min, stations[at].local,
-                                           describe(want_max ? v[at].max_by : v[at].min_by, model.comb)};
+                                           describe(governs_of(want_max ? v[at].max_by : v[at].min_by), model.comb)};
     }
     for (std::size_t k = begin; k + 1 < end; ++k) {
       const double a = stations[k].local, b = stations[k + 1].local;
       if (!(b > a)) continue;
       pc.a = a;
       pc.b = b;
-      const auto xs = sample_points(a, b);
-      std::array<std::vector<PointValues>, kDegree + 1> smp;
-      model.values(s, a, stations[k].after, smp[0]);
-      for (std::size_t j = 0; j < xs.size(); ++j) model.values(s, xs[j], false, smp[j + 1]);
-      model.values(s, b, stations[k + 1].after, smp[kDegree]);
+      const std::vector<PointValues>& va = at_station[k - begin];
+      const std::vector<PointValues>& vb = at_station[k + 1 - begin];
+      const double h = 0.5 * (b - a);
       for (int q = 0; q < 2; ++q) {
         pc.poly[q].resize(nu);
-        pc.zeros[q].assign(nu, {});
-        pc.have_zeros[q].assign(nu, 0);
-        const M::What w = q == 0 ? M::kMoment : M::kDeflection;
-        for (std::size_t u = 0; u < nu; ++u) {
-          std::array<double, kDegree - 1> inner{};
-          for (std::size_t j = 0; j < inner.size(); ++j) inner[j] = quantity(smp[j + 1][u], w);
-          pc.poly[q][u] = interpolate(quantity(smp[0][u], w), inner, quantity(smp[kDegree][u], w));
+        pc.zeros[q].assign(nu, Zeros{});
+        pc.size[q].resize(nu);
+      }
+      // Units without a load on the span: M linear, v the Hermite cubic.
+      for (std::size_t u = 0; u < nu; ++u) {
+        const PointValues& A = va[u];
+        const PointValues& B = vb[u];
+        pc.poly[0][u] = Poly{0.5 * (A.moment + B.moment), 0.5 * (B.moment - A.moment), 0, 0, 0, 0};
+        // v(t) on [-1, 1] with v(-1) = A, v(1) = B, dv/dt = h * rotation.
+        const double p0 = A.deflection, p1 = B.deflection, m0 = h * A.rotation, m1 = h * B.rotation;
+        pc.poly[1][u] = Poly{0.5 * (p0 + p1) - 0.25 * (m1 - m0), 0.75 * (p1 - p0) - 0.25 * (m0 + m1), 0.25 * (m1 - m0),
+                             0.25 * (m0 + m1) - 0.25 * (p1 - p0), 0, 0};
+      }
+      // Units with a load on the span: sampled inside the piece.
+      if (!loading[s].empty()) {
+        const auto xs = sample_points(a, b);
+        for (std::size_t j = 0; j < xs.size(); ++j) {
+          inner_values[j].resize(nu);
+          for (std::size_t u : loading[s]) inner_values[j][u] = model.units[u].solution.at(s, xs[j], false);
         }
+        for (std::size_t u : loading[s])
+          for (int q = 0; q < 2; ++q) {
+            const M::What w = q == 0 ? M::kMoment : M::kDeflection;
+            std::array<double, kDegree - 1> inner{};
+            for (std::size_t j = 0; j < inner.size(); ++j) inner[j] = quantity(inner_values[j][u], w);
+            pc.poly[q][u] = interpolate(quantity(va[u], w), inner, quantity(vb[u], w));
+          }
+      }
+      for (int q = 0; q < 2; ++q) {
+        double total = 0;
+        for (std::size_t u = 0; u < nu; ++u) {
+          const auto rg = range_of(pc.poly[q][u]);
+          pc.size[q][u] = std::max(std::abs(rg.first), std::abs(rg.second));
+          total += pc.size[q][u] * max_factor;
+        }
+        pc.negligible[q] = 1e-15 * total / std::max<double>(1.0, static_cast<double>(nu));
       }
       for (int t = 0; t < 4; ++t) {
         const int q = t / 2;
@@ -435,7 +534,7 @@ void envelope_extremes(const EnvelopeModel& model, const Beam& full, const std::
                                sign * f.neg * rg.second});
           }
           if (!(bound > sign * bt.value)) continue;
-          const auto m = walk(pc, q, units, fac[k2], sign);
+          const auto m = walk(pc, q, units, fac[k2], sign, sign * bt.value);
           if (!any || m.first > found.first) { found = m; any = true; }
         }
         if (!any || !(found.first > sign * bt.value)) continue;
@@ -470,44 +569,47 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
   if (comb.arrangements == input::Arrangements::AdjacentAndAlternate) model->arrangements = code_arrangements(full.spans.size());
   // The shares (envelope.h). `full` holds the loads of the combination's
   // cases and their settlements, unfactored (load_sets.h).
-  Beam blank = full;
-  blank.loads.clear();
-  for (auto& s : blank.supports) { s.settlement = 0; s.settlement_case.clear(); }
+  model->base = full;
+  model->base.loads.clear();
+  for (auto& s : model->base.supports) { s.settlement = 0; s.settlement_case.clear(); }
   for (std::size_t k = 0; k < comb.factors.size(); ++k) {
     const std::string& cs = comb.factors[k].first;
     const bool patterned = std::find(comb.pattern.begin(), comb.pattern.end(), cs) != comb.pattern.end();
-    Beam rest = blank;
-    std::vector<Beam> per_span(patterned ? full.spans.size() : 0, blank);
+    M::Unit rest;
+    rest.factor = k;
+    std::vector<std::vector<Load>> per_span(patterned ? full.spans.size() : 0);
     for (const auto& l : full.loads) {
       if (l.load_case != cs) continue;
-      if (patterned && !l.on_node) per_span[l.index].loads.push_back(l);
+      if (patterned && !l.on_node) per_span[l.index].push_back(l);
       else rest.loads.push_back(l);
     }
-    bool settles = false;
     for (std::size_t i = 0; i < full.supports.size(); ++i)
-      if (full.supports[i].settlement_case == cs && nonzero(full.supports[i].settlement)) {
-        rest.supports[i].settlement = full.supports[i].settlement;
-        settles = true;
-      }
-    if (!rest.loads.empty() || settles || !patterned) model->units.push_back({k, false, 0, std::move(rest), {}});
+      if (full.supports[i].settlement_case == cs && nonzero(full.supports[i].settlement))
+        rest.settlements.emplace_back(i, full.supports[i].settlement);
+    if (!rest.loads.empty() || !rest.settlements.empty() || !patterned) model->units.push_back(std::move(rest));
     for (std::size_t sp = 0; sp < per_span.size(); ++sp)
-      if (!per_span[sp].loads.empty()) model->units.push_back({k, true, sp, std::move(per_span[sp]), {}});
+      if (!per_span[sp].empty()) {
+        M::Unit u;
+        u.factor = k;
+        u.patterned = true;
+        u.span = sp;
+        u.loads = std::move(per_span[sp]);
+        model->units.push_back(std::move(u));
+      }
   }
   {
     // The settlements that name no case act once, with factor 1.
-    Beam once = blank;
-    bool settles = false;
+    M::Unit once;
     for (std::size_t i = 0; i < full.supports.size(); ++i)
-      if (full.supports[i].settlement_case.empty() && nonzero(full.supports[i].settlement)) {
-        once.supports[i].settlement = full.supports[i].settlement;
-        settles = true;
-      }
-    if (settles) model->units.push_back({M::kAlways, false, 0, std::move(once), {}});
+      if (full.supports[i].settlement_case.empty() && nonzero(full.supports[i].settlement))
+        once.settlements.emplace_back(i, full.supports[i].settlement);
+    if (!once.settlements.empty() || model->units.empty()) model->units.push_back(std::move(once));
   }
-  if (model->units.empty()) model->units.push_back({M::kAlways, false, 0, blank, {}});
   r.status = MethodStatus::Ok;
-  for (auto& u : model->units) {
-    u.solution = method.solve(u.beam, stations);
+  for (std::size_t k = 0; k < model->units.size(); ++k) {
+    M::Unit& u = model->units[k];
+    const Beam ub = model->unit_beam(k);
+    u.solution = method.solve(ub, stations);
     if (u.solution.status != MethodStatus::Ok) {
       r.status = u.solution.status;
       r.reason = u.solution.reason;
@@ -518,28 +620,25 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
       r.reason = "the method returned an incomplete result";
       return;
     }
-    const Equilibrium e = equilibrium_of(u.beam, u.solution.nodes);
+    const Equilibrium e = equilibrium_of(ub, u.solution.nodes);
     r.equilibrium.force_residual = std::max(r.equilibrium.force_residual, e.force_residual);
     r.equilibrium.moment_residual = std::max(r.equilibrium.moment_residual, e.moment_residual);
+    u.reactions.reserve(u.solution.nodes.size());
+    for (const auto& nd : u.solution.nodes) u.reactions.push_back(nd.reaction_force);
+    std::vector<NodeResult>().swap(u.solution.nodes);  // only the reactions are kept
   }
 
-  // The envelope at the stations.
+  // The envelope at the stations and each span's extremes, span by span.
   Envelope env;
-  const std::size_t ns = stations.size(), nu = model->units.size();
-  env.moment.reserve(ns);
-  env.shear.reserve(ns);
-  env.deflection.reserve(ns);
-  std::vector<PointValues> pv;
-  std::vector<double> g(nu);
-  for (std::size_t i = 0; i < ns; ++i) {
-    const Station& st = stations[i];
-    model->values(st.span, st.local, st.after, pv);
-    for (M::What w : {M::kMoment, M::kShear, M::kDeflection}) {
-      for (std::size_t u = 0; u < nu; ++u) g[u] = quantity(pv[u], w);
-      (w == M::kMoment ? env.moment : w == M::kShear ? env.shear : env.deflection).push_back(model->combine(g));
+  envelope_and_extremes(*model, full, stations, env, r.extremes);
+  {
+    std::vector<double> g(model->units.size());
+    M::Interned pool;
+    for (std::size_t j = 0; j < full.node_count(); ++j) {
+      for (std::size_t u = 0; u < g.size(); ++u) g[u] = model->units[u].reactions[j];
+      env.reaction.push_back(model->combine(g, &pool));
     }
   }
-  for (std::size_t j = 0; j < full.node_count(); ++j) env.reaction.push_back(model->reaction(j));
   auto finite = [](const std::vector<Bound>& v) {
     for (const auto& b : v)
       if (!std::isfinite(b.max) || !std::isfinite(b.min)) return false;
@@ -550,7 +649,6 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
     r.reason = "the method produced a non-finite number";
     return;
   }
-  envelope_extremes(*model, full, stations, env, r.extremes);
   r.envelope = std::move(env);
   r.envelope_model = model;
 }
@@ -706,13 +804,14 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
   std::vector<M::Choice> choices;
   std::vector<PointValues> pv;
   std::vector<double> g(model.units.size());
+  std::map<M::Choice, std::size_t> index;  // lexicographic order of the factors
   auto add = [&](Item it, bool want_max) {
     M::Choice c;
     model.extreme(g, want_max, &c);
-    std::size_t k = 0;
-    while (k < choices.size() && !same_choice(choices[k], c)) ++k;
-    if (k == choices.size()) choices.push_back(c);
-    it.arrangement = k;
+    // The same arrangement (the same factor for every unit) is solved once.
+    const auto found = index.emplace(c, choices.size());
+    if (found.second) choices.push_back(c);
+    it.arrangement = found.first->second;
     it.check.arrangement = describe(model.governs(c), model.comb);
     items.push_back(std::move(it));
   };
@@ -754,7 +853,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
       it.kind = Kind::Reaction;
       it.node = true;
       it.index = j;
-      for (std::size_t u = 0; u < model.units.size(); ++u) g[u] = model.units[u].solution.nodes[j].reaction_force;
+      for (std::size_t u = 0; u < model.units.size(); ++u) g[u] = model.units[u].reactions[j];
       add(std::move(it), side == 0);
     }
   }

@@ -17,6 +17,9 @@
 
 #include <cstddef>
 #include <limits>
+#include <map>
+#include <memory>
+#include <utility>
 #include <vector>
 
 #include "harness/compare/compare.h"
@@ -30,14 +33,17 @@ class EnvelopeModel {
     std::size_t factor = kAlways;  // index into comb.factors; kAlways: factor 1, always on
     bool patterned = false;        // a patterned case's share of one span
     std::size_t span = 0;          // for a patterned share: its span
-    Beam beam;
-    Solution solution;
+    std::vector<Load> loads;       // the share's loads, unfactored
+    std::vector<std::pair<std::size_t, double>> settlements;  // (node, settlement), unfactored
+    Solution solution;             // the method's; its `nodes` are dropped after the solve
+    std::vector<double> reactions; // reaction force per node
   };
   // A factor for every unit (0: off): one arrangement with its factors.
   using Choice = std::vector<double>;
   enum What { kMoment, kShear, kDeflection };
 
   input::Combination comb;
+  Beam base;  // the beam without loads or settlements
   std::size_t spans = 0;
   std::vector<Unit> units;
   std::vector<std::vector<std::size_t>> arrangements;  // adjacent-and-alternate only
@@ -45,13 +51,18 @@ class EnvelopeModel {
   // The largest (want_max) or smallest combined value of units' values g
   // (one per unit), and the choice that gives it.
   double extreme(const std::vector<double>& g, bool want_max, Choice* choice) const;
-  // Both bounds, with what governs them.
-  Bound combine(const std::vector<double>& g) const;
+  // What governs, shared between the points that have the same.
+  using Interned = std::map<std::pair<std::size_t, std::size_t>, std::vector<std::shared_ptr<const Governs>>>;
+  std::shared_ptr<const Governs> intern(Governs g, Interned* pool) const;
+  // Both bounds, with what governs them (shared through `pool` if given).
+  Bound combine(const std::vector<double>& g, Interned* pool = nullptr) const;
   Bound at(std::size_t span, double local, bool after, What what) const;
   Bound reaction(std::size_t node) const;
   // The units' values of every quantity at a point.
   void values(std::size_t span, double local, bool after, std::vector<PointValues>& out) const;
   Governs governs(const Choice& c) const;
+  // The beam of one unit (its loads and settlements, unfactored).
+  Beam unit_beam(std::size_t u) const;
   // The beam of one arrangement with its factors: every unit's loads and
   // settlements times its factor, as an ordinary load set.
   Beam arrangement_beam(const Choice& c) const;
