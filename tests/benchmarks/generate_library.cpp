@@ -4,6 +4,12 @@
 //
 //   generate_library DIR COUNT [SEED]        COUNT typical beams in DIR
 //   generate_library --long FILE SPANS [SEED] one beam of SPANS spans
+//   generate_library --patterned FILE SPANS [SEED]
+//                                             one beam of SPANS spans, 4 stations
+//                                             per span, with its loads as "dead"
+//                                             and a "live" UDL on every span, and
+//                                             a combination with the live load
+//                                             patterned (every arrangement)
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
@@ -13,7 +19,7 @@
 
 namespace {
 
-std::string beam_text(std::mt19937& rng, std::size_t spans, int stations) {
+std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool patterned = false) {
   std::uniform_real_distribution<double> U(0.0, 1.0);
   auto num = [](double v) {
     char b[32];
@@ -36,27 +42,37 @@ std::string beam_text(std::mt19937& rng, std::size_t spans, int stations) {
       s += first ? "" : ",";
       first = false;
       const std::string span = std::to_string(i + 1);
+      const std::string cs = patterned ? ", \"case\": \"dead\"}" : "}";
       switch (rng() % 3) {
-        case 0: s += "{\"type\": \"udl\", \"span\": " + span + ", \"w\": " + num(2 + 20 * U(rng)) + "}"; break;
-        case 1: s += "{\"type\": \"point\", \"span\": " + span + ", \"P\": " + num(5 + 50 * U(rng)) + ", \"at\": " + num(0.5 + 2 * U(rng)) + "}"; break;
-        default: s += "{\"type\": \"linear\", \"span\": " + span + ", \"w1\": 0, \"w2\": " + num(2 + 10 * U(rng)) + "}";
+        case 0: s += "{\"type\": \"udl\", \"span\": " + span + ", \"w\": " + num(2 + 20 * U(rng)) + cs; break;
+        case 1: s += "{\"type\": \"point\", \"span\": " + span + ", \"P\": " + num(5 + 50 * U(rng)) + ", \"at\": " + num(0.5 + 2 * U(rng)) + cs; break;
+        default: s += "{\"type\": \"linear\", \"span\": " + span + ", \"w1\": 0, \"w2\": " + num(2 + 10 * U(rng)) + cs;
       }
     }
+    if (patterned) s += ",{\"type\": \"udl\", \"span\": " + std::to_string(i + 1) + ", \"w\": " + num(3 + 10 * U(rng)) + ", \"case\": \"live\"}";
   }
-  s += "],\n\"stations_per_span\": " + std::to_string(stations) + "}\n";
+  s += "],\n\"stations_per_span\": " + std::to_string(stations);
+  if (patterned)
+    s += ",\n\"combinations\": [{\"name\": \"strength\", \"factors\": {\"dead\": 1.2, \"live\": 1.6}, \"pattern\": [\"live\"]}]";
+  s += "}\n";
   return s;
 }
 
 }  // namespace
 
 int main(int argc, char** argv) {
+  if (argc >= 4 && std::string(argv[1]) == "--patterned") {
+    std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
+    std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 4, true);
+    return 0;
+  }
   if (argc >= 4 && std::string(argv[1]) == "--long") {
     std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
     std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 1);
     return 0;
   }
   if (argc < 3) {
-    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED]\n");
+    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED] | --patterned FILE SPANS [SEED]\n");
     return 2;
   }
   const std::filesystem::path dir(argv[1]);
