@@ -62,6 +62,38 @@ TEST(Reader, SettlementObjectNeedsItsValueAndAName) {
             "plant.json: /supports/1/settlement/case (node 2): must be a non-empty name of a load case (got 3)");
 }
 
+// An envelope reads every share at every station; its work is counted and
+// refused beyond the limit before anything is allocated for it.
+TEST(Reader, EnvelopeBeyondItsLimitIsRefusedWhereItIsNamed) {
+  auto text = [](int spans, int per_span) {
+    std::string t = "{\"units\": {\"force\": \"kN\", \"length\": \"m\"}, \"stations_per_span\": " +
+                    std::to_string(per_span) + ", \"spans\": [";
+    std::string sup = "[\"pinned\"", loads;
+    for (int i = 0; i < spans; ++i) {
+      t += std::string(i ? "," : "") + "{\"length\": 4, \"EI\": 50000}";
+      sup += ", \"roller\"";
+      loads += std::string(i ? "," : "") + "{\"type\": \"udl\", \"span\": " + std::to_string(i + 1) +
+               ", \"w\": 5, \"case\": \"live\"}";
+    }
+    return t + "], \"supports\": " + sup + "], \"loads\": [" + loads +
+           "], \"combinations\": [{\"name\": \"pattern\", \"factors\": {\"live\": 1.5}, \"pattern\": [\"live\"]}]}";
+  };
+  // 1,000 spans at 4 stations per span: 1,002 shares x 6,000 stations, within.
+  EXPECT_TRUE(parse_beam_text(text(1000, 4), "plant.json").ok());
+  // 2,000 spans at 10: 2,002 shares x 26,000 stations, beyond.
+  const BeamFile f = parse_beam_text(text(2000, 10), "plant.json");
+  ASSERT_EQ(f.errors.size(), 1u);
+  EXPECT_EQ(f.errors.front().pointer, "/combinations/0");
+  EXPECT_NE(f.errors.front().reason.find("more than the limit of 20000000"), std::string::npos) << f.errors.front().reason;
+  // The same beam at 1 station per span is within (2,002 x 8,000), and
+  // --stations-per-span 10 on it is refused by the same count.
+  const BeamFile g = parse_beam_text(text(2000, 1), "plant.json");
+  ASSERT_TRUE(g.ok()) << g.errors.front().format("plant.json");
+  const auto e = station_limit_error(g, 10);
+  ASSERT_TRUE(e.has_value());
+  EXPECT_EQ(e->pointer, "/combinations/0");
+}
+
 TEST(Reader, NegativeLength) {
   EXPECT_EQ(only(with("\"length\": 6.5", "\"length\": -6.5")),
             "plant.json: /spans/1/length (span 2): must be greater than 0 (got -6.5)");

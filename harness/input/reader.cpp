@@ -492,6 +492,10 @@ std::string where_of(const std::string& ptr) {
 
 }  // namespace
 
+namespace {
+void envelope_limit_errors(const BeamFile& file, int per_span, const Limits& limits, std::vector<Error>& out);
+}  // namespace
+
 BeamFile parse_beam_text(const std::string& text, const std::string& display, const Limits& limits) {
   BeamFile out;
   out.path = display;
@@ -1297,15 +1301,54 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
                                     " (add a support or remove a hinge)");
     }
   }
+  // The work of each envelope, counted before anything is allocated for it.
+  if (out.errors.empty()) envelope_limit_errors(out, beam.stations_per_span, limits, out.errors);
   return out;
 }
+
+namespace {
+
+// The envelopes of `file` that would read more share values (shares x
+// stations) than the limit allows with `per_span` stations per span.
+void envelope_limit_errors(const BeamFile& file, int per_span, const Limits& limits, std::vector<Error>& out) {
+  const std::size_t n = file.beam.spans.size();
+  const std::size_t stations = n * (static_cast<std::size_t>(per_span) + 1) + 2 * file.beam.loads.size();
+  for (std::size_t c = 0; c < file.combinations.size(); ++c) {
+    const Combination& comb = file.combinations[c];
+    if (!comb.is_envelope()) continue;
+    std::size_t shares = 1;  // the settlements that name no case
+    for (const auto& [cs, f] : comb.factors) {
+      const bool patterned = std::find(comb.pattern.begin(), comb.pattern.end(), cs) != comb.pattern.end();
+      if (!patterned) { ++shares; continue; }
+      std::vector<char> loaded(n, 0);
+      for (const auto& l : file.beam.loads)
+        if (l.load_case == cs && !l.on_node && l.index < n) loaded[l.index] = 1;
+      shares += 1 + static_cast<std::size_t>(std::count(loaded.begin(), loaded.end(), 1));
+    }
+    const std::size_t values = shares * stations;
+    if (values > limits.max_envelope_values)
+      out.push_back({comb.pointer.empty() ? "/combinations/" + std::to_string(c) : comb.pointer,
+                     "combination " + std::to_string(c + 1),
+                     "this envelope reads " + std::to_string(shares) + " shares at about " + std::to_string(stations) +
+                         " stations each (" + std::to_string(values) + " values), more than the limit of " +
+                         std::to_string(limits.max_envelope_values) +
+                         ": use fewer stations per span, or check the beam in parts"});
+  }
+}
+
+}  // namespace
 
 std::optional<Error> station_limit_error(const BeamFile& file, int per_span, const Limits& limits) {
   if (per_span < 1) return std::nullopt;
   const std::size_t sets = file.cases.size() + file.combinations.size();
   const std::size_t along = file.beam.spans.size() * (static_cast<std::size_t>(per_span) + 1);
   const std::size_t per_set = along + file.beam.loads.size();
-  if (along <= limits.max_stations && per_set * std::max<std::size_t>(sets, 1) <= limits.max_stations) return std::nullopt;
+  if (along <= limits.max_stations && per_set * std::max<std::size_t>(sets, 1) <= limits.max_stations) {
+    std::vector<Error> env;
+    envelope_limit_errors(file, per_span, limits, env);
+    if (env.empty()) return std::nullopt;
+    return env.front();
+  }
   return Error{"/stations_per_span", "",
                "with " + std::to_string(per_span) + " stations per span the beam asks for " +
                    std::to_string(per_set * std::max<std::size_t>(sets, 1)) + " stations in all, more than the limit of " +

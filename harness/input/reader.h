@@ -21,6 +21,10 @@ struct Limits {
   int max_stations_per_span = 1000;
   std::size_t max_stations = 20'000'000;       // (spans x (stations_per_span + 1) + loads) x load sets
   std::size_t max_load_sets = 1000;            // load cases + combinations (each is analysed on its own)
+  // An envelope solves each of its shares (one per span of each patterned
+  // case, README "Load combinations") and reads every share at every
+  // station: shares x stations, per envelope. Its time and memory grow with it.
+  std::size_t max_envelope_values = 20'000'000;
   std::size_t max_depth = 64;                  // nesting of JSON arrays and objects
 };
 
