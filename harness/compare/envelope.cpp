@@ -331,8 +331,11 @@ std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>&
     Zeros& z = pc.zeros[q][u];
     if (z.count < 0) {
       z.count = 0;
-      for (double t : polynomial_zeros(std::vector<double>(p.begin(), p.end()), -1.0, 1.0))
-        if (t > -1.0 && t < 1.0 && z.count < kDegree) z.t[static_cast<std::size_t>(z.count++)] = t;
+      std::array<double, kDegree> found{};
+      const int nf = poly_zeros(p, -1.0, 1.0, found);
+      for (int j = 0; j < nf; ++j)
+        if (found[static_cast<std::size_t>(j)] > -1.0 && found[static_cast<std::size_t>(j)] < 1.0)
+          z.t[static_cast<std::size_t>(z.count++)] = found[static_cast<std::size_t>(j)];
     }
     const std::size_t nz = static_cast<std::size_t>(z.count);
     if (nz > 0) first_mid[u] = 0.5 * (-1.0 + z.t[0]);

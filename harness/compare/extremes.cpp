@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <stdexcept>
 
 namespace trivet::compare {
 
@@ -9,27 +10,29 @@ namespace {
 
 constexpr double kPi = 3.14159265358979323846;
 
-double eval(const std::vector<double>& c, double t) {
-  double v = 0;
-  for (std::size_t k = c.size(); k-- > 0;) v = v * t + c[k];
-  return v;
-}
-
 bool is_zero(double v) { return !(std::abs(v) > 0); }
 bool opposite(double a, double b) { return (a > 0 && b < 0) || (a < 0 && b > 0); }
 
-// The zero of p in [u, v], where p(u) and p(v) have opposite signs (neither
-// zero), by the Illinois variant of regula falsi: the bracket shrinks at
-// every step, a step outside it is replaced by bisection, and a step that
-// lands on the zero returns it. Always converges, to the resolution of the
-// doubles in t (|t| <= 1 here).
-double bracketed_zero(const std::vector<double>& c, double u, double v, double pu, double pv) {
+}  // namespace
+
+namespace {
+
+// The working form, without allocation: up to kMaxTerms coefficients.
+constexpr int kMaxTerms = 12;
+
+double eval_n(const double* c, int n, double t) {
+  double v = 0;
+  for (int k = n; k-- > 0;) v = v * t + c[k];
+  return v;
+}
+
+double bracketed_zero_n(const double* c, int n, double u, double v, double pu, double pv) {
   int side = 0;
   for (int it = 0; it < 200; ++it) {
     double w = (u * pv - v * pu) / (pv - pu);
     if (!(w > u && w < v)) w = 0.5 * (u + v);
     if (!(w > u && w < v)) break;  // no double left between u and v
-    const double pw = eval(c, w);
+    const double pw = eval_n(c, n, w);
     if (is_zero(pw)) return w;
     if (opposite(pw, pu)) {
       v = w; pv = pw;
@@ -45,48 +48,73 @@ double bracketed_zero(const std::vector<double>& c, double u, double v, double p
   return std::abs(pu) <= std::abs(pv) ? u : v;
 }
 
-}  // namespace
-
-std::vector<double> polynomial_zeros(const std::vector<double>& coefficients, double lo, double hi) {
-  std::vector<double> c = coefficients;
-  while (!c.empty() && is_zero(c.back())) c.pop_back();
-  std::vector<double> out;
-  if (c.size() <= 1 || !(hi >= lo)) return out;  // a constant: no isolated zero
-  if (c.size() == 2) {
+// The zeros of sum c[k] t^k (n terms) in [lo, hi], increasing, into out
+// (room for n - 1); returns their count.
+int zeros_n(const double* coefficients, int n, double lo, double hi, double* out) {
+  while (n > 0 && is_zero(coefficients[n - 1])) --n;
+  const double* c = coefficients;
+  int count = 0;
+  if (n <= 1 || !(hi >= lo)) return 0;  // a constant: no isolated zero
+  if (n == 2) {
     const double t = -c[0] / c[1];
-    if (t >= lo && t <= hi) out.push_back(t);
-    return out;
+    if (t >= lo && t <= hi) out[count++] = t;
+    return count;
   }
-  if (c.size() == 3) {
+  if (n == 3) {
     // A quadratic in closed form (the stable pair of formulas). A double
     // zero (no sign change) counts only where the discriminant is exactly 0.
     const double disc = c[1] * c[1] - 4 * c[2] * c[0];
-    if (disc < 0) return out;
+    if (disc < 0) return 0;
     const double q = -0.5 * (c[1] + std::copysign(std::sqrt(disc), c[1]));
     double t1 = q / c[2], t2 = is_zero(q) ? t1 : c[0] / q;
     if (t2 < t1) std::swap(t1, t2);
-    if (t1 >= lo && t1 <= hi) out.push_back(t1);
-    if (t2 >= lo && t2 <= hi && (out.empty() || t2 > out.back())) out.push_back(t2);
-    return out;
+    if (t1 >= lo && t1 <= hi) out[count++] = t1;
+    if (t2 >= lo && t2 <= hi && (count == 0 || t2 > out[count - 1])) out[count++] = t2;
+    return count;
   }
   // Between consecutive zeros of p' the polynomial is monotone.
-  std::vector<double> d(c.size() - 1);
-  for (std::size_t k = 1; k < c.size(); ++k) d[k - 1] = static_cast<double>(k) * c[k];
-  std::vector<double> cuts{lo};
-  for (double t : polynomial_zeros(d, lo, hi))
-    if (t > cuts.back() && t < hi) cuts.push_back(t);
-  cuts.push_back(hi);
+  double d[kMaxTerms];
+  for (int k = 1; k < n; ++k) d[k - 1] = static_cast<double>(k) * c[k];
+  double dz[kMaxTerms];
+  const int nd = zeros_n(d, n - 1, lo, hi, dz);
+  double cuts[kMaxTerms + 1];
+  int nc = 0;
+  cuts[nc++] = lo;
+  for (int i = 0; i < nd; ++i)
+    if (dz[i] > cuts[nc - 1] && dz[i] < hi) cuts[nc++] = dz[i];
+  cuts[nc++] = hi;
   auto add = [&](double t) {
-    if (out.empty() || t > out.back()) out.push_back(t);
+    if (count == 0 || t > out[count - 1]) out[count++] = t;
   };
-  for (std::size_t i = 0; i + 1 < cuts.size(); ++i) {
+  for (int i = 0; i + 1 < nc; ++i) {
     const double u = cuts[i], v = cuts[i + 1];
-    const double pu = eval(c, u), pv = eval(c, v);
+    const double pu = eval_n(c, n, u), pv = eval_n(c, n, v);
     if (is_zero(pu)) add(u);  // a zero at the end of a bracket counts
-    if (opposite(pu, pv)) add(bracketed_zero(c, u, v, pu, pv));
+    if (opposite(pu, pv)) add(bracketed_zero_n(c, n, u, v, pu, pv));
   }
-  if (is_zero(eval(c, hi))) add(hi);
+  if (is_zero(eval_n(c, n, hi))) add(hi);
+  return count;
+}
+
+}  // namespace
+
+std::vector<double> polynomial_zeros(const std::vector<double>& coefficients, double lo, double hi) {
+  std::vector<double> out;
+  if (coefficients.empty()) return out;
+  if (coefficients.size() > static_cast<std::size_t>(kMaxTerms)) {
+    // Beyond the working size: only trailing zeros may be there.
+    for (std::size_t k = kMaxTerms; k < coefficients.size(); ++k)
+      if (!is_zero(coefficients[k])) throw std::invalid_argument("polynomial_zeros: more than 12 terms");
+  }
+  const int n = static_cast<int>(std::min<std::size_t>(coefficients.size(), kMaxTerms));
+  double z[kMaxTerms];
+  const int count = zeros_n(coefficients.data(), n, lo, hi, z);
+  out.assign(z, z + count);
   return out;
+}
+
+int poly_zeros(const Poly& p, double lo, double hi, std::array<double, kDegree>& out) {
+  return zeros_n(p.data(), static_cast<int>(p.size()), lo, hi, out.data());
 }
 
 std::array<double, kDegree - 1> sample_points(double a, double b) {
@@ -163,11 +191,12 @@ std::pair<double, double> largest(const Poly& p, double t0, double t1, double si
   double best = sign * evaluate(p, t0), at = t0;
   const double e1 = sign * evaluate(p, t1);
   if (e1 > best) { best = e1; at = t1; }
-  std::vector<double> d(p.size() - 1);
+  double d[kDegree], z[kDegree];
   for (std::size_t k = 1; k < p.size(); ++k) d[k - 1] = static_cast<double>(k) * p[k];
-  for (double t : polynomial_zeros(d, t0, t1)) {
-    const double e = sign * evaluate(p, t);
-    if (e > best) { best = e; at = t; }
+  const int nz = zeros_n(d, kDegree, t0, t1, z);
+  for (int i = 0; i < nz; ++i) {
+    const double e = sign * evaluate(p, z[i]);
+    if (e > best) { best = e; at = z[i]; }
   }
   return {best, at};
 }
@@ -177,9 +206,7 @@ void turning_points(double a, double b, double fa, const std::array<double, kDeg
   if (!(b > a) || !std::isfinite(fa) || !std::isfinite(fb)) return;
   for (double v : inner)
     if (!std::isfinite(v)) return;
-  const Poly p = interpolate(fa, inner, fb);
-  std::vector<double> c(p.begin(), p.end());
-  constexpr int n = kDegree + 1;
+  Poly c = interpolate(fa, inner, fb);
   // Drop coefficients that are rounding noise of the values, so a quadratic
   // is not given spurious turning points by 1e-17 cubic terms (harmless, as
   // every candidate is evaluated, but wasted work).
@@ -187,11 +214,12 @@ void turning_points(double a, double b, double fa, const std::array<double, kDeg
   for (double v : c) scale = std::max(scale, std::abs(v));
   for (double& v : c)
     if (std::abs(v) <= 1e-13 * scale) v = 0;
-  std::vector<double> d(n - 1);
-  for (int k = 1; k < n; ++k) d[static_cast<std::size_t>(k - 1)] = k * c[static_cast<std::size_t>(k)];
+  double d[kDegree], z[kDegree];
+  for (std::size_t k = 1; k < c.size(); ++k) d[k - 1] = static_cast<double>(k) * c[k];
   const double m = 0.5 * (a + b), h = 0.5 * (b - a);
-  for (double t : polynomial_zeros(d, -1.0, 1.0)) {
-    const double x = m + h * t;
+  const int nz = zeros_n(d, kDegree, -1.0, 1.0, z);
+  for (int i = 0; i < nz; ++i) {
+    const double x = m + h * z[i];
     if (x > a && x < b) out.push_back(x);
   }
 }

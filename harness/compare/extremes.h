@@ -53,7 +53,11 @@ double evaluate(const Poly& p, double t);
 // at an end or at a zero of p' inside.
 std::pair<double, double> largest(const Poly& p, double t0, double t1, double sign);
 
-// The real zeros in [lo, hi] of the polynomial sum c[k] t^k (any degree),
+// The zeros of p in [lo, hi], increasing, into out; returns their count
+// (as polynomial_zeros, without allocating).
+int poly_zeros(const Poly& p, double lo, double hi, std::array<double, kDegree>& out);
+
+// The real zeros in [lo, hi] of the polynomial sum c[k] t^k (up to 12 terms),
 // in increasing order. Exposed for the tests.
 std::vector<double> polynomial_zeros(const std::vector<double>& c, double lo, double hi);
 
