@@ -374,28 +374,40 @@ struct Writer {
       }
       o << "</table>\n";
     }
-    second_route_table(set, dx);
+    second_route_table(b, set, dx);
   }
 
   // The second route: each value the envelope reports as governing, and its
   // arrangement solved directly by every method.
-  void second_route_table(const LoadSet& set, int dx) {
+  void second_route_table(const BeamResult& b, const LoadSet& set, int dx) {
+    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length);
+    // Each value in its kind's unit, to the digits the kind's largest value needs.
+    auto shown = [&](const RouteCheck& rc, double v) {
+      const bool defl = rc.quantity == "max_deflection", react = rc.quantity.rfind("reaction", 0) == 0;
+      const Kind k = defl ? Kind::Deflection : react ? Kind::Reaction : Kind::Moment;
+      const int d = decimals_for(std::max(set.scale[static_cast<std::size_t>(k)], 1e-300)) + 2;
+      return fixed(v, d) + " " + (defl ? L : react ? F : F + "*" + L);
+    };
     if (set.second_route.empty()) return;
     std::size_t holds = 0;
     for (const auto& rc : set.second_route) holds += rc.holds;
     o << "<details class=\"second-route\"" << (holds == set.second_route.size() ? "" : " open")
       << "><summary>Second route: " << set.second_route.size()
       << " governing values re-solved directly by every method, " << holds << " reproduced</summary>\n";
-    o << "<table class=\"second-route\"><tr><th>value</th><th>where</th><th>x</th><th>arrangement</th><th>envelope</th>";
+    o << "<p>Each value the envelope reports as governing, and the arrangement that governs it, with its factors, "
+         "solved directly as an ordinary load set by every method; the difference is relative to the largest value of "
+         "its kind.</p>\n";
+    o << "<table class=\"second-route\"><tr><th>value</th><th>where</th><th>x [" << L
+      << "]</th><th>arrangement</th><th>envelope</th>";
     for (const auto& m : set.methods) o << "<th>" << html_escape(m.name) << "</th>";
     o << "<th>difference</th><th>holds</th></tr>\n";
     for (const auto& rc : set.second_route) {
       o << "<tr><td>" << html_escape(rc.quantity) << "</td><td>" << html_escape(rc.where) << "</td><td class=\"n\">"
         << fixed(rc.x, dx) << "</td><td>" << html_escape(rc.arrangement) << "</td><td class=\"n\">"
-        << html_escape(input::format_number(rc.envelope)) << "</td>";
+        << shown(rc, rc.envelope) << "</td>";
       for (const auto& m : set.methods) {
         const auto it = std::find_if(rc.values.begin(), rc.values.end(), [&](const auto& p) { return p.first == m.name; });
-        o << "<td class=\"n\">" << (it == rc.values.end() ? std::string("-") : html_escape(input::format_number(it->second))) << "</td>";
+        o << "<td class=\"n\">" << (it == rc.values.end() ? std::string("-") : shown(rc, it->second)) << "</td>";
       }
       char buf[32];
       std::snprintf(buf, sizeof buf, "%.1e", rc.difference);
