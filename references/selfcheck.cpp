@@ -31,71 +31,6 @@ std::size_t SelfcheckResult::values_failed() const {
 
 namespace {
 
-// Bisection for a sign change of g on (a, b), g(a) and g(b) of opposite signs.
-template <class G>
-double bisect(G&& g, double a, double b, double ga) {
-  for (int it = 0; it < 200 && b - a > 1e-15 * (std::abs(a) + std::abs(b) + 1e-300); ++it) {
-    const double m = 0.5 * (a + b);
-    if (!(m > a && m < b)) break;
-    const double gm = g(m);
-    if (!(std::abs(gm) > 0)) return m;
-    if ((gm > 0) == (ga > 0)) { a = m; ga = gm; }
-    else b = m;
-  }
-  return 0.5 * (a + b);
-}
-
-bool opposite(double a, double b) { return (a > 0 && b < 0) || (a < 0 && b > 0); }
-
-}  // namespace
-
-MethodExtremes span_extremes(const Solution& solution, const compare::LoadSet& set, std::size_t span) {
-  MethodExtremes e;
-  const double L = set.beam.spans[span].length;
-  // The grid: equal divisions plus every station of this span (which holds
-  // the positions of the loads: their ends, point forces and couples).
-  const int n = 240;
-  std::vector<double> pts;
-  for (int k = 0; k <= n; ++k) pts.push_back(k == n ? L : L * k / n);
-  for (const auto& st : set.stations)
-    if (st.span == span) pts.push_back(st.local);
-  std::sort(pts.begin(), pts.end());
-  std::vector<double> grid;
-  for (double p : pts)
-    if (grid.empty() || p - grid.back() > 1e-12 * L) grid.push_back(p);
-    else if (std::abs(p - L) <= 1e-12 * L) grid.back() = L;
-  bool first = true;
-  auto consider = [&](double local, const PointValues& v) {
-    if (first || v.moment > e.max_moment) { e.max_moment = v.moment; e.max_moment_at = local; }
-    if (first || v.moment < e.min_moment) { e.min_moment = v.moment; e.min_moment_at = local; }
-    if (first || std::abs(v.deflection) > std::abs(e.max_deflection)) {
-      e.max_deflection = v.deflection;
-      e.max_deflection_at = local;
-    }
-    first = false;
-  };
-  for (std::size_t k = 0; k < grid.size(); ++k) {
-    consider(grid[k], solution.at(span, grid[k], false));
-    consider(grid[k], solution.at(span, grid[k], true));
-  }
-  for (std::size_t k = 0; k + 1 < grid.size(); ++k) {
-    const double a = grid[k], b = grid[k + 1];
-    const PointValues pa = solution.at(span, a, true);   // just right of a
-    const PointValues pb = solution.at(span, b, false);  // just left of b
-    if (opposite(pa.shear, pb.shear)) {
-      const double t = bisect([&](double s) { return solution.at(span, s, false).shear; }, a, b, pa.shear);
-      consider(t, solution.at(span, t, false));
-    }
-    if (opposite(pa.rotation, pb.rotation)) {
-      const double t = bisect([&](double s) { return solution.at(span, s, false).rotation; }, a, b, pa.rotation);
-      consider(t, solution.at(span, t, false));
-    }
-  }
-  return e;
-}
-
-namespace {
-
 // The shared helpers of the harness.
 using compare::locate;
 using compare::node_at;
@@ -107,14 +42,18 @@ std::optional<double> value_on(const Expected& ex, const compare::MethodResult& 
   const Beam& beam = set.beam;
   const Solution& sol = m.solution;
   if (ex.span) {
-    const MethodExtremes e = span_extremes(sol, set, *ex.span);
+    // The method's own span extremes (found by the harness from this
+    // method's values, exactly between stations); positions local.
+    if (*ex.span >= m.extremes.size()) { *reason = "the method gave no extremes for this span"; return std::nullopt; }
+    const compare::SpanExtremes& e = m.extremes[*ex.span];
+    const double x0 = beam.node_x(*ex.span);
     switch (ex.quantity) {
       case Quantity::MaxMoment: return e.max_moment;
       case Quantity::MinMoment: return e.min_moment;
       case Quantity::MaxDeflection: return e.max_deflection;
-      case Quantity::MaxMomentAt: return e.max_moment_at;
-      case Quantity::MinMomentAt: return e.min_moment_at;
-      case Quantity::MaxDeflectionAt: return e.max_deflection_at;
+      case Quantity::MaxMomentAt: return e.max_moment_x - x0;
+      case Quantity::MinMomentAt: return e.min_moment_x - x0;
+      case Quantity::MaxDeflectionAt: return e.max_deflection_x - x0;
       default: break;
     }
     *reason = "not a span quantity";

@@ -90,14 +90,4 @@ SelfcheckResult run_selfcheck(const std::string& dir, const compare::Options& op
                               const AfterCheck& after = nullptr);
 inline SelfcheckResult run_selfcheck() { return run_selfcheck(directory()); }
 
-// The extremes of one span from one method's solution, found by a dense
-// scan with a root search on the shear (moment) and the rotation
-// (deflection). Positions are local to the span. Public for the tests.
-struct MethodExtremes {
-  double max_moment = 0, max_moment_at = 0;
-  double min_moment = 0, min_moment_at = 0;
-  double max_deflection = 0, max_deflection_at = 0;  // signed, largest magnitude
-};
-MethodExtremes span_extremes(const Solution& solution, const compare::LoadSet& set, std::size_t span);
-
 }  // namespace trivet::references

@@ -12,11 +12,87 @@
 
 #include "references/reference.h"
 #include "references/selfcheck.h"
+#include "harness/compare/compare.h"
 
 namespace {
 
 using namespace trivet::references;
 using nlohmann::json;
+
+// An independent cross-check of the span extremes the product finds (the
+// turning points of each piece's interpolating polynomial, in
+// harness/compare/extremes.cpp): a dense scan of each method's own `at`
+// with bisection where the shear or the rotation changes sign. Positions
+// local to the span.
+struct MethodExtremes {
+  double max_moment = 0, max_moment_at = 0;
+  double min_moment = 0, min_moment_at = 0;
+  double max_deflection = 0, max_deflection_at = 0;  // signed, largest magnitude
+};
+using trivet::PointValues;
+using trivet::Solution;
+
+// Bisection for a sign change of g on (a, b), g(a) and g(b) of opposite signs.
+template <class G>
+double bisect(G&& g, double a, double b, double ga) {
+  for (int it = 0; it < 200 && b - a > 1e-15 * (std::abs(a) + std::abs(b) + 1e-300); ++it) {
+    const double m = 0.5 * (a + b);
+    if (!(m > a && m < b)) break;
+    const double gm = g(m);
+    if (!(std::abs(gm) > 0)) return m;
+    if ((gm > 0) == (ga > 0)) { a = m; ga = gm; }
+    else b = m;
+  }
+  return 0.5 * (a + b);
+}
+
+bool opposite(double a, double b) { return (a > 0 && b < 0) || (a < 0 && b > 0); }
+
+MethodExtremes span_extremes(const Solution& solution, const trivet::compare::LoadSet& set, std::size_t span) {
+  MethodExtremes e;
+  const double L = set.beam.spans[span].length;
+  // The grid: equal divisions plus every station of this span (which holds
+  // the positions of the loads: their ends, point forces and couples).
+  const int n = 240;
+  std::vector<double> pts;
+  for (int k = 0; k <= n; ++k) pts.push_back(k == n ? L : L * k / n);
+  for (const auto& st : set.stations)
+    if (st.span == span) pts.push_back(st.local);
+  std::sort(pts.begin(), pts.end());
+  std::vector<double> grid;
+  for (double p : pts)
+    if (grid.empty() || p - grid.back() > 1e-12 * L) grid.push_back(p);
+    else if (std::abs(p - L) <= 1e-12 * L) grid.back() = L;
+  bool first = true;
+  auto consider = [&](double local, const PointValues& v) {
+    if (first || v.moment > e.max_moment) { e.max_moment = v.moment; e.max_moment_at = local; }
+    if (first || v.moment < e.min_moment) { e.min_moment = v.moment; e.min_moment_at = local; }
+    if (first || std::abs(v.deflection) > std::abs(e.max_deflection)) {
+      e.max_deflection = v.deflection;
+      e.max_deflection_at = local;
+    }
+    first = false;
+  };
+  for (std::size_t k = 0; k < grid.size(); ++k) {
+    consider(grid[k], solution.at(span, grid[k], false));
+    consider(grid[k], solution.at(span, grid[k], true));
+  }
+  for (std::size_t k = 0; k + 1 < grid.size(); ++k) {
+    const double a = grid[k], b = grid[k + 1];
+    const PointValues pa = solution.at(span, a, true);   // just right of a
+    const PointValues pb = solution.at(span, b, false);  // just left of b
+    if (opposite(pa.shear, pb.shear)) {
+      const double t = bisect([&](double s) { return solution.at(span, s, false).shear; }, a, b, pa.shear);
+      consider(t, solution.at(span, t, false));
+    }
+    if (opposite(pa.rotation, pb.rotation)) {
+      const double t = bisect([&](double s) { return solution.at(span, s, false).rotation; }, a, b, pa.rotation);
+      consider(t, solution.at(span, t, false));
+    }
+  }
+  return e;
+}
+
 
 std::string read_text(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
@@ -432,6 +508,37 @@ TEST(Library, PerMethodExtremesMatchTheConsensus) {
     EXPECT_NEAR(e.min_moment, -360.0 / 8.0, 1e-9 * 360);
     EXPECT_NEAR(e.min_moment_at, 6.0, 1e-12);
   }
+}
+
+// Every span of every bundled case, on every method: the product's span
+// extremes (each method's own) against the dense scan above. The scan's
+// own error is that of bisection to 1e-15 and of missing nothing between
+// 240 divisions of a span for these smooth diagrams.
+TEST(Library, EveryMethodsSpanExtremesMatchADenseScanOnEveryCase) {
+  const std::vector<ReferenceCase> cases = load_cases();
+  ASSERT_GE(cases.size(), 40u);
+  std::size_t compared = 0;
+  for (const ReferenceCase& c : cases) {
+    ASSERT_TRUE(c.ok()) << c.id;
+    const auto br = trivet::compare::check(c.beam, {});
+    for (const auto& set : br.sets)
+      for (const auto& m : set.methods) {
+        if (m.status != trivet::MethodStatus::Ok || set.envelope) continue;
+        ASSERT_EQ(m.extremes.size(), set.beam.spans.size());
+        const double ms = set.scale[static_cast<int>(trivet::compare::Kind::Moment)];
+        const double ds = set.scale[static_cast<int>(trivet::compare::Kind::Deflection)];
+        for (std::size_t s = 0; s < set.beam.spans.size(); ++s) {
+          const MethodExtremes d = span_extremes(m.solution, set, s);
+          const auto& e = m.extremes[s];
+          const std::string where = c.id + " " + m.name + " span " + std::to_string(s + 1);
+          EXPECT_NEAR(e.max_moment, d.max_moment, 1e-9 * ms) << where;
+          EXPECT_NEAR(e.min_moment, d.min_moment, 1e-9 * ms) << where;
+          EXPECT_NEAR(std::abs(e.max_deflection), std::abs(d.max_deflection), 1e-9 * ds) << where;
+          ++compared;
+        }
+      }
+  }
+  EXPECT_GE(compared, 100u);
 }
 
 }  // namespace
