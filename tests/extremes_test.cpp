@@ -237,5 +237,45 @@ TEST(SecondRoute, ReSolvesEveryGoverningArrangement) {
   }
 }
 
+// The second route catches what the methods' agreement cannot: a fault that
+// all three answers share. Three copies of one method, each reporting every
+// deflection with a constant added (not linear: superposing n shares adds the
+// constant n times, a direct solve once), agree with each other perfectly;
+// only the direct solve of the governing arrangement shows the envelope is
+// wrong. (The fault is in the deflections, so that every copy is still in
+// equilibrium and nothing else calls it out.)
+TEST(SecondRoute, CatchesAFaultEveryMethodShares) {
+  static std::vector<Method> shared;
+  shared.clear();
+  for (const char* name : {"copy-a", "copy-b", "copy-c"})
+    shared.push_back({name, [](const Beam& b, const std::vector<Station>& st) {
+      Solution s = find_method("slope-deflection")->solve(b, st);
+      auto inner = s.at;
+      s.at = [inner](std::size_t span, const double& local, bool after) {
+        PointValues p = inner(span, local, after);
+        p.deflection += 0.001;  // m
+        return p;
+      };
+      return s;
+    }});
+  Options o;
+  o.method_set = &shared;
+  BeamResult r = run(two_spans("0.0", R"({"name": "pattern", "factors": {"dead": 1.2, "live": 1.6}, "pattern": ["live"]})"), o);
+  const LoadSet* s = set_named(r, "pattern");
+  ASSERT_NE(s, nullptr);
+  for (double d : s->max_difference) EXPECT_LT(d, 1e-12);  // the copies agree
+  for (const auto& m : s->methods) {
+    EXPECT_LT(m.equilibrium.force_residual, 1e-12) << m.name;  // and balance
+    EXPECT_LT(m.equilibrium.moment_residual, 1e-12) << m.name;
+  }
+  EXPECT_EQ(s->verdict, Verdict::Disagree) << s->problem;
+  EXPECT_NE(s->problem.find("second route"), std::string::npos) << s->problem;
+  bool failed_deflection = false;
+  for (const auto& rc : s->second_route)
+    if (!rc.holds) failed_deflection = failed_deflection || rc.quantity == "max_deflection";
+  EXPECT_TRUE(failed_deflection);
+  EXPECT_EQ(r.status, BeamStatus::Disagree);
+}
+
 }  // namespace
 }  // namespace trivet::compare

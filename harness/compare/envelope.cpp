@@ -868,7 +868,9 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
   for (auto& it : items) it.check.holds = true;
   for (std::size_t k = 0; k < choices.size(); ++k) {
     const Beam b = model.arrangement_beam(choices[k]);
-    const std::vector<Station> st = build_stations(b, 1);
+    // The load set's stations hold every position where a load of the
+    // arrangement acts (its loads are some of the load set's).
+    const std::vector<Station>& st = set.stations;
     for (const Method* m : methods) {
       Solution sol;
       try {
