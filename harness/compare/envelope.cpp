@@ -695,32 +695,9 @@ void compare_envelopes(LoadSet& set, double agreement) {
   for (std::size_t a = 0; a < ok.size(); ++a)
     for (std::size_t b = a + 1; b < ok.size(); ++b) {
       double pw = 0;
-      auto cmp = [&](Kind k, const std::vector<Bound>& A, const std::vector<Bound>& B, bool nodes) {
-        const double sc = set.scale[idx(k)];
-        for (std::size_t i = 0; i < A.size() && i < B.size(); ++i)
-          for (int side = 0; side < 2; ++side) {
-            const double va = side ? A[i].min : A[i].max, vb = side ? B[i].min : B[i].max;
-            const double r = sc > 0 ? std::abs(va - vb) / sc : std::abs(va - vb);
-            set.max_difference[idx(k)] = std::max(set.max_difference[idx(k)], r);
-            pw = std::max(pw, r);
-            if (r > best) {
-              best = r;
-              Worst w;
-              w.kind = k;
-              w.where = nodes ? "node " + set.beam.labels[i] + (side ? " (reaction_min)" : " (reaction_max)")
-                              : "x = " + fmt(set.stations[i].x) + (side ? " (min)" : " (max)");
-              w.x = nodes ? set.beam.node_x(i) : set.stations[i].x;
-              w.values = {{ok[a]->name, va}, {ok[b]->name, vb}};
-              set.worst = w;
-            }
-          }
-      };
-      cmp(Kind::Moment, ok[a]->envelope->moment, ok[b]->envelope->moment, false);
-      cmp(Kind::Shear, ok[a]->envelope->shear, ok[b]->envelope->shear, false);
-      cmp(Kind::Deflection, ok[a]->envelope->deflection, ok[b]->envelope->deflection, false);
-      cmp(Kind::Reaction, ok[a]->envelope->reaction, ok[b]->envelope->reaction, true);
-      // Each method's own span extremes of its envelope.
-      auto ext = [&](Kind k, double va, double vb, std::size_t s, const char* what, double x) {
+      // One difference between the two methods; `where` makes the text of
+      // the place only when it is the worst so far.
+      auto note = [&](Kind k, double va, double vb, double x, auto where) {
         const double sc = set.scale[idx(k)];
         const double r = sc > 0 ? std::abs(va - vb) / sc : std::abs(va - vb);
         set.max_difference[idx(k)] = std::max(set.max_difference[idx(k)], r);
@@ -729,11 +706,28 @@ void compare_envelopes(LoadSet& set, double agreement) {
           best = r;
           Worst w;
           w.kind = k;
-          w.where = "span " + std::to_string(s + 1) + " (" + what + ")";
+          w.where = where();
           w.x = x;
           w.values = {{ok[a]->name, va}, {ok[b]->name, vb}};
           set.worst = w;
         }
+      };
+      auto cmp = [&](Kind k, const std::vector<Bound>& A, const std::vector<Bound>& B, bool nodes) {
+        for (std::size_t i = 0; i < A.size() && i < B.size(); ++i)
+          for (int side = 0; side < 2; ++side)
+            note(k, side ? A[i].min : A[i].max, side ? B[i].min : B[i].max,
+                 nodes ? set.beam.node_x(i) : set.stations[i].x, [&] {
+                   return nodes ? "node " + set.beam.labels[i] + (side ? " (reaction_min)" : " (reaction_max)")
+                                : "x = " + fmt(set.stations[i].x) + (side ? " (min)" : " (max)");
+                 });
+      };
+      cmp(Kind::Moment, ok[a]->envelope->moment, ok[b]->envelope->moment, false);
+      cmp(Kind::Shear, ok[a]->envelope->shear, ok[b]->envelope->shear, false);
+      cmp(Kind::Deflection, ok[a]->envelope->deflection, ok[b]->envelope->deflection, false);
+      cmp(Kind::Reaction, ok[a]->envelope->reaction, ok[b]->envelope->reaction, true);
+      // Each method's own span extremes of its envelope.
+      auto ext = [&](Kind k, double va, double vb, std::size_t s, const char* what, double x) {
+        note(k, va, vb, x, [&] { return "span " + std::to_string(s + 1) + " (" + what + ")"; });
       };
       const auto& XA = ok[a]->extremes;
       const auto& XB = ok[b]->extremes;
