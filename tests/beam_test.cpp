@@ -92,5 +92,22 @@ TEST(Mechanism, HingeBetweenTwoPinnedEndsIsAMechanism) {
   EXPECT_EQ(m->first_span, 1u);
 }
 
+// The test is scale-free: the same beam in mm and in km gives the same
+// answer. Spans of 1e-13 (pinned, roller, roller) were called a mechanism
+// while 1e-12 was not, from an absolute tolerance on positions.
+TEST(Mechanism, ScaleFree) {
+  for (double L : {1e-13, 1e-6, 1.0, 1e6, 1e13}) {
+    Beam b = make({T::Pinned, T::Roller, T::Roller});
+    for (auto& s : b.spans) s.length = L;
+    EXPECT_FALSE(find_mechanism(b)) << "spans of " << L;
+    Beam h = make({T::Pinned, T::Free, T::Pinned}, {false, true, false});
+    for (auto& s : h.spans) s.length = L;
+    EXPECT_TRUE(find_mechanism(h)) << "spans of " << L;
+    Beam g = make({T::Fixed, T::Free, T::Pinned}, {false, true, false});
+    for (auto& s : g.spans) s.length = L;
+    EXPECT_FALSE(find_mechanism(g)) << "spans of " << L;
+  }
+}
+
 }  // namespace
 }  // namespace trivet

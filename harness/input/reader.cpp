@@ -952,6 +952,17 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
                                              format_number(load.to) + ")");
           continue;
         }
+        // A distributed load shorter than 1e-12 of its span is a point load
+        // written as a distributed one: its length is rounding of the span's
+        // positions, and no method can integrate it without cancellation.
+        // Refused, with what to write instead.
+        if ((load.type == LoadType::Udl || load.type == LoadType::Linear) && spans_ok &&
+            !(load.to - load.from > 1e-12 * L)) {
+          rd.error(ptr + "/to", where, "the load is " + format_number(load.to - load.from) + " " + out.units.length +
+                                           " long, below 1e-12 of its span (" + format_number(L) +
+                                           "): give it as a point load of its resultant, or give it a length");
+          continue;
+        }
         // A point force exactly at a span end acts on the node.
         if (load.type == LoadType::Point && !load.on_node && spans_ok) {
           if (!(load.at > 0.0)) { load.on_node = true; load.index = load.index; load.at = 0; }

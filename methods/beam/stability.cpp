@@ -31,8 +31,14 @@ struct Motions {
 std::optional<Mechanism> find_mechanism(const Beam& beam) {
   const std::size_t n = beam.spans.size();
   if (n == 0 || beam.supports.size() != n + 1) return std::nullopt;
+  // Positions as fractions of the beam's length: the test is then the same
+  // for the same beam in mm and in km (scale-free), and its tolerances are
+  // relative to the beam.
   std::vector<double> xs(n + 1, 0.0);
   for (std::size_t i = 0; i < n; ++i) xs[i + 1] = xs[i] + beam.spans[i].length;
+  const double total = xs[n];
+  if (total > 0 && std::isfinite(total))
+    for (double& x : xs) x /= total;
   auto label = [&](std::size_t i) {
     return i < beam.labels.size() ? beam.labels[i] : std::to_string(i + 1);
   };
