@@ -111,6 +111,21 @@ TEST(Compare, BrokenMethodIsNamedAsTheOddOneOut) {
   EXPECT_EQ(r.status, BeamStatus::Disagree);
 }
 
+// A beam no method can compute in double (EI of 5e-324: every pivot is
+// zero) is an input problem, named as such, never a disagreement.
+TEST(Compare, EveryMethodFailingIsAnInputProblemNotADisagreement) {
+  input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 5e-324}, {"length": 5, "EI": 5e-324}], "supports": ["pinned", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 10}]})", "t.json");
+  ASSERT_TRUE(f.ok());
+  BeamResult r = check(f, {});
+  EXPECT_EQ(r.status, BeamStatus::Invalid);
+  ASSERT_EQ(r.errors.size(), 1u);
+  EXPECT_NE(r.errors[0].reason.find("no method could compute this beam in double precision"), std::string::npos)
+      << r.errors[0].reason;
+  EXPECT_TRUE(r.sets.empty());
+}
+
 TEST(Compare, NotApplicableMethodLeavesTwo) {
   // A spring: three-moment cannot treat it; the other two still confirm.
   BeamResult r = run(R"({"units": {"force": "kN", "length": "m"},

@@ -620,6 +620,28 @@ void finish(BeamResult& out, const input::BeamFile& file) {
   }
   disagree = disagree || out.claims_failed() > 0;
   out.status = disagree ? BeamStatus::Disagree : unconfirmed ? BeamStatus::Unconfirmed : BeamStatus::Agree;
+  // A load set that every applicable method failed to compute (a spring of
+  // 5e-324, numbers that overflow) is not a disagreement between methods:
+  // it is an input that double precision cannot carry. The beam is invalid,
+  // with the methods' reasons.
+  for (const auto& s : out.sets) {
+    std::size_t failed = 0;
+    std::string reasons;
+    for (const auto& m : s.methods)
+      if (m.status == MethodStatus::Failed) {
+        ++failed;
+        reasons += (reasons.empty() ? "" : "; ") + m.name + ": " + m.reason;
+      }
+    if (s.ok_count() == 0 && failed > 0) {
+      out.errors.push_back({"", "", "load set " + s.name + ": no method could compute this beam in double precision (" +
+                                        reasons + "); check the magnitudes of its numbers"});
+      out.status = BeamStatus::Invalid;
+    }
+  }
+  if (out.status == BeamStatus::Invalid) {
+    out.sets.clear();
+    out.claims.clear();
+  }
 }
 
 // Stations from which a load set's methods run side by side.

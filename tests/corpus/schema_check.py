@@ -111,10 +111,19 @@ def strict_load(data):
 
 
 def trivet_verdict(trivet, path):
-    r = subprocess.run([trivet, "check", path, "--jobs", "1"], stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+    """True when the reader accepts the file: trivet exits 0 or 1, or exits 2
+    only because no method can compute the accepted beam in double."""
+    r = subprocess.run([trivet, "check", path, "--jobs", "1", "--json", "-"], stdout=subprocess.PIPE, stderr=subprocess.PIPE)
     if r.returncode not in (0, 1, 2):
         raise SystemExit("trivet check %s exited %d: %s" % (path, r.returncode, r.stderr.decode(errors="replace")))
-    return r.returncode != 2
+    if r.returncode != 2:
+        return True
+    try:
+        beams = json.loads(r.stdout.decode("utf-8"))["beams"]
+    except (ValueError, KeyError):
+        return False
+    errors = [e for b in beams for e in b.get("errors", [])]
+    return bool(errors) and all("no method could compute" in e.get("reason", "") for e in errors)
 
 
 def main():
