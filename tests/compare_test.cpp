@@ -126,6 +126,25 @@ TEST(Compare, EveryMethodFailingIsAnInputProblemNotADisagreement) {
   EXPECT_TRUE(r.sets.empty());
 }
 
+// A settlement of 1e300 m swamps a 10 kN/m load: the methods agree on the
+// settlement alone, and the beam carries a warning naming it.
+TEST(Compare, SettlementThatSwampsTheLoadsIsNamed) {
+  input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 50000}, {"length": 5, "EI": 50000}],
+    "supports": ["pinned", {"type": "roller", "settlement": 1e300}, "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 10}]})", "t.json");
+  ASSERT_TRUE(f.ok());
+  BeamResult r = check(f, {});
+  ASSERT_EQ(r.warnings.size(), 1u);
+  EXPECT_NE(r.warnings[0].find("the settlement at node B makes forces"), std::string::npos) << r.warnings[0];
+  // An ordinary settlement gives no such warning.
+  input::BeamFile g = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 50000}, {"length": 5, "EI": 50000}],
+    "supports": ["pinned", {"type": "roller", "settlement": 0.01}, "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 10}]})", "t.json");
+  EXPECT_TRUE(check(g, {}).warnings.empty());
+}
+
 TEST(Compare, NotApplicableMethodLeavesTwo) {
   // A spring: three-moment cannot treat it; the other two still confirm.
   BeamResult r = run(R"({"units": {"force": "kN", "length": "m"},

@@ -641,6 +641,26 @@ void finish(BeamResult& out, const input::BeamFile& file) {
   if (out.status == BeamStatus::Invalid) {
     out.sets.clear();
     out.claims.clear();
+    return;
+  }
+  // Settlements so large that the loads' effect is below their rounding:
+  // the methods agree, but on the settlement alone.
+  for (const auto& s : out.sets) {
+    double applied = 0;
+    for (const auto& l : s.beam.loads)
+      applied += std::abs(l.P) + std::abs(l.C) / std::max(s.beam.node_x(s.beam.node_count() - 1), 1e-300) +
+                 0.5 * (std::abs(l.w1) + std::abs(l.w2)) * (l.to - l.from);
+    const double forces = std::max(s.scale[static_cast<int>(Kind::Reaction)], s.scale[static_cast<int>(Kind::Shear)]);
+    if (!(applied > 0) || !(forces > 1e12 * applied)) continue;
+    std::string nodes;
+    for (std::size_t i = 0; i < s.beam.supports.size(); ++i)
+      if (std::abs(s.beam.supports[i].settlement) > 0) nodes += (nodes.empty() ? "" : ", ") + s.beam.labels[i];
+    if (nodes.empty()) continue;
+    const bool one = nodes.find(',') == std::string::npos;
+    const std::string w = "load set " + s.name + ": the settlement" + (one ? " at node " : "s at nodes ") + nodes +
+                          (one ? " makes forces " : " make forces ") + fmt(forces / applied) +
+                          " times the applied loads: the loads' own effect is below the rounding of the result";
+    if (std::find(out.warnings.begin(), out.warnings.end(), w) == out.warnings.end()) out.warnings.push_back(w);
   }
 }
 
