@@ -186,6 +186,24 @@ TEST(ExactReader, ASettlementNamingItsCaseStaysInThatCase) {
   EXPECT_NEAR(dead.methods[0].nodes[1].deflection.value, 0.0, 1e-300);
 }
 
+// One unit grammar for both readers, and one list of symbols: every symbol
+// the double reader knows has an exact factor, and the spellings engineers
+// type (kNm, mm4, N/mm2) read the same exactly: 12 kNm is 12 kN*m, and
+// 8.6e7 mm4 is 86/1000000 m^4, exactly.
+TEST(ExactReader, SharesTheUnitGrammarAndSymbols) {
+  for (const auto& u : input::unit_symbols()) EXPECT_TRUE(exact_unit_factor(u.symbol).has_value()) << u.symbol;
+  const input::Units kn_m;
+  auto m = parse_exact_quantity("12 kNm", {1, 1}, kn_m);
+  ASSERT_TRUE(m.ok) << m.reason;
+  EXPECT_EQ(m.value, Exact(12));
+  auto i = parse_exact_quantity("8.6e7 mm4", {0, 4}, kn_m);
+  ASSERT_TRUE(i.ok) << i.reason;
+  EXPECT_EQ(i.value, frac(86, 1000000));
+  auto e = parse_exact_quantity("200000 N/mm2", {1, -2}, kn_m);
+  ASSERT_TRUE(e.ok) << e.reason;
+  EXPECT_EQ(e.value, Exact(200000000));
+}
+
 // ---------------------------------------------------------------------------
 // The exact reader.
 

@@ -81,6 +81,131 @@ std::optional<double> length_unit(const std::string& name) {
   return it->second.si;
 }
 
+const std::vector<UnitSymbol>& unit_symbols() {
+  static const std::vector<UnitSymbol> v = [] {
+    std::vector<UnitSymbol> out;
+    // In the order people read them: forces, lengths, stresses, angle.
+    for (const char* s : {"N", "kN", "MN", "lbf", "kip", "kips", "mm", "cm", "m", "in", "ft", "Pa", "kPa", "MPa",
+                          "GPa", "psi", "ksi", "rad"})
+      out.push_back({s, unit_table().at(s).dim});
+    return out;
+  }();
+  return v;
+}
+
+std::string known_units_text() {
+  std::string s;
+  for (const auto& u : unit_symbols())
+    if (std::string(u.symbol) != "kips") s += (s.empty() ? "" : ", ") + std::string(u.symbol);
+  return s;
+}
+
+namespace {
+
+bool is_symbol(const std::string& s) { return unit_table().count(s) > 0; }
+
+// The splits of `run` into known symbols with the fewest pieces (more than
+// one such split: ambiguous). Runs are a few letters, so all are tried.
+void splits(const std::string& run, std::size_t from, std::vector<std::string>& cur,
+            std::vector<std::vector<std::string>>& best) {
+  if (!best.empty() && cur.size() > best.front().size()) return;
+  if (from == run.size()) {
+    if (!best.empty() && cur.size() < best.front().size()) best.clear();
+    best.push_back(cur);
+    return;
+  }
+  for (std::size_t len = run.size() - from; len >= 1; --len) {
+    const std::string piece = run.substr(from, len);
+    if (!is_symbol(piece)) continue;
+    cur.push_back(piece);
+    splits(run, from + len, cur, best);
+    cur.pop_back();
+  }
+}
+
+std::string normalise_unit_text(const std::string& u) {
+  std::string norm;
+  for (std::size_t i = 0; i < u.size();) {
+    const unsigned char c = static_cast<unsigned char>(u[i]);
+    auto next = [&](std::size_t o) { return i + o < u.size() ? static_cast<unsigned char>(u[i + o]) : 0u; };
+    if (c == 0xC2 && next(1) == 0xB7) { norm += '*'; i += 2; continue; }                     // ·
+    if (c == 0xC2 && next(1) == 0xB2) { norm += "^2"; i += 2; continue; }                    // ²
+    if (c == 0xC2 && next(1) == 0xB3) { norm += "^3"; i += 2; continue; }                    // ³
+    if (c == 0xE2 && next(1) == 0x81 && next(2) == 0xB4) { norm += "^4"; i += 3; continue; }  // ⁴
+    if (c == 0xE2 && next(1) == 0x8B && next(2) == 0x85) { norm += '*'; i += 3; continue; }  // ⋅
+    norm += static_cast<char>(c);
+    ++i;
+  }
+  return norm;
+}
+
+}  // namespace
+
+std::optional<std::vector<UnitTerm>> parse_unit_expression(const std::string& unit, const std::string& text,
+                                                           std::string* reason) {
+  const std::string norm = normalise_unit_text(unit);
+  std::vector<UnitTerm> out;
+  int sign = 1;
+  std::size_t i = 0;
+  auto fail = [&](const std::string& why) -> std::optional<std::vector<UnitTerm>> {
+    *reason = why;
+    return std::nullopt;
+  };
+  auto space = [&](std::size_t k) { return k < norm.size() && std::isspace(static_cast<unsigned char>(norm[k])); };
+  while (space(i)) ++i;
+  while (i < norm.size()) {
+    const char c = norm[i];
+    if (c == '*' || c == '.' || c == '-' || space(i)) {
+      // A product sign: '.' and '-' only between two factors.
+      if ((c == '.' || c == '-') && (out.empty() || i + 1 >= norm.size() || !std::isalpha(static_cast<unsigned char>(norm[i + 1]))))
+        return fail("cannot read the unit in \"" + text + "\"");
+      ++i;
+      continue;
+    }
+    if (c == '/') {
+      if (sign < 0) return fail("the unit in \"" + text + "\" has more than one '/'");
+      sign = -1;
+      ++i;
+      continue;
+    }
+    std::size_t j = i;
+    while (j < norm.size() && std::isalpha(static_cast<unsigned char>(norm[j]))) ++j;
+    if (j == i) return fail("cannot read the unit in \"" + text + "\"");
+    const std::string run = norm.substr(i, j - i);
+    std::vector<std::string> pieces;
+    if (is_symbol(run)) {
+      pieces = {run};
+    } else {
+      std::vector<std::string> cur;
+      std::vector<std::vector<std::string>> found;
+      if (run.size() <= 24) splits(run, 0, cur, found);
+      if (found.size() != 1)
+        return fail("unknown unit '" + run + "' in \"" + text + "\" (known: " + known_units_text() + ")");
+      pieces = found.front();
+    }
+    i = j;
+    // A power: ^n, ^-n, or digits right after the symbol.
+    int p = 1;
+    const bool caret = i < norm.size() && norm[i] == '^';
+    if (caret || (i < norm.size() && std::isdigit(static_cast<unsigned char>(norm[i])))) {
+      if (caret) ++i;
+      std::size_t k = i;
+      if (caret && k < norm.size() && norm[k] == '-') ++k;
+      const std::size_t digits_from = k;
+      while (k < norm.size() && std::isdigit(static_cast<unsigned char>(norm[k]))) ++k;
+      if (k == digits_from) return fail("cannot read the power in \"" + text + "\"");
+      // At most a few digits: strtol on a long digit string would overflow.
+      const std::string digits = norm.substr(i, k - i);
+      p = k - digits_from > 3 ? 999 : static_cast<int>(std::strtol(digits.c_str(), nullptr, 10));
+      i = k;
+      if (p < -6 || p > 6) return fail("power out of range in \"" + text + "\"");
+    }
+    for (std::size_t k = 0; k < pieces.size(); ++k)
+      out.push_back({pieces[k], sign * (k + 1 == pieces.size() ? p : 1)});
+  }
+  return out;
+}
+
 QuantityText parse_quantity(const std::string& text, Dimension want, const Units& units) {
   QuantityText r;
   const char* s = text.c_str();
@@ -107,81 +232,18 @@ QuantityText parse_quantity(const std::string& text, Dimension want, const Units
       return r;
     }
   }
-  // Unit expression.
-  std::string u(end);
-  // Normalise separators and superscripts.
-  std::string norm;
-  for (std::size_t i = 0; i < u.size();) {
-    unsigned char c = static_cast<unsigned char>(u[i]);
-    if (c == 0xC2 && i + 1 < u.size() && static_cast<unsigned char>(u[i + 1]) == 0xB7) {  // ·
-      norm += '*'; i += 2; continue;
-    }
-    if (c == 0xC2 && i + 1 < u.size() && static_cast<unsigned char>(u[i + 1]) == 0xB2) {  // ²
-      norm += "^2"; i += 2; continue;
-    }
-    if (c == 0xC2 && i + 1 < u.size() && static_cast<unsigned char>(u[i + 1]) == 0xB3) {  // ³
-      norm += "^3"; i += 2; continue;
-    }
-    if (c == 0xE2 && i + 2 < u.size() && static_cast<unsigned char>(u[i + 1]) == 0x81 &&
-        static_cast<unsigned char>(u[i + 2]) == 0xB4) {  // ⁴
-      norm += "^4"; i += 3; continue;
-    }
-    if (c == 0xE2 && i + 2 < u.size() && static_cast<unsigned char>(u[i + 1]) == 0x8B &&
-        static_cast<unsigned char>(u[i + 2]) == 0x85) {  // ⋅
-      norm += '*'; i += 3; continue;
-    }
-    norm += static_cast<char>(c);
-    ++i;
-  }
+  // Unit expression (the one grammar, parse_unit_expression).
+  const std::string u(end);
+  auto terms = parse_unit_expression(u, text, &r.reason);
+  if (!terms) return r;
   double si = v;
   Dimension dim{0, 0};
-  bool any_unit = false;
-  int sign = 1;
-  std::size_t i = 0;
-  auto skip_space = [&] { while (i < norm.size() && std::isspace(static_cast<unsigned char>(norm[i]))) ++i; };
-  skip_space();
-  while (i < norm.size()) {
-    if (norm[i] == '*') { ++i; skip_space(); continue; }
-    if (norm[i] == '/') {
-      if (sign < 0) { r.reason = "the unit \"" + u.substr(0) + "\" has more than one '/'"; return r; }
-      sign = -1; ++i; skip_space(); continue;
-    }
-    std::size_t j = i;
-    while (j < norm.size() && std::isalpha(static_cast<unsigned char>(norm[j]))) ++j;
-    if (j == i) {
-      r.reason = "cannot read the unit in \"" + text + "\"";
-      return r;
-    }
-    std::string sym = norm.substr(i, j - i);
-    auto it = unit_table().find(sym);
-    if (it == unit_table().end()) {
-      r.reason = "unknown unit '" + sym + "' in \"" + text +
-                 "\" (known: N, kN, MN, lbf, kip, mm, cm, m, in, ft, Pa, kPa, MPa, GPa, psi, ksi, rad)";
-      return r;
-    }
-    i = j;
-    int p = 1;
-    if (i < norm.size() && norm[i] == '^') {
-      ++i;
-      std::size_t k = i;
-      if (k < norm.size() && norm[k] == '-') ++k;
-      while (k < norm.size() && std::isdigit(static_cast<unsigned char>(norm[k]))) ++k;
-      if (k == i || (k == i + 1 && norm[i] == '-')) {
-        r.reason = "cannot read the power in \"" + text + "\"";
-        return r;
-      }
-      // At most a few digits: strtol on a long digit string would overflow.
-      const std::string digits = norm.substr(i, k - i);
-      p = digits.size() > 3 ? 999 : static_cast<int>(std::strtol(digits.c_str(), nullptr, 10));
-      i = k;
-      if (p < -6 || p > 6) { r.reason = "power out of range in \"" + text + "\""; return r; }
-    }
-    any_unit = true;
-    const int e = sign * p;
-    si *= std::pow(it->second.si, e);
-    dim.force += e * it->second.dim.force;
-    dim.length += e * it->second.dim.length;
-    skip_space();
+  const bool any_unit = !terms->empty();
+  for (const auto& t : *terms) {
+    const UnitDef& d = unit_table().at(t.symbol);
+    si *= std::pow(d.si, t.power);
+    dim.force += t.power * d.dim.force;
+    dim.length += t.power * d.dim.length;
   }
   if (!any_unit) {
     r.ok = true;

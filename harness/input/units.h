@@ -3,6 +3,7 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace trivet::input {
 
@@ -42,10 +43,36 @@ struct QuantityText {
   std::string reason;       // why not, when !ok
 };
 
-// Reads a number followed by a unit expression (products and one quotient
-// of N, kN, MN, lbf, kip, mm, cm, m, in, ft, Pa, kPa, MPa, GPa, psi, ksi,
-// rad; powers as ^2 or superscripts; '*', '·' or a space between factors)
-// and converts it to `units`, checking it has dimension `want`. A number
+// One factor of a unit expression: a known symbol to a power ("mm", 4).
+struct UnitTerm {
+  std::string symbol;
+  int power = 1;
+};
+
+// The unit symbols the readers know, each with its dimension, in one list
+// (the double reader's factors are in units.cpp, the exact reader's in
+// harness/precision/exact_reader.cpp; a test holds the two to this list).
+struct UnitSymbol {
+  const char* symbol;
+  Dimension dim;
+};
+const std::vector<UnitSymbol>& unit_symbols();
+// "N, kN, MN, lbf, kip, mm, ..." for messages.
+std::string known_units_text();
+
+// The one grammar of a unit expression (the text after a quantity's
+// number), for the double and the exact reader alike. Factors are known
+// symbols; between them '*', '·', '⋅', '.', '-' or spaces; at most one '/';
+// a power as ^n, ^-n, a superscript (², ³, ⁴) or digits right after the
+// symbol (mm4, N/mm2). A run of letters that is no symbol is read as known
+// symbols written together where it splits into them one way (kNm = kN*m,
+// kipft = kip*ft). `text` is the whole quantity, for messages. Nothing and
+// `reason` set when it cannot be read.
+std::optional<std::vector<UnitTerm>> parse_unit_expression(const std::string& unit, const std::string& text,
+                                                           std::string* reason);
+
+// Reads a number followed by a unit expression (parse_unit_expression) and
+// converts it to `units`, checking it has dimension `want`. A number
 // without a unit is taken to be in the file's units.
 QuantityText parse_quantity(const std::string& text, Dimension want, const Units& units);
 

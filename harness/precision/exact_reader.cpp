@@ -162,57 +162,19 @@ ExactQuantity parse_exact_quantity(const std::string& text, input::Dimension wan
     r.reason = "cannot read the number in \"" + text + "\"";
     return r;
   }
-  // The unit expression, normalised as units.cpp does.
+  // The unit expression, by the one grammar of units.h.
   const std::string u = text.substr(j);
-  std::string norm;
-  for (std::size_t k = 0; k < u.size();) {
-    const unsigned char c = static_cast<unsigned char>(u[k]);
-    auto next = [&](std::size_t o) { return k + o < u.size() ? static_cast<unsigned char>(u[k + o]) : 0u; };
-    if (c == 0xC2 && next(1) == 0xB7) { norm += '*'; k += 2; continue; }
-    if (c == 0xC2 && next(1) == 0xB2) { norm += "^2"; k += 2; continue; }
-    if (c == 0xC2 && next(1) == 0xB3) { norm += "^3"; k += 2; continue; }
-    if (c == 0xE2 && next(1) == 0x81 && next(2) == 0xB4) { norm += "^4"; k += 3; continue; }
-    if (c == 0xE2 && next(1) == 0x8B && next(2) == 0x85) { norm += '*'; k += 3; continue; }
-    norm += static_cast<char>(c);
-    ++k;
-  }
+  auto terms = input::parse_unit_expression(u, text, &r.reason);
+  if (!terms) return r;
   Exact si = *v;
   input::Dimension dim{0, 0};
-  bool any_unit = false;
-  int sign = 1;
-  std::size_t k = 0;
-  auto skip_space = [&] { while (k < norm.size() && std::isspace(static_cast<unsigned char>(norm[k]))) ++k; };
-  skip_space();
-  while (k < norm.size()) {
-    if (norm[k] == '*') { ++k; skip_space(); continue; }
-    if (norm[k] == '/') {
-      if (sign < 0) { r.reason = "more than one '/' in \"" + text + "\""; return r; }
-      sign = -1; ++k; skip_space(); continue;
-    }
-    std::size_t e = k;
-    while (e < norm.size() && std::isalpha(static_cast<unsigned char>(norm[e]))) ++e;
-    if (e == k) { r.reason = "cannot read the unit in \"" + text + "\""; return r; }
-    const std::string sym = norm.substr(k, e - k);
-    auto it = exact_units().find(sym);
-    if (it == exact_units().end()) { r.reason = "unknown unit '" + sym + "' in \"" + text + "\""; return r; }
-    k = e;
-    int p = 1;
-    if (k < norm.size() && norm[k] == '^') {
-      ++k;
-      std::size_t q = k;
-      if (q < norm.size() && norm[q] == '-') ++q;
-      while (q < norm.size() && std::isdigit(static_cast<unsigned char>(norm[q]))) ++q;
-      if (q == k || (q == k + 1 && norm[k] == '-')) { r.reason = "cannot read the power in \"" + text + "\""; return r; }
-      p = std::atoi(norm.substr(k, q - k).c_str());
-      k = q;
-      if (p < -6 || p > 6) { r.reason = "power out of range in \"" + text + "\""; return r; }
-    }
-    any_unit = true;
-    const int ex = sign * p;
-    si *= ipow(it->second.si, ex);
-    dim.force += ex * it->second.dim.force;
-    dim.length += ex * it->second.dim.length;
-    skip_space();
+  const bool any_unit = !terms->empty();
+  for (const auto& t : *terms) {
+    auto it = exact_units().find(t.symbol);
+    if (it == exact_units().end()) { r.reason = "unit '" + t.symbol + "' is not known exactly"; return r; }
+    si *= ipow(it->second.si, t.power);
+    dim.force += t.power * it->second.dim.force;
+    dim.length += t.power * it->second.dim.length;
   }
   if (!any_unit) {
     r.ok = true;
