@@ -69,6 +69,24 @@ TEST(TurningPoints, OfAQuinticThroughItsSamples) {
   EXPECT_EQ(static_cast<int>(tp.size()), sign_changes);
 }
 
+// The Hermite forms reproduce a cubic from its end values and slopes, and a
+// quintic from those and two samples inside (a general law of polynomials).
+TEST(TurningPoints, HermiteFormsReproduceTheirPolynomials) {
+  auto f3 = [](double x) { return 2 - 3 * x + 0.5 * x * x - 0.25 * x * x * x; };
+  auto d3 = [](double x) { return -3 + x - 0.75 * x * x; };
+  auto f5 = [](double x) { return 1 + x - 2 * x * x + 0.3 * std::pow(x, 3) - 0.1 * std::pow(x, 4) + 0.02 * std::pow(x, 5); };
+  auto d5 = [](double x) { return 1 - 4 * x + 0.9 * x * x - 0.4 * std::pow(x, 3) + 0.1 * std::pow(x, 4); };
+  const double a = 1.5, b = 4.0, m = 0.5 * (a + b), h = 0.5 * (b - a);
+  const Poly p3 = hermite3(a, b, f3(a), d3(a), f3(b), d3(b));
+  const auto hx = hermite_points(a, b);
+  const Poly p5 = hermite5(a, b, f5(a), d5(a), {f5(hx[0]), f5(hx[1])}, f5(b), d5(b));
+  for (int k = 0; k <= 20; ++k) {
+    const double x = a + (b - a) * k / 20.0, t = (x - m) / h;
+    EXPECT_NEAR(evaluate(p3, t), f3(x), 1e-12) << x;
+    EXPECT_NEAR(evaluate(p5, t), f5(x), 1e-12) << x;
+  }
+}
+
 BeamResult run(const std::string& text, Options o = {}) {
   input::BeamFile f = input::parse_beam_text(text, "t.json");
   EXPECT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors.front().format("t.json"));

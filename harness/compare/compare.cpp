@@ -225,16 +225,17 @@ SpanExtremes method_span_extremes(const MethodResult& m, const LoadSet& set, std
   for (std::size_t k = begin; k + 1 < end; ++k) {
     const double a = set.stations[k].local, b = set.stations[k + 1].local;
     if (!(b > a)) continue;
-    const auto inner_x = sample_points(a, b);
-    std::array<double, kDegree - 1> im{}, iv{};
-    for (std::size_t j = 0; j < inner_x.size(); ++j) {
-      const PointValues p = m.solution.at(s, inner_x[j], false);
-      im[j] = p.moment;
-      iv[j] = p.deflection;
-    }
+    // The moment: the cubic through the end values and slopes (the shear);
+    // the deflection: the quintic through them (the rotation) and two
+    // samples inside. Exact for Euler-Bernoulli pieces (extremes.h).
+    const StationValues& A = m.stations[k];
+    const StationValues& B = m.stations[k + 1];
+    const auto hx = hermite_points(a, b);
+    std::array<double, 2> iv{};
+    for (std::size_t j = 0; j < hx.size(); ++j) iv[j] = m.solution.at(s, hx[j], false).deflection;
     cand.clear();
-    turning_points(a, b, m.stations[k].moment, im, m.stations[k + 1].moment, cand);
-    turning_points(a, b, m.stations[k].deflection, iv, m.stations[k + 1].deflection, cand);
+    turning_points_of(hermite3(a, b, A.moment, A.shear, B.moment, B.shear), a, b, cand);
+    turning_points_of(hermite5(a, b, A.deflection, A.rotation, iv, B.deflection, B.rotation), a, b, cand);
     for (double t : cand) {
       const PointValues p = m.solution.at(s, t, false);
       consider(t, p.moment, p.deflection);

@@ -201,12 +201,11 @@ std::pair<double, double> largest(const Poly& p, double t0, double t1, double si
   return {best, at};
 }
 
-void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
-                    std::vector<double>& out) {
-  if (!(b > a) || !std::isfinite(fa) || !std::isfinite(fb)) return;
-  for (double v : inner)
+void turning_points_of(const Poly& p, double a, double b, std::vector<double>& out) {
+  if (!(b > a)) return;
+  for (double v : p)
     if (!std::isfinite(v)) return;
-  Poly c = interpolate(fa, inner, fb);
+  Poly c = p;
   // Drop coefficients that are rounding noise of the values, so a quadratic
   // is not given spurious turning points by 1e-17 cubic terms (harmless, as
   // every candidate is evaluated, but wasted work).
@@ -222,6 +221,82 @@ void turning_points(double a, double b, double fa, const std::array<double, kDeg
     const double x = m + h * z[i];
     if (x > a && x < b) out.push_back(x);
   }
+}
+
+void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
+                    std::vector<double>& out) {
+  if (!(b > a) || !std::isfinite(fa) || !std::isfinite(fb)) return;
+  turning_points_of(interpolate(fa, inner, fb), a, b, out);
+}
+
+Poly hermite3(double a, double b, double fa, double dfa, double fb, double dfb) {
+  // p(t) on [-1, 1] with p(-1) = fa, p(1) = fb, p'(-1) = h dfa, p'(1) = h dfb.
+  const double h = 0.5 * (b - a), m0 = h * dfa, m1 = h * dfb;
+  return Poly{0.5 * (fa + fb) - 0.25 * (m1 - m0), 0.75 * (fb - fa) - 0.25 * (m0 + m1), 0.25 * (m1 - m0),
+              0.25 * (m0 + m1) - 0.25 * (fb - fa), 0, 0};
+}
+
+std::array<double, 2> hermite_points(double a, double b) {
+  const double m = 0.5 * (a + b), h = 0.5 * (b - a);
+  return {m - 0.5 * h, m + 0.5 * h};
+}
+
+namespace {
+
+// The inverse of the confluent Vandermonde matrix of the conditions
+// p(-1), p'(-1), p(-1/2), p(1/2), p(1), p'(1) on t^0..t^5, once.
+struct InverseHermite {
+  double m[6][6];
+  InverseHermite() {
+    double A[6][12] = {};
+    auto value = [&](int row, double t) {
+      double p = 1;
+      for (int k = 0; k < 6; ++k) { A[row][k] = p; p *= t; }
+    };
+    auto slope = [&](int row, double t) {
+      A[row][0] = 0;
+      double p = 1;
+      for (int k = 1; k < 6; ++k) { A[row][k] = k * p; p *= t; }
+    };
+    value(0, -1.0);
+    slope(1, -1.0);
+    value(2, -0.5);
+    value(3, 0.5);
+    value(4, 1.0);
+    slope(5, 1.0);
+    for (int r = 0; r < 6; ++r) A[r][6 + r] = 1.0;
+    for (int col = 0; col < 6; ++col) {
+      int piv = col;
+      for (int r = col + 1; r < 6; ++r)
+        if (std::abs(A[r][col]) > std::abs(A[piv][col])) piv = r;
+      if (piv != col)
+        for (int k = 0; k < 12; ++k) std::swap(A[piv][k], A[col][k]);
+      const double dv = A[col][col];
+      for (int k = 0; k < 12; ++k) A[col][k] /= dv;
+      for (int r = 0; r < 6; ++r) {
+        if (r == col) continue;
+        const double f = A[r][col];
+        for (int k = 0; k < 12; ++k) A[r][k] -= f * A[col][k];
+      }
+    }
+    for (int r = 0; r < 6; ++r)
+      for (int k = 0; k < 6; ++k) m[r][k] = A[r][6 + k];
+  }
+};
+
+}  // namespace
+
+Poly hermite5(double a, double b, double fa, double dfa, const std::array<double, 2>& inner, double fb, double dfb) {
+  static const InverseHermite inv;
+  const double h = 0.5 * (b - a);
+  const double y[6] = {fa, h * dfa, inner[0], inner[1], fb, h * dfb};
+  Poly c{};
+  for (int r = 0; r < 6; ++r) {
+    double s = 0;
+    for (int k = 0; k < 6; ++k) s += inv.m[r][k] * y[k];
+    c[static_cast<std::size_t>(r)] = s;
+  }
+  return c;
 }
 
 }  // namespace trivet::compare

@@ -53,6 +53,18 @@ double evaluate(const Poly& p, double t);
 // at an end or at a zero of p' inside.
 std::pair<double, double> largest(const Poly& p, double t0, double t1, double sign);
 
+// With the slopes at the ends as well (dp/dx there: the shear for the
+// moment, the rotation for the deflection), fewer samples fix the
+// polynomial: the cubic through the end values and slopes (exact for the
+// moment under a linear load), and the quintic through them and two
+// interior samples at hermite_points (exact for the deflection).
+Poly hermite3(double a, double b, double fa, double dfa, double fb, double dfb);
+std::array<double, 2> hermite_points(double a, double b);
+Poly hermite5(double a, double b, double fa, double dfa, const std::array<double, 2>& inner, double fb, double dfb);
+// The points strictly inside (a, b) where the derivative of p (in t on
+// [a, b], as above) vanishes. Appends to `out`.
+void turning_points_of(const Poly& p, double a, double b, std::vector<double>& out);
+
 // The zeros of p in [lo, hi], increasing, into out; returns their count
 // (as polynomial_zeros, without allocating).
 int poly_zeros(const Poly& p, double lo, double hi, std::array<double, kDegree>& out);
