@@ -56,7 +56,9 @@ namespace detail {
 // The same solve without its special cases for the common pinned/roller
 // shape (the unrolled assembly of a rotations-only element, the
 // tridiagonal factorisation): the general path, for tests that compare the
-// two. Not for other use.
+// two (equal to 1e-13 of the largest value of each kind). Not for other
+// use. No `stations` argument: `solve` does not use its stations either
+// (the answer is exact anywhere in a span), so the seam takes the beam only.
 template <class R>
 BasicSolution<R> solve_general(const BasicBeam<R>& beam);
 extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&);
