@@ -1,0 +1,80 @@
+// The commands' shared parts (private to harness/cli): the parsed options,
+// the exit codes of the contract, the usage error and small helpers.
+//   0 every method agrees and every claim holds; 1 a disagreement, a failed
+//   claim or an unconfirmed beam; 2 a file or the command line is invalid;
+//   3 an internal failure.
+#pragma once
+#include <sstream>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+#include "harness/compare/compare.h"
+#include "harness/input/reader.h"
+
+#ifndef TRIVET_VERSION
+#define TRIVET_VERSION "0.0.0"
+#endif
+
+namespace trivet::cli {
+
+constexpr int kExitAgree = 0, kExitDisagree = 1, kExitInvalid = 2, kExitInternal = 3;
+
+// A usage or input error found before any work: carries the exit code and
+// the whole message; main prints it (one line on standard error) and exits.
+struct UsageError : std::runtime_error {
+  explicit UsageError(const std::string& message, int exit_code = kExitInvalid)
+      : std::runtime_error(message), code(exit_code) {}
+  int code;
+};
+
+// Throws a UsageError (exit 2) whose message is the parts written in order.
+template <class... Parts>
+[[noreturn]] void fail(const Parts&... parts) {
+  std::ostringstream o;
+  (o << ... << parts);
+  throw UsageError(o.str());
+}
+
+struct CheckArgs {
+  std::vector<std::string> paths;
+  std::string json, junit, html, methods, shard;
+  std::string command_line;
+  double agreement = 1e-6;
+  int stations_per_span = 0;
+  unsigned jobs = 0;
+  bool all_rows = false;
+  // --against and how to read the other program's tables.
+  std::vector<std::string> against, columns;
+  std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
+  std::string arithmetic = "double", reference;
+};
+
+struct SelfcheckArgs {
+  std::string json, junit, html, methods, dir, command_line;
+  std::string arithmetic = "double", reference;
+};
+
+// The shard (0-based) a file belongs to: a hash of its path (FNV-1a).
+unsigned shard_of(const std::string& path, unsigned n);
+// Colour only on a terminal and never with NO_COLOR.
+bool use_color(int fd);
+std::vector<std::string> split_list(const std::string& s);
+
+// Warnings about digits double may lose, for every beam (a pure function of
+// the beam), and, with --arithmetic or --reference, the results in extended
+// or exact arithmetic: with --arithmetic the methods' values are replaced by
+// the high-precision ones (correctly rounded to double) and the verdict,
+// consensus and claims recomputed from them.
+void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
+                          const std::string& arithmetic, const std::string& reference, const compare::Options& opt);
+
+// The commands.
+int run_check(const CheckArgs& a);
+int run_selfcheck(const SelfcheckArgs& a);
+int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods);
+int run_merge(const std::vector<std::string>& inputs, const std::string& out_path);
+int run_example();
+int run_schema();
+
+}  // namespace trivet::cli
