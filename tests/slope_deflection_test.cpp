@@ -1560,25 +1560,27 @@ TEST(SlopeDeflectionPaths, FusedPathMatchesTheGeneralPath) {
 }
 
 // ---------------------------------------------------------------------------
-// A published solution by slope-deflection: Pearson Education, "Structural
-// Analysis" Instructor's Solutions Manual (R. C. Hibbeler, 8th ed., 2012;
-// author and edition from memory, through the ISBN), Problem 11-1, p. 406:
-// A and C fixed, B a roller, EI constant; AB = 9 ft with 3 k at 3 ft and at
-// 6 ft, BC = 20 ft with 4 k at mid-span. Printed (clockwise member-end
-// moments +): M_AB = -4.621, M_BA = 8.759, M_BC = -8.759, M_CB = 10.62 k-ft,
-// and theta_B = 180/(29 EI) (clockwise). In our convention (sagging +)
-// all three support moments hog.
-TEST(SlopeDeflectionPublished, HibbelerProblem11_1TwoFixedEnds) {
-  const double EI = 1e6;
-  Beam b = make<double>({T::Fixed, T::Roller, T::Fixed}, {9.0, 20.0}, EI);
-  b.loads = {span_point<double>(0, 3.0, 3.0), span_point<double>(0, 6.0, 3.0), span_point<double>(1, 10.0, 4.0)};
+// Two fixed ends, a roller between, equal spans L, a UDL w on the first span
+// only (derived by the slope-deflection equations, clockwise member-end
+// moments +): M_BA + M_BC = 0 with M_BA = (4EI/L) theta_B + wL^2/12 and
+// M_BC = (4EI/L) theta_B gives theta_B = -wL^3/(96 EI); then
+// M_AB = (2EI/L) theta_B - wL^2/12 = -5wL^2/48, M_BA = wL^2/24,
+// M_CB = (2EI/L) theta_B = -wL^2/48. In our convention (sagging +) the
+// internal moment is M_ij at a span's left end and -M_ji at its right end:
+// -5wL^2/48 at A, -wL^2/24 over B, and +wL^2/48 (sagging) at the far fixed
+// end C of the unloaded span.
+TEST(SlopeDeflectionPublished, TwoFixedEndsOneSpanLoadedDerived) {
+  const double EI = 30000, L = 6, w = 10, wL2 = w * L * L;
+  Beam b = make<double>({T::Fixed, T::Roller, T::Fixed}, {L, L}, EI);
+  b.loads = {span_udl<double>(0, 0.0, L, w)};
   const Solution s = run(b);
   ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
-  EXPECT_NEAR(*s.nodes[0].moment_right, -4.621, 0.0005);
-  EXPECT_NEAR(*s.nodes[1].moment_left, -8.759, 0.0005);
-  EXPECT_NEAR(*s.nodes[1].moment_right, -8.759, 0.0005);
-  EXPECT_NEAR(*s.nodes[2].moment_left, -10.62, 0.005);
-  EXPECT_NEAR(s.nodes[1].rotation_left, 180.0 / (29.0 * EI), 1e-9 * 180.0 / (29.0 * EI));
+  EXPECT_NEAR(*s.nodes[0].moment_right, -5 * wL2 / 48, 1e-9 * wL2);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -wL2 / 24, 1e-9 * wL2);
+  EXPECT_NEAR(*s.nodes[1].moment_right, -wL2 / 24, 1e-9 * wL2);
+  EXPECT_NEAR(*s.nodes[2].moment_left, wL2 / 48, 1e-9 * wL2);
+  const double theta = -w * L * L * L / (96 * EI);
+  EXPECT_NEAR(s.nodes[1].rotation_left, theta, 1e-9 * std::abs(theta));
 }
 
 }  // namespace
