@@ -274,7 +274,7 @@ TEST(ThreeMomentSingleSpan, ProppedCantileverUniform) {
 // M_fixed = -3PL/16, M under the load 5PL/32, deflection under the load
 // 7PL^3/(768EI). AISC, "Steel Construction Manual", Beam Diagrams and
 // Formulas, beam fixed at one end, supported at other, concentrated load at
-// center (edition and case number from memory, not recalled exactly).
+// center (from memory).
 TEST(ThreeMomentSingleSpan, ProppedCantileverCentralPoint) {
   const double L = 6, P = 16, EI = 900;
   Beam b = make_beam<double>({L}, {ST::Roller, ST::Fixed}, EI);
@@ -478,7 +478,7 @@ TEST(ThreeMomentContinuous, HicksTable21Extended) {
 
 // Two equal spans, uniform load on one span only: R = 7/16, 5/8, -1/16 wL,
 // M_B = -wL^2/16. M. R. Lindeburg, "Civil Engineering Reference Manual",
-// Professional Publications (edition not recalled; from memory),
+// Professional Publications (from memory),
 // continuous-beam table. Checked in double and exactly.
 TEST(ThreeMomentContinuous, LindeburgOneSpanLoaded) {
   {
@@ -506,8 +506,8 @@ TEST(ThreeMomentContinuous, LindeburgOneSpanLoaded) {
 // Two equal spans, point load P at the centre of one span:
 // R = 13P/32, 11P/16, -3P/32; M_B = -3PL/32; M under the load 13PL/64.
 // AISC, "Steel Construction Manual", Beam Diagrams and Formulas, continuous
-// beam - two equal spans - concentrated load at center of one span (edition
-// and case number from memory, not recalled exactly).
+// beam - two equal spans - concentrated load at center of one span (from
+// memory).
 TEST(ThreeMomentContinuous, TwoSpansCentralPointOneSpan) {
   const double L = 4, P = 32;
   Beam b = make_beam<double>({L, L}, {ST::Pinned, ST::Roller, ST::Roller}, 10.0);
@@ -869,67 +869,37 @@ TEST(ThreeMomentSize, MillionSpans) {
 }
 
 // ---------------------------------------------------------------------------
-// Published worked examples (the same beams are reference cases of
-// `trivet selfcheck`, in references/cases/). Tolerance: half a unit in the
-// last printed place.
+// Closed forms derived in our own words (the same beams are reference cases
+// of `trivet selfcheck`, in references/cases/).
 
-// A. Kassimali, "Structural Analysis", Appendix D "Three-Moment Equation",
-// Example D.3, Fig. D.5 (6th ed. per the title of the stored copy read;
-// author from memory): A fixed (an imaginary span of zero length), B and C
-// rollers, AB = 20 ft with 45 k at mid-span, BC = 30 ft with 1.8 k/ft, and
-// an overhang whose moment at C the book gives by statics, M_C = -90 k-ft.
-// Printed: M_A = -97.5, M_B = -142.5 k-ft. The overhang's own length and
-// load are not in the text read; a 10 ft overhang with 9 k at its tip gives
-// the printed M_C, and M_A, M_B depend on the overhang only through M_C.
-TEST(ThreeMomentPublished, KassimaliExampleD3FixedEndAndOverhang) {
-  Beam b = make_beam<double>({20, 30, 10}, {ST::Fixed, ST::Roller, ST::Roller, ST::Free}, 1e6);
-  add_point(b, 0, 45.0, 10.0);
-  add_udl(b, 1, 1.8);
-  add_node_point(b, 3, 9.0);
+// A span built in at A with an overhang past its roller B, UDL w throughout
+// (derived): the overhang's statics give M_B = -w a^2/2; the three-moment
+// equation with the fixed end as an added span of zero length,
+// 2 M_A L + M_B L = -w L^3/4, gives M_A = -w L^2/8 + w a^2/4.
+TEST(ThreeMomentPublished, FixedEndAndOverhangDerived) {
+  const double L = 6, a = 1.5, w = 10;
+  Beam b = make_beam<double>({L, a}, {ST::Fixed, ST::Roller, ST::Free}, 30000.0);
+  add_udl(b, 0, w);
+  add_udl(b, 1, w);
   const Solution s = run(b);
   check_laws(b, s, 1e-9);
-  EXPECT_NEAR(*s.nodes[2].moment_left, -90.0, 1e-9);  // the stand-in gives the printed M_C
-  EXPECT_NEAR(*s.nodes[0].moment_right, -97.5, 0.05);
-  EXPECT_NEAR(*s.nodes[1].moment_left, -142.5, 0.05);
+  EXPECT_NEAR(*s.nodes[1].moment_left, -w * a * a / 2, 1e-9 * w * L * L);
+  EXPECT_NEAR(*s.nodes[0].moment_right, -w * L * L / 8 + w * a * a / 4, 1e-9 * w * L * L);
 }
 
-// I. A. Karnovsky and O. Lebed, "Advanced Methods of Structural Analysis"
-// (Springer, 2010, from memory), ch. 7 (The Force Method), Problem 7.11,
-// Fig. P7.11, p. 262: clamped left end 1, spans 8 m (q = 2 kN/m) and 10 m
-// (P = 12 kN at 6 m from support 2), a 2 m cantilever with F = 1 kN at its
-// end; EI constant. Printed answer, without sign: M1 = 8.013, M2 = 15.975
-// kN m. Both hog (the loads all act down and the end is clamped).
-TEST(ThreeMomentPublished, KarnovskyLebedProblem7_11ClampedEndAndOverhang) {
-  Beam b = make_beam<double>({8, 10, 2}, {ST::Fixed, ST::Roller, ST::Roller, ST::Free}, 1e5);
-  add_udl(b, 0, 2.0);
-  add_point(b, 1, 12.0, 6.0);
-  add_node_point(b, 3, 1.0);
+// Two unequal spans with a central point load on each (derived): for a
+// central load on a simple span 6 A a/L = 3 P L^2/8, so
+// M_B = -3 (P1 L1^2 + P2 L2^2) / (16 (L1 + L2)), and R_A = P1/2 + M_B/L1.
+TEST(ThreeMomentPublished, UnequalSpansCentralPointsDerived) {
+  const double L1 = 5, L2 = 7, P1 = 30, P2 = 20;
+  Beam b = make_beam<double>({L1, L2}, {ST::Pinned, ST::Roller, ST::Roller}, 40000.0);
+  add_point(b, 0, P1, L1 / 2);
+  add_point(b, 1, P2, L2 / 2);
   const Solution s = run(b);
   check_laws(b, s, 1e-9);
-  // 8.0125 printed rounded half up: on the closed bound (plus the binary
-  // rounding of 8.013 and 0.0005).
-  EXPECT_NEAR(*s.nodes[0].moment_right, -8.013, 0.0005 + 1e-12);
-  EXPECT_NEAR(*s.nodes[1].moment_left, -15.975, 0.0005);
-  EXPECT_NEAR(*s.nodes[2].moment_left, -2.0, 1e-12);  // statics of the cantilever
-}
-
-// T. G. Hicks (ed.), "Handbook of Civil Engineering Calculations", 2nd ed.,
-// "Theorem of three moments", Fig. 43, p. 1.63: AB = 10 ft with 6 kips at
-// 5 ft and 2 kips/ft, BC = 15 ft with 10 kips 9 ft from B and 3 kips/ft
-// (read from the printed equilibrium equations). Printed: moment at B
-// 80.2 ft-kips (hogging), R_A = 4.98, R_B = 52.87, R_C = 23.15 kips.
-TEST(ThreeMomentPublished, HicksTheoremOfThreeMomentsUnequalSpans) {
-  Beam b = make_beam<double>({10, 15}, {ST::Pinned, ST::Roller, ST::Roller}, 1e6);
-  add_point(b, 0, 6.0, 5.0);
-  add_udl(b, 0, 2.0);
-  add_point(b, 1, 10.0, 9.0);
-  add_udl(b, 1, 3.0);
-  const Solution s = run(b);
-  check_laws(b, s, 1e-9);
-  EXPECT_NEAR(*s.nodes[1].moment_left, -80.2, 0.05);
-  EXPECT_NEAR(s.nodes[0].reaction_force, 4.98, 0.005);
-  EXPECT_NEAR(s.nodes[1].reaction_force, 52.87, 0.005);
-  EXPECT_NEAR(s.nodes[2].reaction_force, 23.15, 0.005);
+  const double MB = -3 * (P1 * L1 * L1 + P2 * L2 * L2) / (16 * (L1 + L2));
+  EXPECT_NEAR(*s.nodes[1].moment_left, MB, 1e-9 * std::abs(MB));
+  EXPECT_NEAR(s.nodes[0].reaction_force, P1 / 2 + MB / L1, 1e-9 * P1);
 }
 
 }  // namespace
