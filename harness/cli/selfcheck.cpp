@@ -34,6 +34,17 @@
 
 namespace trivet::cli {
 
+namespace {
+// A number for a person to read in the record: `digits` significant digits
+// (the JSON record keeps every digit).
+std::string sig(double v, int digits) {
+  char buf[48];
+  std::snprintf(buf, sizeof buf, "%.*g", digits, v);
+  return buf;
+}
+}  // namespace
+
+
 // `trivet selfcheck`: every cited case on every method, a table, and exit 0
 // only when every published value holds on every applicable method.
 int run_selfcheck(const SelfcheckArgs& a) {
@@ -135,11 +146,11 @@ int run_selfcheck(const SelfcheckArgs& a) {
         const auto& v = c.values[i];
         h << "<tr><td>" << (i == 0 ? reports::html_escape(c.id) : "") << "</td><td>" << (i == 0 ? reports::html_escape(c.citation) : "")
           << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier + (v.magnitude ? " (printed without sign; magnitude compared)" : ""))
-          << "</td><td>" << input::format_number(v.expected) << "</td><td>" << input::format_number(v.tolerance) << "</td>";
+          << "</td><td>" << sig(v.expected, 10) << "</td><td>" << sig(v.tolerance, 2) << "</td>";
         for (const char* m : {"three-moment", "slope-deflection", "stiffness"}) {
           std::string cell = "-";
           for (const auto& mv : v.methods)
-            if (mv.method == m) cell = mv.evaluated ? input::format_number(mv.computed) : "n/a";
+            if (mv.method == m) cell = mv.evaluated ? sig(mv.computed, 10) : "n/a";
           h << "<td>" << reports::html_escape(cell) << "</td>";
         }
         h << "<td>" << (v.holds ? "yes" : "<strong>NO</strong>") << "</td></tr>\n";
