@@ -15,7 +15,13 @@ using namespace trivet::compare;
 std::string fixed(double v, int decimals) {
   if (!std::isfinite(v)) return "n/a";
   char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  // Where fixed notation would be long (and past the digits a double has),
+  // scientific notation: a table never shows a cut or invented digit.
+  if (std::abs(v) >= 1e15) {
+    std::snprintf(buf, sizeof buf, "%.6e", v);
+    return buf;
+  }
+  std::snprintf(buf, sizeof buf, "%.*f", std::clamp(decimals, 0, 20), v);
   std::string s = buf;
   // No "-0.000".
   if (s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos) s = s.substr(1);

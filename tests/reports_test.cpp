@@ -228,4 +228,14 @@ TEST(ConsoleReport, RoundsForAPerson) {
 }
 
 }  // namespace
+// Numbers a person reads are right at any magnitude: 2e70 printed in fixed
+// notation used to come out cut to 63 digits (about 1e62).
+TEST(Numbers, FixedNotationNeverCutsOrInventsDigits) {
+  EXPECT_EQ(fixed(2e70, 1), "2.000000e+70");
+  EXPECT_EQ(fixed(-3.5e20, 2), "-3.500000e+20");
+  EXPECT_EQ(fixed(123456.789, 2), "123456.79");
+  EXPECT_EQ(fixed(-0.0001, 2), "0.00");
+  EXPECT_EQ(fixed(1.0 / 0.0, 2), "n/a");
+}
+
 }  // namespace trivet::reports
