@@ -91,8 +91,10 @@ std::string sci(double v) {
 }  // namespace
 
 void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions& opt) {
-  out << b.file;
-  if (!b.title.empty()) out << " - " << b.title;
+  // The file name and the title as text for a terminal (a title may hold
+  // control characters; they are shown escaped, never sent raw).
+  out << input::printable_text(b.file, 400);
+  if (!b.title.empty()) out << " - " << input::printable_text(b.title, 200);
   out << "  [" << status_word(b.status, opt.color) << "]\n";
   if (b.status == BeamStatus::Invalid) {
     for (const auto& e : b.errors) out << "  " << paint("error", kRed, opt.color) << ": " << e.format(b.file) << "\n";

@@ -59,7 +59,7 @@ TEST(Reader, SettlementObjectNeedsItsValueAndAName) {
   EXPECT_EQ(only(with("\"roller\", \"roller\"]", "{\"type\": \"roller\", \"settlement\": {\"case\": \"imposed\"}}, \"roller\"]")),
             "plant.json: /supports/1/settlement/value (node 2): required field is missing");
   EXPECT_EQ(only(with("\"roller\", \"roller\"]", "{\"type\": \"roller\", \"settlement\": {\"value\": 0.01, \"case\": 3}}, \"roller\"]")),
-            "plant.json: /supports/1/settlement/case (node 2): must be a non-empty name of a load case (got 3)");
+            "plant.json: /supports/1/settlement/case (node 2): must be a non-empty name of a load case, without control characters (got 3)");
 }
 
 // An envelope reads every share at every station; its work is counted and
@@ -108,6 +108,17 @@ TEST(Reader, DistributedLoadShorterThanRoundingIsRefused) {
   // A short but real load (1e-9 of the span) is kept.
   EXPECT_TRUE(parse_beam_text(with("{\"type\": \"udl\", \"span\": 1, \"w\": 8.0}",
                                    "{\"type\": \"udl\", \"span\": 1, \"w\": 1, \"from\": 2, \"to\": 2.000000005}"), "plant.json").ok());
+}
+
+// Names that would paint over a terminal are refused where they are given.
+TEST(Reader, NamesWithControlCharactersAreRefused) {
+  EXPECT_EQ(only(with("\"w\": 8.0}", "\"w\": 8.0, \"case\": \"dead\\u001b[2J\"}")),
+            "plant.json: /loads/0/case (load 1): a case name must not contain control characters (got \"dead\\u001B[2J\")");
+  const BeamFile f = parse_beam_text(with("\"roller\", \"roller\"]", "\"roller\", \"roller\"], \"labels\": [\"A\", \"B\\r\", \"C\"]"), "plant.json");
+  ASSERT_EQ(f.errors.size(), 1u);
+  EXPECT_EQ(f.errors[0].pointer, "/labels/1");
+  // A title may hold them; the console shows them escaped.
+  EXPECT_EQ(printable_text("line\u001b[31m\nnext"), "line\\u001B[31m\\nnext");
 }
 
 TEST(Reader, NegativeLength) {

@@ -160,6 +160,14 @@ std::optional<Tolerance> parse_tolerance_text(const std::string& text, std::stri
 
 namespace {
 
+// True when `s` holds a control character (ESC, CR, LF, ...): a name that
+// would paint over a terminal's lines.
+bool has_control(const std::string& s) {
+  for (unsigned char c : s)
+    if (c < 0x20 || c == 0x7F) return true;
+  return false;
+}
+
 // Text from the file made fit for a one-line message: bytes that are not
 // UTF-8 are written \xNN, control characters \n, \t or \u00NN, and a very
 // long text is cut (at a character boundary) with "...".
@@ -742,8 +750,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             rd.check_keys(sv, sptr, where, {"value", "case"});
             if (auto v = rd.field(sv, "value", sptr, where, kLength, true)) { st = *v; st_ok = true; }
             if (auto c = sv.find("case"); c != sv.end()) {
-              if (!c->is_string() || c->get<std::string>().empty()) {
-                rd.error(sptr + "/case", where, "must be a non-empty name of a load case (" + got(*c) + ")");
+              if (!c->is_string() || c->get<std::string>().empty() || has_control(c->get<std::string>())) {
+                rd.error(sptr + "/case", where, "must be a non-empty name of a load case, without control characters (" + got(*c) + ")");
                 st_ok = false;
               } else {
                 sup.settlement_case = c->get<std::string>();
@@ -802,6 +810,10 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           continue;
         }
         const std::string name = l.get<std::string>();
+        if (has_control(name)) {
+          rd.error(ptr, where, "a node name must not contain control characters (got \"" + printable(name, 60) + "\")");
+          continue;
+        }
         auto [p, fresh] = seen.emplace(name, i);
         if (!fresh) rd.error(ptr, where, "the name '" + name + "' is already used by node " + std::to_string(p->second + 1));
         beam.labels[i] = name;
@@ -865,6 +877,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         rd.check_keys(l, ptr, where, keys);
         if (auto c = l.find("case"); c != l.end()) {
           if (!c->is_string() || c->get<std::string>().empty()) rd.error(ptr + "/case", where, "must be a non-empty name (" + got(*c) + ")");
+          else if (has_control(c->get<std::string>()))
+            rd.error(ptr + "/case", where, "a case name must not contain control characters (got \"" + printable(c->get<std::string>(), 60) + "\")");
           else load.load_case = c->get<std::string>();
         }
         const bool has_span = l.contains("span"), has_node = l.contains("node");
@@ -1021,6 +1035,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (!c.contains("preset")) rd.error(ptr + "/name", where, "required field is missing");
         }
         else if (!n->is_string() || n->get<std::string>().empty()) rd.error(ptr + "/name", where, "must be a non-empty name (" + got(*n) + ")");
+        else if (has_control(n->get<std::string>()))
+          rd.error(ptr + "/name", where, "a name must not contain control characters (got \"" + printable(n->get<std::string>(), 60) + "\")");
         else name = n->get<std::string>();
         auto known_case = [&](const std::string& cs, const std::string& p) {
           if (std::find(out.cases.begin(), out.cases.end(), cs) != out.cases.end()) return true;
@@ -1432,5 +1448,7 @@ BeamFile read_beam_file(const std::string& path, const Limits& limits, std::stri
   if (text_out) *text_out = std::move(text);
   return out;
 }
+
+std::string printable_text(const std::string& s, std::size_t max_bytes) { return printable(s, max_bytes); }
 
 }  // namespace trivet::input

@@ -135,4 +135,9 @@ std::optional<std::string> did_you_mean(const std::string& word,
 // A number as the shortest text that reads back to the same double.
 std::string format_number(double v);
 
+// Text from a file made fit for one line on a terminal: control characters
+// written as \n, \t, \r or \u00NN, bytes that are not UTF-8 as \xNN, and
+// cut with "..." past `max_bytes`.
+std::string printable_text(const std::string& s, std::size_t max_bytes = 400);
+
 }  // namespace trivet::input
