@@ -924,5 +924,20 @@ TEST(AgainstInvalid, InvalidBeamIsAnError) {
   EXPECT_EQ(c.errors[0].format("r.csv"), "r.csv: the beam file is not valid, so there is nothing to compare with");
 }
 
+// A huge field is echoed cut to a readable length, never whole.
+TEST(AgainstInvalid, AHugeFieldIsEchoedCut) {
+  input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 50000}], "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}]})",
+                                             "b.json");
+  ASSERT_TRUE(f.ok());
+  BeamResult r = check(f, compare::Options{});
+  const std::string field(1000000, '7');
+  Comparison c = compare_text(f, r, "x,moment\n1," + field + "z\n", "r.csv");
+  ASSERT_FALSE(c.errors.empty());
+  const std::string m = c.errors[0].format("r.csv");
+  EXPECT_LT(m.size(), 300u) << m.substr(0, 300);
+  EXPECT_NE(m.find("not a number"), std::string::npos) << m.substr(0, 300);
+}
+
 }  // namespace
 }  // namespace trivet::compare::against

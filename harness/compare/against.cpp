@@ -25,7 +25,7 @@ std::string Error::format(const std::string& file) const {
     s += ": line " + std::to_string(line);
     if (column > 0) {
       s += ", column " + std::to_string(column);
-      if (!column_name.empty()) s += " (" + column_name + ")";
+      if (!column_name.empty()) s += " (" + input::printable_text(column_name, 60) + ")";
     }
   }
   return s + ": " + reason;
@@ -323,7 +323,7 @@ std::string choose(E& out, const std::string& value, const std::string& name,
     if (lower(trim(value)) == word) { out = e; return ""; }
   std::string list;
   for (std::size_t k = 0; k < choices.size(); ++k) list += (k ? (k + 1 == choices.size() ? " or " : ", ") : "") + choices[k].first;
-  return name + " must be " + list + " (got \"" + value + "\")";
+  return name + " must be " + list + " (got \"" + input::printable_text(value, 60) + "\")";
 }
 
 }  // namespace
@@ -332,7 +332,7 @@ std::string set_option(Options& o, const std::string& name, const std::string& v
   if (name == "column") {
     for (const auto& part : split(value, ',')) {
       const auto eq = part.find('=');
-      if (eq == std::string::npos) return "a column mapping is ours=theirs, e.g. moment=Mz (got \"" + part + "\")";
+      if (eq == std::string::npos) return "a column mapping is ours=theirs, e.g. moment=Mz (got \"" + input::printable_text(part, 60) + "\")";
       const std::string ours = lower(trim(part.substr(0, eq)));
       const std::string theirs = trim(part.substr(eq + 1));
       if (std::find(kColumnKeys.begin(), kColumnKeys.end(), ours) == kColumnKeys.end()) {
@@ -352,17 +352,17 @@ std::string set_option(Options& o, const std::string& name, const std::string& v
       const std::string unit = eq == std::string::npos ? "" : trim(part.substr(eq + 1));
       if (key == "force") { if (auto r = set_option(o, "force-unit", unit); !r.empty()) return r; }
       else if (key == "length") { if (auto r = set_option(o, "length-unit", unit); !r.empty()) return r; }
-      else return "units are given as force=UNIT,length=UNIT, e.g. force=N,length=mm (got \"" + part + "\")";
+      else return "units are given as force=UNIT,length=UNIT, e.g. force=N,length=mm (got \"" + input::printable_text(part, 60) + "\")";
     }
     return "";
   }
   if (name == "force-unit") {
-    if (!input::force_unit(value)) return "the force unit must be N, kN, MN, lbf or kip (got \"" + value + "\")";
+    if (!input::force_unit(value)) return "the force unit must be N, kN, MN, lbf or kip (got \"" + input::printable_text(value, 60) + "\")";
     o.force_unit = value;
     return "";
   }
   if (name == "length-unit") {
-    if (!input::length_unit(value)) return "the length unit must be mm, cm, m, in or ft (got \"" + value + "\")";
+    if (!input::length_unit(value)) return "the length unit must be mm, cm, m, in or ft (got \"" + input::printable_text(value, 60) + "\")";
     o.length_unit = value;
     return "";
   }
@@ -958,7 +958,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     for (std::size_t k = 0; k < wanted.size(); ++k) names += (k ? ", " : "") + cols.name_of(wanted[k].second);
     if (set->envelope)
       errs.add(hl, c + 1, table.header[c],
-               "\"" + table.header[c] + "\" is an ordinary value, but load set \"" + set->name +
+               "\"" + input::printable_text(table.header[c], 60) + "\" is an ordinary value, but load set \"" + set->name +
                    "\" is an envelope (a combination with a pattern or a factor range): give " + names + " instead");
     else
       errs.add(hl, c + 1, table.header[c],
@@ -1025,7 +1025,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
         return std::nullopt;
       }
       auto v = number(s);
-      if (!v) cell_error(c, "not a number (got \"" + s + "\")");
+      if (!v) cell_error(c, "not a number (got \"" + input::printable_text(s, 60) + "\")");
       return v;
     };
     if (stations) {
@@ -1085,7 +1085,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
           node = static_cast<long>(std::lround(*v)) - 1;
           found = true;
         } else {
-          cell_error(c_support, "no node \"" + text + "\" in the beam (nodes " + beam.labels.front() + " to " +
+          cell_error(c_support, "no node \"" + input::printable_text(text, 60) + "\" in the beam (nodes " + beam.labels.front() + " to " +
                                     beam.labels.back() + ", or numbers 1 to " + std::to_string(beam.node_count()) + ")");
         }
       }
