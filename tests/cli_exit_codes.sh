@@ -23,6 +23,20 @@ expect 2 check "$data/no-such-file.json"
 expect 2 check --methods nonsense "$data/good"
 expect 0 check --methods stiffness "$data/good"
 expect 0 --version
+# A standard output that cannot be written (a full device) is a failure of
+# the run: exit 3 and a message, never 0. A pipe whose reader has gone is not.
+if [ -w /dev/full ]; then
+  "$trivet" check "$data/good" >/dev/full 2>/tmp/trivet-cli-full.err
+  got=$?
+  if [ "$got" != 3 ] || ! grep -q "could not write to standard output" /tmp/trivet-cli-full.err; then
+    echo "FAIL: check > /dev/full exited $got"; cat /tmp/trivet-cli-full.err; fail=1
+  else
+    echo "ok: check > /dev/full -> 3"
+  fi
+fi
+"$trivet" check "$data/good" | head -c 1 >/dev/null
+got=${PIPESTATUS[0]}
+[ "$got" = 0 ] || { echo "FAIL: check | head exited $got"; fail=1; }
 # The invalid file's message names the file, the JSON location and the reason.
 "$trivet" check "$data/invalid/negative-span.json" | grep -q "negative-span.json: /spans/1/length (span 2): must be greater than 0 (got -6.5)" \
   || { echo "FAIL: message for a negative span"; fail=1; }

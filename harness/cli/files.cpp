@@ -222,14 +222,14 @@ std::string report_clashes_with_input(const std::string& report, const std::vect
   return report_clashes_with_input(std::vector<std::string>{report}, inputs).second;
 }
 
-namespace {
-
 // True when standard output is a pipe whose reader has gone (EPIPE).
 bool stdout_reader_gone() {
   if (errno == EPIPE) return true;
   struct pollfd p{1, POLLOUT, 0};
   return poll(&p, 1, 0) == 1 && (p.revents & POLLERR) != 0;
 }
+
+namespace {
 
 const char* kTempMark = ".trivet-tmp.";
 

@@ -62,4 +62,8 @@ class ReportFile {
   bool stdout_ = false;
 };
 
+// True when standard output is a pipe whose reader has gone (EPIPE): a
+// closed pipe ends a run quietly, any other failed write is an error.
+bool stdout_reader_gone();
+
 }  // namespace trivet::cli

@@ -4,6 +4,8 @@
 //   0 every method agrees and every claim holds; 1 a disagreement, a failed
 //   claim or an unconfirmed beam; 2 a file or the command line is invalid;
 //   3 an internal failure.
+#include <cerrno>
+#include <cstring>
 #include <csignal>
 #include <iostream>
 #include <string>
@@ -12,6 +14,7 @@
 #include <CLI/CLI.hpp>
 
 #include "harness/cli/commands.h"
+#include "harness/cli/files.h"
 #include "harness/cli/memory.h"
 
 int main(int argc, char** argv) {
@@ -96,13 +99,14 @@ int main(int argc, char** argv) {
     app.exit(e);
     return kExitInvalid;
   }
+  int code = kExitInvalid;
   try {
-    if (*check) return run_check(ca);
-    if (*merge) return run_merge(merge_inputs, merge_json);
-    if (*schema) return run_schema();
-    if (*selfcheck) return run_selfcheck(sa);
-    if (*plot) return run_plot(plot_file, plot_out, plot_case, ca.methods);
-    if (*example) return run_example();
+    if (*check) code = run_check(ca);
+    else if (*merge) code = run_merge(merge_inputs, merge_json);
+    else if (*schema) code = run_schema();
+    else if (*selfcheck) code = run_selfcheck(sa);
+    else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods);
+    else if (*example) code = run_example();
   } catch (const UsageError& e) {
     std::cerr << e.what() << "\n";
     return e.code;
@@ -110,5 +114,14 @@ int main(int argc, char** argv) {
     std::cerr << "trivet: internal error: " << e.what() << "\n";
     return kExitInternal;
   }
-  return kExitInvalid;
+  // A failed write of standard output (a full disk, /dev/full) is a failure
+  // of the run, never exit 0; a pipe whose reader has gone ends quietly.
+  errno = 0;
+  std::cout.flush();
+  if (!std::cout.good() && !stdout_reader_gone()) {
+    std::cerr << "trivet: could not write to standard output"
+              << (errno ? std::string(" (") + std::strerror(errno) + ")" : std::string()) << "\n";
+    return kExitInternal;
+  }
+  return code;
 }
