@@ -12,6 +12,25 @@ fail=0
 no() { echo "FAIL: $*"; fail=1; }
 ok() { echo "ok: $*"; }
 
+# --- a report target that exists must be a regular file --------------------
+beam="$root/examples/core-wall-beam.json"
+mkfifo "$work/fifo"
+touch "$work/real.json"; ln -s "$work/real.json" "$work/link.json"
+touch "$work/ro.json"; chmod 444 "$work/ro.json"
+for target in /dev/null /dev/full "$work/fifo" "$work/link.json" "$work/ro.json" "$work"; do
+  timeout 20 "$trivet" check "$beam" --json "$target" >/dev/null 2>"$work/err"
+  rc=$?
+  [ "$rc" = 2 ] && grep -q "$target" "$work/err" && ok "--json $target refused: exit 2" || no "--json $target: exit $rc: $(cat "$work/err")"
+done
+[ -c /dev/null ] && [ -c /dev/full ] && ok "/dev/null and /dev/full are still devices" || no "a device was replaced"
+[ -p "$work/fifo" ] && [ -L "$work/link.json" ] && ok "the named pipe and the link are untouched" || no "a pipe or a link was replaced"
+"$trivet" check "$beam" --json "$work/twice.json" --junit "$work/twice.json" >/dev/null 2>"$work/err"
+rc=$?
+[ "$rc" = 2 ] && ok "one path for two reports refused" || no "one path for two reports: exit $rc"
+"$trivet" selfcheck --json /dev/null >/dev/null 2>&1
+rc=$?
+[ "$rc" = 2 ] && ok "selfcheck --json /dev/null refused" || no "selfcheck --json /dev/null: exit $rc"
+
 # --- a broken pipe ends quietly, with the verdict's exit code ---------------
 # (more than a pipe's 64 KiB, so that trivet is still writing when head leaves)
 "$trivet" check "$root/examples" "$root/examples" "$root/examples" "$root/examples" --jobs 2 2>"$work/err" | head -1 >/dev/null

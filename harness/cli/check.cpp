@@ -47,6 +47,9 @@ int run_check(const CheckArgs& a) {
       fail("trivet: --methods: give at least one method");
     }
   }
+  if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
+      !why.empty())
+    fail("trivet: ", why);
   std::vector<std::pair<std::string, std::string>> problems;
   std::vector<std::string> files = collect_beam_files(a.paths, &problems);
   {

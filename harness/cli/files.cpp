@@ -222,6 +222,38 @@ std::string report_clashes_with_input(const std::string& report, const std::vect
   return report_clashes_with_input(std::vector<std::string>{report}, inputs).second;
 }
 
+std::string report_targets_problem(const std::vector<std::pair<std::string, std::string>>& targets) {
+  std::vector<std::pair<dev_t, ino_t>> seen_files;
+  std::vector<std::string> seen_paths;
+  for (const auto& [option, path] : targets) {
+    if (path.empty() || path == "-") continue;
+    // The same path twice: the second report would replace the first.
+    if (std::find(seen_paths.begin(), seen_paths.end(), path) != seen_paths.end())
+      return option + ": " + path + " is named for two reports; give each report its own file";
+    seen_paths.push_back(path);
+    struct stat st{};
+    if (::lstat(path.c_str(), &st) != 0) continue;  // a new file
+    const char* what = S_ISREG(st.st_mode)  ? nullptr
+                       : S_ISLNK(st.st_mode) ? "a symbolic link"
+                       : S_ISDIR(st.st_mode) ? "a directory"
+                       : S_ISCHR(st.st_mode) ? "a character device"
+                       : S_ISBLK(st.st_mode) ? "a block device"
+                       : S_ISFIFO(st.st_mode) ? "a named pipe"
+                       : S_ISSOCK(st.st_mode) ? "a socket"
+                                              : "not a regular file";
+    if (what)
+      return option + ": " + path + " exists and is " + what +
+             ", not a report: trivet replaces only regular files (give another path, or '-' for standard output)";
+    if ((st.st_mode & 0222) == 0)
+      return option + ": " + path + " is read-only: trivet does not replace it (make it writable, or give another path)";
+    for (const auto& f : seen_files)
+      if (f.first == st.st_dev && f.second == st.st_ino)
+        return option + ": " + path + " is the same file as another report; give each report its own file";
+    seen_files.emplace_back(st.st_dev, st.st_ino);
+  }
+  return "";
+}
+
 // True when standard output is a pipe whose reader has gone (EPIPE).
 bool stdout_reader_gone() {
   if (errno == EPIPE) return true;

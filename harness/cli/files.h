@@ -66,4 +66,10 @@ class ReportFile {
 // closed pipe ends a run quietly, any other failed write is an error.
 bool stdout_reader_gone();
 
+// The first problem with the report paths (option -> path; "" and "-" are
+// skipped): an existing target that is not a regular file (a device, a
+// named pipe, a symbolic link, a directory), a read-only one, or one path
+// (or one file) named for two reports. "" when there is none.
+std::string report_targets_problem(const std::vector<std::pair<std::string, std::string>>& targets);
+
 }  // namespace trivet::cli

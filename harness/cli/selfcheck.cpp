@@ -79,6 +79,9 @@ int run_selfcheck(const SelfcheckArgs& a) {
   }
   const references::SelfcheckResult r =
       references::run_selfcheck(a.dir.empty() ? references::directory() : a.dir, opt, after);
+  if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
+      !why.empty())
+    fail("trivet: ", why);
   const bool to_stdout = a.json == "-";
   std::ostream& human = to_stdout ? std::cerr : std::cout;
   const bool color = !to_stdout && use_color(1);
