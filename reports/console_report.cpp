@@ -319,6 +319,8 @@ void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions&
                         input::format_number(q.worst_difference), q.worst_where, input::format_number(q.tolerance)});
       if (q.finding) t.rows.push_back({"    " + paint("finding: " + q.finding->text, kYellow, opt.color)});
       else if (!q.note.empty()) t.rows.push_back({"    note: " + q.note});
+      if (q.empty > 0)
+        t.rows.push_back({"    " + std::to_string(q.empty) + (q.empty == 1 ? " cell" : " cells") + " of this column empty: not compared"});
     }
     t.print(out, "  ");
     std::size_t shown = 0;

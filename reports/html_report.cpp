@@ -452,7 +452,11 @@ struct Writer {
           << unit << "</td><td>" << html_escape(s.worst_where)
           << (s.worst_line ? " (line " + std::to_string(s.worst_line) + ")" : std::string()) << "</td><td class=\"n\">"
           << fixed(s.tolerance, d) << " " << unit << "</td><td>"
-          << html_escape(s.finding ? s.finding->text : s.note) << "</td></tr>\n";
+          << html_escape(s.finding ? s.finding->text : s.note)
+          << (s.empty ? html_escape((s.finding || !s.note.empty() ? "; " : "") + std::to_string(s.empty) +
+                                    (s.empty == 1 ? " cell" : " cells") + " of this column empty: not compared")
+                      : std::string())
+          << "</td></tr>\n";
       }
       o << "</table>\n";
     }

@@ -453,6 +453,7 @@ void against_results(JsonWriter& w, const BeamResult& b) {
       w.member("worst_difference", q.worst_difference);
       w.member("worst_line", q.worst_line);
       w.member("worst_where", q.worst_where);
+      w.member("empty_cells", q.empty);
       w.member("tolerance", q.tolerance);
       w.key("finding");
       if (q.finding) {

@@ -939,5 +939,22 @@ TEST(AgainstInvalid, AHugeFieldIsEchoedCut) {
   EXPECT_NE(m.find("not a number"), std::string::npos) << m.substr(0, 300);
 }
 
+// An empty cell is not compared, and the summary says how many there were
+// (they were skipped without a word).
+TEST(AgainstInvalid, EmptyCellsAreCountedNotSkippedSilently) {
+  input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 50000}], "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}]})",
+                                             "b.json");
+  ASSERT_TRUE(f.ok());
+  BeamResult r = check(f, compare::Options{});
+  // M = w x (L - x)/2: 0 at x = 0, 30 at x = 2 (a closed form of statics).
+  Comparison c = compare_text(f, r, "x,moment\n0,0\n1,\n2,30\n3,\n", "r.csv");
+  ASSERT_TRUE(c.ok()) << c.errors.front().format("r.csv");
+  ASSERT_EQ(c.summary.size(), 1u);
+  EXPECT_EQ(c.summary[0].compared, 2u);
+  EXPECT_EQ(c.summary[0].empty, 2u);
+  EXPECT_TRUE(c.holds());
+}
+
 }  // namespace
 }  // namespace trivet::compare::against

@@ -1006,6 +1006,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   const std::size_t n = geo.spans();
   std::vector<Row> rows;
   rows.reserve(table.rows.size());
+  std::array<std::size_t, kQuantities> empty_cells{};  // per quantity, cells left empty
   bool beyond = false;
   double max_x = 0;
   bool negative = false;
@@ -1095,6 +1096,7 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     for (const auto& [q, key] : wanted) {
       const std::size_t c = c_value[qi(q)];
       if (c == kNone) continue;
+      if (trim(tr.fields[c]).empty()) ++empty_cells[qi(q)];
       if (auto v = read_number(c, false)) {
         const std::size_t k = qi(slot(q));
         r.raw[k] = *v;
@@ -1264,8 +1266,14 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   std::vector<const UnitsFactor*> factors = {nullptr};
   for (const auto& u : units_factors()) factors.push_back(&u);
   for (std::size_t k = 0; k < kQuantities; ++k) {
+    if (!present[k] && empty_cells[k] > 0) {
+      // A column with no value at all: said, not silently dropped.
+      sums[k].quantity = static_cast<Quantity>(k);
+      present[k] = true;
+    }
     if (!present[k]) continue;
     Summary& s = sums[k];
+    s.empty = empty_cells[k];
     const Quantity q = static_cast<Quantity>(k);
     if (s.failing > 0) {
       std::optional<Hypothesis> best;

@@ -211,6 +211,7 @@ struct Summary {
   std::string worst_where;
   std::optional<Finding> finding;  // only when failing > 0
   std::string note;  // when failing and no single finding: why (e.g. no correction holds)
+  std::size_t empty = 0;  // cells of this quantity's column left empty: nothing to compare, said so
 };
 
 struct Comparison {
