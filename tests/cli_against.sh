@@ -14,5 +14,9 @@ grep -q "hogging-positive" /tmp/trivet-against.out || { echo "FAIL: no finding a
 rc=$?; [ $rc = 0 ] || { echo "FAIL: declared hogging-positive export exited $rc"; cat /tmp/trivet-against.out; fail=1; }
 "$trivet" check "$data/simple-udl.json" --against "$data/no-such.csv" >/tmp/trivet-against.out 2>&1
 rc=$?; [ $rc = 2 ] || { echo "FAIL: a missing CSV exited $rc, expected 2"; fail=1; }
+# The exit code, the beam's status and the summary say the same thing.
+"$trivet" check "$data/simple-udl.json" --against "$data/no-such.csv" --json /tmp/trivet-against.json >/dev/null 2>&1
+grep -q '"status": "invalid"' /tmp/trivet-against.json && grep -q '"invalid": *1' /tmp/trivet-against.json \
+  || { echo "FAIL: an unreadable CSV left the beam's status or the summary at agree"; fail=1; }
 [ $fail = 0 ] && echo "against: all checks passed"
 exit $fail

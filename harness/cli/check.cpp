@@ -274,6 +274,16 @@ int run_check(const CheckArgs& a) {
         else if (!cmp->holds()) results[0].status = compare::BeamStatus::Disagree;
         results[0].against.push_back(cmp);
       }
+      // A file of results that cannot be read is an invalid input (exit 2):
+      // the beam's status and the summary say so, with the file's errors.
+      if (against_invalid) {
+        compare::BeamResult& r = results[0];
+        for (const auto& cmp : r.against)
+          for (const auto& e : cmp->errors) r.errors.push_back({"", "", "--against " + e.format(cmp->file)});
+        r.status = compare::BeamStatus::Invalid;
+        r.sets.clear();
+        r.claims.clear();
+      }
     }
   }
 
