@@ -31,6 +31,30 @@ rc=$?
 rc=$?
 [ "$rc" = 2 ] && ok "selfcheck --json /dev/null refused" || no "selfcheck --json /dev/null: exit $rc"
 
+# --- out of memory on one beam: exit 3, named, the other beams kept --------
+# (not under AddressSanitizer, which reserves more address space than the
+# limit allows)
+if [ -z "${ASAN_OPTIONS:-}" ]; then
+  mkdir -p "$work/oom"
+  cp "$root/examples/core-wall-beam.json" "$work/oom/small.json"
+  python3 - "$work/oom/big.json" <<'PY'
+import json, sys
+n = 1000
+b = {"units": {"force": "kN", "length": "m"}, "stations_per_span": 4,
+     "spans": [{"length": 5, "EI": 50000} for _ in range(n)], "supports": ["pinned"] + ["roller"] * n,
+     "loads": [{"type": "udl", "span": i + 1, "w": 6.0, "case": "live"} for i in range(n)],
+     "combinations": [{"name": "strength", "factors": {"live": 1.6}, "pattern": ["live"]}]}
+json.dump(b, open(sys.argv[1], "w"))
+PY
+  (ulimit -v 400000; "$trivet" check "$work/oom" --jobs 1 --json "$work/oom.json" >"$work/oom.out" 2>&1)
+  rc=$?
+  if [ "$rc" = 3 ] && grep -q "out of memory while checking this beam" "$work/oom.out" && grep -q "small.json.*\[agree\]" "$work/oom.out"; then
+    ok "out of memory on one beam: exit 3, named, the other kept"
+  else
+    no "out of memory on one beam: exit $rc: $(head -c 600 "$work/oom.out")"
+  fi
+fi
+
 # --- a broken pipe ends quietly, with the verdict's exit code ---------------
 # (more than a pipe's 64 KiB, so that trivet is still writing when head leaves)
 "$trivet" check "$root/examples" "$root/examples" "$root/examples" "$root/examples" --jobs 2 2>"$work/err" | head -1 >/dev/null

@@ -10,6 +10,7 @@
 #include <cstdlib>
 #include <iostream>
 #include <mutex>
+#include <new>
 #include <sstream>
 #include <thread>
 
@@ -160,6 +161,11 @@ int run_check(const CheckArgs& a) {
         try { apply_precision_text(r, text, f, a.arithmetic, a.reference, opt); }
         catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
       }
+    } catch (const std::bad_alloc&) {
+      internal_error = true;
+      r = compare::BeamResult{};
+      r.file = files[i];
+      r.errors.push_back({"", "", "internal failure: out of memory while checking this beam (the other beams are kept)"});
     } catch (const std::exception& e) {
       internal_error = true;
       r = compare::BeamResult{};

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <exception>
 #include <future>
+#include <new>
 #include <limits>
 #include <system_error>
 
@@ -747,6 +748,8 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
             }
           }
         }
+      } catch (const std::bad_alloc&) {
+        throw;  // out of memory is no method's failure: the run's (exit 3)
       } catch (const std::exception& e) {
         r.status = MethodStatus::Failed;
         r.reason = std::string("internal error: ") + e.what();
