@@ -648,9 +648,10 @@ void finish(BeamResult& out, const input::BeamFile& file) {
   // Settlements so large that the loads' effect is below their rounding:
   // the methods agree, but on the settlement alone.
   for (const auto& s : out.sets) {
-    double applied = 0;
+    double applied = 0, length = 0;
+    for (const auto& sp : s.beam.spans) length += sp.length;
     for (const auto& l : s.beam.loads)
-      applied += std::abs(l.P) + std::abs(l.C) / std::max(s.beam.node_x(s.beam.node_count() - 1), 1e-300) +
+      applied += std::abs(l.P) + std::abs(l.C) / std::max(length, 1e-300) +
                  0.5 * (std::abs(l.w1) + std::abs(l.w2)) * (l.to - l.from);
     const double forces = std::max(s.scale[static_cast<int>(Kind::Reaction)], s.scale[static_cast<int>(Kind::Shear)]);
     if (!(applied > 0) || !(forces > 1e12 * applied)) continue;
