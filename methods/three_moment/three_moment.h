@@ -29,20 +29,4 @@ extern template BasicSolution<Extended> solve<Extended>(const BasicBeam<Extended
 extern template BasicSolution<Exact> solve<Exact>(const BasicBeam<Exact>&,
                                                   const std::vector<BasicStation<Exact>>&);
 
-// The general path alone, the fast path for the usual beam (pinned and
-// roller supports, no hinge, no node load, span loads in span order)
-// switched off: a seam for tests, which compare it with solve(). The two
-// agree to 1e-13 of the largest value of each kind.
-namespace detail {
-template <class R>
-BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations);
-
-extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&,
-                                                            const std::vector<BasicStation<double>>&);
-extern template BasicSolution<Extended> solve_general<Extended>(const BasicBeam<Extended>&,
-                                                                const std::vector<BasicStation<Extended>>&);
-extern template BasicSolution<Exact> solve_general<Exact>(const BasicBeam<Exact>&,
-                                                          const std::vector<BasicStation<Exact>>&);
-}  // namespace detail
-
 }  // namespace trivet::three_moment
