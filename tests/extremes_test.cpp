@@ -55,7 +55,7 @@ TEST(TurningPoints, OfAQuinticThroughItsSamples) {
   std::array<double, kDegree - 1> inner{};
   for (std::size_t j = 0; j < xs.size(); ++j) inner[j] = f(xs[j]);
   std::vector<double> tp;
-  turning_points(a, b, f(a), inner, f(b), tp);
+  turning_points_of(interpolate(f(a), inner, f(b)), a, b, tp);
   int sign_changes = 0;
   for (int k = 0; k < 3000; ++k) {
     const double u = a + (b - a) * k / 3000.0, v = a + (b - a) * (k + 1) / 3000.0;

@@ -223,12 +223,6 @@ void turning_points_of(const Poly& p, double a, double b, std::vector<double>& o
   }
 }
 
-void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
-                    std::vector<double>& out) {
-  if (!(b > a) || !std::isfinite(fa) || !std::isfinite(fb)) return;
-  turning_points_of(interpolate(fa, inner, fb), a, b, out);
-}
-
 Poly hermite3(double a, double b, double fa, double dfa, double fb, double dfb) {
   // p(t) on [-1, 1] with p(-1) = fa, p(1) = fb, p'(-1) = h dfa, p'(1) = h dfb.
   const double h = 0.5 * (b - a), m0 = h * dfa, m1 = h * dfb;

@@ -36,12 +36,6 @@ constexpr int kDegree = 5;
 // points other than a and b), in increasing order.
 std::array<double, kDegree - 1> sample_points(double a, double b);
 
-// The points strictly inside (a, b) where the derivative of the polynomial
-// through (a, fa), the interior samples (in the order of sample_points) and
-// (b, fb) vanishes: the candidates for a turning point. Appends to `out`.
-void turning_points(double a, double b, double fa, const std::array<double, kDegree - 1>& inner, double fb,
-                    std::vector<double>& out);
-
 // A polynomial of degree <= kDegree on a piece [a, b], in t = (x - m) / h
 // (m the middle, h the half length, so t in [-1, 1]); c[k] multiplies t^k.
 using Poly = std::array<double, kDegree + 1>;
