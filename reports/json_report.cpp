@@ -80,12 +80,12 @@ void governs(JsonWriter& w, std::string_view k, const Governs& g, const input::C
   if (!c.pattern.empty()) {
     w.key("loaded_spans");
     w.begin_array(true);
-    for (auto sp : g.spans) w.value(sp + 1);
+    for (auto sp : g.spans) w.value(static_cast<std::size_t>(sp) + 1);
     w.end_array();
     if (!g.spans_other_factor.empty()) {
       w.key("spans_with_other_factor");
       w.begin_array(true);
-      for (auto sp : g.spans_other_factor) w.value(sp + 1);
+      for (auto sp : g.spans_other_factor) w.value(static_cast<std::size_t>(sp) + 1);
       w.end_array();
     }
   }

@@ -784,7 +784,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
     if (set.envelope) {
       compare_envelopes(set, options.agreement);
       consensus_extremes(set);
-      second_route(set, chosen, options.agreement);
+      second_route(set, chosen, options.agreement, set.beam.spans.size() >= kParallelEnvelopeSpans);
     } else {
       compare_methods(set, options.agreement);
       consensus_extremes(set);

@@ -4,6 +4,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <memory>
 #include <optional>
 #include <string>
@@ -55,11 +56,13 @@ struct Equilibrium {
 // (0-based) whose patterned loads are on, and the factor taken for each of
 // the combination's cases (in the combination's order).
 struct Governs {
-  std::vector<std::size_t> spans;
+  // 0-based span indices, increasing (32 bits: a long patterned envelope
+  // holds many of these).
+  std::vector<std::uint32_t> spans;
   std::vector<double> factors;
   // Loaded spans whose share of a patterned case with a factor range took
   // the other end of the range than `factors` names for that case.
-  std::vector<std::size_t> spans_other_factor;
+  std::vector<std::uint32_t> spans_other_factor;
 };
 
 // The largest and smallest value of a quantity over a combination's

@@ -37,6 +37,8 @@ void consensus_extremes(LoadSet& set);
 void run_envelope_method(const Method& method, const Beam& full, const input::Combination& comb,
                          const std::vector<Station>& stations, MethodResult& r);
 void compare_envelopes(LoadSet& set, double agreement);
-void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement);
+// `side_by_side`: the methods' direct solves run in threads of their own
+// (a long beam); the results are the same either way.
+void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement, bool side_by_side);
 
 }  // namespace trivet::compare::detail

@@ -4,8 +4,11 @@
 #include <array>
 #include <cmath>
 #include <exception>
+#include <future>
 #include <map>
 #include <memory>
+#include <new>
+#include <system_error>
 
 #include "harness/compare/detail.h"
 #include "harness/compare/extremes.h"
@@ -98,11 +101,11 @@ Governs EnvelopeModel::governs(const Choice& c) const {
   for (std::size_t u = 0; u < units.size() && u < c.size(); ++u) {
     if (!units[u].patterned || !nonzero(c[u])) continue;
     const std::size_t k = units[u].factor;
-    gv.spans.push_back(units[u].span);
+    gv.spans.push_back(static_cast<std::uint32_t>(units[u].span));
     if (!fixed[k]) { gv.factors[k] = c[u]; fixed[k] = 2; }
-    else if (fixed[k] == 2 && !same(gv.factors[k], c[u])) gv.spans_other_factor.push_back(units[u].span);
+    else if (fixed[k] == 2 && !same(gv.factors[k], c[u])) gv.spans_other_factor.push_back(static_cast<std::uint32_t>(units[u].span));
   }
-  auto tidy = [](std::vector<std::size_t>& v) {
+  auto tidy = [](std::vector<std::uint32_t>& v) {
     if (!std::is_sorted(v.begin(), v.end())) std::sort(v.begin(), v.end());
     v.erase(std::unique(v.begin(), v.end()), v.end());
   };
@@ -128,11 +131,23 @@ std::shared_ptr<const Governs> EnvelopeModel::intern(Governs g, Interned* pool) 
   // The pool is keyed by the loaded spans' count and first span; the few
   // arrangements under one key are compared whole.
   const std::pair<std::size_t, std::size_t> key{g.spans.size(), g.spans.empty() ? 0 : g.spans.front()};
-  auto& bucket = (*pool)[key];
+  auto& bucket = pool->buckets[key];
   for (const auto& p : bucket)
     if (same_governs(*p, g)) return p;
+  g.spans.shrink_to_fit();  // kept for the whole run: no spare capacity
+  g.spans_other_factor.shrink_to_fit();
   bucket.push_back(std::make_shared<const Governs>(std::move(g)));
   return bucket.back();
+}
+
+std::shared_ptr<const Governs> EnvelopeModel::governs(const Choice& c, Interned* pool) const {
+  if (!pool) return intern(governs(c), nullptr);
+  for (const auto& [choice, by] : pool->recent)
+    if (by && choice.size() == c.size() && std::equal(c.begin(), c.end(), choice.begin(), same)) return by;
+  auto by = intern(governs(c), pool);
+  pool->recent[pool->next] = {c, by};
+  pool->next = (pool->next + 1) % pool->recent.size();
+  return by;
 }
 
 Bound EnvelopeModel::combine(const std::vector<double>& g, Interned* pool) const {
@@ -140,8 +155,8 @@ Bound EnvelopeModel::combine(const std::vector<double>& g, Interned* pool) const
   Choice hi, lo;
   b.max = extreme(g, true, &hi);
   b.min = extreme(g, false, &lo);
-  b.max_by = intern(governs(hi), pool);
-  b.min_by = intern(governs(lo), pool);
+  b.max_by = governs(hi, pool);
+  b.min_by = governs(lo, pool);
   return b;
 }
 
@@ -167,6 +182,10 @@ Bound EnvelopeModel::reaction(std::size_t node) const {
 
 Beam EnvelopeModel::arrangement_beam(const Choice& c) const {
   Beam b = base;
+  std::size_t count = 0;
+  for (std::size_t u = 0; u < units.size() && u < c.size(); ++u)
+    if (nonzero(c[u])) count += units[u].loads.size();
+  b.loads.reserve(count);
   for (std::size_t u = 0; u < units.size() && u < c.size(); ++u) {
     const double f = c[u];
     if (!nonzero(f)) continue;
@@ -776,7 +795,7 @@ void compare_envelopes(LoadSet& set, double agreement) {
 }
 
 
-void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement) {
+void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement, bool side_by_side) {
   using M = EnvelopeModel;
   set.second_route.clear();
   const MethodResult* lead = nullptr;
@@ -798,18 +817,20 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     std::size_t arrangement = 0;
   };
   std::vector<Item> items;
-  std::vector<M::Choice> choices;
+  // Each arrangement once (the same factor for every unit is solved once):
+  // the map holds it, `choices` points at it in order of discovery.
+  std::vector<const M::Choice*> choices;
   std::vector<PointValues> pv;
   std::vector<double> g(model.units.size());
   std::map<M::Choice, std::size_t> index;  // lexicographic order of the factors
   auto add = [&](Item it, bool want_max) {
     M::Choice c;
     model.extreme(g, want_max, &c);
-    // The same arrangement (the same factor for every unit) is solved once.
-    const auto found = index.emplace(c, choices.size());
-    if (found.second) choices.push_back(c);
+    const auto found = index.emplace(std::move(c), choices.size());
+    if (found.second) choices.push_back(&found.first->first);
     it.arrangement = found.first->second;
-    it.check.arrangement = describe(model.governs(c), model.comb);
+    const M::Choice& chosen = found.first->first;
+    it.check.arrangement = describe(model.governs(chosen), model.comb);
     items.push_back(std::move(it));
   };
   double x0 = 0;
@@ -856,46 +877,76 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
   }
 
   // Each arrangement solved directly by every method, as an ordinary load
-  // set, and read at the points it governs (one solution at a time).
+  // set, and read at the points it governs (one solution at a time). On a
+  // long beam the methods run side by side, each building the arrangements'
+  // beams itself; their values are merged in the order of the methods.
   std::vector<std::vector<std::size_t>> uses(choices.size());
   for (std::size_t i = 0; i < items.size(); ++i) uses[items[i].arrangement].push_back(i);
-  for (auto& it : items) it.check.holds = true;
-  for (std::size_t k = 0; k < choices.size(); ++k) {
-    const Beam b = model.arrangement_beam(choices[k]);
+  struct Read {
+    std::vector<double> value;  // per item
+    std::vector<char> got;      // per item: the method gave a value (finite or not)
+    std::vector<char> failed;   // per item: the method failed (not merely not applicable)
+  };
+  auto read = [&](const Method* m) {
+    Read rd;
+    rd.value.assign(items.size(), 0.0);
+    rd.got.assign(items.size(), 0);
+    rd.failed.assign(items.size(), 0);
     // The load set's stations hold every position where a load of the
     // arrangement acts (its loads are some of the load set's).
     const std::vector<Station>& st = set.stations;
-    for (const Method* m : methods) {
+    for (std::size_t k = 0; k < choices.size(); ++k) {
       Solution sol;
       try {
-        sol = m->solve(b, st);
+        sol = m->solve(model.arrangement_beam(*choices[k]), st);
+      } catch (const std::bad_alloc&) {
+        throw;
       } catch (const std::exception& e) {
         sol.status = MethodStatus::Failed;
         sol.reason = std::string("internal error: ") + e.what();
       }
       const bool ok = sol.status == MethodStatus::Ok && sol.at && sol.nodes.size() == beam.node_count();
       for (std::size_t i : uses[k]) {
-        Item& it = items[i];
-        RouteCheck& rc = it.check;
         if (!ok) {
-          if (sol.status != MethodStatus::NotApplicable) rc.holds = false;
+          if (sol.status != MethodStatus::NotApplicable) rd.failed[i] = 1;
           continue;
         }
-        double v;
+        const Item& it = items[i];
+        rd.got[i] = 1;
         if (it.node) {
-          v = sol.nodes[it.index].reaction_force;
+          rd.value[i] = sol.nodes[it.index].reaction_force;
         } else {
           // At a point force or couple the value reported may be either
           // limit: the nearer one is the value the arrangement has there.
           const double l = quantity(sol.at(it.index, it.local, false), it.what);
           const double r = quantity(sol.at(it.index, it.local, true), it.what);
-          v = std::abs(l - rc.envelope) <= std::abs(r - rc.envelope) ? l : r;
+          rd.value[i] = std::abs(l - it.check.envelope) <= std::abs(r - it.check.envelope) ? l : r;
         }
-        rc.values.emplace_back(m->name, v);
-        const double sc = set.scale[static_cast<int>(it.kind)];
-        const double d = sc > 0 ? std::abs(v - rc.envelope) / sc : std::abs(v - rc.envelope);
-        rc.difference = std::max(rc.difference, d);
       }
+    }
+    return rd;
+  };
+  std::vector<std::future<Read>> later(methods.size());
+  if (side_by_side)
+    for (std::size_t k = 1; k < methods.size(); ++k) {
+      try {
+        later[k] = std::async(std::launch::async, read, methods[k]);
+      } catch (const std::system_error&) {
+        // no thread to be had: this method runs below, in turn
+      }
+    }
+  for (auto& it : items) it.check.holds = true;
+  for (std::size_t k = 0; k < methods.size(); ++k) {
+    const Read rd = later[k].valid() ? later[k].get() : read(methods[k]);
+    for (std::size_t i = 0; i < items.size(); ++i) {
+      RouteCheck& rc = items[i].check;
+      if (rd.failed[i]) rc.holds = false;
+      if (!rd.got[i]) continue;
+      const double v = rd.value[i];
+      rc.values.emplace_back(methods[k]->name, v);
+      const double sc = set.scale[static_cast<int>(items[i].kind)];
+      const double d = sc > 0 ? std::abs(v - rc.envelope) / sc : std::abs(v - rc.envelope);
+      rc.difference = std::max(rc.difference, d);
     }
   }
   set.second_route.reserve(items.size());

@@ -15,6 +15,7 @@
 // of adjacent spans) switches the patterned span shares on (F_k) or off.
 #pragma once
 
+#include <array>
 #include <cstddef>
 #include <limits>
 #include <map>
@@ -52,7 +53,13 @@ class EnvelopeModel {
   // (one per unit), and the choice that gives it.
   double extreme(const std::vector<double>& g, bool want_max, Choice* choice) const;
   // What governs, shared between the points that have the same.
-  using Interned = std::map<std::pair<std::size_t, std::size_t>, std::vector<std::shared_ptr<const Governs>>>;
+  struct Interned {
+    std::map<std::pair<std::size_t, std::size_t>, std::vector<std::shared_ptr<const Governs>>> buckets;
+    // The last few choices and what they govern: along a span most points
+    // have the choice of the point before.
+    std::array<std::pair<Choice, std::shared_ptr<const Governs>>, 4> recent;
+    std::size_t next = 0;
+  };
   std::shared_ptr<const Governs> intern(Governs g, Interned* pool) const;
   // Both bounds, with what governs them (shared through `pool` if given).
   Bound combine(const std::vector<double>& g, Interned* pool = nullptr) const;
@@ -61,6 +68,8 @@ class EnvelopeModel {
   // The units' values of every quantity at a point.
   void values(std::size_t span, double local, bool after, std::vector<PointValues>& out) const;
   Governs governs(const Choice& c) const;
+  // What governs choice `c`, shared through `pool`.
+  std::shared_ptr<const Governs> governs(const Choice& c, Interned* pool) const;
   // The beam of one unit (its loads and settlements, unfactored).
   Beam unit_beam(std::size_t u) const;
   // The beam of one arrangement with its factors: every unit's loads and
