@@ -31,6 +31,7 @@
 #include "reports/reports.h"
 
 #include "harness/cli/commands.h"
+#include "methods/registry/registry.h"
 
 namespace trivet::cli {
 
@@ -42,7 +43,7 @@ int run_check(const CheckArgs& a) {
     opt.methods = split_list(a.methods);
     for (const auto& m : opt.methods)
       if (!compare::find_method(m)) {
-        fail("trivet: --methods: unknown method '", m, "' (one of three-moment, slope-deflection, stiffness)");
+        fail("trivet: --methods: unknown method '", m, "' (one of ", registry::names(), ")");
       }
     if (opt.methods.empty()) {
       fail("trivet: --methods: give at least one method");

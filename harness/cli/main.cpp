@@ -14,6 +14,7 @@
 #include <CLI/CLI.hpp>
 
 #include "harness/cli/commands.h"
+#include "methods/registry/registry.h"
 #include "harness/cli/files.h"
 #include "harness/cli/memory.h"
 
@@ -33,7 +34,7 @@ int main(int argc, char** argv) {
   CLI::App* check = app.add_subcommand("check", "Check beam files (a directory means every *.json in it, recursively)");
   check->add_option("paths", ca.paths, "Beam files or directories")->required();
   check->add_option("--json", ca.json, "Write the full report as JSON to FILE ('-' for standard output)");
-  check->add_option("--methods", ca.methods, "Comma list of three-moment, slope-deflection, stiffness (default all)");
+  check->add_option("--methods", ca.methods, "Comma list of " + trivet::registry::names() + " (default all)");
   check->add_option("--agreement", ca.agreement, "Largest relative difference between methods still called agreement")
       ->default_val(1e-6)->check(CLI::PositiveNumber);
   check->add_option("--stations-per-span", ca.stations_per_span, "Equal divisions per span for the diagrams (overrides the file)")
@@ -63,7 +64,7 @@ int main(int argc, char** argv) {
   CLI::App* selfcheck = app.add_subcommand("selfcheck", "Run the built-in cited handbook and textbook cases on every method");
   selfcheck->add_option("--json", sa.json, "Write the verification record as JSON to FILE ('-' for standard output)");
   selfcheck->add_option("--junit", sa.junit, "Write a JUnit XML report to FILE (a test suite per case)");
-  selfcheck->add_option("--methods", sa.methods, "Comma list of methods (default all)");
+  selfcheck->add_option("--methods", sa.methods, "Comma list of " + trivet::registry::names() + " (default all)");
   selfcheck->add_option("--html", sa.html, "Write the verification record as a self-contained HTML file");
   selfcheck->add_option("--cases", sa.dir, "Directory of reference cases (default: the bundled library)");
   selfcheck->add_option("--arithmetic", sa.arithmetic, "double (default), extended or exact")
@@ -76,7 +77,7 @@ int main(int argc, char** argv) {
   plot->add_option("file", plot_file, "The beam file")->required();
   plot->add_option("-o,--output", plot_out, "OUT.svg or OUT.png")->required();
   plot->add_option("--case", plot_case, "The load case or combination to draw (default: the first)");
-  plot->add_option("--methods", ca.methods, "Comma list of methods (default all)");
+  plot->add_option("--methods", ca.methods, "Comma list of " + trivet::registry::names() + " (default all)");
 
   std::vector<std::string> merge_inputs;
   std::string merge_json = "-", merge_junit;

@@ -31,6 +31,7 @@
 #include "reports/selfcheck_report.h"
 
 #include "harness/cli/commands.h"
+#include "methods/registry/registry.h"
 
 namespace trivet::cli {
 
@@ -53,7 +54,7 @@ int run_selfcheck(const SelfcheckArgs& a) {
     opt.methods = split_list(a.methods);
     for (const auto& m : opt.methods)
       if (!compare::find_method(m)) {
-        fail("trivet: --methods: unknown method '", m, "' (one of three-moment, slope-deflection, stiffness)");
+        fail("trivet: --methods: unknown method '", m, "' (one of ", registry::names(), ")");
       }
   }
   // In extended or exact arithmetic, each case's methods' values at the nodes
@@ -143,14 +144,15 @@ int run_selfcheck(const SelfcheckArgs& a) {
       << r.cases.size() << " cited cases, " << r.values_checked() << " published values; "
       << r.cases.size() - r.cases_failed() << " cases hold, " << r.cases_failed() << " fail.</p>\n";
     h << "<table><tr><th>case</th><th>source</th><th>quantity</th><th>published</th><th>expected</th><th>tolerance</th>"
-         "<th>three-moment</th><th>slope-deflection</th><th>stiffness</th><th>holds</th></tr>\n";
+         "<th>" << registry::names("</th><th>") << "</th><th>holds</th></tr>\n";
     for (const auto& c : r.cases) {
       for (std::size_t i = 0; i < c.values.size(); ++i) {
         const auto& v = c.values[i];
         h << "<tr><td>" << (i == 0 ? reports::html_escape(c.id) : "") << "</td><td>" << (i == 0 ? reports::html_escape(c.citation) : "")
           << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier + (v.magnitude ? " (printed without sign; magnitude compared)" : ""))
           << "</td><td>" << sig(v.expected, 10) << "</td><td>" << sig(v.tolerance, 2) << "</td>";
-        for (const char* m : {"three-moment", "slope-deflection", "stiffness"}) {
+        for (const auto& method : registry::all()) {
+          const std::string m = method.name;
           std::string cell = "-";
           for (const auto& mv : v.methods)
             if (mv.method == m) cell = mv.evaluated ? sig(mv.computed, 10) : "n/a";

@@ -30,7 +30,7 @@ enum class Kind { Moment, Shear, Reaction, Deflection, Rotation };
 constexpr std::size_t kKinds = 5;
 const char* kind_name(Kind k);  // "moment", "shear", "reaction", "deflection", "rotation"
 
-// A method, chosen by name ("three-moment", "slope-deflection", "stiffness").
+// A method in double arithmetic, chosen by name (methods/registry lists them).
 struct Method {
   std::string name;
   Solution (*solve)(const Beam&, const std::vector<Station>&);

@@ -1,18 +1,17 @@
-// The method registry: the only place that names all three methods.
+// The harness's view of the method registry (methods/registry): the double
+// solver of every method, by name.
 #include "harness/compare/compare.h"
-#include "methods/slope_deflection/slope_deflection.h"
-#include "methods/stiffness/stiffness.h"
-#include "methods/three_moment/three_moment.h"
+#include "methods/registry/registry.h"
 
 namespace trivet::compare {
 
 const std::vector<Method>& methods() {
-  static const std::vector<Method> all = {
-      {"three-moment", &three_moment::solve<double>},
-      {"slope-deflection", &slope_deflection::solve<double>},
-      {"stiffness", &stiffness::solve<double>},
-  };
-  return all;
+  static const std::vector<Method> list = [] {
+    std::vector<Method> out;
+    for (const auto& m : registry::all()) out.push_back({m.name, m.solve});
+    return out;
+  }();
+  return list;
 }
 
 const Method* find_method(const std::string& name) {

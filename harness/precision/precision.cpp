@@ -7,9 +7,7 @@
 #include <exception>
 #include <sstream>
 
-#include "methods/slope_deflection/slope_deflection.h"
-#include "methods/stiffness/stiffness.h"
-#include "methods/three_moment/three_moment.h"
+#include "methods/registry/registry.h"
 
 namespace trivet::precision {
 
@@ -24,19 +22,18 @@ const char* arithmetic_name(Arithmetic a) {
 
 BasicSolution<Exact> solve_exact(const std::string& name, const BasicBeam<Exact>& beam,
                                  const std::vector<BasicStation<Exact>>& stations) {
-  if (name == "three-moment") return three_moment::solve<Exact>(beam, stations);
-  if (name == "slope-deflection") return slope_deflection::solve<Exact>(beam, stations);
+  const registry::MethodInfo* m = registry::find(name);
+  if (m && m->solve_exact) return m->solve_exact(beam, stations);
   BasicSolution<Exact> s;
   s.status = MethodStatus::NotApplicable;
-  s.reason = "no exact version of the method '" + name + "'";
+  s.reason = "no exact version of the method '" + name + "'" + (m ? std::string(": ") + m->why_not_exact : "");
   return s;
 }
 
 BasicSolution<Extended> solve_extended(const std::string& name, const BasicBeam<Extended>& beam,
                                        const std::vector<BasicStation<Extended>>& stations) {
-  if (name == "three-moment") return three_moment::solve<Extended>(beam, stations);
-  if (name == "slope-deflection") return slope_deflection::solve<Extended>(beam, stations);
-  if (name == "stiffness") return stiffness::solve<Extended>(beam, stations);
+  const registry::MethodInfo* m = registry::find(name);
+  if (m && m->solve_extended) return m->solve_extended(beam, stations);
   BasicSolution<Extended> s;
   s.status = MethodStatus::NotApplicable;
   s.reason = "no extended version of the method '" + name + "'";
@@ -398,10 +395,10 @@ LoadSetNumbers run_load_set(const ExactBeamFile& exact, const input::BeamFile& f
     m.name = name;
     m.requested = options.arithmetic;
     m.used = options.arithmetic;
-    if (options.arithmetic == Arithmetic::Exact && name == "stiffness") {
+    const registry::MethodInfo* info = registry::find(name);
+    if (options.arithmetic == Arithmetic::Exact && info && !info->solve_exact) {
       m.used = Arithmetic::Extended;
-      m.note = "the stiffness method ran in extended arithmetic (50 digits), not exactly: its "
-               "Gauss-Legendre quadrature points are irrational";
+      m.note = "the " + name + " method ran in extended arithmetic (50 digits), not exactly: " + info->why_not_exact;
     }
     const compare::Method* dm = compare::find_method(name);
     Values ref;

@@ -152,7 +152,7 @@ FileNumbers run_file(const std::string& text, const input::BeamFile& file, const
 // The raw solutions, for callers (and tests) that want the numbers
 // themselves: one method on one load set in one number type. `name` is a
 // method name; stations are the load set's exact grid converted to R.
-// Exact is available for "three-moment" and "slope-deflection" only.
+// Exact is available where the registry (methods/registry) lists an exact solver.
 BasicSolution<Exact> solve_exact(const std::string& name, const BasicBeam<Exact>& beam,
                                  const std::vector<BasicStation<Exact>>& stations);
 BasicSolution<Extended> solve_extended(const std::string& name, const BasicBeam<Extended>& beam,
