@@ -90,7 +90,7 @@ std::string sci(double v) {
 
 }  // namespace
 
-void write_console(std::ostream& out, const BeamResult& b, const ConsoleOptions& opt) {
+void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt) {
   // The file name and the title as text for a terminal (a title may hold
   // control characters; they are shown escaped, never sent raw).
   out << input::printable_text(b.file, 400);

@@ -152,7 +152,7 @@ std::string sci(double v) {
   return buf;
 }
 
-double largest_difference(const BeamResult& b) {
+double largest_difference(const Report& b) {
   double m = 0;
   for (const auto& s : b.sets)
     if (s.ok_count() >= 2)
@@ -160,7 +160,7 @@ double largest_difference(const BeamResult& b) {
   return m;
 }
 
-std::string methods_cell(const BeamResult& b) {
+std::string methods_cell(const Report& b) {
   if (b.sets.empty()) return "-";
   // Over all load sets: how many methods were ok in the worst set.
   std::size_t ok = b.sets[0].methods.size(), total = b.sets[0].methods.size();
@@ -202,7 +202,7 @@ struct Writer {
     return hashes[path] = h ? *h : std::string("(file not readable)");
   }
 
-  void summary(const std::vector<BeamResult>& beams, const std::vector<std::size_t>& order) {
+  void summary(const std::vector<Report>& beams, const std::vector<std::size_t>& order) {
     const Summary s = summarize(beams);
     o << "<section id=\"summary\"><h2>Summary</h2>\n<p class=\"counts\"><b>" << s.beams << "</b> "
       << (s.beams == 1 ? "beam" : "beams") << ": <b>" << s.agree << "</b> agree, <b>" << s.disagree
@@ -225,7 +225,7 @@ struct Writer {
            "<th>largest difference</th><th>claims failed</th></tr>\n";
     };
     auto row = [&](std::size_t i) {
-      const BeamResult& b = beams[i];
+      const Report& b = beams[i];
       o << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\"><a href=\"#" << beam_anchor(i) << "\">"
         << html_escape(b.file) << "</a></td><td>" << html_escape(b.title) << "</td><td>"
         << st_badge(beam_status_name(b.status))
@@ -266,7 +266,7 @@ struct Writer {
     o << "</section>\n";
   }
 
-  void plot(const BeamResult& b, std::size_t bi, std::size_t si, bool plotted, bool open) {
+  void plot(const Report& b, std::size_t bi, std::size_t si, bool plotted, bool open) {
     if (!opt.plots) return;
     o << "<details class=\"plots\"" << (open ? " open" : "") << "><summary>Diagrams";
     if (b.sets.size() > 1) o << " (load set " << html_escape(b.sets[si].name) << ")";
@@ -308,7 +308,7 @@ struct Writer {
   // An envelope load set: the combination, each node's reaction envelope
   // and each span's extremes of moment_max and moment_min, with what
   // governs them (consensus of the methods).
-  void envelope_tables(const BeamResult& b, const LoadSet& set) {
+  void envelope_tables(const Report& b, const LoadSet& set) {
     const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
     const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
     const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
@@ -379,7 +379,7 @@ struct Writer {
 
   // The second route: each value the envelope reports as governing, and its
   // arrangement solved directly by every method.
-  void second_route_table(const BeamResult& b, const LoadSet& set, int dx) {
+  void second_route_table(const Report& b, const LoadSet& set, int dx) {
     const std::string F = html_escape(b.units.force), L = html_escape(b.units.length);
     // Each value in its kind's unit, to the digits the kind's largest value needs.
     auto shown = [&](const RouteCheck& rc, double v) {
@@ -417,7 +417,7 @@ struct Writer {
   }
 
   // Another program's results (--against): per comparison, per quantity.
-  void against_summary(const BeamResult& b) {
+  void against_summary(const Report& b) {
     if (b.against.empty()) return;
     o << "<h3>Another program's results</h3>\n";
     for (const auto& ptr : b.against) {
@@ -462,7 +462,7 @@ struct Writer {
     }
   }
 
-  void beam(const BeamResult& b, std::size_t bi, bool plotted, bool open_plots) {
+  void beam(const Report& b, std::size_t bi, bool plotted, bool open_plots) {
     o << "<section class=\"beam\" id=\"" << beam_anchor(bi) << "\">\n<h2>" << bi + 1 << ". <span class=\"mono\">"
       << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status)) << "</h2>\n";
     if (!b.title.empty()) o << "<p><b>" << html_escape(b.title) << "</b></p>\n";
@@ -589,7 +589,7 @@ struct Writer {
 
 }  // namespace
 
-HtmlStats write_html(std::ostream& out, const std::vector<BeamResult>& beams, const HtmlOptions& opt) {
+HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const HtmlOptions& opt) {
   Writer w{out, opt, {}, false, {}};
   const std::string date = opt.date_utc.empty() ? utc_now_iso8601() : opt.date_utc;
   // Problems first, then file order.

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "reports/report.h"
 #include "reports/plot.h"
 
 namespace trivet::reports {
@@ -47,7 +48,7 @@ struct HtmlStats {
   std::string plot_error;       // the first reason a plot could not be made, or empty
 };
 
-HtmlStats write_html(std::ostream& out, const std::vector<compare::BeamResult>& beams, const HtmlOptions& options);
+HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const HtmlOptions& options);
 
 // &, <, >, " and ' as entities.
 std::string html_escape(const std::string& s);

@@ -25,7 +25,7 @@ void Summary::add(BeamStatus status, std::size_t failed_claims) {
   claims_failed += failed_claims;
 }
 
-Summary summarize(const std::vector<BeamResult>& beams) {
+Summary summarize(const std::vector<Report>& beams) {
   Summary s;
   for (const auto& b : beams) s.add(b.status, b.claims_failed());
   return s;
@@ -335,7 +335,7 @@ void arithmetic(JsonWriter& w, const precision::LoadSetNumbers& pn) {
   w.end_object();
 }
 
-void load_set(JsonWriter& w, const LoadSet& set, const BeamResult& b) {
+void load_set(JsonWriter& w, const LoadSet& set, const Report& b) {
   w.key(set.name);
   w.begin_object();
   w.member("verdict", verdict_name(set.verdict));
@@ -401,7 +401,7 @@ void load_set(JsonWriter& w, const LoadSet& set, const BeamResult& b) {
   w.end_object();
 }
 
-void claims(JsonWriter& w, const BeamResult& b) {
+void claims(JsonWriter& w, const Report& b) {
   w.key("claims");
   w.begin_array();
   for (const auto& c : b.claims) {
@@ -423,7 +423,7 @@ void claims(JsonWriter& w, const BeamResult& b) {
   w.end_array();
 }
 
-void against_results(JsonWriter& w, const BeamResult& b) {
+void against_results(JsonWriter& w, const Report& b) {
   if (b.against.empty()) return;
   namespace ag = compare::against;
   w.key("against");
@@ -509,7 +509,7 @@ void against_results(JsonWriter& w, const BeamResult& b) {
 namespace {
 
 // One element of "beams".
-void beam_object(JsonWriter& w, const BeamResult& b) {
+void beam_object(JsonWriter& w, const Report& b) {
   {
     w.begin_object();
     w.member("file", b.file);
@@ -576,7 +576,7 @@ void report(std::ostream& out, const Summary& s, const RunInfo& run, const Beams
 
 }  // namespace
 
-void json_beam_fragment(const BeamResult& b, std::string& text) {
+void json_beam_fragment(const Report& b, std::string& text) {
   JsonWriter w(text, 2);  // inside the root object and its "beams" array
   beam_object(w, b);
 }
@@ -608,7 +608,7 @@ std::string json_head(const Summary& s, const RunInfo& run, bool padded) {
 
 const char* json_tail(bool any_beams) { return any_beams ? "\n ]\n}\n" : "]\n}\n"; }
 
-void write_json(std::ostream& out, const std::vector<BeamResult>& beams, const RunInfo& run) {
+void write_json(std::ostream& out, const std::vector<Report>& beams, const RunInfo& run) {
   report(out, summarize(beams), run, [&](JsonWriter& w) {
     for (const auto& b : beams) beam_object(w, b);
   });

@@ -50,7 +50,7 @@ struct Case {
   bool error = false;   // an invalid input rather than a failed check
 };
 
-std::vector<Case> cases_of(const BeamResult& b, double equilibrium_bound) {
+std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
   std::vector<Case> out;
   if (b.status == BeamStatus::Invalid) {
     std::string msg;
@@ -116,7 +116,7 @@ std::vector<Case> cases_of(const BeamResult& b, double equilibrium_bound) {
 
 }  // namespace
 
-JunitCounts junit_suite(const BeamResult& b, double equilibrium_bound, std::string& x) {
+JunitCounts junit_suite(const Report& b, double equilibrium_bound, std::string& x) {
   JunitCounts out;
   const std::vector<Case> cases = cases_of(b, equilibrium_bound);
   for (const auto& c : cases) {
@@ -174,7 +174,7 @@ std::string junit_head(const JunitCounts& total, bool padded) {
 
 const char* junit_tail() { return "</testsuites>\n"; }
 
-void write_junit(std::ostream& out, const std::vector<BeamResult>& beams, double equilibrium_bound) {
+void write_junit(std::ostream& out, const std::vector<Report>& beams, double equilibrium_bound) {
   std::vector<JunitCounts> counts;
   std::vector<std::string> texts(beams.size());
   std::vector<std::string_view> suites;

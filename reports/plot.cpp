@@ -101,7 +101,7 @@ std::string combination_text(const input::Combination& c) {
 
 }  // namespace
 
-PlotData plot_data(const BeamResult& b, std::size_t set_index) {
+PlotData plot_data(const Report& b, std::size_t set_index) {
   PlotData d;
   d.title = b.title.empty() ? b.file : b.title;
   if (b.status == BeamStatus::Invalid) {

@@ -27,6 +27,7 @@
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "reports/report.h"
 
 namespace trivet::reports {
 
@@ -52,17 +53,17 @@ struct Curve {
 
 // A claimed value drawn at (x, y = the claimed value).
 struct ClaimMarker {
-  std::size_t claim = 0;  // 0-based index into BeamResult::claims
+  std::size_t claim = 0;  // 0-based index into Report::claims
   double x = 0, y = 0;
   bool holds = false;
   bool evaluated = false;
   std::string text;  // "claim 1"
 };
 
-// A value from another program's results (BeamResult::against) drawn at
+// A value from another program's results (Report::against) drawn at
 // its position: y = Cell::theirs (our units and signs).
 struct OtherMarker {
-  std::size_t comparison = 0;  // index into BeamResult::against
+  std::size_t comparison = 0;  // index into Report::against
   std::size_t row = 0;         // index into Comparison::rows
   double x = 0, y = 0;
   bool holds = false;
@@ -126,7 +127,7 @@ struct PlotData {
 
 // The data of one load set. An invalid beam or a set index out of range
 // gives a PlotData with no panels and a note saying why.
-PlotData plot_data(const compare::BeamResult& beam, std::size_t set_index);
+PlotData plot_data(const Report& beam, std::size_t set_index);
 
 // The indices of a curve's points to keep so it has at most about
 // `max_points`: always the first and last, every jump (two points at the

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "reports/report.h"
 
 namespace trivet::reports {
 
@@ -14,7 +15,7 @@ struct Summary {
   std::size_t beams = 0, agree = 0, disagree = 0, unconfirmed = 0, invalid = 0, claims_failed = 0;
   void add(compare::BeamStatus status, std::size_t failed_claims);
 };
-Summary summarize(const std::vector<compare::BeamResult>& beams);
+Summary summarize(const std::vector<Report>& beams);
 
 struct RunInfo {
   std::string version;
@@ -23,13 +24,13 @@ struct RunInfo {
 };
 
 // The full report (CONTRACT section 4) as JSON.
-void write_json(std::ostream& out, const std::vector<compare::BeamResult>& beams, const RunInfo& run);
+void write_json(std::ostream& out, const std::vector<Report>& beams, const RunInfo& run);
 // The same report in two steps, so that a batch can write each beam's part
 // as soon as the beam is checked (in parallel) and let the result go:
 // json_beam_fragment() appends one element of "beams" to `text`, and
 // write_json_fragments() puts the elements, in order, under the summary.
 // Same bytes as write_json.
-void json_beam_fragment(const compare::BeamResult& beam, std::string& text);
+void json_beam_fragment(const Report& beam, std::string& text);
 void write_json_fragments(std::ostream& out, const Summary& s, const std::vector<std::string_view>& fragments,
                           const RunInfo& run);
 // And for a report written while the run goes on: the text before the
@@ -43,14 +44,14 @@ const char* json_tail(bool any_beams);
 // JUnit XML: a testsuite per beam file, a testcase per load set and check
 // (method agreement, each method's equilibrium, each claim).
 // `equilibrium_bound`: the largest relative residual that passes.
-void write_junit(std::ostream& out, const std::vector<compare::BeamResult>& beams, double equilibrium_bound);
+void write_junit(std::ostream& out, const std::vector<Report>& beams, double equilibrium_bound);
 // The same in two steps (see json_beam_fragment): one beam's testsuite with
 // its counts, then the document around the suites, in order.
 struct JunitCounts {
   std::size_t tests = 0, failures = 0, errors = 0;
 };
 // Appends the beam's <testsuite> element to `xml`.
-JunitCounts junit_suite(const compare::BeamResult& beam, double equilibrium_bound, std::string& xml);
+JunitCounts junit_suite(const Report& beam, double equilibrium_bound, std::string& xml);
 void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& counts,
                         const std::vector<std::string_view>& suites);
 // The document around the suites, for a report written as the run goes
@@ -65,7 +66,7 @@ struct ConsoleOptions {
 };
 
 // One beam as tables for a person.
-void write_console(std::ostream& out, const compare::BeamResult& beam, const ConsoleOptions& opt);
+void write_console(std::ostream& out, const Report& beam, const ConsoleOptions& opt);
 // The closing summary line(s).
 void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOptions& opt);
 

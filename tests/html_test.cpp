@@ -48,7 +48,7 @@ std::size_t count(const std::string& s, const std::string& what) {
 
 // A beam read from text, reported under `file` (the report reads that
 // path for its SHA-256).
-compare::BeamResult beam_as(const std::string& file) {
+reports::Report beam_as(const std::string& file) {
   input::BeamFile f = input::parse_beam_text(kBeam, file);
   EXPECT_TRUE(f.ok());
   return compare::check(f, {});
@@ -86,7 +86,7 @@ TEST(Html, SummarySectionsCautionProvenanceAndNoExternalReferences) {
   // The first beam's file holds "abc", so its SHA-256 is the known one.
   TempFile abc("abc");
   TempFile real(kBeam);
-  std::vector<compare::BeamResult> beams = {beam_as(abc.path), beam_as(real.path)};
+  std::vector<reports::Report> beams = {beam_as(abc.path), beam_as(real.path)};
   beams.push_back(compare::check(input::parse_beam_text("{}", "bad <file>.json"), {}));
   HtmlOptions o = options();
   o.plots = false;  // plots are checked below
@@ -143,7 +143,7 @@ TEST(Html, SummarySectionsCautionProvenanceAndNoExternalReferences) {
 TEST(Html, PlotsInline) {
   if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox): inline plots not tested";
   TempFile real(kBeam);
-  std::vector<compare::BeamResult> beams = {beam_as(real.path), beam_as(real.path)};
+  std::vector<reports::Report> beams = {beam_as(real.path), beam_as(real.path)};
   std::ostringstream out;
   const HtmlStats st = write_html(out, beams, options());
   const std::string h = out.str();
@@ -183,9 +183,9 @@ TEST(Html, ALargeLibraryPutsProblemsFirstAndFoldsTheRest) {
   input::BeamFile good = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 4, "EI": 1000}], "supports": ["pinned", "roller"],
     "loads": [{"type": "udl", "span": 1, "w": 1}]})", real.path);
   ASSERT_TRUE(good.ok());
-  const compare::BeamResult ok = compare::check(good, {});
+  const reports::Report ok = compare::check(good, {});
   ASSERT_EQ(ok.status, compare::BeamStatus::Agree);
-  std::vector<compare::BeamResult> beams(60, ok);
+  std::vector<reports::Report> beams(60, ok);
   beams[41] = beam_as(real.path);  // its claim fails
   beams[41].file = "the-odd-one.json";
   HtmlOptions o = options();
@@ -231,7 +231,7 @@ TEST(Html, WarningsEnvelopeTablesAndAgainstSummary) {
   TempFile plain_file(kBeam);
   input::BeamFile ef = input::parse_beam_text(kEnvelopeBeam, env_file.path);
   ASSERT_TRUE(ef.ok());
-  compare::BeamResult env = compare::check(ef, {});
+  reports::Report env = compare::check(ef, {});
   const compare::LoadSet* set = nullptr;
   for (const auto& s : env.sets)
     if (s.name == "strength-A") set = &s;
@@ -240,7 +240,7 @@ TEST(Html, WarningsEnvelopeTablesAndAgainstSummary) {
   ASSERT_EQ(set->consensus_envelope.reaction.size(), 4u);
   env.warnings.push_back("double may lose about 10 of its 16 digits <here>");
   input::BeamFile pf = input::parse_beam_text(kBeam, plain_file.path);
-  compare::BeamResult plain = compare::check(pf, {});
+  reports::Report plain = compare::check(pf, {});
   auto cmp = std::make_shared<compare::against::Comparison>(
       compare::against::compare_text(pf, plain, "support,force\nB,12345\nC,0\n", "their-reactions.csv", {}));
   ASSERT_TRUE(cmp->ok());

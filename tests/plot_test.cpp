@@ -31,7 +31,7 @@ const char* kBeam = R"({"title": "three spans for the plot test", "units": {"for
     {"quantity": "reaction", "node": "A", "value": 30},
     {"quantity": "shear", "x": 2, "side": "left", "value": 1000}]}})";
 
-compare::BeamResult sample() {
+reports::Report sample() {
   input::BeamFile f = input::parse_beam_text(kBeam, "three-spans.json");
   EXPECT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors[0].format("three-spans.json"));
   return compare::check(f, {});
@@ -46,7 +46,7 @@ double station_value(const compare::StationValues& s, PanelKind k) {
 }
 
 TEST(PlotData, EachCurveIsTheMethodsStations) {
-  const compare::BeamResult b = sample();
+  const reports::Report b = sample();
   ASSERT_EQ(b.sets.size(), 1u);
   const compare::LoadSet& set = b.sets[0];
   ASSERT_EQ(set.ok_count(), 3u);
@@ -81,7 +81,7 @@ TEST(PlotData, EachCurveIsTheMethodsStations) {
 }
 
 TEST(PlotData, DifferencePanelIsMethodMinusConsensusOverScale) {
-  const compare::BeamResult b = sample();
+  const reports::Report b = sample();
   const compare::LoadSet& set = b.sets[0];
   const PlotData d = plot_data(b, 0);
   const Panel* p = d.panel(PanelKind::Difference);
@@ -111,7 +111,7 @@ TEST(PlotData, DifferencePanelIsMethodMinusConsensusOverScale) {
 }
 
 TEST(PlotData, ClaimsAreMarkersOnTheirAxes) {
-  const compare::BeamResult b = sample();
+  const reports::Report b = sample();
   ASSERT_EQ(b.claims.size(), 5u);
   const PlotData d = plot_data(b, 0);
   const Panel* mp = d.panel(PanelKind::Moment);
@@ -154,10 +154,10 @@ const char* kEnvelopeBeam = R"({"title": "three bays, patterned live load", "uni
     {"quantity": "shear_max", "x": 0.5, "value": 120, "case": "strength-A"},
     {"quantity": "reaction_max", "node": "B", "value": 250, "case": "strength-A"}]}})";
 
-compare::BeamResult envelope_sample(std::size_t* set_index) {
+reports::Report envelope_sample(std::size_t* set_index) {
   input::BeamFile f = input::parse_beam_text(kEnvelopeBeam, "bays.json");
   EXPECT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors[0].format("bays.json"));
-  compare::BeamResult b = compare::check(f, {});
+  reports::Report b = compare::check(f, {});
   *set_index = b.sets.size();
   for (std::size_t i = 0; i < b.sets.size(); ++i)
     if (b.sets[i].name == "strength-A") *set_index = i;
@@ -166,7 +166,7 @@ compare::BeamResult envelope_sample(std::size_t* set_index) {
 
 TEST(PlotData, EnvelopeCurvesAreEachMethodsMaxAndMin) {
   std::size_t si = 0;
-  const compare::BeamResult b = envelope_sample(&si);
+  const reports::Report b = envelope_sample(&si);
   ASSERT_LT(si, b.sets.size());
   const compare::LoadSet& set = b.sets[si];
   ASSERT_TRUE(set.envelope);
@@ -242,7 +242,7 @@ TEST(PlotData, EnvelopeCurvesAreEachMethodsMaxAndMin) {
 }
 
 TEST(PlotData, OtherProgramsValuesAreMarkersAtTheirPositions) {
-  compare::BeamResult b = sample();
+  reports::Report b = sample();
   input::BeamFile f = input::parse_beam_text(kBeam, "three-spans.json");
   const compare::LoadSet& set = b.sets[0];
   // Global x in mm (so the position and the value are converted), one
@@ -316,7 +316,7 @@ TEST(PlotData, SketchHasSupportsLoadsAndLabels) {
 }
 
 TEST(PlotData, InvalidBeamHasNothingToPlot) {
-  const compare::BeamResult bad = compare::check(input::parse_beam_text("{}", "bad.json"), {});
+  const reports::Report bad = compare::check(input::parse_beam_text("{}", "bad.json"), {});
   const PlotData d = plot_data(bad, 0);
   EXPECT_TRUE(d.panels.empty());
   ASSERT_FALSE(d.notes.empty());
@@ -389,7 +389,7 @@ TEST(Render, SvgText) {
     EXPECT_NE(svg.find(s), std::string::npos) << s;
   // An envelope set: one legend entry per method for the pair, the combination written.
   std::size_t si = 0;
-  const compare::BeamResult eb = envelope_sample(&si);
+  const reports::Report eb = envelope_sample(&si);
   const std::string esvg = render(plot_data(eb, si), ImageFormat::Svg, 800, 900, &err);
   ASSERT_FALSE(esvg.empty()) << err;
   EXPECT_NE(esvg.find("stiffness max/min"), std::string::npos);

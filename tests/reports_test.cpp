@@ -12,7 +12,7 @@
 namespace trivet::reports {
 namespace {
 
-compare::BeamResult sample() {
+reports::Report sample() {
   input::BeamFile f = input::parse_beam_text(R"({"title": "two spans", "units": {"force": "kN", "length": "m"},
     "spans": [{"length": 5, "EI": 30000}, {"length": 7, "EI": 30000}], "supports": ["fixed", "roller", "free"],
     "loads": [{"type": "udl", "span": 1, "w": 9.3}, {"type": "point", "span": 2, "P": 4.1, "at": 2.2}],
@@ -22,7 +22,7 @@ compare::BeamResult sample() {
 }
 
 TEST(JsonReport, HasTheContractShape) {
-  std::vector<compare::BeamResult> beams = {sample()};
+  std::vector<reports::Report> beams = {sample()};
   beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
   std::ostringstream out;
   write_json(out, beams, {"9.9.9", {}, 1e-6});
@@ -64,7 +64,7 @@ TEST(JsonReport, HasTheContractShape) {
 }
 
 TEST(JsonReport, NumbersReadBackToTheSameDouble) {
-  std::vector<compare::BeamResult> beams = {sample()};
+  std::vector<reports::Report> beams = {sample()};
   std::ostringstream out;
   write_json(out, beams, {"0", {}, 1e-6});
   auto j = nlohmann::json::parse(out.str());
@@ -79,7 +79,7 @@ TEST(JsonReport, NumbersReadBackToTheSameDouble) {
 }
 
 TEST(ConsoleReport, ShowsUnitsTablesAndCaution) {
-  std::vector<compare::BeamResult> beams = {sample()};
+  std::vector<reports::Report> beams = {sample()};
   std::ostringstream out;
   write_console(out, beams[0], {});
   write_console_summary(out, summarize(beams), {});
@@ -93,7 +93,7 @@ TEST(ConsoleReport, ShowsUnitsTablesAndCaution) {
 // The JUnit file has the usual shape (testsuites / testsuite / testcase) and
 // its counts in attributes match the elements it holds.
 TEST(JunitReport, CountsMatchTheElements) {
-  std::vector<compare::BeamResult> beams = {sample()};
+  std::vector<reports::Report> beams = {sample()};
   beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
   std::ostringstream out;
   write_junit(out, beams, 1e-6);
@@ -126,7 +126,7 @@ TEST(JunitReport, CountsMatchTheElements) {
 // head must keep its length whatever the counts, and the document must say
 // the same as write_json / write_junit.
 TEST(StreamedReports, HeadsKeepTheirLengthAndTheDocumentIsTheSame) {
-  std::vector<compare::BeamResult> beams = {sample()};
+  std::vector<reports::Report> beams = {sample()};
   beams.push_back(compare::check(input::parse_beam_text("{}", "bad.json"), {}));
   const RunInfo run{"test", {}, 1e-6};
   Summary big;
@@ -181,7 +181,7 @@ TEST(LongBeam, SideBySideMethodsAndBlockWrittenArraysKeepTheResults) {
   text += "]}";
   const input::BeamFile f = input::parse_beam_text(text, "long.json");
   ASSERT_TRUE(f.ok());
-  const compare::BeamResult all = compare::check(f, {});
+  const reports::Report all = compare::check(f, {});
   ASSERT_EQ(all.sets.size(), 1u);
   const compare::LoadSet& set = all.sets.front();
   ASSERT_GE(set.stations.size(), 40000u);  // past both thresholds
@@ -189,7 +189,7 @@ TEST(LongBeam, SideBySideMethodsAndBlockWrittenArraysKeepTheResults) {
   for (const auto& m : set.methods) {
     compare::Options one;
     one.methods = {m.name};
-    const compare::BeamResult alone = compare::check(f, one);
+    const reports::Report alone = compare::check(f, one);
     const compare::MethodResult& a = alone.sets.front().methods.front();
     ASSERT_EQ(a.name, m.name);
     ASSERT_EQ(a.stations.size(), m.stations.size());

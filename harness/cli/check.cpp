@@ -103,7 +103,7 @@ int run_check(const CheckArgs& a) {
     compare::BeamStatus status = compare::BeamStatus::Invalid;
     std::size_t claims_failed = 0;
   };
-  std::vector<compare::BeamResult> results(files.size());
+  std::vector<reports::Report> results(files.size());
   std::vector<Rendered> rendered(files.size());
   unsigned jobs = a.jobs ? a.jobs : std::max(1u, std::thread::hardware_concurrency());
   jobs = static_cast<unsigned>(std::min<std::size_t>(jobs, std::max<std::size_t>(files.size(), 1)));
@@ -125,7 +125,7 @@ int run_check(const CheckArgs& a) {
     }
   }
 
-  auto render = [&](const compare::BeamResult& r, Rendered& out) {
+  auto render = [&](const reports::Report& r, Rendered& out) {
     out.status = r.status;
     out.claims_failed = r.claims_failed();
     {
@@ -149,7 +149,7 @@ int run_check(const CheckArgs& a) {
   std::vector<char> ready(files.size(), 0);
   // Checks beam i (and, for a library, renders it and marks it ready).
   auto check_one = [&](std::size_t i) {
-    compare::BeamResult& r = results[i];
+    reports::Report& r = results[i];
     try {
       std::string text;
       input::BeamFile f = input::read_beam_file(files[i], {}, &text);
@@ -157,19 +157,19 @@ int run_check(const CheckArgs& a) {
       // --stations-per-span may ask for more stations than the file's limit allows.
       if (f.ok() && a.stations_per_span > 0)
         if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
-      r = compare::check(f, opt);
+      r = reports::Report(compare::check(f, opt));
       if (r.status != compare::BeamStatus::Invalid && f.ok()) {
-        try { apply_precision_text(r, text, f, a.arithmetic, a.reference, opt); }
+        try { apply_precision_text(r, r.precision, text, f, a.arithmetic, a.reference, opt); }
         catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
       }
     } catch (const std::bad_alloc&) {
       internal_error = true;
-      r = compare::BeamResult{};
+      r = reports::Report{};
       r.file = files[i];
       r.errors.push_back({"", "", "internal failure: out of memory while checking this beam (the other beams are kept)"});
     } catch (const std::exception& e) {
       internal_error = true;
-      r = compare::BeamResult{};
+      r = reports::Report{};
       r.file = files[i];
       r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
     }
@@ -179,7 +179,7 @@ int run_check(const CheckArgs& a) {
         internal_error = true;
         rendered[i].console = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
       }
-      if (!keep_results) r = compare::BeamResult{};
+      if (!keep_results) r = reports::Report{};
       {
         std::lock_guard<std::mutex> lock(ready_mutex);
         ready[i] = 1;
@@ -284,7 +284,7 @@ int run_check(const CheckArgs& a) {
       // A file of results that cannot be read is an invalid input (exit 2):
       // the beam's status and the summary say so, with the file's errors.
       if (against_invalid) {
-        compare::BeamResult& r = results[0];
+        reports::Report& r = results[0];
         for (const auto& cmp : r.against)
           for (const auto& e : cmp->errors) r.errors.push_back({"", "", "--against " + e.format(cmp->file)});
         r.status = compare::BeamStatus::Invalid;
@@ -295,7 +295,7 @@ int run_check(const CheckArgs& a) {
   }
 
   for (const auto& [path, why] : problems) {
-    compare::BeamResult r;
+    reports::Report r;
     r.file = path;
     r.errors.push_back({"", "", why});
     if (render_in_workers) {

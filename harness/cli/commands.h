@@ -4,12 +4,14 @@
 //   claim or an unconfirmed beam; 2 a file or the command line is invalid;
 //   3 an internal failure.
 #pragma once
+#include <memory>
 #include <sstream>
 #include <stdexcept>
 #include <string>
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "harness/precision/precision.h"
 #include "harness/input/reader.h"
 
 #ifndef TRIVET_VERSION
@@ -65,9 +67,11 @@ std::vector<std::string> split_list(const std::string& s);
 // the beam), and, with --arithmetic or --reference, the results in extended
 // or exact arithmetic: with --arithmetic the methods' values are replaced by
 // the high-precision ones (correctly rounded to double) and the verdict,
-// consensus and claims recomputed from them.
-void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
-                          const std::string& arithmetic, const std::string& reference, const compare::Options& opt);
+// consensus and claims recomputed from them. The high-precision results go
+// to `numbers`.
+void apply_precision_text(compare::BeamResult& r, std::vector<std::shared_ptr<const precision::LoadSetNumbers>>& numbers,
+                          const std::string& text, const input::BeamFile& f, const std::string& arithmetic,
+                          const std::string& reference, const compare::Options& opt);
 
 // The commands.
 int run_check(const CheckArgs& a);

@@ -38,8 +38,9 @@ std::vector<std::string> split_list(const std::string& s) {
   return out;
 }
 
-void apply_precision_text(compare::BeamResult& r, const std::string& text, const input::BeamFile& f,
-                          const std::string& arithmetic, const std::string& reference, const compare::Options& opt) {
+void apply_precision_text(compare::BeamResult& r, std::vector<std::shared_ptr<const precision::LoadSetNumbers>>& numbers,
+                          const std::string& text, const input::BeamFile& f, const std::string& arithmetic,
+                          const std::string& reference, const compare::Options& opt) {
   struct Args { std::string arithmetic, reference; } a{arithmetic, reference};
   {
     const precision::Conditioning c = precision::estimate_conditioning(f.beam, std::nullopt, 6, 1);  // warnings only
@@ -59,7 +60,7 @@ void apply_precision_text(compare::BeamResult& r, const std::string& text, const
     return;
   }
   for (const auto& set : fn.sets) {
-    r.precision.push_back(std::make_shared<precision::LoadSetNumbers>(set));
+    numbers.push_back(std::make_shared<precision::LoadSetNumbers>(set));
     if (set.conditioning.measured_digits_lost && *set.conditioning.measured_digits_lost > po.warn_digits)
       for (const auto& w : set.conditioning.warnings)
         if (std::find(r.warnings.begin(), r.warnings.end(), w) == r.warnings.end()) r.warnings.push_back(w);
@@ -68,7 +69,7 @@ void apply_precision_text(compare::BeamResult& r, const std::string& text, const
   // Replace the double values by the high-precision ones.
   for (auto& set : r.sets) {
     const precision::LoadSetNumbers* pn = nullptr;
-    for (const auto& p : r.precision)
+    for (const auto& p : numbers)
       if (p->load_case == set.name) pn = p.get();
     if (!pn || set.envelope) continue;
     for (auto& m : set.methods) {

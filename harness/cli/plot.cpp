@@ -19,7 +19,7 @@ int run_plot(const std::string& file, const std::string& out, const std::string&
   const input::BeamFile f = input::read_beam_file(file);
   compare::Options opt;
   if (!methods.empty()) opt.methods = split_list(methods);
-  const compare::BeamResult r = compare::check(f, opt);
+  const reports::Report r(compare::check(f, opt));
   if (r.status == compare::BeamStatus::Invalid) {
     for (const auto& e : r.errors) std::cerr << "error: " << e.format(file) << "\n";
     return kExitInvalid;

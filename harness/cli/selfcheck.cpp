@@ -65,9 +65,10 @@ int run_selfcheck(const SelfcheckArgs& a) {
   std::mutex rounding_mutex;
   if (a.arithmetic != "double" || !a.reference.empty()) {
     after = [&](compare::BeamResult& br, const references::ReferenceCase& ref) {
-      apply_precision_text(br, ref.beam_text, ref.beam, a.arithmetic, a.reference, opt);
+      std::vector<std::shared_ptr<const precision::LoadSetNumbers>> numbers;
+      apply_precision_text(br, numbers, ref.beam_text, ref.beam, a.arithmetic, a.reference, opt);
       std::string line;
-      for (const auto& pn : br.precision)
+      for (const auto& pn : numbers)
         for (const auto& m : pn->methods)
           if (m.rounding && m.rounding->measured) {
             char buf[64];

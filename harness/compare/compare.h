@@ -16,15 +16,6 @@
 
 namespace trivet::compare {
 
-namespace against {
-struct Comparison;  // another program's results against ours (against.h)
-}
-}  // namespace trivet::compare
-namespace trivet::precision {
-struct LoadSetNumbers;  // a load set in extended or exact arithmetic (precision.h)
-}
-namespace trivet::compare {
-
 // The kinds of quantity compared, each scaled by its own largest magnitude.
 enum class Kind { Moment, Shear, Reaction, Deflection, Rotation };
 constexpr std::size_t kKinds = 5;
@@ -191,11 +182,8 @@ struct BeamResult {
   std::vector<input::Error> errors;
   std::vector<LoadSet> sets;
   std::vector<ClaimResult> claims;
-  // Another program's exported results compared with ours (--against).
-  std::vector<std::shared_ptr<const against::Comparison>> against;
-  // Results in extended or exact arithmetic, one per load case (--arithmetic,
-  // --reference), and warnings about the beam (e.g. digits double loses).
-  std::vector<std::shared_ptr<const precision::LoadSetNumbers>> precision;
+  // Warnings about the beam (e.g. digits double loses). What the layers
+  // above attach (--against, other arithmetic) is in reports::Report.
   std::vector<std::string> warnings;
   std::size_t claims_failed() const;
 };

@@ -129,7 +129,7 @@ BENCHMARK(BM_Reader)->Name("typical/reader")->Unit(benchmark::kMicrosecond);
 void BM_Check(benchmark::State& state) {
   for (auto _ : state) {
     input::BeamFile f = input::parse_beam_text(kTypical, "typical.json");
-    std::vector<compare::BeamResult> r{compare::check(f, {})};
+    std::vector<reports::Report> r{compare::check(f, {})};
     std::ostringstream out;
     reports::write_json(out, r, {"bench", {}, 1e-6});
     benchmark::DoNotOptimize(out.str().size());
@@ -139,7 +139,7 @@ BENCHMARK(BM_Check)->Name("typical/check_to_json")->Unit(benchmark::kMicrosecond
 
 void BM_JsonWriter(benchmark::State& state) {
   input::BeamFile f = input::parse_beam_text(kTypical, "typical.json");
-  std::vector<compare::BeamResult> r{compare::check(f, {})};
+  std::vector<reports::Report> r{compare::check(f, {})};
   for (auto _ : state) {
     std::ostringstream out;
     reports::write_json(out, r, {"bench", {}, 1e-6});

@@ -28,11 +28,11 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
     if (e.reason.empty()) __builtin_trap();
   }
   compare::Options opt;
-  std::vector<compare::BeamResult> results;
+  std::vector<reports::Report> results;
   results.push_back(compare::check(file, opt));
   // Invalid exactly when the reader refuses the file, or when no method can
   // compute the accepted beam in double (and the error says so).
-  const compare::BeamResult& last = results.back();
+  const reports::Report& last = results.back();
   if (!file.ok() && last.status != compare::BeamStatus::Invalid) __builtin_trap();
   if (file.ok() && last.status == compare::BeamStatus::Invalid) {
     bool uncomputable = !last.errors.empty();
