@@ -317,7 +317,7 @@ std::string got(const json& j) {
 struct CaseReader {
   ReferenceCase* out;
   void error(const std::string& ptr, const std::string& where, const std::string& reason) {
-    out->errors.push_back({ptr, where, reason});
+    out->errors.push_back({ptr, where, reason, "reference.invalid"});
   }
   void check_keys(const json& obj, const std::string& ptr, const std::string& where,
                   const std::vector<std::string>& allowed) {
@@ -440,7 +440,7 @@ ReferenceCase parse_case_text(const std::string& text, const std::string& displa
   } else {
     c.beam_text = it->dump(2);
     c.beam = input::parse_beam_text(c.beam_text, display);
-    for (const auto& e : c.beam.errors) c.errors.push_back({"/beam" + e.pointer, e.where, e.reason});
+    for (const auto& e : c.beam.errors) c.errors.push_back({"/beam" + e.pointer, e.where, e.reason, e.id});
     if (!c.beam.claims.empty())
       rd.error("/beam/claims", "", "a reference beam carries no claims: give the published values under \"expected\"");
     beam_ok = c.beam.ok();
@@ -583,7 +583,7 @@ ReferenceCase read_case_file(const std::string& path) {
   if (!in) {
     ReferenceCase c;
     c.file = path;
-    c.errors.push_back({"", "", "cannot open the file for reading"});
+    c.errors.push_back({"", "", "cannot open the file for reading", "reference.file"});
     return c;
   }
   std::ostringstream ss;
@@ -633,7 +633,7 @@ std::vector<ReferenceCase> load_cases(const std::string& dir) {
   if (files.empty()) {
     ReferenceCase c;
     c.file = dir;
-    c.errors.push_back({"", "", reason.empty() ? "no reference case (*.json) in " + dir : reason});
+    c.errors.push_back({"", "", reason.empty() ? "no reference case (*.json) in " + dir : reason, "reference.file"});
     out.push_back(c);
     return out;
   }
@@ -643,7 +643,7 @@ std::vector<ReferenceCase> load_cases(const std::string& dir) {
   for (auto& c : out) {
     if (c.id.empty()) continue;
     auto [p, fresh] = first.emplace(c.id, c.file);
-    if (!fresh) c.errors.push_back({"/id", "", "the id '" + c.id + "' is already used by " + p->second});
+    if (!fresh) c.errors.push_back({"/id", "", "the id '" + c.id + "' is already used by " + p->second, "reference.duplicate"});
   }
   return out;
 }

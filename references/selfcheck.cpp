@@ -125,7 +125,7 @@ CaseResult run_case(const ReferenceCase& ref, const compare::Options& options, c
   if (after) after(br, ref);
   if (br.status == compare::BeamStatus::Invalid || br.sets.empty()) {
     r.errors = br.errors;
-    if (r.errors.empty()) r.errors.push_back({"/beam", "", "the beam could not be checked"});
+    if (r.errors.empty()) r.errors.push_back({"/beam", "", "the beam could not be checked", "check.failed"});
     return r;
   }
   // The verdict: the worst over the load sets.

@@ -528,6 +528,7 @@ void beam_object(JsonWriter& w, const Report& b) {
     w.begin_array();
     for (const auto& e : b.errors) {
       w.begin_object(true);
+      w.member("id", e.id);
       w.member("pointer", e.pointer);
       w.member("where", e.where);
       w.member("reason", e.reason);

@@ -350,3 +350,56 @@ TEST(Reader, TooManyStations) {
 
 }  // namespace
 }  // namespace trivet::input
+
+namespace trivet::input {
+namespace {
+
+// Each kind of error has a stable id; scripts and these tests match the id
+// and the JSON Pointer, never the wording.
+TEST(ReaderErrorIds, EachKindOfErrorHasItsId) {
+  struct Case {
+    std::string from, to;  // the change to the good file
+    std::string pointer, id;
+  };
+  const std::vector<Case> cases = {
+      {"\"title\": \"test\",", "\"title\": \"test\", \"colour\": 1,", "/colour", "input.unknown_field"},
+      {"{\"length\": 5.0, \"EI\": 52000}", "{\"EI\": 52000}", "/spans/0/length", "input.missing_field"},
+      {"{\"length\": 5.0,", "{\"length\": -5.0,", "/spans/0/length", "input.out_of_range"},
+      {"{\"length\": 5.0,", "{\"length\": \"five\",", "/spans/0/length", "input.bad_quantity"},
+      {"{\"length\": 5.0,", "{\"length\": true,", "/spans/0/length", "input.wrong_type"},
+      {"\"length\": \"m\"}", "\"length\": \"furlong\"}", "/units/length", "input.unknown_unit"},
+      {"[\"pinned\", \"roller\", \"roller\"]", "[\"pinned\", \"roller\"]", "/supports", "input.wrong_count"},
+      {"[\"pinned\", \"roller\", \"roller\"]", "[\"pinned\", \"roler\", \"roller\"]", "/supports/1", "input.unknown_name"},
+      {"\"span\": 1,", "\"span\": 7,", "/loads/0/span", "input.no_such_item"},
+      {"\"span\": 1,", "\"span\": 1, \"node\": 1,", "/loads/0", "input.conflicting_fields"},
+      {"[\"pinned\", \"roller\", \"roller\"]", "[\"pinned\", \"free\", \"free\"]", "/supports", "input.mechanism"},
+      {"\"title\": \"test\",", "\"title\": \"test\", \"title\": \"again\",", "/title", "input.duplicate"},
+      {"\"w\": 8.0}", "\"w\": 8.0", "", "input.syntax"},
+  };
+  for (const auto& c : cases) {
+    const BeamFile f = parse_beam_text(with(c.from, c.to), "plant.json");
+    ASSERT_FALSE(f.errors.empty()) << c.to;
+    bool found = false;
+    for (const auto& e : f.errors)
+      if (e.id == c.id && e.pointer.rfind(c.pointer, 0) == 0) found = true;
+    std::string got;
+    for (const auto& e : f.errors) got += e.id + " at " + e.pointer + "; ";
+    EXPECT_TRUE(found) << c.to << ": want " << c.id << " at " << c.pointer << ", got " << got;
+  }
+}
+
+TEST(ReaderErrorIds, EveryErrorOfTheCorpusHasAnId) {
+  // No error leaves the reader without an id of its own ("input.other" is
+  // the default of an Error made elsewhere).
+  for (const char* bad : {"", "[]", "{\"spans\": 1}", "{\"units\": {}, \"spans\": [], \"supports\": [], \"loads\": []}"}) {
+    const BeamFile f = parse_beam_text(bad, "plant.json");
+    ASSERT_FALSE(f.errors.empty()) << bad;
+    for (const auto& e : f.errors) {
+      EXPECT_EQ(e.id.rfind("input.", 0), 0u) << bad << ": " << e.reason;
+      EXPECT_NE(e.id, "input.other") << bad << ": " << e.reason;
+    }
+  }
+}
+
+}  // namespace
+}  // namespace trivet::input

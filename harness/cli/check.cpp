@@ -166,12 +166,12 @@ int run_check(const CheckArgs& a) {
       internal_error = true;
       r = reports::Report{};
       r.file = files[i];
-      r.errors.push_back({"", "", "internal failure: out of memory while checking this beam (the other beams are kept)"});
+      r.errors.push_back({"", "", "internal failure: out of memory while checking this beam (the other beams are kept)", "internal.out_of_memory"});
     } catch (const std::exception& e) {
       internal_error = true;
       r = reports::Report{};
       r.file = files[i];
-      r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what()});
+      r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what(), "internal.error"});
     }
     if (render_in_workers) {
       try { render(r, rendered[i]); }
@@ -286,7 +286,7 @@ int run_check(const CheckArgs& a) {
       if (against_invalid) {
         reports::Report& r = results[0];
         for (const auto& cmp : r.against)
-          for (const auto& e : cmp->errors) r.errors.push_back({"", "", "--against " + e.format(cmp->file)});
+          for (const auto& e : cmp->errors) r.errors.push_back({"", "", "--against " + e.format(cmp->file), "against.unreadable"});
         r.status = compare::BeamStatus::Invalid;
         r.sets.clear();
         r.claims.clear();
@@ -297,7 +297,7 @@ int run_check(const CheckArgs& a) {
   for (const auto& [path, why] : problems) {
     reports::Report r;
     r.file = path;
-    r.errors.push_back({"", "", why});
+    r.errors.push_back({"", "", why, "input.file"});
     if (render_in_workers) {
       rendered.emplace_back();
       render(r, rendered.back());

@@ -636,7 +636,8 @@ void finish(BeamResult& out, const input::BeamFile& file) {
       }
     if (s.ok_count() == 0 && failed > 0) {
       out.errors.push_back({"", "", "load set " + s.name + ": no method could compute this beam in double precision (" +
-                                        reasons + "); check the magnitudes of its numbers"});
+                                        reasons + "); check the magnitudes of its numbers",
+                             "check.no_method_computes"});
       out.status = BeamStatus::Invalid;
     }
   }

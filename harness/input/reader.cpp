@@ -259,10 +259,12 @@ struct Reader {
   Limits limits;
   std::set<std::string> unknown_keys;  // pointers of the fields reported as unknown
 
-  void error(const std::string& ptr, const std::string& where, const std::string& reason) {
-    if (errors->size() < 1000) errors->push_back({printable(ptr), where, printable(reason, 2000)});
+  // `id`: the stable name of the kind of error (README, "Error ids"),
+  // without its "input." prefix.
+  void error(const char* id, const std::string& ptr, const std::string& where, const std::string& reason) {
+    if (errors->size() < 1000) errors->push_back({printable(ptr), where, printable(reason, 2000), std::string("input.") + id});
     else if (errors->size() == 1000)
-      errors->push_back({"", "", "more than 1000 errors; the rest are not listed"});
+      errors->push_back({"", "", "more than 1000 errors; the rest are not listed", "input.limit"});
   }
 
   // Reports keys of `obj` not in `allowed`.
@@ -277,7 +279,7 @@ struct Reader {
         for (std::size_t i = 0; i < allowed.size(); ++i) reason += (i ? ", " : "") + allowed[i];
         reason += ")";
       }
-      error(ptr + "/" + escape_key(it.key()), where, reason);
+      error("unknown_field", ptr + "/" + escape_key(it.key()), where, reason);
       unknown_keys.insert(ptr + "/" + escape_key(it.key()));
     }
   }
@@ -288,7 +290,7 @@ struct Reader {
     if (v.is_number()) {
       const double d = v.get<double>();
       if (!std::isfinite(d)) {
-        error(ptr, where, "must be a finite number (the value is too large)");
+        error("not_finite", ptr, where, "must be a finite number (the value is too large)");
         return std::nullopt;
       }
       return d;
@@ -296,12 +298,12 @@ struct Reader {
     if (v.is_string()) {
       auto q = parse_quantity(v.get<std::string>(), dim, units);
       if (!q.ok) {
-        error(ptr, where, q.reason);
+        error("bad_quantity", ptr, where, q.reason);
         return std::nullopt;
       }
       return q.value;
     }
-    error(ptr, where, "must be a number (" + units.of(dim) + "), or a string with its unit (" + got(v) + ")");
+    error("wrong_type", ptr, where, "must be a number (" + units.of(dim) + "), or a string with its unit (" + got(v) + ")");
     return std::nullopt;
   }
 
@@ -318,7 +320,7 @@ struct Reader {
           if (k.key() != key && unknown_keys.count(ptr + "/" + escape_key(k.key())) &&
               did_you_mean(k.key(), {key}) == std::optional<std::string>(key))
             misspelt = true;
-      if (required && !misspelt) error(ptr + "/" + key, where, "required field is missing");
+      if (required && !misspelt) error("missing_field", ptr + "/" + key, where, "required field is missing");
       return std::nullopt;
     }
     return quantity(*it, ptr + "/" + key, where, dim);
@@ -328,7 +330,7 @@ struct Reader {
                                  const std::string& where, Dimension dim, bool required) {
     auto v = field(obj, key, ptr, where, dim, required);
     if (v && !(*v > 0.0)) {
-      error(ptr + "/" + key, where, "must be greater than 0 (got " + format_number(*v) + ")");
+      error("out_of_range", ptr + "/" + key, where, "must be greater than 0 (got " + format_number(*v) + ")");
       return std::nullopt;
     }
     return v;
@@ -510,11 +512,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   Reader rd{&out.errors, Units{}, limits, {}};
 
   if (text.size() > limits.max_file_bytes) {
-    rd.error("", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB");
+    rd.error("limit", "", "", "the file is larger than the limit of " + std::to_string(limits.max_file_bytes >> 20) + " MiB");
     return out;
   }
   if (std::all_of(text.begin(), text.end(), [](char c) { return std::isspace(static_cast<unsigned char>(c)); })) {
-    rd.error("", "", "the file is empty (a beam file is a JSON object)");
+    rd.error("syntax", "", "", "the file is empty (a beam file is a JSON object)");
     return out;
   }
 
@@ -525,18 +527,18 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     CheckedDocument doc(root, dups);
     if (!json::sax_parse(text, &doc, json::input_format_t::json, true, false)) {
       if (dups.overflow) {
-        rd.error(dups.overflow_pointer, where_of(dups.overflow_pointer), "must be a finite number (the value is too large)");
+        rd.error("not_finite", dups.overflow_pointer, where_of(dups.overflow_pointer), "must be a finite number (the value is too large)");
         return out;
       }
       std::string msg = dups.syntax;
       const std::string marker = "parse error at ";
       auto p = msg.find(marker);
       if (p != std::string::npos) msg = msg.substr(p + marker.size());
-      rd.error("", "", "not valid JSON: " + msg);
+      rd.error("syntax", "", "", "not valid JSON: " + msg);
       return out;
     }
   } catch (const TooDeep& deep) {
-    rd.error(deep.pointer, where_of(deep.pointer), "nested more than " + std::to_string(limits.max_depth) +
+    rd.error("syntax", deep.pointer, where_of(deep.pointer), "nested more than " + std::to_string(limits.max_depth) +
                                                        " levels deep (a beam file needs only a few)");
     return out;
   } catch (const json::parse_error& e) {
@@ -544,22 +546,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     const std::string marker = "parse error at ";
     auto p = msg.find(marker);
     if (p != std::string::npos) msg = msg.substr(p + marker.size());
-    rd.error("", "", "not valid JSON: " + msg);
+    rd.error("syntax", "", "", "not valid JSON: " + msg);
     return out;
   } catch (const json::out_of_range& e) {
     // nlohmann/json refuses numbers beyond double (e.g. 1e999); the
     // duplicate finder knows where the parser had got to.
     const std::string ptr = dups.child_pointer();
-    rd.error(ptr, where_of(ptr), "must be a finite number (the value is too large)");
+    rd.error("not_finite", ptr, where_of(ptr), "must be a finite number (the value is too large)");
     return out;
   } catch (const std::exception& e) {
-    rd.error("", "", std::string("not valid JSON: ") + e.what());
+    rd.error("syntax", "", "", std::string("not valid JSON: ") + e.what());
     return out;
   }
   for (const auto& d : dups.duplicates)
-    rd.error(d, where_of(d), "this field is given twice (each field may appear once)");
+    rd.error("duplicate", d, where_of(d), "this field is given twice (each field may appear once)");
   if (!root.is_object()) {
-    rd.error("", "", std::string("a beam file must be a JSON object with spans, supports and loads (got ") +
+    rd.error("syntax", "", "", std::string("a beam file must be a JSON object with spans, supports and loads (got ") +
                          type_of(root) + ")");
     return out;
   }
@@ -569,17 +571,17 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // title
   if (auto it = root.find("title"); it != root.end()) {
     if (it->is_string()) beam.title = it->get<std::string>();
-    else rd.error("/title", "", "must be a string (" + got(*it) + ")");
+    else rd.error("wrong_type", "/title", "", "must be a string (" + got(*it) + ")");
   }
   for (const char* key : {"description", "$schema"})
     if (auto it = root.find(key); it != root.end() && !it->is_string())
-      rd.error(std::string("/") + key, "", "must be a string (" + got(*it) + ")");
+      rd.error("wrong_type", std::string("/") + key, "", "must be a string (" + got(*it) + ")");
   // units
   bool units_ok = false;
   if (auto it = root.find("units"); it == root.end()) {
-    rd.error("/units", "", "required field is missing (for example {\"force\": \"kN\", \"length\": \"m\"})");
+    rd.error("missing_field", "/units", "", "required field is missing (for example {\"force\": \"kN\", \"length\": \"m\"})");
   } else if (!it->is_object()) {
-    rd.error("/units", "", "must be an object such as {\"force\": \"kN\", \"length\": \"m\"} (" + got(*it) + ")");
+    rd.error("wrong_type", "/units", "", "must be an object such as {\"force\": \"kN\", \"length\": \"m\"} (" + got(*it) + ")");
   } else {
     rd.check_keys(*it, "/units", "", {"force", "length"});
     units_ok = true;
@@ -588,15 +590,15 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       const std::string ptr = std::string("/units/") + key;
       std::string list;
       for (std::size_t i = 0; i < names.size(); ++i) list += (i ? ", " : "") + names[i];
-      if (f == it->end()) { rd.error(ptr, "", "required field is missing (one of " + list + ")"); units_ok = false; return; }
-      if (!f->is_string()) { rd.error(ptr, "", "must be one of " + list + " (" + got(*f) + ")"); units_ok = false; return; }
+      if (f == it->end()) { rd.error("missing_field", ptr, "", "required field is missing (one of " + list + ")"); units_ok = false; return; }
+      if (!f->is_string()) { rd.error("wrong_type", ptr, "", "must be one of " + list + " (" + got(*f) + ")"); units_ok = false; return; }
       const std::string name = f->get<std::string>();
       auto factor = force ? force_unit(name) : length_unit(name);
       if (!factor) {
         std::string reason = "unknown " + std::string(force ? "force" : "length") + " unit '" + name + "'";
         if (auto m = did_you_mean(name, names)) reason += " (did you mean '" + *m + "'?)";
         else reason += " (one of " + list + ")";
-        rd.error(ptr, "", reason);
+        rd.error("unknown_unit", ptr, "", reason);
         units_ok = false;
         return;
       }
@@ -617,13 +619,13 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // spans
   bool spans_ok = false;
   if (auto it = root.find("spans"); it == root.end()) {
-    rd.error("/spans", "", "required field is missing (a list of spans, left to right)");
+    rd.error("missing_field", "/spans", "", "required field is missing (a list of spans, left to right)");
   } else if (!it->is_array()) {
-    rd.error("/spans", "", "must be a list of spans (" + got(*it) + ")");
+    rd.error("wrong_type", "/spans", "", "must be a list of spans (" + got(*it) + ")");
   } else if (it->empty()) {
-    rd.error("/spans", "", "must have at least one span");
+    rd.error("wrong_count", "/spans", "", "must have at least one span");
   } else if (it->size() > limits.max_spans) {
-    rd.error("/spans", "", "has " + std::to_string(it->size()) + " spans, more than the limit of " +
+    rd.error("limit", "/spans", "", "has " + std::to_string(it->size()) + " spans, more than the limit of " +
                                std::to_string(limits.max_spans));
   } else {
     spans_ok = true;
@@ -634,7 +636,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       const std::string where = "span " + std::to_string(i + 1);
       Span span;
       if (!s.is_object()) {
-        rd.error(ptr, where, "must be an object with length and EI (" + got(s) + ")");
+        rd.error("wrong_type", ptr, where, "must be an object with length and EI (" + got(s) + ")");
         spans_ok = false;
         beam.spans.push_back(span);
         continue;
@@ -646,7 +648,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       double ei = 0.0;
       bool ei_ok = false;
       if (has_ei && (has_e || has_i)) {
-        rd.error(ptr, where, "give either EI or both E and I, not both");
+        rd.error("conflicting_fields", ptr, where, "give either EI or both E and I, not both");
       } else if (has_ei) {
         if (auto v = rd.positive(s, "EI", ptr, where, kEI, true)) { ei = *v; ei_ok = true; }
       } else if (has_e || has_i) {
@@ -655,10 +657,10 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         if (e && in) {
           ei = *e * *in;
           ei_ok = std::isfinite(ei) && ei > 0;
-          if (!ei_ok) rd.error(ptr, where, "E times I is out of range (" + format_number(ei) + ")");
+          if (!ei_ok) rd.error("out_of_range", ptr, where, "E times I is out of range (" + format_number(ei) + ")");
         }
       } else {
-        rd.error(ptr + "/EI", where, "required field is missing (give EI, or both E and I)");
+        rd.error("missing_field", ptr + "/EI", where, "required field is missing (give EI, or both E and I)");
       }
       if (L && ei_ok) {
         span.length = *L;
@@ -675,11 +677,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // supports
   bool supports_ok = false;
   if (auto it = root.find("supports"); it == root.end()) {
-    rd.error("/supports", "", "required field is missing (one entry per node, left to right)");
+    rd.error("missing_field", "/supports", "", "required field is missing (one entry per node, left to right)");
   } else if (!it->is_array()) {
-    rd.error("/supports", "", "must be a list with one entry per node (" + got(*it) + ")");
+    rd.error("wrong_type", "/supports", "", "must be a list with one entry per node (" + got(*it) + ")");
   } else if (n_spans > 0 && it->size() != n_nodes) {
-    rd.error("/supports", "", "must have one entry per node: " + std::to_string(n_nodes) + " for " +
+    rd.error("wrong_count", "/supports", "", "must have one entry per node: " + std::to_string(n_nodes) + " for " +
                                   std::to_string(n_spans) + (n_spans == 1 ? " span" : " spans") +
                                   " (got " + std::to_string(it->size()) + ")");
   } else {
@@ -696,16 +698,16 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       } else if (s.is_object()) {
         rd.check_keys(s, ptr, where, {"type", "k", "kr", "settlement", "hinge"});
         auto t = s.find("type");
-        if (t == s.end()) { rd.error(ptr + "/type", where, "required field is missing (one of fixed, pinned, roller, free, spring, guided)"); supports_ok = false; }
+        if (t == s.end()) { rd.error("missing_field", ptr + "/type", where, "required field is missing (one of fixed, pinned, roller, free, spring, guided)"); supports_ok = false; }
         else { type = &*t; tptr = ptr + "/type"; }
       } else {
-        rd.error(ptr, where, "must be a support type such as \"pinned\", or an object with \"type\" (" + got(s) + ")");
+        rd.error("wrong_type", ptr, where, "must be a support type such as \"pinned\", or an object with \"type\" (" + got(s) + ")");
         supports_ok = false;
       }
       bool type_ok = false;
       if (type) {
         if (!type->is_string()) {
-          rd.error(tptr, where, "must be one of fixed, pinned, roller, free, spring, guided (" + got(*type) + ")");
+          rd.error("wrong_type", tptr, where, "must be one of fixed, pinned, roller, free, spring, guided (" + got(*type) + ")");
         } else {
           const std::string t = type->get<std::string>();
           static const std::map<std::string, SupportType> m = {
@@ -717,7 +719,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             std::string reason = "unknown support type '" + t + "'";
             if (auto d = did_you_mean(t, kSupportTypes)) reason += " (did you mean '" + *d + "'?)";
             else reason += " (one of fixed, pinned, roller, free, spring, guided)";
-            rd.error(tptr, where, reason);
+            rd.error("unknown_name", tptr, where, reason);
           } else {
             sup.type = f->second;
             type_ok = true;
@@ -732,12 +734,12 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (k) sup.k = *k; else supports_ok = false;
           if (s.contains("kr")) {
             auto kr = rd.field(s, "kr", ptr, where, kMoment, false);
-            if (kr && *kr < 0) { rd.error(ptr + "/kr", where, "must not be negative (got " + format_number(*kr) + ")"); supports_ok = false; }
+            if (kr && *kr < 0) { rd.error("out_of_range", ptr + "/kr", where, "must not be negative (got " + format_number(*kr) + ")"); supports_ok = false; }
             else if (kr) sup.kr = *kr; else supports_ok = false;
           }
         } else {
-          if (s.contains("k")) { rd.error(ptr + "/k", where, "only a spring support takes a stiffness 'k' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
-          if (s.contains("kr")) { rd.error(ptr + "/kr", where, "only a spring support takes a rotational stiffness 'kr' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
+          if (s.contains("k")) { rd.error("conflicting_fields", ptr + "/k", where, "only a spring support takes a stiffness 'k' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
+          if (s.contains("kr")) { rd.error("conflicting_fields", ptr + "/kr", where, "only a spring support takes a rotational stiffness 'kr' (this support is " + std::string(support_type_name(sup.type)) + ")"); supports_ok = false; }
         }
         if (s.contains("settlement")) {
           // A number (acts once in every load set) or {"value": v, "case": C}
@@ -751,7 +753,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             if (auto v = rd.field(sv, "value", sptr, where, kLength, true)) { st = *v; st_ok = true; }
             if (auto c = sv.find("case"); c != sv.end()) {
               if (!c->is_string() || c->get<std::string>().empty() || has_control(c->get<std::string>())) {
-                rd.error(sptr + "/case", where, "must be a non-empty name of a load case, without control characters (" + got(*c) + ")");
+                rd.error("control_characters", sptr + "/case", where, "must be a non-empty name of a load case, without control characters (" + got(*c) + ")");
                 st_ok = false;
               } else {
                 sup.settlement_case = c->get<std::string>();
@@ -762,14 +764,14 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             st_ok = true;
           }
           if (st_ok && (sup.type == SupportType::Free || sup.type == SupportType::Guided)) {
-            rd.error(ptr + "/settlement", where, std::string("a settlement needs a support that holds the node up; a ") +
+            rd.error("unsupported_feature", ptr + "/settlement", where, std::string("a settlement needs a support that holds the node up; a ") +
                                                      support_type_name(sup.type) + " node is free to deflect");
             supports_ok = false;
           } else if (st_ok) sup.settlement = st;
           else supports_ok = false;
         }
         if (auto h = s.find("hinge"); h != s.end()) {
-          if (!h->is_boolean()) { rd.error(ptr + "/hinge", where, "must be true or false (" + got(*h) + ")"); supports_ok = false; }
+          if (!h->is_boolean()) { rd.error("wrong_type", ptr + "/hinge", where, "must be true or false (" + got(*h) + ")"); supports_ok = false; }
           else sup.hinge = h->get<bool>();
         }
         if (sup.hinge) {
@@ -778,11 +780,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           else if (sup.type == SupportType::Fixed) why = "a hinge on a fixed support leaves the fixity nothing to hold; use \"pinned\" with the hinge";
           else if (sup.type == SupportType::Guided) why = "a hinge on a guided support leaves the rotation restraint nothing to hold";
           else if (sup.type == SupportType::Spring && sup.kr > 0) why = "a hinge on a spring with a rotational stiffness 'kr' is ambiguous (which side does kr hold?)";
-          if (!why.empty()) { rd.error(ptr + "/hinge", where, why); supports_ok = false; }
+          if (!why.empty()) { rd.error("unsupported_feature", ptr + "/hinge", where, why); supports_ok = false; }
         }
       }
       if (type_ok && s.is_string() && sup.type == SupportType::Spring) {
-        rd.error(ptr, where, "a spring support needs its stiffness: {\"type\": \"spring\", \"k\": ...}");
+        rd.error("missing_field", ptr, where, "a spring support needs its stiffness: {\"type\": \"spring\", \"k\": ...}");
         supports_ok = false;
       }
       beam.supports.push_back(sup);
@@ -794,9 +796,9 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   for (std::size_t i = 0; i < n_nodes && n_spans > 0; ++i) beam.labels.push_back(default_label(i));
   if (auto it = root.find("labels"); it != root.end()) {
     if (!it->is_array()) {
-      rd.error("/labels", "", "must be a list of node names (" + got(*it) + ")");
+      rd.error("wrong_type", "/labels", "", "must be a list of node names (" + got(*it) + ")");
     } else if (n_spans > 0 && it->size() != n_nodes) {
-      rd.error("/labels", "", "must name every node: " + std::to_string(n_nodes) + " names for " +
+      rd.error("wrong_count", "/labels", "", "must name every node: " + std::to_string(n_nodes) + " names for " +
                                   std::to_string(n_spans) + (n_spans == 1 ? " span" : " spans") + " (got " +
                                   std::to_string(it->size()) + ")");
     } else if (n_spans > 0) {
@@ -806,16 +808,16 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         const std::string ptr = "/labels/" + std::to_string(i);
         const std::string where = "node " + std::to_string(i + 1);
         if (!l.is_string() || l.get<std::string>().empty()) {
-          rd.error(ptr, where, "must be a non-empty string (" + got(l) + ")");
+          rd.error("wrong_type", ptr, where, "must be a non-empty string (" + got(l) + ")");
           continue;
         }
         const std::string name = l.get<std::string>();
         if (has_control(name)) {
-          rd.error(ptr, where, "a node name must not contain control characters (got \"" + printable(name, 60) + "\")");
+          rd.error("control_characters", ptr, where, "a node name must not contain control characters (got \"" + printable(name, 60) + "\")");
           continue;
         }
         auto [p, fresh] = seen.emplace(name, i);
-        if (!fresh) rd.error(ptr, where, "the name '" + name + "' is already used by node " + std::to_string(p->second + 1));
+        if (!fresh) rd.error("duplicate", ptr, where, "the name '" + name + "' is already used by node " + std::to_string(p->second + 1));
         beam.labels[i] = name;
       }
     }
@@ -825,35 +827,35 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // stations_per_span
   if (auto it = root.find("stations_per_span"); it != root.end()) {
     if (!it->is_number_integer() && !it->is_number_unsigned()) {
-      rd.error("/stations_per_span", "", "must be a whole number from 1 to " + std::to_string(limits.max_stations_per_span) + " (" + got(*it) + ")");
+      rd.error("wrong_type", "/stations_per_span", "", "must be a whole number from 1 to " + std::to_string(limits.max_stations_per_span) + " (" + got(*it) + ")");
     } else {
       const auto v = whole(*it);
       if (v < 1 || v > limits.max_stations_per_span)
-        rd.error("/stations_per_span", "", "must be from 1 to " + std::to_string(limits.max_stations_per_span) + " (got " + whole_text(*it) + ")");
+        rd.error("out_of_range", "/stations_per_span", "", "must be from 1 to " + std::to_string(limits.max_stations_per_span) + " (got " + whole_text(*it) + ")");
       else beam.stations_per_span = static_cast<int>(v);
     }
   }
   if (spans_ok && n_spans * static_cast<std::size_t>(beam.stations_per_span + 1) > limits.max_stations)
-    rd.error("/stations_per_span", "", "asks for " + std::to_string(n_spans * static_cast<std::size_t>(beam.stations_per_span + 1)) +
+    rd.error("limit", "/stations_per_span", "", "asks for " + std::to_string(n_spans * static_cast<std::size_t>(beam.stations_per_span + 1)) +
                                            " stations, more than the limit of " + std::to_string(limits.max_stations));
 
   // loads
   if (auto it = root.find("loads"); it != root.end()) {
     if (!it->is_array()) {
-      rd.error("/loads", "", "must be a list of loads (" + got(*it) + ")");
+      rd.error("wrong_type", "/loads", "", "must be a list of loads (" + got(*it) + ")");
     } else if (it->size() > limits.max_loads) {
-      rd.error("/loads", "", "has " + std::to_string(it->size()) + " loads, more than the limit of " + std::to_string(limits.max_loads));
+      rd.error("limit", "/loads", "", "has " + std::to_string(it->size()) + " loads, more than the limit of " + std::to_string(limits.max_loads));
     } else {
       beam.loads.reserve(it->size());
       for (std::size_t i = 0; i < it->size(); ++i) {
         const json& l = (*it)[i];
         const std::string ptr = "/loads/" + std::to_string(i);
         const std::string where = "load " + std::to_string(i + 1);
-        if (!l.is_object()) { rd.error(ptr, where, "must be an object with a type (" + got(l) + ")"); continue; }
+        if (!l.is_object()) { rd.error("wrong_type", ptr, where, "must be an object with a type (" + got(l) + ")"); continue; }
         Load load;
         auto t = l.find("type");
-        if (t == l.end()) { rd.error(ptr + "/type", where, "required field is missing (one of point, udl, linear, couple)"); continue; }
-        if (!t->is_string()) { rd.error(ptr + "/type", where, "must be one of point, udl, linear, couple (" + got(*t) + ")"); continue; }
+        if (t == l.end()) { rd.error("missing_field", ptr + "/type", where, "required field is missing (one of point, udl, linear, couple)"); continue; }
+        if (!t->is_string()) { rd.error("wrong_type", ptr + "/type", where, "must be one of point, udl, linear, couple (" + got(*t) + ")"); continue; }
         const std::string type = t->get<std::string>();
         if (type == "point") load.type = LoadType::Point;
         else if (type == "udl") load.type = LoadType::Udl;
@@ -863,7 +865,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           std::string reason = "unknown load type '" + type + "'";
           if (auto d = did_you_mean(type, kLoadTypes)) reason += " (did you mean '" + *d + "'?)";
           else reason += " (one of point, udl, linear, couple)";
-          rd.error(ptr + "/type", where, reason);
+          rd.error("unknown_name", ptr + "/type", where, reason);
           continue;
         }
         std::vector<std::string> keys = {"type", "span", "node", "case"};
@@ -876,9 +878,9 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         const std::size_t before = out.errors.size();
         rd.check_keys(l, ptr, where, keys);
         if (auto c = l.find("case"); c != l.end()) {
-          if (!c->is_string() || c->get<std::string>().empty()) rd.error(ptr + "/case", where, "must be a non-empty name (" + got(*c) + ")");
+          if (!c->is_string() || c->get<std::string>().empty()) rd.error("wrong_type", ptr + "/case", where, "must be a non-empty name (" + got(*c) + ")");
           else if (has_control(c->get<std::string>()))
-            rd.error(ptr + "/case", where, "a case name must not contain control characters (got \"" + printable(c->get<std::string>(), 60) + "\")");
+            rd.error("control_characters", ptr + "/case", where, "a case name must not contain control characters (got \"" + printable(c->get<std::string>(), 60) + "\")");
           else load.load_case = c->get<std::string>();
         }
         const bool has_span = l.contains("span"), has_node = l.contains("node");
@@ -887,12 +889,12 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           const json& v = l[key];
           const std::string p = ptr + "/" + key;
           if (!v.is_number_integer() && !v.is_number_unsigned()) {
-            rd.error(p, where, std::string("must be a ") + what + " number, 1 to " + std::to_string(count) + " (" + got(v) + ")");
+            rd.error("wrong_type", p, where, std::string("must be a ") + what + " number, 1 to " + std::to_string(count) + " (" + got(v) + ")");
             return std::nullopt;
           }
           const long long k = whole(v);
           if (k < 1 || static_cast<unsigned long long>(k) > count) {
-            rd.error(p, where, std::string("there is no ") + what + " " + whole_text(v) + ": the beam has " +
+            rd.error("no_such_item", p, where, std::string("there is no ") + what + " " + whole_text(v) + ": the beam has " +
                                    std::to_string(count) + " " + what + (count == 1 ? "" : "s") +
                                    ", numbered from 1");
             return std::nullopt;
@@ -900,16 +902,16 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           return static_cast<std::size_t>(k - 1);
         };
         if (has_span && has_node) {
-          rd.error(ptr, where, "give either 'span' or 'node', not both");
+          rd.error("conflicting_fields", ptr, where, "give either 'span' or 'node', not both");
         } else if (!has_span && !has_node) {
-          rd.error(ptr + "/span", where, "required field is missing (the span number, or 'node' for a load at a node)");
+          rd.error("missing_field", ptr + "/span", where, "required field is missing (the span number, or 'node' for a load at a node)");
         } else if (has_node) {
           if (load.type == LoadType::Udl || load.type == LoadType::Linear) {
-            rd.error(ptr + "/node", where, std::string("a ") + type + " load acts along a span: give 'span' instead of 'node'");
+            rd.error("conflicting_fields", ptr + "/node", where, std::string("a ") + type + " load acts along a span: give 'span' instead of 'node'");
           } else if (n_spans > 0) {
             load.on_node = true;  // (no position is asked for, even when the node number is wrong)
             if (auto k = index_of("node", n_nodes, "node")) { load.index = *k; placed = true; }
-            if (l.contains("at")) { rd.error(ptr + "/at", where, "a load at a node has no position 'at'"); placed = false; }
+            if (l.contains("at")) { rd.error("conflicting_fields", ptr + "/at", where, "a load at a node has no position 'at'"); placed = false; }
           }
         } else if (n_spans > 0) {
           if (auto k = index_of("span", n_spans, "span")) { load.index = *k; placed = true; }
@@ -920,7 +922,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           auto v = rd.field(l, key, ptr, where, kLength, required);
           if (!v) return l.contains(key) || required ? std::nullopt : std::optional<double>(dflt);
           if (L_known && (*v < 0 || *v > L)) {
-            rd.error(ptr + "/" + key, where, "must be within the span, 0 to " + format_number(L) + " " + rd.units.length +
+            rd.error("out_of_range", ptr + "/" + key, where, "must be within the span, 0 to " + format_number(L) + " " + rd.units.length +
                                                  " (got " + format_number(*v) + ")");
             return std::nullopt;
           }
@@ -962,7 +964,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         }
         if (out.errors.size() != before || !placed) continue;
         if ((load.type == LoadType::Udl || load.type == LoadType::Linear) && !(load.from < load.to)) {
-          rd.error(ptr + "/from", where, "'from' (" + format_number(load.from) + ") must be less than 'to' (" +
+          rd.error("out_of_range", ptr + "/from", where, "'from' (" + format_number(load.from) + ") must be less than 'to' (" +
                                              format_number(load.to) + ")");
           continue;
         }
@@ -972,7 +974,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         // Refused, with what to write instead.
         if ((load.type == LoadType::Udl || load.type == LoadType::Linear) && spans_ok &&
             !(load.to - load.from > 1e-12 * L)) {
-          rd.error(ptr + "/to", where, "the load is " + format_number(load.to - load.from) + " " + out.units.length +
+          rd.error("too_short", ptr + "/to", where, "the load is " + format_number(load.to - load.from) + " " + out.units.length +
                                            " long, below 1e-12 of its span (" + format_number(L) +
                                            "): give it as a point load of its resultant, or give it a length");
           continue;
@@ -989,7 +991,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           else if (spans_ok && !(load.at < L)) node = load.index + 1;
           if (node < n_nodes) {
             if (supports_ok && beam.supports[node].hinge) {
-              rd.error(ptr, where, "a couple cannot act at the hinge at node " + node_label(node) + " (the hinge carries no moment)");
+              rd.error("unsupported_feature", ptr, where, "a couple cannot act at the hinge at node " + node_label(node) + " (the hinge carries no moment)");
               continue;
             }
           }
@@ -1010,16 +1012,16 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // combinations
   if (auto it = root.find("combinations"); it != root.end()) {
     if (!it->is_array()) {
-      rd.error("/combinations", "", "must be a list of combinations (" + got(*it) + ")");
+      rd.error("wrong_type", "/combinations", "", "must be a list of combinations (" + got(*it) + ")");
     } else {
       std::set<std::string> names;
       auto add = [&](Combination c, const std::string& ptr, const std::string& where) {
         if (std::find(out.cases.begin(), out.cases.end(), c.name) != out.cases.end()) {
-          rd.error(ptr + "/name", where, "the name '" + c.name + "' is already a load case's; a combination needs a name of its own");
+          rd.error("duplicate", ptr + "/name", where, "the name '" + c.name + "' is already a load case's; a combination needs a name of its own");
           return;
         }
         if (!names.insert(c.name).second) {
-          rd.error(ptr + "/name", where, "the name '" + c.name + "' is used by another combination");
+          rd.error("duplicate", ptr + "/name", where, "the name '" + c.name + "' is used by another combination");
           return;
         }
         out.combinations.push_back(std::move(c));
@@ -1028,22 +1030,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         const json& c = (*it)[i];
         const std::string ptr = "/combinations/" + std::to_string(i);
         const std::string where = "combination " + std::to_string(i + 1);
-        if (!c.is_object()) { rd.error(ptr, where, "must be an object with a name and factors (" + got(c) + ")"); continue; }
+        if (!c.is_object()) { rd.error("wrong_type", ptr, where, "must be an object with a name and factors (" + got(c) + ")"); continue; }
         const std::size_t before = out.errors.size();
         std::string name;
         if (auto n = c.find("name"); n == c.end()) {
-          if (!c.contains("preset")) rd.error(ptr + "/name", where, "required field is missing");
+          if (!c.contains("preset")) rd.error("missing_field", ptr + "/name", where, "required field is missing");
         }
-        else if (!n->is_string() || n->get<std::string>().empty()) rd.error(ptr + "/name", where, "must be a non-empty name (" + got(*n) + ")");
+        else if (!n->is_string() || n->get<std::string>().empty()) rd.error("wrong_type", ptr + "/name", where, "must be a non-empty name (" + got(*n) + ")");
         else if (has_control(n->get<std::string>()))
-          rd.error(ptr + "/name", where, "a name must not contain control characters (got \"" + printable(n->get<std::string>(), 60) + "\")");
+          rd.error("control_characters", ptr + "/name", where, "a name must not contain control characters (got \"" + printable(n->get<std::string>(), 60) + "\")");
         else name = n->get<std::string>();
         auto known_case = [&](const std::string& cs, const std::string& p) {
           if (std::find(out.cases.begin(), out.cases.end(), cs) != out.cases.end()) return true;
           std::string reason = "there is no load case '" + cs + "'";
           if (auto d = did_you_mean(cs, out.cases)) reason += " (did you mean '" + *d + "'?)";
           else { reason += " (cases: "; for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k]; reason += ")"; }
-          rd.error(p, where, reason);
+          rd.error("no_such_item", p, where, reason);
           return false;
         };
         if (c.contains("preset")) {
@@ -1056,7 +1058,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             std::string reason = "unknown preset '" + (pr.is_string() ? preset : std::string(type_of(pr))) + "'";
             if (auto d = did_you_mean(preset, pn)) reason += " (did you mean '" + *d + "'?)";
             else reason += " (one of asce7-strength, en1990-6.10)";
-            rd.error(ptr + "/preset", where, reason);
+            rd.error("unknown_name", ptr + "/preset", where, reason);
             continue;
           }
           const bool asce = preset == "asce7-strength";
@@ -1064,7 +1066,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           std::map<std::string, std::string> map;
           auto cs = c.find("cases");
           if (cs == c.end() || !cs->is_object()) {
-            rd.error(ptr + "/cases", where, std::string("required: which of your load cases is ") +
+            rd.error("missing_field", ptr + "/cases", where, std::string("required: which of your load cases is ") +
                                                 (asce ? "D (dead) and L (live), e.g. {\"D\": \"dead\", \"L\": \"live\"}"
                                                       : "G (permanent) and Q (variable), e.g. {\"G\": \"dead\", \"Q\": \"live\"}"));
             continue;
@@ -1072,15 +1074,15 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           rd.check_keys(*cs, ptr + "/cases", where, roles);
           for (const auto& r : roles) {
             auto f = cs->find(r);
-            if (f == cs->end()) { rd.error(ptr + "/cases/" + r, where, "required field is missing (the name of your load case)"); continue; }
-            if (!f->is_string()) { rd.error(ptr + "/cases/" + r, where, "must be the name of a load case (" + got(*f) + ")"); continue; }
+            if (f == cs->end()) { rd.error("missing_field", ptr + "/cases/" + r, where, "required field is missing (the name of your load case)"); continue; }
+            if (!f->is_string()) { rd.error("wrong_type", ptr + "/cases/" + r, where, "must be the name of a load case (" + got(*f) + ")"); continue; }
             if (known_case(f->get<std::string>(), ptr + "/cases/" + r)) map[r] = f->get<std::string>();
           }
           Arrangements arr = Arrangements::All;
           if (auto a = c.find("arrangements"); a != c.end()) {
             if (a->is_string() && a->get<std::string>() == "all") arr = Arrangements::All;
             else if (a->is_string() && a->get<std::string>() == "adjacent-and-alternate") arr = Arrangements::AdjacentAndAlternate;
-            else rd.error(ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
+            else rd.error("wrong_type", ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
           }
           if (out.errors.size() != before) continue;
           const std::string base = name.empty() ? preset : name;
@@ -1108,22 +1110,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         comb.name = name;
         comb.pointer = ptr;
         auto fs = c.find("factors");
-        if (fs == c.end()) rd.error(ptr + "/factors", where, "required field is missing (load case -> factor, e.g. {\"dead\": 1.2, \"live\": 1.6})");
-        else if (!fs->is_object() || fs->empty()) rd.error(ptr + "/factors", where, "must be an object of load case -> factor (" + got(*fs) + ")");
+        if (fs == c.end()) rd.error("missing_field", ptr + "/factors", where, "required field is missing (load case -> factor, e.g. {\"dead\": 1.2, \"live\": 1.6})");
+        else if (!fs->is_object() || fs->empty()) rd.error("wrong_type", ptr + "/factors", where, "must be an object of load case -> factor (" + got(*fs) + ")");
         else {
           for (auto f = fs->begin(); f != fs->end(); ++f) {
             const std::string p = ptr + "/factors/" + escape_key(f.key());
             if (!known_case(f.key(), p)) continue;
             Factor fac;
             auto number = [&](const json& v, const std::string& pp) -> std::optional<double> {
-              if (!v.is_number() || !std::isfinite(v.get<double>())) { rd.error(pp, where, "must be a number (" + got(v) + ")"); return std::nullopt; }
+              if (!v.is_number() || !std::isfinite(v.get<double>())) { rd.error("wrong_type", pp, where, "must be a number (" + got(v) + ")"); return std::nullopt; }
               return v.get<double>();
             };
             if (f->is_array()) {
-              if (f->size() != 2) { rd.error(p, where, "a factor range is [low, high] (got " + std::to_string(f->size()) + " numbers)"); continue; }
+              if (f->size() != 2) { rd.error("bad_factor_range", p, where, "a factor range is [low, high] (got " + std::to_string(f->size()) + " numbers)"); continue; }
               auto lo = number((*f)[0], p + "/0"), hi = number((*f)[1], p + "/1");
               if (!lo || !hi) continue;
-              if (*lo > *hi) { rd.error(p, where, "a factor range is [low, high]: " + format_number(*lo) + " is greater than " + format_number(*hi)); continue; }
+              if (*lo > *hi) { rd.error("bad_factor_range", p, where, "a factor range is [low, high]: " + format_number(*lo) + " is greater than " + format_number(*hi)); continue; }
               fac = Factor{*lo, *hi, true};
             } else {
               auto v = number(*f, p);
@@ -1134,24 +1136,24 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           }
         }
         if (auto pt = c.find("pattern"); pt != c.end()) {
-          if (!pt->is_array()) rd.error(ptr + "/pattern", where, "must be a list of load cases placed span by span (" + got(*pt) + ")");
+          if (!pt->is_array()) rd.error("wrong_type", ptr + "/pattern", where, "must be a list of load cases placed span by span (" + got(*pt) + ")");
           else
             for (std::size_t k = 0; k < pt->size(); ++k) {
               const json& v = (*pt)[k];
               const std::string p = ptr + "/pattern/" + std::to_string(k);
-              if (!v.is_string()) { rd.error(p, where, "must be the name of a load case (" + got(v) + ")"); continue; }
+              if (!v.is_string()) { rd.error("wrong_type", p, where, "must be the name of a load case (" + got(v) + ")"); continue; }
               const std::string cs = v.get<std::string>();
               bool in = false;
               for (const auto& f : comb.factors) in = in || f.first == cs;
-              if (!in) { rd.error(p, where, "the patterned case '" + cs + "' has no factor in this combination"); continue; }
+              if (!in) { rd.error("conflicting_fields", p, where, "the patterned case '" + cs + "' has no factor in this combination"); continue; }
               comb.pattern.push_back(cs);
             }
         }
         if (auto a = c.find("arrangements"); a != c.end()) {
           if (a->is_string() && a->get<std::string>() == "all") comb.arrangements = Arrangements::All;
           else if (a->is_string() && a->get<std::string>() == "adjacent-and-alternate") comb.arrangements = Arrangements::AdjacentAndAlternate;
-          else rd.error(ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
-          if (comb.pattern.empty()) rd.error(ptr + "/arrangements", where, "arrangements need a \"pattern\" (the cases placed span by span)");
+          else rd.error("wrong_type", ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
+          if (comb.pattern.empty()) rd.error("conflicting_fields", ptr + "/arrangements", where, "arrangements need a \"pattern\" (the cases placed span by span)");
         }
         if (out.errors.size() == before) add(comb, ptr, where);
       }
@@ -1164,11 +1166,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     const std::size_t along = spans_ok ? n_spans * static_cast<std::size_t>(beam.stations_per_span + 1) : 0;
     const std::size_t per_set = along + beam.loads.size();
     if (sets > limits.max_load_sets)
-      rd.error(out.combinations.empty() ? "/loads" : "/combinations", "",
+      rd.error("limit", out.combinations.empty() ? "/loads" : "/combinations", "",
                "has " + std::to_string(out.cases.size()) + " load cases and " + std::to_string(out.combinations.size()) +
                    " combinations, more than the limit of " + std::to_string(limits.max_load_sets) + " load sets");
     else if (spans_ok && along <= limits.max_stations && per_set * sets > limits.max_stations)
-      rd.error(sets > 1 ? (out.combinations.empty() ? "/loads" : "/combinations") : "/loads", "",
+      rd.error("limit", sets > 1 ? (out.combinations.empty() ? "/loads" : "/combinations") : "/loads", "",
                "asks for " + std::to_string(per_set * sets) + " stations in all (" + std::to_string(per_set) + " in each of " +
                    std::to_string(sets) + (sets == 1 ? " load set" : " load sets") + "), more than the limit of " +
                    std::to_string(limits.max_stations));
@@ -1177,22 +1179,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   // claims
   if (auto it = root.find("claims"); it != root.end()) {
     if (!it->is_object()) {
-      rd.error("/claims", "", "must be an object with \"values\" (and optionally \"tolerance\") (" + got(*it) + ")");
+      rd.error("wrong_type", "/claims", "", "must be an object with \"values\" (and optionally \"tolerance\") (" + got(*it) + ")");
     } else {
       rd.check_keys(*it, "/claims", "", {"tolerance", "values"});
       auto read_tol = [&](const json& v, const std::string& p, const std::string& w) -> std::optional<Tolerance> {
         if (v.is_number()) {
           const double d = v.get<double>();
-          if (!std::isfinite(d) || d < 0) { rd.error(p, w, "must be a percentage such as \"1%\" or an absolute value >= 0 (got " + format_number(d) + ")"); return std::nullopt; }
+          if (!std::isfinite(d) || d < 0) { rd.error("out_of_range", p, w, "must be a percentage such as \"1%\" or an absolute value >= 0 (got " + format_number(d) + ")"); return std::nullopt; }
           return Tolerance{false, d};
         }
         if (v.is_string()) {
           std::string reason;
           auto t = parse_tolerance_text(v.get<std::string>(), &reason);
-          if (!t) rd.error(p, w, reason);
+          if (!t) rd.error("wrong_type", p, w, reason);
           return t;
         }
-        rd.error(p, w, "must be a percentage such as \"1%\" or an absolute value such as 0.05 (" + got(v) + ")");
+        rd.error("wrong_type", p, w, "must be a percentage such as \"1%\" or an absolute value such as 0.05 (" + got(v) + ")");
         return std::nullopt;
       };
       if (auto t = it->find("tolerance"); t != it->end()) {
@@ -1200,29 +1202,29 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       }
       auto values = it->find("values");
       if (values == it->end()) {
-        rd.error("/claims/values", "", "required field is missing (a list of claimed values)");
+        rd.error("missing_field", "/claims/values", "", "required field is missing (a list of claimed values)");
       } else if (!values->is_array()) {
-        rd.error("/claims/values", "", "must be a list of claimed values (" + got(*values) + ")");
+        rd.error("wrong_type", "/claims/values", "", "must be a list of claimed values (" + got(*values) + ")");
       } else {
         for (std::size_t i = 0; i < values->size(); ++i) {
           const json& c = (*values)[i];
           const std::string ptr = "/claims/values/" + std::to_string(i);
           const std::string where = "claim " + std::to_string(i + 1);
-          if (!c.is_object()) { rd.error(ptr, where, "must be an object with quantity and value (" + got(c) + ")"); continue; }
+          if (!c.is_object()) { rd.error("wrong_type", ptr, where, "must be an object with quantity and value (" + got(c) + ")"); continue; }
           rd.check_keys(c, ptr, where, {"quantity", "node", "x", "span", "side", "case", "value", "tolerance", "note"});
           Claim claim;
           claim.pointer = ptr;
           const std::size_t before = out.errors.size();
           auto q = c.find("quantity");
-          if (q == c.end()) { rd.error(ptr + "/quantity", where, "required field is missing"); continue; }
-          if (!q->is_string()) { rd.error(ptr + "/quantity", where, "must be a quantity name (" + got(*q) + ")"); continue; }
+          if (q == c.end()) { rd.error("missing_field", ptr + "/quantity", where, "required field is missing"); continue; }
+          if (!q->is_string()) { rd.error("wrong_type", ptr + "/quantity", where, "must be a quantity name (" + got(*q) + ")"); continue; }
           const std::string qn = q->get<std::string>();
           auto qi = std::find(kQuantities.begin(), kQuantities.end(), qn);
           if (qi == kQuantities.end()) {
             std::string reason = "unknown quantity '" + qn + "'";
             if (auto d = did_you_mean(qn, kQuantities)) reason += " (did you mean '" + *d + "'?)";
             else { reason += " (one of "; for (std::size_t k = 0; k < kQuantities.size(); ++k) reason += (k ? ", " : "") + kQuantities[k]; reason += ")"; }
-            rd.error(ptr + "/quantity", where, reason);
+            rd.error("unknown_name", ptr + "/quantity", where, reason);
             continue;
           }
           claim.quantity = static_cast<Quantity>(qi - kQuantities.begin());
@@ -1232,22 +1234,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           const bool by_node_only = claim.quantity == Quantity::Reaction || claim.quantity == Quantity::ReactionMoment ||
                                     claim.quantity == Quantity::ReactionMax || claim.quantity == Quantity::ReactionMin;
           if (by_span) {
-            if (!has_span) rd.error(ptr + "/span", where, std::string("required field is missing (") + qn + " is taken over a span)");
-            if (has_node || has_x) rd.error(ptr, where, std::string(qn) + " is taken over a span: give 'span', not 'node' or 'x'");
+            if (!has_span) rd.error("missing_field", ptr + "/span", where, std::string("required field is missing (") + qn + " is taken over a span)");
+            if (has_node || has_x) rd.error("conflicting_fields", ptr, where, std::string(qn) + " is taken over a span: give 'span', not 'node' or 'x'");
             if (has_span) {
               const json& v = c["span"];
-              if (!v.is_number_integer() && !v.is_number_unsigned()) rd.error(ptr + "/span", where, "must be a span number (" + got(v) + ")");
+              if (!v.is_number_integer() && !v.is_number_unsigned()) rd.error("wrong_type", ptr + "/span", where, "must be a span number (" + got(v) + ")");
               else {
                 const long long k = whole(v);
-                if (k < 1 || static_cast<std::size_t>(k) > n_spans) rd.error(ptr + "/span", where, "there is no span " + whole_text(v) + ": the beam has " + std::to_string(n_spans) + " spans, numbered from 1");
+                if (k < 1 || static_cast<std::size_t>(k) > n_spans) rd.error("no_such_item", ptr + "/span", where, "there is no span " + whole_text(v) + ": the beam has " + std::to_string(n_spans) + " spans, numbered from 1");
                 else claim.span = static_cast<std::size_t>(k - 1);
               }
             }
           } else {
-            if (has_span) rd.error(ptr + "/span", where, std::string("'span' is for max_moment, min_moment and max_deflection; give 'node' or 'x' for ") + qn);
-            if (has_node && has_x) rd.error(ptr, where, "give either 'node' or 'x', not both");
-            else if (!has_node && !has_x) rd.error(ptr + "/node", where, by_node_only ? "required field is missing (the node's label or number)" : "required field is missing (give 'node' or 'x')");
-            else if (has_x && by_node_only) rd.error(ptr + "/x", where, std::string(qn) + " is taken at a node: give 'node'");
+            if (has_span) rd.error("conflicting_fields", ptr + "/span", where, std::string("'span' is for max_moment, min_moment and max_deflection; give 'node' or 'x' for ") + qn);
+            if (has_node && has_x) rd.error("conflicting_fields", ptr, where, "give either 'node' or 'x', not both");
+            else if (!has_node && !has_x) rd.error("missing_field", ptr + "/node", where, by_node_only ? "required field is missing (the node's label or number)" : "required field is missing (give 'node' or 'x')");
+            else if (has_x && by_node_only) rd.error("conflicting_fields", ptr + "/x", where, std::string(qn) + " is taken at a node: give 'node'");
             else if (has_node) {
               const json& v = c["node"];
               if (v.is_string()) {
@@ -1255,32 +1257,32 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
                 if (f == beam.labels.end()) {
                   std::string reason = "there is no node '" + v.get<std::string>() + "'";
                   if (auto d = did_you_mean(v.get<std::string>(), beam.labels)) reason += " (did you mean '" + *d + "'?)";
-                  rd.error(ptr + "/node", where, reason);
+                  rd.error("no_such_item", ptr + "/node", where, reason);
                 } else claim.node = static_cast<std::size_t>(f - beam.labels.begin());
               } else if (v.is_number_integer() || v.is_number_unsigned()) {
                 const long long k = whole(v);
-                if (k < 1 || static_cast<std::size_t>(k) > n_nodes) rd.error(ptr + "/node", where, "there is no node " + whole_text(v) + ": the beam has " + std::to_string(n_nodes) + " nodes, numbered from 1");
+                if (k < 1 || static_cast<std::size_t>(k) > n_nodes) rd.error("no_such_item", ptr + "/node", where, "there is no node " + whole_text(v) + ": the beam has " + std::to_string(n_nodes) + " nodes, numbered from 1");
                 else claim.node = static_cast<std::size_t>(k - 1);
-              } else rd.error(ptr + "/node", where, "must be a node label or number (" + got(v) + ")");
+              } else rd.error("wrong_type", ptr + "/node", where, "must be a node label or number (" + got(v) + ")");
             } else {
               auto x = rd.field(c, "x", ptr, where, kLength, true);
               if (x) {
                 double total = 0;
                 for (const auto& s : beam.spans) total += s.length;
-                if (spans_ok && (*x < 0 || *x > total)) rd.error(ptr + "/x", where, "must be on the beam, 0 to " + format_number(total) + " " + rd.units.length + " (got " + format_number(*x) + ")");
+                if (spans_ok && (*x < 0 || *x > total)) rd.error("out_of_range", ptr + "/x", where, "must be on the beam, 0 to " + format_number(total) + " " + rd.units.length + " (got " + format_number(*x) + ")");
                 else claim.x = *x;
               }
             }
           }
           if (auto nt = c.find("note"); nt != c.end() && !nt->is_string())
-            rd.error(ptr + "/note", where, "must be a string (" + got(*nt) + ")");
+            rd.error("wrong_type", ptr + "/note", where, "must be a string (" + got(*nt) + ")");
           if (auto s = c.find("side"); s != c.end()) {
             if (s->is_string() && s->get<std::string>() == "left") claim.side = Side::Left;
             else if (s->is_string() && s->get<std::string>() == "right") claim.side = Side::Right;
-            else rd.error(ptr + "/side", where, "must be \"left\" or \"right\" (" + got(*s) + ")");
+            else rd.error("wrong_type", ptr + "/side", where, "must be \"left\" or \"right\" (" + got(*s) + ")");
           }
           if (auto cs = c.find("case"); cs != c.end()) {
-            if (!cs->is_string() || cs->get<std::string>().empty()) rd.error(ptr + "/case", where, "must be the name of a load case (" + got(*cs) + ")");
+            if (!cs->is_string() || cs->get<std::string>().empty()) rd.error("wrong_type", ptr + "/case", where, "must be the name of a load case (" + got(*cs) + ")");
             else claim.load_case = cs->get<std::string>();
           }
           auto v = rd.field(c, "value", ptr, where, quantity_dimension(claim.quantity), true);
@@ -1295,7 +1297,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   for (const auto& cb : out.combinations) sets.push_back(cb.name);
   for (const auto& c : out.claims) {
     if (c.load_case.empty() && sets.size() > 1) {
-      rd.error(c.pointer + "/case", where_of(c.pointer),
+      rd.error("missing_field", c.pointer + "/case", where_of(c.pointer),
                "required field is missing: the file has " + std::to_string(sets.size()) +
                    " load cases and combinations, so a claim must name its \"case\"");
       continue;
@@ -1304,12 +1306,12 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     for (const auto& cb : out.combinations)
       if (cb.name == c.load_case) comb = &cb;
     if (is_envelope_quantity(c.quantity) && !(comb && comb->is_envelope())) {
-      rd.error(c.pointer + "/quantity", where_of(c.pointer),
+      rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
                std::string(quantity_name(c.quantity)) + " is an envelope value: name a combination with a pattern or a factor range in \"case\"");
       continue;
     }
     if (comb && comb->is_envelope() && !is_envelope_quantity(c.quantity)) {
-      rd.error(c.pointer + "/quantity", where_of(c.pointer),
+      rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
                "'" + c.load_case + "' is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min");
       continue;
     }
@@ -1317,14 +1319,14 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       std::string reason = "there is no load case '" + c.load_case + "'";
       if (auto d = did_you_mean(c.load_case, sets)) reason += " (did you mean '" + *d + "'?)";
       else { reason += " (cases: "; for (std::size_t k = 0; k < sets.size(); ++k) reason += (k ? ", " : "") + sets[k]; reason += ")"; }
-      rd.error(c.pointer + "/case", where_of(c.pointer), reason);
+      rd.error("no_such_item", c.pointer + "/case", where_of(c.pointer), reason);
     }
   }
 
   // Stability, once the structure itself is readable.
   if (out.errors.empty() && spans_ok && supports_ok) {
     if (auto m = find_mechanism(beam)) {
-      rd.error("/supports", "", "the beam is unstable: " + m->description +
+      rd.error("mechanism", "/supports", "", "the beam is unstable: " + m->description +
                                     " (add a support or remove a hinge)");
     }
   }
@@ -1359,7 +1361,8 @@ void envelope_limit_errors(const BeamFile& file, int per_span, const Limits& lim
                      "this envelope reads " + std::to_string(shares) + " shares at about " + std::to_string(stations) +
                          " stations each (" + std::to_string(values) + " values), more than the limit of " +
                          std::to_string(limits.max_envelope_values) +
-                         ": use fewer stations per span, or check the beam in parts"});
+                         ": use fewer stations per span, or check the beam in parts",
+                     "input.limit"});
   }
 }
 
@@ -1379,14 +1382,15 @@ std::optional<Error> station_limit_error(const BeamFile& file, int per_span, con
   return Error{"/stations_per_span", "",
                "with " + std::to_string(per_span) + " stations per span the beam asks for " +
                    std::to_string(per_set * std::max<std::size_t>(sets, 1)) + " stations in all, more than the limit of " +
-                   std::to_string(limits.max_stations)};
+                   std::to_string(limits.max_stations),
+               "input.limit"};
 }
 
 BeamFile read_beam_file(const std::string& path, const Limits& limits, std::string* text_out) {
   auto failed = [&](const std::string& why) {
     BeamFile out;
     out.path = path;
-    out.errors.push_back({"", "", why});
+    out.errors.push_back({"", "", why, "input.file"});
     return out;
   };
   // POSIX calls, not a stream: one open, one fstat, the reads, one close.

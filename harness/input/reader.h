@@ -35,6 +35,11 @@ struct Error {
   std::string pointer;
   std::string where;
   std::string reason;
+  // The stable name of the kind of error, for scripts and tests: the reason's
+  // wording may change, the id does not (README, "Error ids"). "input.*" for
+  // the beam file, "against.*" for --against, "check.*" and "internal.*" for
+  // failures of the check itself.
+  std::string id = "input.other";
   // "file: /spans/1/length (span 2): must be greater than 0 (got -6.5)"
   std::string format(const std::string& file) const;
 };
