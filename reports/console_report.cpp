@@ -104,6 +104,31 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
   const std::string F = b.units.force, L = b.units.length;
   const std::string FL = F + "*" + L;
   for (const auto& w : b.warnings) out << "  " << paint("warning: " + w, kYellow, opt.color) << "\n";
+  // Each span's largest deflection against its limit (README, "Deflection
+  // limits"); on a long beam only the spans over it, and a count.
+  auto limits = [&](const LoadSet& set) {
+    if (set.deflection_checks.empty()) return;
+    std::size_t over = 0;
+    double largest = 0;
+    for (const auto& d : set.deflection_checks) {
+      over += !d.holds;
+      largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
+    }
+    const int dd = decimals_for(largest) + 1;
+    const bool cut = !opt.all_rows && set.deflection_checks.size() > opt.max_rows;
+    Table t;
+    t.head = {"span", "limit", "max deflection [" + L + "]", "at x [" + L + "]", "allowed [" + L + "]", "span/deflection", "holds"};
+    for (const auto& d : set.deflection_checks) {
+      if (cut && d.holds) continue;
+      t.rows.push_back({std::to_string(d.span + 1), d.limit, fixed(d.deflection, dd), fixed(d.x, 2), fixed(d.allowed, dd),
+                        std::isfinite(d.ratio) ? fixed(d.ratio, 0) : "-",
+                        d.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
+    }
+    out << "  deflection limits: " << set.deflection_checks.size() - over << " of " << set.deflection_checks.size()
+        << (set.deflection_checks.size() == 1 ? " span holds" : " spans hold")
+        << (cut && over > 0 ? " (the spans over their limit:)" : cut ? "" : ":") << "\n";
+    if (!t.rows.empty()) t.print(out, "  ");
+  };
   for (const auto& set : b.sets) {
     out << "  load set: " << set.name << "   units: " << F << ", " << L << "\n";
     out << "  methods:";
@@ -198,6 +223,10 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       out << "\n";
       x.print(out, "  ");
       out << "\n";
+      if (!set.deflection_checks.empty()) {
+        limits(set);
+        out << "\n";
+      }
       continue;
     }
     if (set.consensus_nodes.empty()) { out << "\n"; continue; }
@@ -271,6 +300,10 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
           << ", max deflection " << fixed(sdef->max_deflection, dd) << " " << L << " at x = " << fixed(sdef->max_deflection_x, dx) << "\n";
     }
     out << "\n";
+    if (!set.deflection_checks.empty()) {
+      limits(set);
+      out << "\n";
+    }
   }
   if (!b.claims.empty()) {
     Table c;
@@ -344,7 +377,11 @@ void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOpt
       << paint(std::to_string(s.disagree) + " disagree", kRed, opt.color && s.disagree) << ", "
       << paint(std::to_string(s.unconfirmed) + " unconfirmed", kYellow, opt.color && s.unconfirmed) << ", "
       << paint(std::to_string(s.invalid) + " invalid", kRed, opt.color && s.invalid) << "; "
-      << s.claims_failed << (s.claims_failed == 1 ? " claim fails" : " claims fail") << "\n";
+      << s.claims_failed << (s.claims_failed == 1 ? " claim fails" : " claims fail");
+  if (s.limits_failed > 0)
+    out << "; " << paint(std::to_string(s.limits_failed) + (s.limits_failed == 1 ? " span over its deflection limit" : " spans over their deflection limit"),
+                         kRed, opt.color);
+  out << "\n";
   out << "caution: " << caution_text() << "\n";
 }
 

@@ -239,7 +239,7 @@ struct Writer {
     };
     std::size_t problems = 0;
     for (std::size_t i : order)
-      if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0) ++problems;
+      if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0 || beams[i].limits_failed() > 0) ++problems;
     if (!fold) {
       head();
       for (std::size_t i : order) row(i);
@@ -561,6 +561,27 @@ struct Writer {
       plot(b, bi, si, plotted, open_plots);
     }
     against_summary(b);
+    for (const auto& set : b.sets) {
+      if (set.deflection_checks.empty()) continue;
+      std::size_t over = 0;
+      double largest = 0;
+      for (const auto& d : set.deflection_checks) {
+        over += !d.holds;
+        largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
+      }
+      const int dd = decimals_for(largest) + 1;
+      o << "<h3>Deflection limits, " << html_escape(set.name) << " (" << over << " of " << set.deflection_checks.size()
+        << " spans over)</h3>\n";
+      o << "<table><tr><th>span</th><th>limit</th><th>max deflection [" << html_escape(b.units.length)
+        << "]</th><th>at x [" << html_escape(b.units.length) << "]</th><th>allowed [" << html_escape(b.units.length)
+        << "]</th><th>span/deflection</th><th>holds</th></tr>\n";
+      for (const auto& d : set.deflection_checks)
+        o << "<tr><td class=\"n\">" << d.span + 1 << "</td><td>" << html_escape(d.limit) << "</td><td class=\"n\">"
+          << fixed(d.deflection, dd) << "</td><td class=\"n\">" << fixed(d.x, 2) << "</td><td class=\"n\">"
+          << fixed(d.allowed, dd) << "</td><td class=\"n\">" << (std::isfinite(d.ratio) ? fixed(d.ratio, 0) : "-")
+          << "</td><td>" << (d.holds ? st_badge("holds") : st_badge("fails")) << "</td></tr>\n";
+      o << "</table>\n";
+    }
     if (!b.claims.empty()) {
       o << "<h3>Claims (" << b.claims_failed() << " of " << b.claims.size() << " fail)</h3>\n";
       o << "<table><tr><th>claim</th><th>quantity</th><th>where</th><th>load set</th><th>claimed</th><th>computed</th>"

@@ -14,7 +14,7 @@ namespace trivet::reports {
 
 using namespace trivet::compare;
 
-void Summary::add(BeamStatus status, std::size_t failed_claims) {
+void Summary::add(BeamStatus status, std::size_t failed_claims, std::size_t failed_limits) {
   ++beams;
   switch (status) {
     case BeamStatus::Agree: ++agree; break;
@@ -23,11 +23,12 @@ void Summary::add(BeamStatus status, std::size_t failed_claims) {
     case BeamStatus::Invalid: ++invalid; break;
   }
   claims_failed += failed_claims;
+  limits_failed += failed_limits;
 }
 
 Summary summarize(const std::vector<Report>& beams) {
   Summary s;
-  for (const auto& b : beams) s.add(b.status, b.claims_failed());
+  for (const auto& b : beams) s.add(b.status, b.claims_failed(), b.limits_failed());
   return s;
 }
 
@@ -394,6 +395,24 @@ void load_set(JsonWriter& w, const LoadSet& set, const Report& b) {
   }
   span_extremes(w, set.extremes, set.envelope);
   second_route(w, set);
+  w.key("deflection_limits");
+  w.begin_array();
+  for (const auto& d : set.deflection_checks) {
+    w.begin_object(true);
+    w.member("span", d.span + 1);
+    w.member("cantilever", d.cantilever);
+    w.member("limit", d.limit);
+    w.member("length", d.length);
+    w.member("deflection", d.deflection);
+    w.member("x", d.x);
+    w.member("allowed", d.allowed);
+    w.key("span_over_deflection");
+    if (std::isfinite(d.ratio)) w.value(d.ratio);
+    else w.null();
+    w.member("holds", d.holds);
+    w.end_object();
+  }
+  w.end_array();
   w.key("methods");
   w.begin_object();
   for (const auto& m : set.methods) method(w, m, set);
@@ -564,6 +583,7 @@ void report(std::ostream& out, const Summary& s, const RunInfo& run, const Beams
   w.member("unconfirmed", s.unconfirmed);
   w.member("invalid", s.invalid);
   w.member("claims_failed", s.claims_failed);
+  w.member("limits_failed", s.limits_failed);
   w.end_object();
   w.member("agreement", run.agreement);
   w.member("caution", caution_text());
@@ -596,13 +616,14 @@ std::string json_head(const Summary& s, const RunInfo& run, bool padded) {
   const std::string empty_end = "]\n}\n";  // what an empty "beams" array and the root leave
   h.resize(h.size() - empty_end.size());
   if (padded) {
-    // Room for six counts of 20 digits: spaces after the summary's comma,
+    // Room for seven counts of 20 digits: spaces after the summary's comma,
     // before the line break.
     const std::size_t at = h.find('}', h.find("\"summary\": ")) + 2;  // past "},"
     const std::size_t digits = std::to_string(s.beams).size() + std::to_string(s.agree).size() +
                                std::to_string(s.disagree).size() + std::to_string(s.unconfirmed).size() +
-                               std::to_string(s.invalid).size() + std::to_string(s.claims_failed).size();
-    h.insert(at, 120 - digits, ' ');
+                               std::to_string(s.invalid).size() + std::to_string(s.claims_failed).size() +
+                               std::to_string(s.limits_failed).size();
+    h.insert(at, 140 - digits, ' ');
   }
   return h;
 }

@@ -79,6 +79,23 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
                      num(m.equilibrium.moment_residual) + " (bound " + num(equilibrium_bound) + ")";
       out.push_back(eq);
     }
+    if (!set.deflection_checks.empty()) {
+      Case lim{p + "deflection limits", "", false};
+      std::size_t over = 0;
+      std::string lines;
+      for (const auto& d : set.deflection_checks) {
+        if (d.holds) continue;
+        ++over;
+        if (over <= 20)
+          lines += "\nspan " + std::to_string(d.span + 1) + ": deflection " + num(d.deflection) + " " + b.units.length +
+                   " at x = " + num(d.x) + ", allowed " + num(d.allowed) + " (" + d.limit + "), span/deflection " +
+                   num(std::round(d.ratio));
+      }
+      if (over > 0)
+        lim.failure = std::to_string(over) + " of " + std::to_string(set.deflection_checks.size()) +
+                      " spans over their deflection limit" + lines + (over > 20 ? "\n..." : "");
+      out.push_back(lim);
+    }
   }
   for (std::size_t i = 0; i < b.claims.size(); ++i) {
     const ClaimResult& c = b.claims[i];

@@ -13,7 +13,8 @@ namespace trivet::reports {
 
 struct Summary {
   std::size_t beams = 0, agree = 0, disagree = 0, unconfirmed = 0, invalid = 0, claims_failed = 0;
-  void add(compare::BeamStatus status, std::size_t failed_claims);
+  std::size_t limits_failed = 0;  // spans over their deflection limit
+  void add(compare::BeamStatus status, std::size_t failed_claims, std::size_t failed_limits = 0);
 };
 Summary summarize(const std::vector<Report>& beams);
 

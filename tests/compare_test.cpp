@@ -207,3 +207,119 @@ TEST(Compare, EachLoadCaseIsItsOwnLoadSet) {
 
 }  // namespace
 }  // namespace trivet::compare
+
+namespace trivet::compare {
+namespace {
+
+// Deflection limits (README, "Deflection limits").
+// A simple span under a UDL deflects 5wL^4/(384EI) at midspan; a cantilever
+// under a tip load PL^3/(3EI) at its tip. Source: Roark's Formulas for
+// Stress and Strain, 7th ed., Table 8.1, cases 2e and 1a (from memory).
+TEST(DeflectionLimits, SimpleSpanAgainstTheClosedForm) {
+  // L = 6, w = 10, EI = 20000: 5 * 10 * 6^4 / (384 * 20000) = 0.0084375, L/711.1.
+  auto file = [](const char* limit) {
+    return std::string(R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 6, "EI": 20000}],
+      "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}], "deflection_limit": ")") +
+           limit + "\"}";
+  };
+  const BeamResult holds = run(file("L/700"));
+  ASSERT_EQ(holds.sets.size(), 1u);
+  ASSERT_EQ(holds.sets[0].deflection_checks.size(), 1u);
+  const DeflectionCheck& d = holds.sets[0].deflection_checks[0];
+  EXPECT_NEAR(d.deflection, 5.0 * 10 * 1296 / (384.0 * 20000), 1e-12);
+  EXPECT_NEAR(d.x, 3.0, 1e-6);
+  EXPECT_NEAR(d.allowed, 6.0 / 700, 1e-15);
+  EXPECT_NEAR(d.ratio, 6.0 / 0.0084375, 1e-6);
+  EXPECT_FALSE(d.cantilever);
+  EXPECT_TRUE(d.holds);
+  EXPECT_EQ(holds.status, BeamStatus::Agree);
+  EXPECT_EQ(holds.limits_failed(), 0u);
+
+  const BeamResult over = run(file("L/720"));  // allowed 0.008333 < 0.0084375
+  ASSERT_EQ(over.sets[0].deflection_checks.size(), 1u);
+  EXPECT_FALSE(over.sets[0].deflection_checks[0].holds);
+  EXPECT_EQ(over.status, BeamStatus::Disagree);  // a failed check, as a failed claim
+  EXPECT_EQ(over.limits_failed(), 1u);
+}
+
+TEST(DeflectionLimits, CantileverOnTwiceItsLengthOrItsOwnRatio) {
+  // A 6 m span with a 2 m overhang, a tip load of 5 kN and nothing else:
+  // the tip deflects P a^2 (a + L) / (3 EI) = 5 * 4 * 8 / 60000 = 0.00267
+  // downward (the overhang's own Pa^3/3EI plus the support's rotation
+  // P a L / (3 EI) times a; AISC Steel Construction Manual, "Beam Diagrams
+  // and Formulas", beam overhanging one support, concentrated load at the
+  // end of the overhang, from memory).
+  auto file = [](const char* limit) {
+    return std::string(R"({"units": {"force": "kN", "length": "m"},
+      "spans": [{"length": 6, "EI": 20000}, {"length": 2, "EI": 20000}], "supports": ["pinned", "roller", "free"],
+      "loads": [{"type": "point", "node": 3, "P": 5}], "deflection_limit": )") + limit + "}";
+  };
+  const double tip = 5.0 * 4 * 8 / 60000;
+  const BeamResult a = run(file("\"L/360\""));
+  ASSERT_EQ(a.sets[0].deflection_checks.size(), 2u);
+  const DeflectionCheck& c = a.sets[0].deflection_checks[1];
+  EXPECT_TRUE(c.cantilever);
+  EXPECT_NEAR(std::abs(c.deflection), tip, 1e-12);
+  EXPECT_NEAR(c.allowed, 2 * 2.0 / 360, 1e-15);  // on twice the overhang's length
+  EXPECT_TRUE(c.holds);
+  // Its own ratio: L/1600 of 2 m is 0.00125 < 0.00267: over.
+  const BeamResult b = run(file(R"({"span": "L/360", "cantilever": "L/1600"})"));
+  ASSERT_EQ(b.sets[0].deflection_checks.size(), 2u);
+  EXPECT_NEAR(b.sets[0].deflection_checks[1].allowed, 2.0 / 1600, 1e-15);
+  EXPECT_FALSE(b.sets[0].deflection_checks[1].holds);
+  EXPECT_TRUE(b.sets[0].deflection_checks[0].holds);
+}
+
+TEST(DeflectionLimits, ServiceCombinationsAndNamedLoadSetsOnly) {
+  const char* base = R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6, "EI": 20000}, {"length": 6, "EI": 20000}], "supports": ["pinned", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 10, "case": "dead"}, {"type": "udl", "span": 2, "w": 10, "case": "dead"},
+              {"type": "udl", "span": 1, "w": 8, "case": "live"}, {"type": "udl", "span": 2, "w": 8, "case": "live"}],
+    "combinations": [{"name": "service", "factors": {"dead": 1, "live": 1}},
+                     {"name": "strength", "factors": {"dead": 1.2, "live": 1.6}},
+                     {"name": "live patterned", "factors": {"live": 1}, "pattern": ["live"]},
+                     {"name": "strength checked", "factors": {"dead": 1.35}, "deflection_limit": "L/250"},
+                     {"name": "service unchecked", "factors": {"dead": 1}, "deflection_limit": "none"}])";
+  auto checked = [](const BeamResult& r) {
+    std::vector<std::string> names;
+    for (const auto& s : r.sets)
+      if (!s.deflection_checks.empty()) names.push_back(s.name);
+    return names;
+  };
+  const BeamResult every = run(std::string(base) + R"(, "deflection_limit": "L/360"})");
+  EXPECT_EQ(checked(every), (std::vector<std::string>{"dead", "live", "service", "live patterned", "strength checked"}));
+  const BeamResult named = run(std::string(base) + R"(, "deflection_limit": {"span": "L/360", "load_sets": ["live"]}})");
+  EXPECT_EQ(checked(named), (std::vector<std::string>{"live", "strength checked"}));
+  // The envelope's limit reads the envelope's largest deflection: the live
+  // load on one span of two equal spans deflects more than on both.
+  const LoadSet* env = nullptr;
+  const LoadSet* live = nullptr;
+  for (const auto& s : every.sets) {
+    if (s.name == "live patterned") env = &s;
+    if (s.name == "live") live = &s;
+  }
+  ASSERT_TRUE(env && live);
+  ASSERT_EQ(env->deflection_checks.size(), 2u);
+  EXPECT_GT(std::abs(env->deflection_checks[0].deflection), std::abs(live->deflection_checks[0].deflection) * 1.01);
+  EXPECT_NEAR(env->deflection_checks[0].deflection, env->extremes[0].max_deflection, 1e-15);
+}
+
+TEST(DeflectionLimits, BadLimitsAreLocatedErrors) {
+  const std::string base = R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 6, "EI": 20000}],
+    "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}], "deflection_limit": )";
+  struct Case { std::string limit, pointer, id; };
+  for (const auto& c : std::vector<Case>{{"\"360\"", "/deflection_limit", "input.wrong_type"},
+                                         {"\"L/0\"", "/deflection_limit", "input.out_of_range"},
+                                         {"\"L/-5\"", "/deflection_limit", "input.out_of_range"},
+                                         {"\"none\"", "/deflection_limit", "input.wrong_type"},
+                                         {"{\"cantilever\": \"L/180\"}", "/deflection_limit/span", "input.missing_field"},
+                                         {"{\"span\": \"L/360\", \"load_sets\": [\"wind\"]}", "/deflection_limit/load_sets/0", "input.no_such_item"}}) {
+    const input::BeamFile f = input::parse_beam_text(base + c.limit + "}", "t.json");
+    ASSERT_FALSE(f.errors.empty()) << c.limit;
+    EXPECT_EQ(f.errors[0].pointer, c.pointer) << c.limit;
+    EXPECT_EQ(f.errors[0].id, c.id) << c.limit << ": " << f.errors[0].reason;
+  }
+}
+
+}  // namespace
+}  // namespace trivet::compare

@@ -44,9 +44,9 @@ TEST(Schema, IsDraft202012) {
 TEST(Schema, NamesEveryTopLevelFieldAndTheLimits) {
   const json s = json::parse(beam_file_schema());
   for (const char* key : {"$schema", "title", "description", "units", "spans", "supports", "labels", "loads",
-                          "stations_per_span", "combinations", "claims"})
+                          "stations_per_span", "combinations", "deflection_limit", "claims"})
     EXPECT_TRUE(s.at("properties").contains(key)) << key;
-  EXPECT_EQ(s.at("properties").size(), 11u);
+  EXPECT_EQ(s.at("properties").size(), 12u);
   const Limits lim;
   EXPECT_EQ(s["properties"]["spans"]["maxItems"].get<std::size_t>(), lim.max_spans);
   EXPECT_EQ(s["properties"]["supports"]["maxItems"].get<std::size_t>(), lim.max_spans + 1);

@@ -102,6 +102,7 @@ int run_check(const CheckArgs& a) {
     reports::JunitCounts junit_counts;
     compare::BeamStatus status = compare::BeamStatus::Invalid;
     std::size_t claims_failed = 0;
+    std::size_t limits_failed = 0;
   };
   std::vector<reports::Report> results(files.size());
   std::vector<Rendered> rendered(files.size());
@@ -128,6 +129,7 @@ int run_check(const CheckArgs& a) {
   auto render = [&](const reports::Report& r, Rendered& out) {
     out.status = r.status;
     out.claims_failed = r.claims_failed();
+    out.limits_failed = r.limits_failed();
     {
       std::ostringstream con;
       if (!json_to_stdout) reports::write_console(con, r, copt);
@@ -200,7 +202,7 @@ int run_check(const CheckArgs& a) {
   auto emit = [&](Rendered& r) {
     human << r.console;
     std::string().swap(r.console);
-    s.add(r.status, r.claims_failed);
+    s.add(r.status, r.claims_failed, r.limits_failed);
     junit_total.tests += r.junit_counts.tests;
     junit_total.failures += r.junit_counts.failures;
     junit_total.errors += r.junit_counts.errors;

@@ -62,6 +62,13 @@ std::size_t BeamResult::claims_failed() const {
   return n;
 }
 
+std::size_t BeamResult::limits_failed() const {
+  std::size_t n = 0;
+  for (const auto& s : sets)
+    for (const auto& d : s.deflection_checks) n += !d.holds;
+  return n;
+}
+
 std::pair<std::size_t, double> locate(const Beam& beam, double x) {
   double x0 = 0;
   for (std::size_t s = 0; s < beam.spans.size(); ++s) {
@@ -607,7 +614,63 @@ ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const 
 namespace {
 
 // Claims against their load sets, then the beam's status.
+// The deflection limit that applies to a load set, if any: a combination's
+// own; else the file's, for the load sets it names, or (naming none) for
+// every load case and every combination whose factors are all 1 (a service
+// combination; factored ones are for strength).
+std::optional<input::DeflectionLimit> limit_of(const LoadSet& set, const input::BeamFile& file) {
+  if (set.combination && set.combination->limit_set) {
+    if (set.combination->deflection_limit.ratio > 0) return set.combination->deflection_limit;
+    return std::nullopt;
+  }
+  if (!(file.deflection_limit.ratio > 0)) return std::nullopt;
+  const auto& named = file.deflection_limit_sets;
+  if (!named.empty()) {
+    if (std::find(named.begin(), named.end(), set.name) != named.end()) return file.deflection_limit;
+    return std::nullopt;
+  }
+  if (set.combination)
+    for (const auto& [cs, f] : set.combination->factors)
+      if (f.range || std::abs(f.high - 1.0) > 0 || std::abs(f.low - 1.0) > 0) return std::nullopt;
+  return file.deflection_limit;
+}
+
+// Each span's largest deflection (the methods' median, between stations
+// too) against the limit: span / n; an overhang's on twice its length
+// unless the limit names a cantilever ratio of its own.
+void check_deflection_limits(LoadSet& set, const input::BeamFile& file) {
+  set.deflection_checks.clear();
+  const auto limit = limit_of(set, file);
+  if (!limit || set.extremes.size() != set.beam.spans.size()) return;
+  const std::size_t n = set.beam.spans.size();
+  for (std::size_t s = 0; s < n; ++s) {
+    DeflectionCheck d;
+    d.span = s;
+    d.length = set.beam.spans[s].length;
+    d.cantilever = (s == 0 && set.beam.supports.front().type == SupportType::Free) ||
+                   (s + 1 == n && set.beam.supports.back().type == SupportType::Free);
+    d.deflection = set.extremes[s].max_deflection;
+    d.x = set.extremes[s].max_deflection_x;
+    const std::string ratio = fmt(limit->ratio);
+    if (d.cantilever && limit->cantilever) {
+      d.allowed = d.length / *limit->cantilever;
+      d.limit = "L/" + fmt(*limit->cantilever) + " (cantilever)";
+    } else if (d.cantilever) {
+      d.allowed = 2 * d.length / limit->ratio;
+      d.limit = "2L/" + ratio + " (cantilever)";
+    } else {
+      d.allowed = d.length / limit->ratio;
+      d.limit = "L/" + ratio;
+    }
+    const double mag = std::abs(d.deflection);
+    d.ratio = mag > 0 ? d.length / mag : std::numeric_limits<double>::infinity();
+    d.holds = mag <= d.allowed;
+    set.deflection_checks.push_back(std::move(d));
+  }
+}
+
 void finish(BeamResult& out, const input::BeamFile& file) {
+  for (auto& s : out.sets) check_deflection_limits(s, file);
   for (const auto& claim : file.claims) {
     const LoadSet* set = &out.sets.front();
     if (!claim.load_case.empty())
@@ -620,7 +683,7 @@ void finish(BeamResult& out, const input::BeamFile& file) {
     disagree = disagree || s.verdict == Verdict::Disagree;
     unconfirmed = unconfirmed || s.verdict == Verdict::Unconfirmed;
   }
-  disagree = disagree || out.claims_failed() > 0;
+  disagree = disagree || out.claims_failed() > 0 || out.limits_failed() > 0;
   out.status = disagree ? BeamStatus::Disagree : unconfirmed ? BeamStatus::Unconfirmed : BeamStatus::Agree;
   // A load set that every applicable method failed to compute (a spring of
   // 5e-324, numbers that overflow) is not a disagreement between methods:

@@ -136,6 +136,20 @@ struct Worst {
   std::vector<std::pair<std::string, double>> values;  // method, value
 };
 
+// One span's largest deflection against the load set's deflection limit
+// (README, "Deflection limits").
+struct DeflectionCheck {
+  std::size_t span = 0;      // 0-based
+  bool cantilever = false;   // an overhang: a span at an end of the beam whose outer end is free
+  double length = 0;         // the span's length
+  double deflection = 0;     // the largest magnitude in the span, signed (the methods' median)
+  double x = 0;              // where (global)
+  double allowed = 0;        // the limit as a deflection, > 0
+  double ratio = 0;          // length / |deflection|; infinity where it does not deflect
+  std::string limit;         // how the limit reads: "L/360", "2L/360 (cantilever)", "L/180 (cantilever)"
+  bool holds = true;
+};
+
 struct LoadSet {
   std::string name;
   // The combination this load set comes from, if any; `envelope` when it
@@ -154,6 +168,7 @@ struct LoadSet {
   std::string problem;                              // plain words when not agree
   std::vector<SpanExtremes> extremes;               // per span: median of the methods'
   std::vector<RouteCheck> second_route;             // envelopes only
+  std::vector<DeflectionCheck> deflection_checks;   // per span, where a limit applies
   std::vector<NodeResult> consensus_nodes;          // median of ok methods
   std::vector<StationValues> consensus_stations;
   std::size_t ok_count() const;
@@ -186,6 +201,7 @@ struct BeamResult {
   // above attach (--against, other arithmetic) is in reports::Report.
   std::vector<std::string> warnings;
   std::size_t claims_failed() const;
+  std::size_t limits_failed() const;  // spans over their deflection limit, all load sets
 };
 
 struct Options {

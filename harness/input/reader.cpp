@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <charconv>
 #include <cmath>
+#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <limits>
@@ -63,6 +64,13 @@ bool Combination::is_envelope() const {
   for (const auto& f : factors)
     if (f.second.range) return true;
   return false;
+}
+
+std::string DeflectionLimit::text() const {
+  if (!(ratio > 0)) return "none";
+  std::string t = "L/" + format_number(ratio);
+  if (cantilever) t += ", cantilever L/" + format_number(*cantilever);
+  return t;
 }
 
 const std::vector<std::string>& preset_names() {
@@ -267,6 +275,61 @@ struct Reader {
       errors->push_back({"", "", "more than 1000 errors; the rest are not listed", "input.limit"});
   }
 
+  // "L/360": the n of span / n, or nothing with an error.
+  std::optional<double> limit_ratio(const json& v, const std::string& ptr, const std::string& where) {
+    const std::string t = v.is_string() ? v.get<std::string>() : "";
+    const auto slash = t.find('/');
+    if (!v.is_string() || slash == std::string::npos || t.substr(0, slash) != "L") {
+      error("wrong_type", ptr, where, "must be a limit such as \"L/360\" (span over a number) (" + got(v) + ")");
+      return std::nullopt;
+    }
+    const std::string n = t.substr(slash + 1);
+    char* end = nullptr;
+    const double d = n.empty() ? 0.0 : std::strtod(n.c_str(), &end);
+    if (n.empty() || !end || *end != '\0' || !std::isfinite(d) || !(d > 0)) {
+      error("out_of_range", ptr, where, "the number under L must be a positive number, as in \"L/360\" (got \"" + printable(t, 60) + "\")");
+      return std::nullopt;
+    }
+    return d;
+  }
+  // A deflection limit: "L/360", or {"span": "L/360", "cantilever": "L/180"}
+  // (plus, at the top of the file, "load_sets"); "none" where allowed.
+  bool deflection_limit(const json& v, const std::string& ptr, const std::string& where, bool top, DeflectionLimit& out,
+                        std::vector<std::string>* sets) {
+    if (v.is_string()) {
+      if (!top && v.get<std::string>() == "none") { out = {}; return true; }
+      auto r = limit_ratio(v, ptr, where);
+      if (r) out.ratio = *r;
+      return r.has_value();
+    }
+    if (!v.is_object()) {
+      error("wrong_type", ptr, where, std::string("must be a limit such as \"L/360\" or an object {\"span\": \"L/360\", \"cantilever\": \"L/180\"}") +
+                                          (top ? "" : ", or \"none\"") + " (" + got(v) + ")");
+      return false;
+    }
+    check_keys(v, ptr, where, top ? std::vector<std::string>{"span", "cantilever", "load_sets"} : std::vector<std::string>{"span", "cantilever"});
+    bool ok = true;
+    auto sp = v.find("span");
+    if (sp == v.end()) { error("missing_field", ptr + "/span", where, "required field is missing (the limit of a span, e.g. \"L/360\")"); ok = false; }
+    else if (auto r = limit_ratio(*sp, ptr + "/span", where)) out.ratio = *r;
+    else ok = false;
+    if (auto c = v.find("cantilever"); c != v.end()) {
+      if (auto r = limit_ratio(*c, ptr + "/cantilever", where)) out.cantilever = *r;
+      else ok = false;
+    }
+    if (top && sets)
+      if (auto ls = v.find("load_sets"); ls != v.end()) {
+        if (!ls->is_array() || ls->empty()) { error("wrong_type", ptr + "/load_sets", where, "must be a list of load case or combination names (" + got(*ls) + ")"); ok = false; }
+        else
+          for (std::size_t i = 0; i < ls->size(); ++i) {
+            const json& n = (*ls)[i];
+            if (!n.is_string()) { error("wrong_type", ptr + "/load_sets/" + std::to_string(i), where, "must be the name of a load case or combination (" + got(n) + ")"); ok = false; }
+            else sets->push_back(n.get<std::string>());
+          }
+      }
+    return ok;
+  }
+
   // Reports keys of `obj` not in `allowed`.
   void check_keys(const json& obj, const std::string& ptr, const std::string& where,
                   const std::vector<std::string>& allowed) {
@@ -338,7 +401,8 @@ struct Reader {
 };
 
 const std::vector<std::string> kTopKeys = {"title", "description", "units", "spans", "supports",
-                                           "labels", "loads", "stations_per_span", "claims", "combinations", "$schema"};
+                                           "labels", "loads", "stations_per_span", "claims", "combinations",
+                                           "deflection_limit", "$schema"};
 const std::vector<std::string> kSupportTypes = {"fixed", "pinned", "roller", "free", "spring", "guided"};
 const std::vector<std::string> kLoadTypes = {"point", "udl", "linear", "couple"};
 const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "reaction_moment",
@@ -1091,8 +1155,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             // Structures", section 2.3.1, combinations 1 and 2 with dead and live load only
             // (from memory): 1.4D; 1.2D + 1.6L.
             const std::string src = "ASCE/SEI 7-16, section 2.3.1, combinations 1 and 2 (from memory)";
-            Combination c1{base + " 1.4D", ptr, {{map["D"], Factor{1.4, 1.4, false}}}, {}, arr, src};
-            Combination c2{base + " 1.2D+1.6L", ptr, {{map["D"], Factor{1.2, 1.2, false}}, {map["L"], Factor{1.6, 1.6, false}}}, {map["L"]}, arr, src};
+            Combination c1{base + " 1.4D", ptr, {{map["D"], Factor{1.4, 1.4, false}}}, {}, arr, src, false, {}};
+            Combination c2{base + " 1.2D+1.6L", ptr, {{map["D"], Factor{1.2, 1.2, false}}, {map["L"], Factor{1.6, 1.6, false}}}, {map["L"]}, arr, src, false, {}};
             add(c1, ptr, where);
             add(c2, ptr, where);
           } else {
@@ -1100,15 +1164,17 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             // 1.35 unfavourable / 1.00 favourable, the leading variable action 1.5 where
             // unfavourable, 0 where favourable (from memory).
             const std::string src = "EN 1990:2002+A1:2005, expression (6.10), Table A1.2(B) (from memory)";
-            Combination c1{base, ptr, {{map["G"], Factor{1.0, 1.35, true}}, {map["Q"], Factor{1.5, 1.5, false}}}, {map["Q"]}, arr, src};
+            Combination c1{base, ptr, {{map["G"], Factor{1.0, 1.35, true}}, {map["Q"], Factor{1.5, 1.5, false}}}, {map["Q"]}, arr, src, false, {}};
             add(c1, ptr, where);
           }
           continue;
         }
-        rd.check_keys(c, ptr, where, {"name", "factors", "pattern", "arrangements"});
+        rd.check_keys(c, ptr, where, {"name", "factors", "pattern", "arrangements", "deflection_limit"});
         Combination comb;
         comb.name = name;
         comb.pointer = ptr;
+        if (auto dl = c.find("deflection_limit"); dl != c.end())
+          comb.limit_set = rd.deflection_limit(*dl, ptr + "/deflection_limit", where, false, comb.deflection_limit, nullptr);
         auto fs = c.find("factors");
         if (fs == c.end()) rd.error("missing_field", ptr + "/factors", where, "required field is missing (load case -> factor, e.g. {\"dead\": 1.2, \"live\": 1.6})");
         else if (!fs->is_object() || fs->empty()) rd.error("wrong_type", ptr + "/factors", where, "must be an object of load case -> factor (" + got(*fs) + ")");
@@ -1157,6 +1223,22 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         }
         if (out.errors.size() == before) add(comb, ptr, where);
       }
+    }
+  }
+
+  // The beam's deflection limit, and the load sets it is for.
+  if (auto dl = root.find("deflection_limit"); dl != root.end()) {
+    std::vector<std::string> sets;
+    if (rd.deflection_limit(*dl, "/deflection_limit", "", true, out.deflection_limit, &sets)) {
+      std::vector<std::string> known = out.cases;
+      for (const auto& cb : out.combinations) known.push_back(cb.name);
+      for (std::size_t i = 0; i < sets.size(); ++i)
+        if (std::find(known.begin(), known.end(), sets[i]) == known.end()) {
+          std::string reason = "there is no load case or combination '" + printable(sets[i], 60) + "'";
+          if (auto d = did_you_mean(sets[i], known)) reason += " (did you mean '" + *d + "'?)";
+          rd.error("no_such_item", "/deflection_limit/load_sets/" + std::to_string(i), "", reason);
+        }
+      out.deflection_limit_sets = std::move(sets);
     }
   }
 

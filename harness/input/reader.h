@@ -90,6 +90,16 @@ enum class Arrangements {
 };
 
 // A factored combination of load cases (the file's "combinations").
+// A deflection limit as codes write it: span / ratio ("L/360"). For a
+// cantilever (an overhang at an end of the beam) codes measure on twice its
+// length unless a cantilever ratio of its own is given (README, "Deflection
+// limits").
+struct DeflectionLimit {
+  double ratio = 0;                     // n of "L/n"; 0: no limit
+  std::optional<double> cantilever;     // n of "L/n" on the overhang's own length
+  std::string text() const;             // "L/360" or "L/360, cantilever L/180"
+};
+
 struct Combination {
   std::string name;
   std::string pointer;                                  // "/combinations/1"
@@ -97,6 +107,9 @@ struct Combination {
   std::vector<std::string> pattern;                     // cases placed span by span
   Arrangements arrangements = Arrangements::All;
   std::string source;  // for a preset: where its factors come from
+  // Its own deflection limit (ratio 0 with `limit_set`: "none", no check).
+  bool limit_set = false;
+  DeflectionLimit deflection_limit;
   bool is_envelope() const;  // a pattern or a factor range
 };
 
@@ -106,6 +119,11 @@ struct BeamFile {
   Beam beam;                        // valid only when errors is empty
   std::vector<std::string> cases;   // load cases in order of first use
   std::vector<Combination> combinations;
+  // The beam's deflection limit, for the load sets named in
+  // `deflection_limit_sets` (empty: every load set); a combination's own
+  // limit takes its place.
+  DeflectionLimit deflection_limit;
+  std::vector<std::string> deflection_limit_sets;
   Tolerance claim_tolerance;        // claims.tolerance, default 1%
   std::vector<Claim> claims;
   std::vector<Error> errors;
