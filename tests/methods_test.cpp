@@ -435,6 +435,56 @@ TEST(RandomBeams, ThreeMomentAgreesWithSlopeDeflection) {
   }
 }
 
+// Many loads on every span (17 to 60, of every kind): the stiffness method
+// then recovers values inside a span from sums of its loads by position
+// instead of its loop over them (methods/stiffness/stiffness_recovery.h);
+// the other two methods must still agree with it.
+void add_many_loads(Beam& b, std::mt19937& rng) {
+  std::uniform_real_distribution<double> U(0.0, 1.0);
+  for (std::size_t s = 0; s < b.spans.size(); ++s) {
+    const double Ls = b.spans[s].length;
+    const int m = 17 + static_cast<int>(rng() % 44);
+    for (int k = 0; k < m; ++k) {
+      Load l;
+      l.index = s;
+      double a = Ls * U(rng), c = Ls * U(rng);
+      if (a > c) std::swap(a, c);
+      if (c - a < 0.01 * Ls) { a = 0; c = Ls; }
+      switch (rng() % 4) {
+        case 0: l.type = LoadType::Point; l.P = 5 * (U(rng) - 0.3); l.at = Ls * (0.02 + 0.96 * U(rng)); break;
+        case 1: l.type = LoadType::Udl; l.w1 = l.w2 = 2 * (U(rng) - 0.2); l.from = a; l.to = c; break;
+        case 2: l.type = LoadType::Linear; l.w1 = 2 * (U(rng) - 0.3); l.w2 = 2 * (U(rng) - 0.3); l.from = a; l.to = c; break;
+        default: l.type = LoadType::Couple; l.C = 3 * (U(rng) - 0.5); l.at = Ls * (0.02 + 0.96 * U(rng));
+      }
+      b.loads.push_back(l);
+    }
+  }
+}
+
+TEST(RandomBeams, ManyLoadsPerSpanEveryMethodAgreesWithStiffness) {
+  int compared_tm = 0;
+  for (int seed = 1; seed <= 60; ++seed) {
+    std::mt19937 rng(static_cast<unsigned>(seed) + 300000u);
+    Beam b = random_beam(rng, {seed % 2 == 0, true});
+    add_many_loads(b, rng);
+    auto st = build_stations(b, 10);
+    Solution c = stiffness::solve<double>(b, st);
+    ASSERT_EQ(c.status, MethodStatus::Ok) << c.reason << " seed " << seed;
+    Solution d = slope_deflection::solve<double>(b, st);
+    ASSERT_EQ(d.status, MethodStatus::Ok) << d.reason << " seed " << seed;
+    expect_agree(b, d, c, "many loads: slope-deflection vs stiffness", seed);
+    Solution a = three_moment::solve<double>(b, st);
+    if (a.status == MethodStatus::Ok) {
+      expect_agree(b, a, c, "many loads: three-moment vs stiffness", seed);
+      ++compared_tm;
+    } else {
+      EXPECT_EQ(a.status, MethodStatus::NotApplicable) << a.reason << " seed " << seed;
+    }
+    if (HasFailure()) return;
+  }
+  EXPECT_GE(compared_tm, 20);
+}
+
 TEST(RandomBeams, ThreeMomentRefusesSpringsAndGuidedSupports) {
   Beam b = beam_of({4, 4}, {T::Pinned, T::Spring, T::Guided}, 1000);
   b.supports[1].k = 500;

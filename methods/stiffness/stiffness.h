@@ -16,7 +16,11 @@
 // clamped-clamped particular solution of its own loads (Green's function,
 // any number of point loads, couples and partial loads); shear and bending
 // moment follow from the span's end forces (k u minus the consistent loads)
-// by statics, with the `after` limit at a point force or couple. Reactions
+// by statics, with the `after` limit at a point force or couple. A span
+// with many loads (more than 6) keeps these sums by load position, built
+// once in the solve (O(m log m) for m loads), so each value inside it costs
+// O(log m) instead of a loop over its m loads (stiffness_recovery.h,
+// SpanIndex); the solve itself is O(m) in the loads. Reactions
 // are the node loads minus the end forces of the adjoining spans; global
 // equilibrium is checked before the result is returned.
 //
@@ -62,6 +66,18 @@ namespace detail {
 template <class R>
 BasicSolution<R> solve_general(const BasicBeam<R>& beam);
 extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&);
+
+// The same solve with the recovery inside spans chosen by the caller: a
+// span with more than `index_above` loads is recovered from sums of its
+// loads by position (O(log m) a call for m loads), the others by the loop
+// over their loads (O(m) a call). 0: every loaded span by the sums;
+// SIZE_MAX: every span by the loop. `solve` uses 6. For tests that
+// compare the two (equal to rounding); not for other use.
+template <class R>
+BasicSolution<R> solve_with_index_above(const BasicBeam<R>& beam, std::size_t index_above);
+extern template BasicSolution<double> solve_with_index_above<double>(const BasicBeam<double>&, std::size_t);
+extern template BasicSolution<Extended> solve_with_index_above<Extended>(const BasicBeam<Extended>&,
+                                                                         std::size_t);
 }  // namespace detail
 
 }  // namespace trivet::stiffness

@@ -252,6 +252,32 @@ Green<R> green(const R& x, const R& t, const R& L) {
   return m;
 }
 
+// The same Green's function as a cubic in x with coefficients in t, for
+// x <= t: G(x, t) = x^2 g2(t) + x^3 g3(t), with (expanding green_left;
+// derived, b = L - t)
+//   g2 = b^2 t / (2 L^2),  g3 = -b^2 (2 t + L) / (6 L^3),
+// and their t-derivatives g2t = b (L - 3 t) / (2 L^2), g3t = b t / L^3 (so a
+// couple C at t gives C (x^2 g2t + x^3 g3t)). For x >= t the mirror image:
+// G = x'^2 g2(t') + x'^3 g3(t') with x' = L - x, t' = L - t, and dG/dt =
+// -(x'^2 g2t(t') + x'^3 g3t(t')). The coefficients depend on t only, so the
+// loads on each side of x sum into four numbers (the recovery by sorted
+// positions, stiffness_recovery.h).
+template <class R>
+struct GreenCoefficients {
+  R g2, g3, g2t, g3t;
+};
+
+template <class R>
+GreenCoefficients<R> green_coefficients(const R& t, const R& L) {
+  const R b = L - t, L2 = L * L, L3 = L2 * L;
+  GreenCoefficients<R> c;
+  c.g2 = b * b * t / (R(2) * L2);
+  c.g3 = -(b * b * (R(2) * t + L)) / (R(6) * L3);
+  c.g2t = b * (L - R(3) * t) / (R(2) * L2);
+  c.g3t = b * t / L3;
+  return c;
+}
+
 // The particular solution of each load type: EI v and EI v' (N m^3 and
 // N m^2; down +, clockwise +) at x of the span clamped at both ends under
 // that load alone, added to v and th. Added to the Hermite interpolation

@@ -72,6 +72,58 @@ BENCHMARK(BM_Method<tm>)->Name("three_moment/spans")->RangeMultiplier(10)->Range
 BENCHMARK(BM_Method<sd>)->Name("slope_deflection/spans")->RangeMultiplier(10)->Range(10, 1000000)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_Method<sf>)->Name("stiffness/spans")->RangeMultiplier(10)->Range(10, 1000000)->Unit(benchmark::kMillisecond);
 
+// The general (banded, not tridiagonal) path of the stiffness solve: the
+// long beam with a fixed left end and vertical springs at the interior
+// nodes, so each node has a free deflection (half-bandwidth 3).
+void BM_StiffnessSprings(benchmark::State& state) {
+  const std::size_t n = static_cast<std::size_t>(state.range(0));
+  Beam b = long_beam(n);
+  b.supports[0].type = SupportType::Fixed;
+  for (std::size_t i = 1; i < n; ++i) {
+    b.supports[i].type = SupportType::Spring;
+    b.supports[i].k = 2e4;
+  }
+  const std::vector<Station> st = build_stations(b, 1);
+  if (sf(b, st).status != MethodStatus::Ok) state.SkipWithError("the spring-supported beam did not solve");
+  for (auto _ : state) {
+    Solution s = sf(b, st);
+    benchmark::DoNotOptimize(s.nodes.data());
+  }
+  per_span(state, n);
+}
+BENCHMARK(BM_StiffnessSprings)->Name("stiffness/spring_supports")->Arg(10)->Arg(1000)->Arg(100000)->Unit(benchmark::kMillisecond);
+
+// One simply supported span with n point loads (seeded positions and
+// values), then the values at every station of the grid (about 2n + 10):
+// the cost of the recovery inside a span with many loads.
+void BM_StiffnessPointLoads(benchmark::State& state) {
+  const std::size_t n = static_cast<std::size_t>(state.range(0));
+  std::mt19937 rng(11);
+  std::uniform_real_distribution<double> U(0.0, 1.0);
+  Beam b;
+  b.spans.push_back({8.0, 5e4});
+  b.supports.assign(2, Support{});
+  b.supports[0].type = SupportType::Pinned;
+  b.supports[1].type = SupportType::Roller;
+  b.labels = {"A", "B"};
+  b.loads.reserve(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    Load p;
+    p.type = LoadType::Point; p.index = 0; p.P = 1.0 + 9.0 * U(rng); p.at = 8.0 * (0.001 + 0.998 * U(rng));
+    b.loads.push_back(p);
+  }
+  const std::vector<Station> st = build_stations(b, 10);
+  for (auto _ : state) {
+    Solution s = sf(b, st);
+    double sum = 0;
+    for (const Station& q : st) sum += s.at(q.span, q.local, q.after).deflection;
+    benchmark::DoNotOptimize(sum);
+  }
+  state.counters["ns_per_load"] = benchmark::Counter(static_cast<double>(n),
+                                                     benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+}
+BENCHMARK(BM_StiffnessPointLoads)->Name("stiffness/point_loads")->Arg(1000)->Arg(20000)->Arg(100000)->Unit(benchmark::kMillisecond);
+
 // The three solvers one after the other on the same beam (the target is
 // the sum, under a second for a million spans).
 void BM_AllThree(benchmark::State& state) {
