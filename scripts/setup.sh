@@ -5,7 +5,7 @@ set -euo pipefail
 
 packages=(
   build-essential cmake pkg-config
-  libeigen3-dev libboost-dev nlohmann-json3-dev libgtest-dev libcli11-dev
+  libboost-dev nlohmann-json3-dev libgtest-dev libcli11-dev
   libgnuplot-iostream-dev gnuplot-nox
   libboost-iostreams-dev libboost-system-dev libboost-filesystem-dev
 )
