@@ -1,7 +1,9 @@
 // JUnit XML for CI systems: testsuites / testsuite (one per beam file) /
 // testcase (one per load set and check), counts in attributes, failure
 // elements carrying the numbers.
+#include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <sstream>
 
 #include "harness/compare/against.h"
@@ -133,23 +135,43 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
 
 }  // namespace
 
+std::string junit_classname(const std::string& path) {
+  std::string c = path;
+  const std::string ext = ".json";
+  if (c.size() > ext.size() && c.compare(c.size() - ext.size(), ext.size(), ext) == 0) c.resize(c.size() - ext.size());
+  for (char& ch : c)
+    if (ch == '.') ch = '_';
+  return c;
+}
+
+namespace {
+std::string seconds_text(double s) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.3f", std::max(0.0, s));
+  return buf;
+}
+}  // namespace
+
 JunitCounts junit_suite(const Report& b, double equilibrium_bound, std::string& x) {
   JunitCounts out;
+  out.seconds = b.seconds;
   const std::vector<Case> cases = cases_of(b, equilibrium_bound);
   for (const auto& c : cases) {
     ++out.tests;
     if (!c.failure.empty()) (c.error ? out.errors : out.failures)++;
   }
   const std::string file = xml(b.file);
+  const std::string classname = xml(junit_classname(b.file));
   x += "  <testsuite name=\"" + file + "\" tests=\"" + std::to_string(out.tests) + "\" failures=\"" +
-       std::to_string(out.failures) + "\" errors=\"" + std::to_string(out.errors) + "\" skipped=\"0\">\n";
+       std::to_string(out.failures) + "\" errors=\"" + std::to_string(out.errors) + "\" skipped=\"0\" time=\"" +
+       seconds_text(b.seconds) + "\">\n";
   if (!b.warnings.empty()) {
     x += "    <system-out>";
     for (const auto& w : b.warnings) x += xml("warning: " + w) + "\n";
     x += "</system-out>\n";
   }
   for (const auto& c : cases) {
-    x += "    <testcase classname=\"" + file + "\" name=\"" + xml(c.name) + "\"";
+    x += "    <testcase classname=\"" + classname + "\" name=\"" + xml(c.name) + "\"";
     if (c.failure.empty()) {
       x += "/>\n";
       continue;
@@ -166,12 +188,14 @@ JunitCounts junit_suite(const Report& b, double equilibrium_bound, std::string& 
 void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& counts,
                         const std::vector<std::string_view>& suites) {
   std::size_t tests = 0, failures = 0, errors = 0;
+  double seconds = 0;
   for (const auto& s : counts) {
     tests += s.tests;
     failures += s.failures;
     errors += s.errors;
+    seconds += s.seconds;
   }
-  out << junit_head({tests, failures, errors}, false);
+  out << junit_head({tests, failures, errors, seconds}, false);
   for (const auto& s : suites) out.write(s.data(), static_cast<std::streamsize>(s.size()));
   out << junit_tail();
 }
@@ -179,12 +203,12 @@ void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& count
 std::string junit_head(const JunitCounts& total, bool padded) {
   std::string h = "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<testsuites name=\"trivet\" tests=\"" +
                   std::to_string(total.tests) + "\" failures=\"" + std::to_string(total.failures) + "\" errors=\"" +
-                  std::to_string(total.errors) + "\"";
+                  std::to_string(total.errors) + "\" time=\"" + seconds_text(total.seconds) + "\"";
   if (padded) {
-    // Room for three counts of 20 digits, as spaces inside the tag.
+    // Room for three counts of 20 digits and a time of 24, as spaces inside the tag.
     const std::size_t digits = std::to_string(total.tests).size() + std::to_string(total.failures).size() +
-                               std::to_string(total.errors).size();
-    h.append(60 - digits, ' ');
+                               std::to_string(total.errors).size() + seconds_text(total.seconds).size();
+    h.append(84 - digits, ' ');
   }
   return h + ">\n";
 }

@@ -25,6 +25,8 @@ struct Report : compare::BeamResult {
   // Results in extended or exact arithmetic, one per load case (--arithmetic,
   // --reference).
   std::vector<std::shared_ptr<const precision::LoadSetNumbers>> precision;
+  // Wall-clock seconds the beam took to read and check (JUnit's `time`).
+  double seconds = 0;
 };
 
 }  // namespace trivet::reports

@@ -50,7 +50,11 @@ void write_junit(std::ostream& out, const std::vector<Report>& beams, double equ
 // its counts, then the document around the suites, in order.
 struct JunitCounts {
   std::size_t tests = 0, failures = 0, errors = 0;
+  double seconds = 0;
 };
+// A JUnit classname for a beam file: its path without ".json", other dots
+// as "_" (CI viewers split classnames at dots).
+std::string junit_classname(const std::string& path);
 // Appends the beam's <testsuite> element to `xml`.
 JunitCounts junit_suite(const Report& beam, double equilibrium_bound, std::string& xml);
 void write_junit_suites(std::ostream& out, const std::vector<JunitCounts>& counts,

@@ -239,3 +239,15 @@ TEST(Numbers, FixedNotationNeverCutsOrInventsDigits) {
 }
 
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+TEST(Junit, ClassnamesHaveNoDotSuffixForViewersToSplit) {
+  EXPECT_EQ(junit_classname("examples/core-wall-beam.json"), "examples/core-wall-beam");
+  EXPECT_EQ(junit_classname("lib/v1.2/beam.b.json"), "lib/v1_2/beam_b");
+  EXPECT_EQ(junit_classname("plain"), "plain");
+}
+
+}  // namespace
+}  // namespace trivet::reports

@@ -1,6 +1,7 @@
 // `trivet check`: beam files checked in parallel, streamed to the reports.
 #include <algorithm>
 #include <atomic>
+#include <chrono>
 #include <condition_variable>
 #include <csignal>
 #include <cstdint>
@@ -152,6 +153,7 @@ int run_check(const CheckArgs& a) {
   // Checks beam i (and, for a library, renders it and marks it ready).
   auto check_one = [&](std::size_t i) {
     reports::Report& r = results[i];
+    const auto started = std::chrono::steady_clock::now();
     try {
       std::string text;
       input::BeamFile f = input::read_beam_file(files[i], {}, &text);
@@ -175,6 +177,7 @@ int run_check(const CheckArgs& a) {
       r.file = files[i];
       r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what(), "internal.error"});
     }
+    r.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count();
     if (render_in_workers) {
       try { render(r, rendered[i]); }
       catch (const std::exception& e) {
@@ -206,6 +209,7 @@ int run_check(const CheckArgs& a) {
     junit_total.tests += r.junit_counts.tests;
     junit_total.failures += r.junit_counts.failures;
     junit_total.errors += r.junit_counts.errors;
+    junit_total.seconds += r.junit_counts.seconds;
     if (json_stream) {
       if (any_json) json_file.out() << ',';
       json_file.out() << r.json;

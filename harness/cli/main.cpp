@@ -69,7 +69,7 @@ int main(int argc, char** argv) {
   selfcheck->add_option("--cases", sa.dir, "Directory of reference cases (default: the bundled library)");
   selfcheck->add_option("--arithmetic", sa.arithmetic, "double (default), extended or exact")
       ->check(CLI::IsMember({"double", "extended", "exact"}));
-  selfcheck->add_option("--reference", sa.reference, "Also run in extended or exact arithmetic and report each method's rounding")
+  selfcheck->add_option("--reference", sa.reference, "Also run in extended or exact arithmetic and report each method's rounding error")
       ->check(CLI::IsMember({"extended", "exact"}));
 
   std::string plot_file, plot_out, plot_case;
