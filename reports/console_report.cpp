@@ -156,7 +156,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     }
     {
       std::ostringstream d;
-      d << "  verdict: ";
+      d << "  agreement: ";
       const std::string v = verdict_name(set.verdict);
       d << paint(v, set.verdict == Verdict::Agree ? kGreen : set.verdict == Verdict::Disagree ? kRed : kYellow, opt.color);
       if (set.ok_count() >= 2) {
@@ -324,7 +324,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       (void)k;
       std::string where = r.label;
       if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
-      const std::string unit = input::Units{b.units}.of(input::quantity_dimension(r.claim.quantity));
+      const std::string unit = input::quantity_unit(b.units, r.claim.quantity);
       c.rows.push_back({std::to_string(i + 1), std::string(input::quantity_name(r.claim.quantity)) + " [" + unit + "]", where,
                         r.load_case, fixed(r.claim.value, d), r.evaluated ? fixed(r.computed, d) : "-",
                         r.evaluated ? fixed(r.difference, d) : "-", fixed(r.tolerance, d),

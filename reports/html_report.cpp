@@ -592,7 +592,7 @@ struct Writer {
         const int d = decimals_for(std::max(std::abs(r.claim.value), std::abs(r.computed))) + 1;
         std::string where = r.label;
         if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
-        const std::string unit = b.units.of(input::quantity_dimension(r.claim.quantity));
+        const std::string unit = input::quantity_unit(b.units, r.claim.quantity);
         o << "<tr><td class=\"n\">" << i + 1 << "</td><td>" << html_escape(input::quantity_name(r.claim.quantity))
           << " [" << html_escape(unit) << "]</td><td>" << html_escape(where) << "</td><td>" << html_escape(r.load_case)
           << "</td><td class=\"n\">" << fixed(r.claim.value, d) << "</td><td class=\"n\">"

@@ -91,6 +91,10 @@ Dimension quantity_dimension(Quantity q) {
   return {0, 0};
 }
 
+std::string quantity_unit(const Units& units, Quantity q) {
+  return q == Quantity::Rotation ? "rad" : units.of(quantity_dimension(q));
+}
+
 std::string default_label(std::size_t i) {
   std::string s;
   std::size_t n = i + 1;

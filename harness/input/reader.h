@@ -54,6 +54,9 @@ enum class Quantity {
 bool is_envelope_quantity(Quantity q);
 const char* quantity_name(Quantity q);
 Dimension quantity_dimension(Quantity q);
+// The unit a quantity is shown in: the file's units of its dimension, and
+// "rad" for a rotation.
+std::string quantity_unit(const Units& units, Quantity q);
 
 enum class Side { Unspecified, Left, Right };
 
