@@ -145,15 +145,18 @@ TEST(Compare, SettlementThatSwampsTheLoadsIsNamed) {
   EXPECT_TRUE(check(g, {}).warnings.empty());
 }
 
-TEST(Compare, NotApplicableMethodLeavesTwo) {
-  // A spring: three-moment cannot treat it; the other two still confirm.
+TEST(Compare, SpringBeamConfirmedByAllThree) {
+  // A spring: until three-moment treated springs (the five-moment equation)
+  // it was not-applicable here and the other two confirmed alone; now every
+  // method is ok and all three agree. (No beam the reader accepts makes a
+  // method not-applicable any more.)
   BeamResult r = run(R"({"units": {"force": "kN", "length": "m"},
     "spans": [{"length": 5, "EI": 20000}, {"length": 5, "EI": 20000}],
     "supports": ["pinned", {"type": "spring", "k": 3000}, "roller"],
     "loads": [{"type": "udl", "span": 1, "w": 10}]})");
   const LoadSet& s = r.sets[0];
-  EXPECT_EQ(s.methods[0].status, MethodStatus::NotApplicable);
-  EXPECT_EQ(s.ok_count(), 2u);
+  EXPECT_EQ(s.methods[0].status, MethodStatus::Ok) << s.methods[0].reason;
+  EXPECT_EQ(s.ok_count(), 3u);
   EXPECT_EQ(s.verdict, Verdict::Agree) << s.problem;
 }
 

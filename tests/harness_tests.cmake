@@ -7,7 +7,7 @@ trivet_add_test(envelope_bruteforce_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_br
 trivet_add_test(precision_test ${CMAKE_CURRENT_SOURCE_DIR}/precision_test.cpp trivet_precision)
 trivet_add_test(compare_test ${CMAKE_CURRENT_SOURCE_DIR}/compare_test.cpp trivet_compare)
 trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp
-  trivet_three_moment trivet_slope_deflection trivet_stiffness)
+  trivet_registry trivet_three_moment trivet_slope_deflection trivet_stiffness)
 trivet_add_test(references_test ${CMAKE_CURRENT_SOURCE_DIR}/references_test.cpp trivet_references nlohmann_json::nlohmann_json)
 trivet_add_test(reports_test ${CMAKE_CURRENT_SOURCE_DIR}/reports_test.cpp trivet_reports nlohmann_json::nlohmann_json)
 

@@ -40,19 +40,9 @@
 // A fixed interior support does both, one per side: the moments either side
 // are separate unknowns (the reaction couple takes the difference).
 //
-// Area-moment load terms, derived by superposing point loads. A unit load at
-// a on the simply supported span gives the triangle M0 with peak a(L-a)/L at
-// a: area a(L-a)/2, centroid (L+a)/3 from the left, so
-//   FL = P a b (L + a)/6,   FR = P a b (L + b)/6,   b = L - a.
-// A distributed load q(t) over [c, d] is the integral of these point terms:
-//   FL = int q(t) gL(t) dt,  gL(t) = t (L^2 - t^2)/6,  FR uses gR(t) = gL(L-t).
-// With t = c + tau, q = w1 + s tau (s = (w2 - w1)/(d - c)), delta = d - c and
-// m_k = int_0^delta q tau^k dtau = w1 delta^{k+1}/(k+1) + s delta^{k+2}/(k+2):
-//   6 FL = (L^2 c - c^3) m0 + (L^2 - 3c^2) m1 - 3 c m2 - m3,
-//   6 FR = (L^2 e - e^3) m0 - (L^2 - 3e^2) m1 - 3 e m2 + m3,  e = L - c.
-// A clockwise couple C at a: reactions -C/L, +C/L, so M0 = -C x/L (x < a)
-// and C (1 - x/L) (x > a); integrating,
-//   FL = C (L^2 - 3 a^2)/6,   FR = C (2 L^2 - 6 a L + 3 a^2)/6.
+// The load terms FL and FR of every load type (areas and centroids of the
+// free diagrams) and the values inside a span are in load_terms.h, one
+// function per load type with its derivation.
 //
 // After the support moments are known, each span is evaluated from its left
 // end: M(x) = MA + V0 x + Mc(x), V(x) = V0 + Vc(x), where Mc and Vc are the
@@ -64,6 +54,29 @@
 // An overhang (free end) is statically determinate: its moment and shear
 // come from statics; its rotation and deflection are integrated outward
 // from the supported node's rotation and settlement.
+//
+// Where the files are (a reading order):
+//   load_terms.h   the load terms (6 FL, 6 FR) and the values inside a span,
+//                  one function per load type;
+//   span_state.h   the solved spans and `at` (values at any point; a span
+//                  with many loads gets prefix sums of its loads, so `at`
+//                  costs O(log N) there instead of O(N));
+//   fast_path.h    the usual beam (pinned/roller supports, span loads only):
+//                  the three-moment equations, tridiagonal, in three passes;
+//   this file      the tridiagonal path for rigid supports (fixed ends and
+//                  interior fixed supports, overhangs, hinges at supports,
+//                  unsupported nodes between spans of equal EI merged into
+//                  one span, node loads), and the choice of path;
+//   banded_path.h  every other beam the reader accepts: vertical and
+//                  rotational springs (the five-moment equation), guided
+//                  supports, hinges anywhere, unsupported nodes of any EI,
+//                  with node deflections and moments as mixed unknowns;
+//   band_solve.h   the banded solve of that system.
+// Every path uses the same load terms and span relations. They agree to
+// rounding, not bit for bit: the fast and tridiagonal paths to 1e-13
+// relative (tests/three_moment_test.cpp), and every path matches an exact
+// solution to 1e-9 in double and exactly in rationals
+// (tests/methods_test.cpp, RandomBeams).
 // ---------------------------------------------------------------------------
 
 // GCC 12 reports a false -Wmaybe-uninitialized inside boost::rational's
@@ -81,637 +94,53 @@
 
 #include "methods/three_moment/three_moment.h"
 
-#include <cmath>
-#include <cstdint>
-#include <type_traits>
 #include <memory>
 #include <string>
 #include <utility>
+#include <vector>
 
-#if defined(__linux__)
-#include <sys/mman.h>
-#endif
+#include "methods/three_moment/banded_path.h"
+#include "methods/three_moment/fast_path.h"
+#include "methods/three_moment/load_terms.h"
+#include "methods/three_moment/span_state.h"
 
 namespace trivet::three_moment {
 namespace {
 
-// The per-span helpers of solve() are lambdas called from a few places;
-// GCC otherwise keeps them out of line, and the calls (arguments through
-// memory) cost more than their bodies on a long beam.
-#if defined(__GNUC__)
-#define TM_INLINE __attribute__((always_inline))
-#else
-#define TM_INLINE
-#endif
+using namespace detail;
 
+// The tridiagonal path: rigid supports (fixed, pinned, roller), free ends,
+// hinges at interior pinned or roller supports, unsupported interior nodes
+// between spans of equal EI (merged into one segment), node loads. The
+// unknowns are the support moments alone (two at an interior fixed support).
 template <class R>
-TM_INLINE inline bool same(const R& a, const R& b) {
-  return !(a < b) && !(b < a);
-}
-template <class R>
-TM_INLINE inline bool is_zero(const R& a) {
-  return same(a, R(0));
-}
-// False for NaN and infinities (x - x is NaN there; NaN compares false).
-// Built-in floats ask std::isfinite (the same answer, without the
-// subtraction and two compares).
-template <class R>
-TM_INLINE inline bool finite(const R& a) {
-  if constexpr (std::is_floating_point_v<R>) {
-    return std::isfinite(a);
-  } else {
-    const R d = a - a;
-    return d <= R(0) && d >= R(0);
-  }
-}
-
-enum class Kind { Point, Couple, Ramp };
-
-// One load on a (possibly merged) span, local positions. No default
-// member values: the array of them is allocated uninitialised (for
-// built-in numbers) and every element is written whole before it is read;
-// a lone one is made with `{}` (zeros).
-template <class R>
-struct SpanLoad {
-  Kind kind;
-  R a;   // Point/Couple: position; Ramp: start c
-  R d;   // Ramp: end
-  R p;   // Point: P; Couple: C; Ramp: w1 (intensity at c)
-  R w2;  // Ramp: intensity at d
-  R s;   // Ramp: slope (w2 - w1)/(d - c)
-};
-
-// An array written once by index straight after it is allocated. Unlike
-// std::vector::resize, the elements are default-initialised, so the
-// memory of an array of built-in numbers is not zeroed first and then
-// written again (on a long beam the arrays do not stay in cache, and the
-// zeroing doubles their memory traffic). Large arrays are advised onto
-// transparent huge pages, as reserve_fresh does.
-template <class T>
-class FreshArray {
- public:
-  void allocate(std::size_t count) {
-    p_.reset(new T[count]);
-    n_ = count;
-    advise_huge(p_.get(), count * sizeof(T));
-  }
-  void shrink(std::size_t count) { n_ = count < n_ ? count : n_; }  // keeps the memory
-  void release() { p_.reset(); n_ = 0; }
-  T& operator[](std::size_t i) { return p_[i]; }
-  const T& operator[](std::size_t i) const { return p_[i]; }
-  T* data() { return p_.get(); }
-  const T* data() const { return p_.get(); }
-  std::size_t size() const { return n_; }
-
- private:
-  static void advise_huge(void* data, std::size_t bytes) {
-#if defined(__linux__) && defined(MADV_HUGEPAGE)
-    constexpr std::uintptr_t huge = std::uintptr_t(1) << 21;
-    if (bytes < 4 * huge) return;
-    const auto p = reinterpret_cast<std::uintptr_t>(data);
-    const std::uintptr_t b = (p + huge - 1) & ~(huge - 1), e = (p + bytes) & ~(huge - 1);
-    if (e > b) (void)madvise(reinterpret_cast<void*>(b), e - b, MADV_HUGEPAGE);
-#else
-    (void)data;
-    (void)bytes;
-#endif
-  }
-  std::unique_ptr<T[]> p_;
-  std::size_t n_ = 0;
-};
-
-// One span of the solved model (interior unsupported nodes merged away).
-template <class R>
-struct Segment {
-  R L{1}, invEI{1};  // length, 1/EI
-  R invL{1};         // 1/L (set with the segment's load terms)
-  R MA{0};         // node-side moment at the left end
-  R V0{0};         // shear just right of the left end
-  R theta0{0};     // rotation at the left end
-  R v0{0};         // deflection at the left end
-  std::size_t first = 0, last = 0;  // load range in State::loads
-};
-
-template <class R>
-struct State {
-  std::vector<Segment<R>> seg;
-  FreshArray<SpanLoad<R>> loads;
-  // Filled only when unsupported interior nodes were merged (else a span
-  // is its own segment):
-  std::vector<std::size_t> span_seg;  // original span -> segment
-  std::vector<R> span_off;            // original span -> offset in its segment
-  std::vector<R> span_len;
-  std::vector<bool> span_last;        // original span ends its segment
-};
-
-// Effects at x of the loads left of x (a cantilever built in at x):
-// shear V, moment M, and the integrals I1 = int_0^x M, I2 = int_0^x int M.
-template <class R>
-struct Sums {
-  R V{0}, M{0}, I1{0}, I2{0};
-};
-
-// A load q(tau) = w + k tau starting at tau = 0, integrated to u > 0.
-// sign: +1 to add the load, -1 to remove it (the continuation past `d`).
-template <class R>
-void add_ramp(Sums<R>& s, const R& u, const R& w, const R& k, bool remove) {
-  const R u2 = u * u, u3 = u2 * u, u4 = u3 * u, u5 = u4 * u;
-  const R dV = w * u + k * u2 / R(2);
-  const R dM = w * u2 / R(2) + k * u3 / R(6);
-  const R d1 = w * u3 / R(6) + k * u4 / R(24);
-  const R d2 = w * u4 / R(24) + k * u5 / R(120);
-  if (remove) {
-    s.V += dV; s.M += dM; s.I1 += d1; s.I2 += d2;
-  } else {
-    s.V -= dV; s.M -= dM; s.I1 -= d1; s.I2 -= d2;
-  }
-}
-
-// Loads at exactly x are included when `incl` is true.
-template <class R>
-Sums<R> sums(const State<R>& st, const Segment<R>& sg, const R& x, bool incl) {
-  Sums<R> s;
-  for (std::size_t j = sg.first; j < sg.last; ++j) {
-    const SpanLoad<R>& l = st.loads[j];
-    switch (l.kind) {
-      case Kind::Point:
-        if (l.a < x || (incl && same(l.a, x))) {
-          const R t = x - l.a;
-          s.V -= l.p;
-          s.M -= l.p * t;
-          s.I1 -= l.p * t * t / R(2);
-          s.I2 -= l.p * t * t * t / R(6);
-        }
-        break;
-      case Kind::Couple:
-        if (l.a < x || (incl && same(l.a, x))) {
-          const R t = x - l.a;
-          s.M += l.p;
-          s.I1 += l.p * t;
-          s.I2 += l.p * t * t / R(2);
-        }
-        break;
-      case Kind::Ramp:
-        // The load from c to d is the ramp w1 + s tau from c to infinity
-        // minus its continuation (w2 + s tau') from d to infinity.
-        if (l.a < x) add_ramp(s, R(x - l.a), l.p, l.s, false);
-        if (l.d < x) add_ramp(s, R(x - l.d), l.w2, l.s, true);
-        break;
-    }
-  }
-  return s;
-}
-
-// Reciprocals of the small integers of the load formulas, made once per
-// solve so that the loops over the spans multiply instead of divide (exact
-// in rational arithmetic; a rounding in floating point).
-template <class R>
-struct Consts {
-  R two = R(2), three = R(3), six = R(6);
-  R half = R(1) / R(2), third = R(1) / R(3), quarter = R(1) / R(4), fifth = R(1) / R(5);
-  R sixth = R(1) / R(6), r24 = R(1) / R(24), r120 = R(1) / R(120);
-};
-
-// True for an exact zero (false for NaN): a uniform load's slope.
-template <class R>
-TM_INLINE inline bool flat(const R& s) {
-  return s <= R(0) && s >= R(0);
-}
-
-// Six times the first moments of the segment's free (simply supported)
-// moment diagram about its left end (6 FL) and right end (6 FR), summed
-// over the loads [l, end): the formulas of the derivation above, times 6.
-// Summed in locals (registers, for double), returned as {6 FL, 6 FR}.
-// One load's terms of free_moments6, added to FL6 and FR6 (L2 = L * L).
-template <class R>
-TM_INLINE inline void add_free_moments6(R& FL6, R& FR6, const SpanLoad<R>* l, const R& L, const R& L2,
-                                        const Consts<R>& k) {
-  switch (l->kind) {
-    case Kind::Point: {
-      const R b = L - l->a;
-      const R pab = l->p * l->a * b;
-      FL6 += pab * (L + l->a);
-      FR6 += pab * (L + b);
-      break;
-    }
-    case Kind::Couple: {
-      const R a2 = l->a * l->a;
-      FL6 += l->p * (L2 - k.three * a2);
-      FR6 += l->p * (k.two * L2 - k.six * l->a * L + k.three * a2);
-      break;
-    }
-    case Kind::Ramp: {
-      const R& c = l->a;
-      const R e = L - c, dl = l->d - c;
-      const R d2 = dl * dl, d3 = d2 * dl, d4 = d3 * dl;
-      R m0 = l->p * dl, m1 = l->p * d2 * k.half, m2 = l->p * d3 * k.third, m3 = l->p * d4 * k.quarter;
-      if (!flat(l->s)) {
-        const R d5 = d4 * dl;
-        m0 += l->s * d2 * k.half;
-        m1 += l->s * d3 * k.third;
-        m2 += l->s * d4 * k.quarter;
-        m3 += l->s * d5 * k.fifth;
-      }
-      const R c2 = c * c, e2 = e * e;
-      FL6 += (L2 * c - c2 * c) * m0 + (L2 - k.three * c2) * m1 - k.three * c * m2 - m3;
-      FR6 += (L2 * e - e2 * e) * m0 - (L2 - k.three * e2) * m1 - k.three * e * m2 + m3;
-      break;
-    }
-  }
-}
-template <class R>
-TM_INLINE inline std::pair<R, R> free_moments6(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
-  const R L2 = L * L;
-  R FL6{0}, FR6{0};
-  for (; l != end; ++l) add_free_moments6(FL6, FR6, l, L, L2, k);
-  return {std::move(FL6), std::move(FR6)};
-}
-
-// What the statics and the node values need of a segment's loads [l, end):
-// the effects at x = L of the loads left of L (as `sums` with incl false:
-// a force or couple exactly at L left out), and the point forces and
-// couples exactly at L and exactly at 0.
-template <class R>
-struct EndSums {
-  Sums<R> s;
-  R PL{0}, CL{0}, P0{0}, C0{0};
-};
-// The sums are kept in locals (registers, for double) while the loads are
-// read; a ramp's terms are those of add_ramp with the constants of `k`.
-template <class R>
-TM_INLINE inline EndSums<R> end_sums(const SpanLoad<R>* l, const SpanLoad<R>* end, const R& L, const Consts<R>& k) {
-  R V{0}, M{0}, I1{0}, I2{0}, PL{0}, CL{0}, P0{0}, C0{0};
-  // The load w + slope tau from tau = 0, integrated to u > 0; `remove` for
-  // the continuation past its end, which is taken off again.
-  auto ramp = [&](const R& u, const R& w, const R& slope, bool flat_load, bool remove) TM_INLINE {
-    const R u2 = u * u, u3 = u2 * u, u4 = u3 * u;
-    R dV = w * u, dM = w * u2 * k.half, d1 = w * u3 * k.sixth, d2 = w * u4 * k.r24;
-    if (!flat_load) {
-      const R u5 = u4 * u;
-      dV += slope * u2 * k.half;
-      dM += slope * u3 * k.sixth;
-      d1 += slope * u4 * k.r24;
-      d2 += slope * u5 * k.r120;
-    }
-    if (remove) {
-      V += dV; M += dM; I1 += d1; I2 += d2;
-    } else {
-      V -= dV; M -= dM; I1 -= d1; I2 -= d2;
-    }
-  };
-  for (; l != end; ++l) {
-    switch (l->kind) {
-      case Kind::Point:
-        if (l->a < L) {
-          const R t = L - l->a;
-          const R pt2 = l->p * t * t;
-          V -= l->p;
-          M -= l->p * t;
-          I1 -= pt2 * k.half;
-          I2 -= pt2 * t * k.sixth;
-        } else if (same(l->a, L)) {
-          PL += l->p;
-        }
-        if (is_zero(l->a)) P0 += l->p;
-        break;
-      case Kind::Couple:
-        if (l->a < L) {
-          const R t = L - l->a;
-          M += l->p;
-          I1 += l->p * t;
-          I2 += l->p * t * t * k.half;
-        } else if (same(l->a, L)) {
-          CL += l->p;
-        }
-        if (is_zero(l->a)) C0 += l->p;
-        break;
-      case Kind::Ramp: {
-        const bool fl = flat(l->s);
-        if (l->a < L) ramp(R(L - l->a), l->p, l->s, fl, false);
-        if (l->d < L) ramp(R(L - l->d), l->w2, l->s, fl, true);
-        break;
-      }
-    }
-  }
-  EndSums<R> r;
-  r.s.V = std::move(V); r.s.M = std::move(M); r.s.I1 = std::move(I1); r.s.I2 = std::move(I2);
-  r.PL = std::move(PL); r.CL = std::move(CL); r.P0 = std::move(P0); r.C0 = std::move(C0);
-  return r;
-}
-
-// Reserves `count` elements of `v`. The big arrays here are written once,
-// front to back, straight after they are allocated, so at a million spans
-// most of their cost is the page faults of the fresh memory (about 7 ns a
-// byte on 4 KiB pages on the benchmark machine). On Linux, ask for
-// transparent huge pages on such an array before its first write: one fault
-// per 2 MiB. Only a hint to the kernel: nothing depends on it.
-template <class T>
-void reserve_fresh(std::vector<T>& v, std::size_t count) {
-  v.reserve(count);
-#if defined(__linux__) && defined(MADV_HUGEPAGE)
-  constexpr std::uintptr_t huge = std::uintptr_t(1) << 21;
-  const std::size_t bytes = count * sizeof(T);
-  if (bytes < 4 * huge) return;
-  const auto p = reinterpret_cast<std::uintptr_t>(v.data());
-  const std::uintptr_t b = (p + huge - 1) & ~(huge - 1), e = (p + bytes) & ~(huge - 1);
-  if (e > b) (void)madvise(reinterpret_cast<void*>(b), e - b, MADV_HUGEPAGE);
-#endif
-}
-
-template <class R>
-BasicPointValues<R> eval(const State<R>& st, std::size_t g, const R& x, bool after) {
-  const Segment<R>& sg = st.seg[g];
-  // At 0 the limit from inside (after loads at 0); at L from inside
-  // (before loads at L); in between as asked.
-  const bool incl = is_zero(x) ? true : (same(x, sg.L) ? false : after);
-  const Sums<R> s = sums(st, sg, x, incl);
-  BasicPointValues<R> p;
-  p.shear = sg.V0 + s.V;
-  p.moment = sg.MA + sg.V0 * x + s.M;
-  const R I1 = sg.MA * x + sg.V0 * x * x / R(2) + s.I1;
-  const R I2 = sg.MA * x * x / R(2) + sg.V0 * x * x * x / R(6) + s.I2;
-  p.rotation = sg.theta0 - I1 * sg.invEI;
-  p.deflection = sg.v0 + sg.theta0 * x - I2 * sg.invEI;
-  return p;
-}
-
-// Values in ORIGINAL span `span` at `local`.
-template <class R>
-BasicPointValues<R> eval_span(const State<R>& st, std::size_t span, const R& local, bool after) {
-  if (st.span_seg.empty()) {  // nothing merged: spans are the segments
-    if (span >= st.seg.size()) return BasicPointValues<R>{};
-    return eval(st, span, local, after);
-  }
-  if (span >= st.span_seg.size()) return BasicPointValues<R>{};
-  const R& off = st.span_off[span];
-  // At a merged (unsupported) node the limit from inside this span.
-  if (is_zero(local) && off > R(0)) after = true;
-  if (same(local, st.span_len[span]) && !st.span_last[span]) after = false;
-  return eval(st, st.span_seg[span], R(off + local), after);
-}
-
-template <class R>
-BasicSolution<R> not_applicable(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::NotApplicable;
-  s.reason = std::move(why);
-  return s;
-}
-template <class R>
-BasicSolution<R> failed(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::Failed;
-  s.reason = std::move(why);
-  return s;
-}
-
-// ---- The lean path: the usual beam (every support pinned or roller, no
-// hinge, no node load, span loads listed span by span) in three passes
-// instead of seven: (1) validation, segments, load copies, load terms and
-// the Thomas forward sweep, each row eliminated as soon as its two spans
-// are read; (2) back substitution; (3) span statics and node results. It
-// makes the SAME operations in the SAME order as the general path of
-// solve() for such a beam (the same bits: tests/three_moment_test.cpp
-// compares them), reading its inputs once; anything it does not cover, a
-// fault or a bad pivot makes it return false, and solve() runs the general
-// path, which gives its usual answer and reason.
-template <class R>
-struct LeanRow {
-  R cp, dp;  // Thomas: modified super-diagonal, right-hand side
-};
-
-template <class R>
-bool solve_lean(const BasicBeam<R>& beam, BasicSolution<R>& out) {
+bool fits_tridiagonal(const BasicBeam<R>& beam) {
   const std::size_t n = beam.spans.size();
-  const auto* const sup = beam.supports.data();
-  const auto* const spans = beam.spans.data();
-  const BasicLoad<R>* const bl = beam.loads.data();
-  const std::size_t nl = beam.loads.size();
-  const Consts<R> K;
-  auto plain = [&](std::size_t i) TM_INLINE {
-    return (sup[i].type == SupportType::Pinned || sup[i].type == SupportType::Roller) && !sup[i].hinge;
-  };
-  // Both ends first, before anything is allocated: a fixed or free end
-  // (the commonest refusal) then costs the general path no wasted pass.
-  if (!plain(0) || !plain(n)) return false;
-  auto st = std::make_shared<State<R>>();
-  reserve_fresh(st->seg, n);
-  st->loads.allocate(nl);
-  SpanLoad<R>* const loads = st->loads.data();
-  FreshArray<LeanRow<R>> rows;
-  rows.allocate(n + 1);
-  LeanRow<R>* const rw = rows.data();
-
-  // ---- Pass 1.
-  // Node 0: known(0) of the general path: emit(0, 1, 0, 0), pivot 1.
-  rw[0].cp = R(0) / R(1);
-  rw[0].dp = R(0) / R(1);
-  std::size_t li = 0, nload = 0;
-  R pgl6{0}, pf{0}, ppsi{0};  // terms of the segment left of node g
-  // Anything out of scope returns at once, before it is divided by (a
-  // zero division throws in rational arithmetic).
-  for (std::size_t g = 0; g < n; ++g) {
-    const R& len = spans[g].length;
-    const R& EI = spans[g].EI;
-    if (!(plain(g + 1) && len > R(0) && EI > R(0) && finite(len) && finite(EI))) return false;
-    st->seg.emplace_back();
-    Segment<R>& sg = st->seg.back();
-    sg.L = R(0) + len;  // the general path sums the segment's spans from 0
-    sg.invEI = R(1) / EI;
-    sg.v0 = sup[g].settlement;
-    sg.first = nload;
-    // free_moments6 of the segment, each load's terms added as it is copied.
-    const R L2 = sg.L * sg.L;
-    R FL6{0}, FR6{0};
-    for (; li < nl && bl[li].index == g; ++li) {
-      const BasicLoad<R>& l = bl[li];
-      SpanLoad<R>& sl = loads[nload++];
-      const R off{0};
-      switch (l.type) {
-        case LoadType::Point:
-          if (l.on_node || l.at < R(0) || len < l.at) return false;
-          sl.kind = Kind::Point;
-          sl.a = off + l.at;
-          sl.p = l.P;
-          sl.d = sl.w2 = sl.s = R(0);
-          break;
-        case LoadType::Couple:
-          if (l.on_node || l.at < R(0) || len < l.at) return false;
-          sl.kind = Kind::Couple;
-          sl.a = off + l.at;
-          sl.p = l.C;
-          sl.d = sl.w2 = sl.s = R(0);
-          break;
-        case LoadType::Udl:
-        case LoadType::Linear: {
-          if (l.on_node || l.from < R(0) || !(l.from < l.to) || len < l.to) return false;
-          const R& w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
-          sl.kind = Kind::Ramp;
-          sl.a = off + l.from;
-          sl.d = off + l.to;
-          sl.p = l.w1;
-          sl.w2 = w2;
-          if (l.type == LoadType::Udl) sl.s = R(0);
-          else sl.s = (w2 - l.w1) / (l.to - l.from);
-          break;
-        }
-      }
-      add_free_moments6(FL6, FR6, &sl, sg.L, L2, K);
-    }
-    sg.last = nload;
-    // The next load, if any, must be on a later span.
-    if (li < nl && !(bl[li].index > g && bl[li].index < n)) return false;
-    // terms(g).
-    sg.invL = R(1) / sg.L;
-    const R& invL = sg.invL;
-    const R q = sg.invEI * invL;
-    const R gl6 = FL6 * q, gr6 = FR6 * q, f = sg.L * sg.invEI;
-    const R psi = (sup[g + 1].settlement - sup[g].settlement) * invL;
-    if (g > 0) {  // the three-moment equation at support g
-      const R d = -pgl6 - gr6 + K.six * (ppsi - psi);
-      const R a = pf, b = K.two * (pf + f);
-      const R piv = b - a * rw[g - 1].cp;
-      if (is_zero(piv) || !finite(piv)) return false;
-      const R rhs = d - a * rw[g - 1].dp;
-      rw[g].cp = f / piv;
-      rw[g].dp = rhs / piv;
-    }
-    pgl6 = gl6;
-    pf = f;
-    ppsi = psi;
+  const auto& sup = beam.supports;
+  for (std::size_t i = 0; i <= n; ++i) {
+    const bool interior = i > 0 && i < n;
+    const SupportType t = sup[i].type;
+    if (t == SupportType::Spring || t == SupportType::Guided) return false;
+    if (sup[i].hinge && (!interior || t == SupportType::Free || t == SupportType::Fixed)) return false;
+    if (t == SupportType::Free && !is_zero(sup[i].settlement)) return false;
+    if (interior && t == SupportType::Free && !same(beam.spans[i - 1].EI, beam.spans[i].EI)) return false;
   }
-  {  // Node n: known(0 - 0): emit(0, 1, 0, 0) after row n - 1.
-    const R zero{0}, one{1};
-    const R piv = one - zero * rw[n - 1].cp;
-    if (is_zero(piv) || !finite(piv)) return false;
-    const R rhs = R(zero - zero) - zero * rw[n - 1].dp;
-    rw[n].cp = zero / piv;
-    rw[n].dp = rhs / piv;
-  }
-
-  // ---- Pass 2: back substitution. The general path refuses a non-finite
-  // support moment; here each one is tested in pass 3 with its node.
-  for (std::size_t i = n; i-- > 0;) rw[i].dp = rw[i].dp - rw[i].cp * rw[i + 1].dp;
-
-  // ---- Pass 3: span statics, rotations and deflections, node results.
-  reserve_fresh(out.nodes, n + 1);
-  bool bad = false;
-  R x{0};
-  BasicPointValues<R> lv;  // values just left of node g
-  auto node = [&](std::size_t i, const R& settlement, const R& left_shear, const R& right_shear) TM_INLINE
-      -> BasicNodeResult<R>& {
-    out.nodes.emplace_back();
-    BasicNodeResult<R>& nr = out.nodes.back();
-    nr.x = x;
-    nr.deflection = settlement;
-    const R Vl = i > 0 ? left_shear : R(0);
-    const R Vr = i < n ? right_shear : R(0);
-    nr.reaction_force = Vr - Vl + R(0);
-    return nr;
-  };
-  // The node's values and the support moment `Ms` at it are finite (the
-  // general path tests both; reaction_moment stays 0 here). For built-in
-  // floats one test of a sum of x - x, which is 0 for a finite x and NaN
-  // otherwise (NaN then propagates through the sum).
-  auto check = [&](const BasicNodeResult<R>& nr, const R& Ms) TM_INLINE {
-    bool fin;
-    if constexpr (std::is_floating_point_v<R>) {
-      fin = std::isfinite(((nr.deflection - nr.deflection) + (nr.reaction_force - nr.reaction_force)) +
-                          ((nr.rotation_left - nr.rotation_left) + (nr.rotation_right - nr.rotation_right)) +
-                          (Ms - Ms));
-    } else {
-      fin = finite(nr.deflection) & finite(nr.reaction_force) & finite(nr.rotation_left) &
-            finite(nr.rotation_right) & finite(Ms);
-    }
-    bad = bad | !fin;
-  };
-  R MA = rw[0].dp;
-  for (std::size_t g = 0; g < n; ++g) {
-    Segment<R>& sg = st->seg[g];
-    const R& L = sg.L;
-    const R MB = rw[g + 1].dp;
-    const R& invL = sg.invL;
-    const EndSums<R> es = end_sums(loads + sg.first, loads + sg.last, L, K);
-    const R& vA = sg.v0;  // the settlement of node g, set in pass 1
-    const R& vB = g + 1 < n ? st->seg[g + 1].v0 : sup[n].settlement;
-    sg.MA = MA;
-    sg.V0 = (MB - MA - (es.s.M + es.CL)) * invL;
-    const R L2 = L * L;
-    const R I1 = MA * L + sg.V0 * L2 * K.half + es.s.I1;
-    const R I2 = MA * L2 * K.half + sg.V0 * L2 * L * K.sixth + es.s.I2;
-    sg.theta0 = (vB - vA) * invL + I2 * sg.invEI * invL;
-    // Node g: left values `lv` (from segment g - 1), right ones at 0 of g.
-    BasicNodeResult<R>& nr = node(g, vA, lv.shear, R(sg.V0 - es.P0));
-    if (g > 0) nr.moment_left = lv.moment;
-    nr.moment_right = MA + es.C0;
-    nr.rotation_left = g > 0 ? lv.rotation : sg.theta0;
-    nr.rotation_right = sg.theta0;
-    check(nr, MA);
-    x += L;
-    lv.shear = sg.V0 + es.s.V;
-    lv.moment = sg.MA + sg.V0 * L + es.s.M;
-    lv.rotation = sg.theta0 - I1 * sg.invEI;
-    lv.deflection = sg.v0 + sg.theta0 * L - I2 * sg.invEI;
-    MA = MB + R(0);
-  }
-  {
-    BasicNodeResult<R>& nr = node(n, sup[n].settlement, lv.shear, lv.shear);
-    nr.moment_left = lv.moment;
-    nr.rotation_left = lv.rotation;
-    nr.rotation_right = lv.rotation;
-    check(nr, MA);
-  }
-  rows.release();
-  if (bad) {
-    out.nodes.clear();
-    return false;
-  }
-  std::shared_ptr<const State<R>> cst = std::move(st);
-  out.status = MethodStatus::Ok;
-  out.at = [cst](std::size_t span, const R& local, bool after) { return eval_span(*cst, span, local, after); };
   return true;
 }
 
-}  // namespace
-
 template <class R>
-BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
-  (void)stations;  // `at` is exact everywhere; the grid is not needed.
+BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   const std::size_t n = beam.spans.size();
-  if (n == 0) return failed<R>("beam has no spans");
-  if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
-    return failed<R>("supports/labels do not match the number of spans");
   const auto& sup = beam.supports;
   auto label = [&](std::size_t i) { return "node " + beam.labels[i]; };
-  {
-    BasicSolution<R> lean;
-    if (solve_lean(beam, lean)) return lean;
-  }
-
-  // ---- Scope and sanity.
   for (std::size_t s = 0; s < n; ++s)
     if (!(beam.spans[s].length > R(0)) || !(beam.spans[s].EI > R(0)) ||
         !finite(beam.spans[s].length) || !finite(beam.spans[s].EI))
       return failed<R>("span " + std::to_string(s + 1) + " has a non-positive length or EI");
   std::size_t free_interior = 0, fixed_interior = 0;
-  for (std::size_t i = 0; i <= n; ++i) {
-    const bool interior = i > 0 && i < n;
-    switch (sup[i].type) {
-      case SupportType::Spring: return not_applicable<R>("spring support at " + label(i));
-      case SupportType::Guided: return not_applicable<R>("guided support at " + label(i));
-      default: break;
-    }
-    if (sup[i].hinge) {
-      if (!interior) return not_applicable<R>("hinge at end " + label(i));
-      if (sup[i].type == SupportType::Free) return not_applicable<R>("hinge at unsupported " + label(i));
-      if (sup[i].type == SupportType::Fixed) return not_applicable<R>("hinge at fixed support " + label(i));
-    }
-    if (sup[i].type == SupportType::Free && !is_zero(sup[i].settlement))
-      return not_applicable<R>("settlement at unsupported " + label(i));
-    if (interior && sup[i].type == SupportType::Free && !same(beam.spans[i - 1].EI, beam.spans[i].EI))
-      return not_applicable<R>("unsupported " + label(i) + " between spans of different EI");
-    if (interior && sup[i].type == SupportType::Free) ++free_interior;
-    if (interior && sup[i].type == SupportType::Fixed) ++fixed_interior;
+  for (std::size_t i = 1; i < n; ++i) {
+    if (sup[i].type == SupportType::Free) ++free_interior;
+    if (sup[i].type == SupportType::Fixed) ++fixed_interior;
   }
 
   // ---- Segments: merge spans across unsupported interior nodes. Without
@@ -754,31 +183,6 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   }
   auto seg_of = [&](std::size_t span) TM_INLINE { return merged ? st->span_seg[span] : span; };
   auto off_of = [&](std::size_t span) TM_INLINE { return merged ? st->span_off[span] : R(0); };
-  // Written in place: a copy of the finished struct costs more than filling it.
-  auto set_span_load = [&](SpanLoad<R>& sl, const BasicLoad<R>& l) TM_INLINE {
-    const R off = off_of(l.index);
-    switch (l.type) {
-      case LoadType::Point:
-        sl.kind = Kind::Point; sl.a = off + l.at; sl.p = l.P; sl.d = sl.w2 = sl.s = R(0);  // all written
-        break;
-      case LoadType::Couple:
-        sl.kind = Kind::Couple; sl.a = off + l.at; sl.p = l.C; sl.d = sl.w2 = sl.s = R(0);
-        break;
-      case LoadType::Udl:
-      case LoadType::Linear: {
-        const R& w2 = l.type == LoadType::Udl ? l.w1 : l.w2;
-        sl.kind = Kind::Ramp;
-        sl.a = off + l.from;
-        sl.d = off + l.to;
-        sl.p = l.w1;
-        sl.w2 = w2;
-        if (l.type == LoadType::Udl) sl.s = R(0);  // (w - w)/(to - from), without the division
-        else sl.s = (w2 - l.w1) / (l.to - l.from);
-        break;
-      }
-    }
-  };
-
   // ---- Loads: validation; node loads summed (stored only if there are
   // any). Span loads listed span by span (the usual order) are stored as
   // they are read; in any other order, or with merged spans, they are
@@ -811,7 +215,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     }
     last_span = l.index;
     for (; next_span <= l.index; ++next_span) st->seg[next_span].first = st->seg[next_span].last = nload;
-    set_span_load(st->loads[nload++], l);
+    set_span_load(st->loads[nload++], l);  // in order: nothing merged
     st->seg[l.index].last = nload;
   }
   std::vector<R> nodeP, nodeC;
@@ -850,7 +254,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     st->loads.allocate(total);
     auto push = [&](std::size_t g, const SpanLoad<R>& sl) { st->loads[st->seg[g].last++] = sl; };
     for (const auto& l : beam.loads)
-      if (!l.on_node) set_span_load(st->loads[st->seg[seg_of(l.index)].last++], l);
+      if (!l.on_node) set_span_load(st->loads[st->seg[seg_of(l.index)].last++], l, off_of(l.index));
     // Loads on unsupported interior nodes become loads of the merged span.
     if (merged)
       for (std::size_t i = 1; i < n; ++i) {
@@ -862,7 +266,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
       }
   }
   const SpanLoad<R>* const loads = st->loads.data();
-  const Consts<R> K;
+  const Consts<R> K;  // a local copy: the compiler folds the constants
 
   // ---- The tridiagonal system. Unknowns, in order along the beam: one
   // node-side moment per real node (MA of the segment to its right and MB
@@ -899,7 +303,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     // Overhang to the left, by statics from the free end: MA = C0, V0 = -P0.
     if (sup[real_of(1)].hinge) return failed<R>("mechanism: hinge at " + label(real_of(1)) + " next to a free end");
     const Segment<R>& sg = st->seg[0];
-    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const Sums<R> s = sums(loads + sg.first, loads + sg.last, sg.L, true, K);
     V0_left = R(0) - node_P(real_of(0));
     MB_left = node_C(real_of(0)) + V0_left * sg.L + s.M;
   }
@@ -908,7 +312,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
     if (m > 1 && sup[real_of(m - 1)].hinge)
       return failed<R>("mechanism: hinge at " + label(real_of(m - 1)) + " next to a free end");
     const Segment<R>& sg = st->seg[m - 1];
-    const Sums<R> s = sums(*st, sg, sg.L, true);
+    const Sums<R> s = sums(loads + sg.first, loads + sg.last, sg.L, true, K);
     V0_right = node_P(real_of(m)) - s.V;
     MA_right = R(0) - node_C(real_of(m)) - V0_right * sg.L - s.M;
   }
@@ -1118,10 +522,26 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   }
   rows.release();
   if (bad) return failed<R>("non-finite result");
-  std::shared_ptr<const State<R>> cst = std::move(st);
   out.status = MethodStatus::Ok;
-  out.at = [cst](std::size_t span, const R& local, bool after) { return eval_span(*cst, span, local, after); };
+  set_at(out, std::move(st));
   return out;
+}
+
+}  // namespace
+
+template <class R>
+BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
+  (void)stations;  // `at` is exact everywhere; the grid is not needed.
+  const std::size_t n = beam.spans.size();
+  if (n == 0) return failed<R>("beam has no spans");
+  if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
+    return failed<R>("supports/labels do not match the number of spans");
+  {
+    BasicSolution<R> fast;
+    if (solve_fast(beam, fast)) return fast;
+  }
+  if (fits_tridiagonal(beam)) return solve_tridiagonal(beam);
+  return solve_banded(beam);
 }
 
 template BasicSolution<double> solve<double>(const BasicBeam<double>&, const std::vector<BasicStation<double>>&);

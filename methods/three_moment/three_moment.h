@@ -3,13 +3,18 @@
 // The unknowns are the bending moments at the supports. Rotation continuity
 // over each interior support gives the three-moment equation; a fixed end
 // gives one more equation (an imaginary adjoining span of infinite
-// stiffness). The system is tridiagonal and is solved in O(n). Reactions,
-// shear and moment then follow from the statics of each span, rotations and
+// stiffness). For the usual beam the system is tridiagonal and is solved in
+// O(n). Springs (vertical: the five-moment equation; rotational), guided
+// supports, hinges anywhere and unsupported nodes between spans of any EI
+// add the node deflections as unknowns, closed by each node's vertical
+// equilibrium or its spring; the system stays banded, O(n). Reactions, shear
+// and moment then follow from the statics of each span, rotations and
 // deflections from closed-form integration of M/EI along each span.
 //
-// Outside its scope (spring and guided supports, an unsupported interior node
-// between spans of different EI, a hinge at an unsupported node) the method
-// returns MethodStatus::NotApplicable with a reason naming the feature.
+// Every beam the reader accepts is within scope. The method returns
+// MethodStatus::NotApplicable (naming the feature) only for what the reader
+// refuses anyway: a hinge where the rotation is restrained (fixed, guided,
+// rotational spring) and a couple on a hinge.
 #pragma once
 
 #include <vector>
