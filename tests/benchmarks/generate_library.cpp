@@ -10,6 +10,8 @@
 //                                             and a "live" UDL on every span, and
 //                                             a combination with the live load
 //                                             patterned (every arrangement)
+//   generate_library --loads FILE COUNT [SEED] one 20 m span (pinned, roller)
+//                                             with COUNT point loads
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
@@ -61,6 +63,22 @@ std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool p
 }  // namespace
 
 int main(int argc, char** argv) {
+  if (argc >= 4 && std::string(argv[1]) == "--loads") {
+    std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
+    std::uniform_real_distribution<double> U(0.0, 1.0);
+    const long count = std::atol(argv[3]);
+    std::ofstream out(argv[2]);
+    out << "{\"title\": \"one span, many point loads\", \"units\": {\"force\": \"kN\", \"length\": \"m\"},\n"
+           "\"spans\": [{\"length\": 20, \"EI\": 50000}], \"supports\": [\"pinned\", \"roller\"],\n\"loads\": [";
+    char b[96];
+    for (long i = 0; i < count; ++i) {
+      std::snprintf(b, sizeof b, "%s{\"type\": \"point\", \"span\": 1, \"P\": %.4g, \"at\": %.6f}", i ? ",\n" : "",
+                    1 + 9 * U(rng), 0.001 + 19.998 * U(rng));
+      out << b;
+    }
+    out << "]}\n";
+    return 0;
+  }
   if (argc >= 4 && std::string(argv[1]) == "--patterned") {
     std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
     std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 4, true);
@@ -72,7 +90,7 @@ int main(int argc, char** argv) {
     return 0;
   }
   if (argc < 3) {
-    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED] | --patterned FILE SPANS [SEED]\n");
+    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED] | --patterned FILE SPANS [SEED] | --loads FILE COUNT [SEED]\n");
     return 2;
   }
   const std::filesystem::path dir(argv[1]);
