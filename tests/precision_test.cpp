@@ -507,6 +507,15 @@ TEST(PrecisionConditioning, PureFunctionOfTheBeam) {
   const Conditioning f = estimate_conditioning(s);
   ASSERT_FALSE(f.warnings.empty());
   EXPECT_NE(f.warnings.front().find("spring at node C"), std::string::npos) << f.warnings.front();
+  // A spring so soft that its ratio to the beam leaves double's range (the
+  // smallest subnormal) is the worst case, not none.
+  for (double k : {1e-12, 5e-324}) {
+    s.supports[2].k = k;
+    const Conditioning g = estimate_conditioning(s);
+    ASSERT_FALSE(g.warnings.empty()) << k;
+    EXPECT_NE(g.warnings.front().find("spring at node C"), std::string::npos) << g.warnings.front();
+    EXPECT_NE(g.warnings.front().find("softer"), std::string::npos) << g.warnings.front();
+  }
 }
 
 // ---------------------------------------------------------------------------

@@ -5,6 +5,7 @@
 #include <cmath>
 #include <cstdio>
 #include <exception>
+#include <limits>
 #include <sstream>
 
 #include "methods/registry/registry.h"
@@ -252,6 +253,7 @@ Rounding measure(const Values& ref, const Values& dbl, const Beam& beam,
 // Conditioning from the beam alone.
 
 std::string ratio_text(double r) {
+  if (!(r < std::numeric_limits<double>::max())) return "more than 1e308";
   if (r < 1000) {
     char b[32];
     std::snprintf(b, sizeof b, "%.3g", r);
@@ -287,9 +289,13 @@ Conditioning estimate_conditioning(const Beam& beam, std::optional<double> measu
   const std::size_t n = beam.spans.size();
   const double keep_above = std::pow(10.0, 0.5);  // features costing more than half a digit
   auto add = [&](Kind kind, std::size_t index, double a, double b) {
+    if (!(a > 0) || !(b > 0) || !std::isfinite(a) || !std::isfinite(b)) return;
     const bool greater = b > a;
-    const double ratio = greater ? b / a : a / b;
-    if (!(ratio > keep_above) || !std::isfinite(ratio)) return;
+    double ratio = greater ? b / a : a / b;
+    // A ratio beyond double's range (a spring of 5e-324 beside a beam) is
+    // the worst there is, not nothing: it is kept as the largest double.
+    if (!std::isfinite(ratio)) ratio = std::numeric_limits<double>::max();
+    if (!(ratio > keep_above)) return;
     f.push_back({kind, index, greater, ratio});
   };
   auto stiff = [&](std::size_t s) { const auto& sp = beam.spans[s]; return sp.EI / (sp.length * sp.length * sp.length); };
