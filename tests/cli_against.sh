@@ -18,5 +18,18 @@ rc=$?; [ $rc = 2 ] || { echo "FAIL: a missing CSV exited $rc, expected 2"; fail=
 "$trivet" check "$data/simple-udl.json" --against "$data/no-such.csv" --json /tmp/trivet-against.json >/dev/null 2>&1
 grep -q '"status": "invalid"' /tmp/trivet-against.json && grep -q '"invalid": *1' /tmp/trivet-against.json \
   || { echo "FAIL: an unreadable CSV left the beam's status or the summary at agree"; fail=1; }
+# Each --their-* option is checked by its own name, and refused without --against.
+"$trivet" check "$data/simple-udl.json" --their-moment hogging-positive >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 2 ] || { echo "FAIL: --their-moment without --against exited $rc, expected 2"; fail=1; }
+grep -q -- "--their-moment: applies to the file given with --against" /tmp/trivet-against.out ||
+  { echo "FAIL: --their-moment without --against: no reason"; cat /tmp/trivet-against.out; fail=1; }
+"$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-ok.csv" --their-moment hogging >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 2 ] || { echo "FAIL: --their-moment hogging exited $rc, expected 2"; fail=1; }
+grep -q -- "trivet: --their-moment: " /tmp/trivet-against.out ||
+  { echo "FAIL: a bad --their-moment is not named by its own option"; cat /tmp/trivet-against.out; fail=1; }
+# A semicolon-separated export with decimal commas reads as the comma one does.
+tr ',.' ';,' < "$data/simple-udl-moments-ok.csv" > /tmp/trivet-against-local.csv
+"$trivet" check "$data/simple-udl.json" --against /tmp/trivet-against-local.csv >/tmp/trivet-against.out 2>&1
+rc=$?; [ $rc = 0 ] || { echo "FAIL: a ';' and decimal-comma export exited $rc"; cat /tmp/trivet-against.out; fail=1; }
 [ $fail = 0 ] && echo "against: all checks passed"
 exit $fail

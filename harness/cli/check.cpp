@@ -50,6 +50,31 @@ int run_check(const CheckArgs& a) {
       fail("trivet: --methods: give at least one method");
     }
   }
+  // The --against options, each checked by its own name before any beam is
+  // checked; without --against they have nothing to apply to.
+  namespace ag = compare::against;
+  ag::Options ao;
+  {
+    std::vector<std::pair<std::string, std::pair<std::string, std::string>>> settings;  // flag, (option, value)
+    for (const auto& c : a.columns) settings.push_back({"--column", {"column", c}});
+    const std::pair<const char*, std::pair<const char*, const std::string*>> named[] = {
+        {"--their-units", {"units", &a.their_units}},
+        {"--their-moment", {"moment-sign", &a.their_moment}},
+        {"--their-deflection", {"deflection-sign", &a.their_deflection}},
+        {"--their-shear", {"shear-sign", &a.their_shear}},
+        {"--their-reaction", {"reaction-sign", &a.their_reaction}},
+        {"--their-reaction-moment", {"reaction-moment-sign", &a.their_reaction_moment}},
+        {"--their-separator", {"separator", &a.their_separator}},
+        {"--their-decimal", {"decimal", &a.their_decimal}},
+        {"--against-case", {"case", &a.against_case}}};
+    for (const auto& [flag, what] : named)
+      if (!what.second->empty()) settings.push_back({flag, {what.first, *what.second}});
+    for (const auto& [flag, setting] : settings) {
+      if (a.against.empty()) fail("trivet: ", flag, ": applies to the file given with --against, and there is none");
+      const std::string err = ag::set_option(ao, setting.first, setting.second);
+      if (!err.empty()) fail("trivet: ", flag, ": ", err);
+    }
+  }
   if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
       !why.empty())
     fail("trivet: ", why);
@@ -259,23 +284,6 @@ int run_check(const CheckArgs& a) {
 
   bool against_invalid = false;
   if (!a.against.empty()) {
-    namespace ag = compare::against;
-    ag::Options ao;
-    std::vector<std::pair<std::string, std::string>> settings;
-    for (const auto& c : a.columns) settings.push_back({"column", c});
-    if (!a.their_units.empty()) settings.push_back({"units", a.their_units});
-    if (!a.their_moment.empty()) settings.push_back({"moment-sign", a.their_moment});
-    if (!a.their_deflection.empty()) settings.push_back({"deflection-sign", a.their_deflection});
-    if (!a.their_shear.empty()) settings.push_back({"shear-sign", a.their_shear});
-    if (!a.their_reaction.empty()) settings.push_back({"reaction-sign", a.their_reaction});
-    if (!a.their_reaction_moment.empty()) settings.push_back({"reaction-moment-sign", a.their_reaction_moment});
-    if (!a.against_case.empty()) settings.push_back({"case", a.against_case});
-    for (const auto& [name, value] : settings) {
-      const std::string err = ag::set_option(ao, name, value);
-      if (!err.empty()) {
-        fail("trivet: --", (name == "column" ? "column" : name), ": ", err);
-      }
-    }
     if (files.size() != 1 || !problems.empty()) {
       fail("trivet: --against compares one beam file with another program's results; give exactly one beam file");
     }

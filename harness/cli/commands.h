@@ -49,6 +49,7 @@ struct CheckArgs {
   // --against and how to read the other program's tables.
   std::vector<std::string> against, columns;
   std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
+  std::string their_separator, their_decimal;
   std::string arithmetic = "double", reference;
 };
 

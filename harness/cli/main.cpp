@@ -58,6 +58,8 @@ int main(int argc, char** argv) {
   check->add_option("--their-shear", ca.their_shear, "ours (V = dM/dx, default) or opposite");
   check->add_option("--their-reaction", ca.their_reaction, "up-positive (ours, default) or down-positive");
   check->add_option("--their-reaction-moment", ca.their_reaction_moment, "counter-clockwise-positive (ours, default) or clockwise-positive");
+  check->add_option("--their-separator", ca.their_separator, "comma, semicolon or tab (default: found from the --against file)");
+  check->add_option("--their-decimal", ca.their_decimal, "point or comma (default: found from the --against file)");
   check->add_option("--against-case", ca.against_case, "The load case the --against results belong to");
 
   SelfcheckArgs sa;

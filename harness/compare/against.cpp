@@ -140,6 +140,9 @@ struct ErrorList {
   }
 };
 
+// A number cell (defined below, with the table's reading).
+std::optional<double> number(const std::string& cell);
+
 }  // namespace
 
 // ---------------------------------------------------------------------------
@@ -162,6 +165,33 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
              "the file holds a NUL byte: it is not a text (CSV) file");
     return out;
   }
+  // The separator: given, or the one the first line (outside quotes) uses most.
+  char sep = limits.separator;
+  if (!sep) {
+    std::size_t k = i;
+    while (k < n) {  // the first line that is neither blank nor a comment
+      std::size_t b = k;
+      while (b < n && (blank(text[b]) || text[b] == '\r')) ++b;
+      if (b < n && (text[b] == '\n' || text[b] == '#')) {
+        const std::size_t e = text.find('\n', b);
+        k = e == std::string::npos ? n : e + 1;
+        continue;
+      }
+      break;
+    }
+    std::size_t commas = 0, semicolons = 0, tabs = 0;
+    bool quoted = false;
+    for (; k < n && (quoted || text[k] != '\n'); ++k) {
+      const char c = text[k];
+      if (c == '"') quoted = !quoted;
+      else if (!quoted) { commas += c == ','; semicolons += c == ';'; tabs += c == '\t'; }
+    }
+    sep = ',';
+    if (semicolons > commas && semicolons >= tabs) sep = ';';
+    else if (tabs > commas && tabs > semicolons) sep = '\t';
+  }
+  out.table.separator = sep;
+  auto is_blank = [&](char c) { return c == ' ' || (c == '\t' && sep != '\t'); };
   bool have_header = false;
   auto end_of_line = [&](std::size_t k) {  // index of the '\n' ending this line, or n
     const std::size_t e = text.find('\n', k);
@@ -176,7 +206,7 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
     // Blank lines and comments, at the start of a record only.
     {
       std::size_t k = i;
-      while (k < n && (blank(text[k]) || text[k] == '\r')) ++k;
+      while (k < n && (is_blank(text[k]) || text[k] == '\r')) ++k;
       if (k >= n) break;
       if (text[k] == '\n' || text[k] == '#') { skip_line(); continue; }
     }
@@ -185,7 +215,7 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
     bool bad = false;
     std::size_t field = 1;
     while (true) {
-      while (i < n && blank(text[i])) ++i;
+      while (i < n && is_blank(text[i])) ++i;
       std::string value;
       if (i < n && text[i] == '"') {
         const std::size_t open_line = line;
@@ -209,16 +239,17 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
           out.table.rows.clear();
           return out;
         }
-        while (i < n && blank(text[i])) ++i;
-        if (i < n && text[i] != ',' && text[i] != '\n' && text[i] != '\r') {
+        while (i < n && is_blank(text[i])) ++i;
+        if (i < n && text[i] != sep && text[i] != '\n' && text[i] != '\r') {
           errs.add(line, field, "", std::string("unexpected text after a closing quote (got '") + text[i] +
                                         "'; a quote inside a quoted field is written twice: \"\")");
           bad = true;
         }
       } else {
         const std::size_t start = i;
-        while (i < n && text[i] != ',' && text[i] != '\n' && text[i] != '\r') ++i;
-        value = trim(text.substr(start, i - start));
+        while (i < n && text[i] != sep && text[i] != '\n' && text[i] != '\r') ++i;
+        value = text.substr(start, i - start);
+        while (!value.empty() && is_blank(value.back())) value.pop_back();
         if (value.find('"') != std::string::npos && !bad) {
           errs.add(line, field, "", "a quote inside an unquoted field (quote the whole field, and write a quote inside it twice)");
           bad = true;
@@ -231,7 +262,7 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
         bad = true;
         break;
       }
-      if (i < n && text[i] == ',') { ++i; ++field; continue; }
+      if (i < n && text[i] == sep) { ++i; ++field; continue; }
       // End of the record.
       if (i < n && text[i] == '\r') ++i;
       if (i < n && text[i] == '\n') ++i;
@@ -260,6 +291,47 @@ CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits) {
     out.table.rows.push_back(std::move(row));
   }
   if (!have_header && out.errors.empty()) errs.add(0, 0, "", "the file is empty (no header row)");
+  // The decimal mark: given, or a comma when the file is not separated by
+  // commas and its numbers have commas and never a point.
+  {
+    auto comma_number = [](const std::string& f) {
+      std::size_t k = 0, digits = 0;
+      if (k < f.size() && (f[k] == '+' || f[k] == '-')) ++k;
+      while (k < f.size() && std::isdigit(static_cast<unsigned char>(f[k]))) { ++k; ++digits; }
+      if (digits == 0 || k >= f.size() || f[k] != ',') return false;
+      ++k;
+      std::size_t after = 0;
+      while (k < f.size() && std::isdigit(static_cast<unsigned char>(f[k]))) { ++k; ++after; }
+      if (after == 0) return false;
+      if (k < f.size() && (f[k] == 'e' || f[k] == 'E')) {
+        ++k;
+        if (k < f.size() && (f[k] == '+' || f[k] == '-')) ++k;
+        std::size_t ex = 0;
+        while (k < f.size() && std::isdigit(static_cast<unsigned char>(f[k]))) { ++k; ++ex; }
+        if (ex == 0) return false;
+      }
+      return k == f.size();
+    };
+    auto point_number = [](const std::string& f) { return f.find('.') != std::string::npos && number(f).has_value(); };
+    char mark = limits.decimal;
+    if (!mark) {
+      std::size_t commas = 0, points = 0;
+      for (const auto& r : out.table.rows)
+        for (const auto& f : r.fields) { commas += comma_number(f); points += point_number(f); }
+      mark = '.';
+      if (sep != ',' && commas > 0) {
+        if (points == 0) mark = ',';
+        else
+          errs.add(0, 0, "", "cannot tell the decimal mark: " + std::to_string(commas) + " numbers have a decimal comma and " +
+                                 std::to_string(points) + " a decimal point (give --their-decimal comma or point)");
+      }
+    }
+    out.table.decimal = mark;
+    if (mark == ',')
+      for (auto& r : out.table.rows)
+        for (auto& f : r.fields)
+          if (comma_number(f)) f[f.find(',')] = '.';
+  }
   if (dropped) out.errors.back().reason += " (and " + std::to_string(dropped) + " more errors)";
   return out;
 }
@@ -297,7 +369,7 @@ CsvRead read_csv_file(const std::string& path, const CsvLimits& limits) {
 const std::vector<std::string>& option_names() {
   static const std::vector<std::string> names = {
       "column", "units", "force-unit", "length-unit", "moment-sign", "deflection-sign",
-      "shear-sign", "reaction-sign", "reaction-moment-sign", "tolerance", "case"};
+      "shear-sign", "reaction-sign", "reaction-moment-sign", "tolerance", "case", "separator", "decimal"};
   return names;
 }
 
@@ -388,6 +460,10 @@ std::string set_option(Options& o, const std::string& name, const std::string& v
     o.tolerance = *t;
     return "";
   }
+  if (name == "separator")
+    return choose(o.limits.separator, value, "the separator", {{"comma", ','}, {"semicolon", ';'}, {"tab", '\t'}});
+  if (name == "decimal")
+    return choose(o.limits.decimal, value, "the decimal mark", {{"point", '.'}, {"comma", ','}});
   if (name == "case") {
     if (trim(value).empty()) return "the load case name is empty";
     o.load_case = trim(value);
@@ -926,8 +1002,17 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     std::string reason = "cannot tell what the file holds: the header has no \"" + cols.name_of("x") + "\" or \"" +
                          cols.name_of("span") + "\" column (stations) and no \"" + cols.name_of("support") +
                          "\" column (reactions)";
-    if (table.header.size() == 1 && (table.header[0].find(';') != std::string::npos || table.header[0].find('\t') != std::string::npos))
-      reason += "; the header is one field: is the file separated by ';' or tabs? trivet reads commas";
+    if (table.header.size() == 1 && (table.header[0].find(';') != std::string::npos || table.header[0].find('\t') != std::string::npos ||
+                                     table.header[0].find(',') != std::string::npos)) {
+      reason += "; the header is one field: give the file's separator with --their-separator comma, semicolon or tab";
+    } else {
+      std::string found;
+      for (std::size_t k = 0; k < table.header.size() && k < 12; ++k)
+        found += (k ? ", " : "") + ("\"" + input::printable_text(table.header[k], 40) + "\"");
+      if (table.header.size() > 12) found += ", ...";
+      reason += "; the columns are " + found + ": name yours with --column, e.g. --column x=" +
+                (table.header.empty() ? std::string("Distance") : input::printable_text(table.header[0], 40));
+    }
     errs.add(hl, 0, "", reason);
     return finish();
   }

@@ -63,6 +63,10 @@ struct CsvLimits {
   std::size_t max_file_bytes = 64u << 20;  // 64 MiB
   std::size_t max_columns = 1000;
   std::size_t max_errors = 50;             // further errors are counted, not listed
+  // The file's separator (',', ';' or '\t') and decimal mark ('.' or ','); 0:
+  // found from the file (--their-separator, --their-decimal).
+  char separator = 0;
+  char decimal = 0;
 };
 
 struct CsvRow {
@@ -71,6 +75,8 @@ struct CsvRow {
 };
 
 struct CsvTable {
+  char separator = ',';  // as found or given
+  char decimal = '.';    // numbers with a decimal comma are stored with a point
   std::size_t header_line = 0;
   std::vector<std::string> header;
   std::vector<CsvRow> rows;
@@ -83,7 +89,10 @@ struct CsvRead {
 };
 
 // Reads CSV text: a header row, then one record per row. Fields separated
-// by commas; a field may be quoted ("a, b" and "say ""x""" are one field,
+// by commas, semicolons or tabs (the one the header line uses most, unless
+// given); a decimal comma is recognised in a file separated by semicolons
+// or tabs (numbers such as 1,25 and no number with a point) and such numbers
+// are stored with a point; a field may be quoted ("a, b" and "say ""x""" are one field,
 // a quoted field may span lines); CRLF or LF line ends; lines whose first
 // non-blank character is '#' and blank lines are skipped (outside quotes).
 // Unquoted fields are trimmed of spaces and tabs. Every record must have as

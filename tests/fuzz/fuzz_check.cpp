@@ -1,6 +1,7 @@
 // libFuzzer target: one beam file's text through the reader, the whole
 // check with every method, and the JSON, JUnit and console reports (into
-// strings). Built with -DTRIVET_FUZZ=ON by clang (scripts/ci-fuzz.sh).
+// strings); and the same bytes as another program's CSV export (any
+// separator and decimal mark) compared with a fixed beam (--against). Built with -DTRIVET_FUZZ=ON by clang (scripts/ci-fuzz.sh).
 // The limits are small, so that the fuzzer explores the reading and the
 // checking rather than solving huge beams.
 #include <cstddef>
@@ -8,6 +9,7 @@
 #include <sstream>
 #include <string>
 
+#include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
 #include "reports/reports.h"
@@ -47,5 +49,18 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
   reports::ConsoleOptions copt;
   reports::write_console(console, results.back(), copt);
   reports::write_console_summary(console, reports::summarize(results), copt);
+
+  // The bytes as an --against table for a fixed two-span beam.
+  static const input::BeamFile fixed = input::parse_beam_text(
+      R"({"units": {"force": "kN", "length": "m"}, "spans": [{"length": 4, "EI": 1000}, {"length": 5, "EI": 1000}],
+          "supports": ["pinned", "roller", "roller"], "loads": [{"type": "udl", "span": 1, "w": 3},
+          {"type": "point", "span": 2, "P": 4, "at": 2}]})",
+      "fixed.json");
+  static const compare::BeamResult fixed_result = compare::check(fixed, opt);
+  compare::against::Options ao;
+  ao.limits.max_file_bytes = 1u << 20;
+  const compare::against::Comparison cmp = compare::against::compare_text(fixed, fixed_result, text, "fuzz.csv", ao);
+  for (const auto& e : cmp.errors)
+    if (e.reason.empty()) __builtin_trap();
   return 0;
 }
