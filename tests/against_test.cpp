@@ -1024,3 +1024,46 @@ TEST_F(Against, SeparatorAndDecimalMarkCanBeGivenOrAreRefusedWhenUnclear) {
 
 }  // namespace
 }  // namespace trivet::compare::against
+
+namespace trivet::compare::against {
+namespace {
+
+TEST_F(Against, UnitsInTheHeaderOrInARowBelowIt) {
+  // Deflections in mm and moments in N*m in a file otherwise in kN and m.
+  auto rows = truth();
+  std::string bracketed = "x [m],shear,moment (N*m),Defl [mm]\n";
+  std::string units_row = "x,shear,moment,deflection\nm,kN,N*m,mm\n";
+  for (const auto& r : rows) {
+    const std::string line = format_number(r.x) + "," + format_number(r.shear) + "," + format_number(r.moment * 1000) + "," +
+                             format_number(r.deflection * 1000) + "\n";
+    bracketed += line;
+    units_row += line;
+  }
+  Options o;
+  ASSERT_EQ(set_option(o, "column", "deflection=Defl"), "");
+  for (const auto& [text, opts] : {std::pair<std::string, Options>{bracketed, o}, {units_row, Options{}}}) {
+    Comparison c = run(text, opts);
+    ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+    EXPECT_TRUE(c.holds());
+    for (const auto& sm : c.summary) EXPECT_FALSE(sm.finding) << quantity_name(sm.quantity);
+    ASSERT_EQ(c.rows.size(), rows.size());  // the units row is not a row of values
+  }
+  // Without the units, the same numbers are found to be a factor of 1000 off.
+  std::string plain = "x,shear,moment,deflection\n";
+  for (const auto& r : rows)
+    plain += format_number(r.x) + "," + format_number(r.shear) + "," + format_number(r.moment) + "," +
+             format_number(r.deflection * 1000) + "\n";
+  Comparison c = run(plain);
+  ASSERT_TRUE(c.ok());
+  EXPECT_FALSE(c.holds());
+  const Summary* d = summary(c, Quantity::Deflection);
+  ASSERT_TRUE(d->finding);
+  EXPECT_TRUE(names(*d->finding, Mistake::UnitsFactor));
+  // A unit of the wrong kind is refused at its header cell.
+  const std::string wrong = only_error("x,moment [mm]\n0,0\n");
+  EXPECT_NE(wrong.find("column 2"), std::string::npos) << wrong;
+  EXPECT_NE(wrong.find("is not a force*length unit"), std::string::npos) << wrong;
+}
+
+}  // namespace
+}  // namespace trivet::compare::against

@@ -980,6 +980,25 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   cols.header = table.header;
   cols.options = &options;
   const std::size_t hl = table.header_line;
+  // A unit in a header ("Defl [mm]", "M (kN*m)"): the name without it
+  // also finds the column, and the column is read in that unit.
+  std::vector<std::string> col_unit(table.header.size());
+  auto split_unit = [](const std::string& h, std::string& name, std::string& unit) {
+    const std::string t = trim(h);
+    name = t;
+    unit.clear();
+    if (t.size() < 3) return;
+    const char close = t.back();
+    const char open = close == ']' ? '[' : close == ')' ? '(' : 0;
+    if (!open) return;
+    const auto at = t.rfind(open);
+    if (at == std::string::npos || at == 0) return;
+    std::string u = trim(t.substr(at + 1, t.size() - at - 2));
+    std::string why;
+    if (u.empty() || !input::parse_unit_expression(u, h, &why)) return;
+    name = trim(t.substr(0, at));
+    unit = u;
+  };
   for (std::size_t c = 0; c < table.header.size(); ++c) {
     const std::string key = lower(trim(table.header[c]));
     auto [it, fresh] = cols.by_name.emplace(key, c);
@@ -987,8 +1006,53 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
       errs.add(hl, c + 1, table.header[c],
                "the column name appears twice (columns " + std::to_string(it->second + 1) + " and " +
                    std::to_string(c + 1) + ")");
+    std::string bare;
+    split_unit(table.header[c], bare, col_unit[c]);
+    if (!col_unit[c].empty()) cols.by_name.emplace(lower(bare), c);  // the full name wins a clash
   }
   if (!out.errors.empty()) return finish();
+  // A row of units under the header: every cell a unit or empty, at least
+  // one unit, no number.
+  std::size_t first_row = 0;
+  if (!table.rows.empty()) {
+    const CsvRow& r0 = table.rows.front();
+    bool units_row = true, any_unit = false;
+    for (const auto& f : r0.fields) {
+      const std::string t = trim(f);
+      if (t.empty()) continue;
+      std::string u = t, why;
+      if (u.size() >= 2 && ((u.front() == '[' && u.back() == ']') || (u.front() == '(' && u.back() == ')')))
+        u = trim(u.substr(1, u.size() - 2));
+      if (number(t) || !input::parse_unit_expression(u, t, &why)) { units_row = false; break; }
+      any_unit = true;
+    }
+    if (units_row && any_unit) {
+      first_row = 1;
+      for (std::size_t c = 0; c < r0.fields.size() && c < col_unit.size(); ++c) {
+        std::string u = trim(r0.fields[c]);
+        if (u.size() >= 2 && ((u.front() == '[' && u.back() == ']') || (u.front() == '(' && u.back() == ')')))
+          u = trim(u.substr(1, u.size() - 2));
+        if (u.empty()) continue;
+        if (!col_unit[c].empty() && col_unit[c] != u)
+          errs.add(r0.line, c + 1, table.header[c],
+                   "the units row says \"" + input::printable_text(u, 40) + "\" but the header says \"" + col_unit[c] + "\"");
+        col_unit[c] = u;
+      }
+      if (!out.errors.empty()) return finish();
+    }
+  }
+  // The factor from a column's own unit to ours, for a quantity of
+  // dimension `dim`; an error at the header cell when it is not one.
+  auto column_factor = [&](std::size_t c, input::Dimension dim, double fallback) -> double {
+    if (c == kNone || c >= col_unit.size() || col_unit[c].empty()) return fallback;
+    const input::QuantityText q = input::parse_quantity("1 " + col_unit[c], dim, result.units);
+    if (!q.ok) {
+      errs.add(hl, c + 1, table.header[c], "the column's unit \"" + input::printable_text(col_unit[c], 40) + "\" is not a " +
+                                               input::dimension_name(dim) + " unit (" + q.reason + ")");
+      return fallback;
+    }
+    return q.value;
+  };
 
   const std::size_t c_support = cols.find("support"), c_x = cols.find("x"), c_span = cols.find("span"),
                     c_local = cols.find("x_local");
@@ -1087,6 +1151,14 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     }
   }
 
+  // Columns with a unit of their own (header or units row).
+  const double kx = column_factor(c_x, {0, 1}, kl), kxl = column_factor(c_local, {0, 1}, kl);
+  const std::string lux = c_x != kNone && !col_unit[c_x].empty() ? col_unit[c_x] : lu;
+  const std::string luxl = c_local != kNone && !col_unit[c_local].empty() ? col_unit[c_local] : lu;
+  for (std::size_t q = 0; q < kQuantities; ++q)
+    if (c_value[q] != kNone) factor[q] = column_factor(c_value[q], dimension_of(static_cast<Quantity>(q)), factor[q]);
+  if (!out.errors.empty()) return finish();
+
   // The rows.
   const std::size_t n = geo.spans();
   std::vector<Row> rows;
@@ -1096,7 +1168,8 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   double max_x = 0;
   bool negative = false;
   std::size_t first_outside = kNone;
-  for (const auto& tr : table.rows) {
+  for (std::size_t ri = first_row; ri < table.rows.size(); ++ri) {
+    const CsvRow& tr = table.rows[ri];
     Row r;
     r.line = tr.line;
     bool row_ok = true;
@@ -1117,17 +1190,17 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     if (stations) {
       if (global) {
         if (auto x = read_number(c_x, true)) {
-          const double xs = *x * kl;
+          const double xs = *x * kx;
           max_x = std::max(max_x, *x);
           negative = negative || xs < -geo.eps;
           if (xs < -geo.eps || xs > geo.total + geo.eps) {
             if (first_outside == kNone) first_outside = out.errors.size();
-            cell_error(c_x, "x = " + input::format_number(*x) + " " + lu + " is outside the beam (0 to " +
-                                nice(geo.total / kl) + " " + lu + ")");
+            cell_error(c_x, "x = " + input::format_number(*x) + " " + lux + " is outside the beam (0 to " +
+                                nice(geo.total / kx) + " " + lux + ")");
           }
           r.pos.global = true;
           r.pos.x = std::min(std::max(xs, 0.0), geo.total);
-          r.where = "x = " + input::format_number(*x) + " " + lu;
+          r.where = "x = " + input::format_number(*x) + " " + lux;
         }
       } else {
         auto sp = read_number(c_span, true);
@@ -1143,14 +1216,14 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
           else if (lo) {
             const std::size_t si = static_cast<std::size_t>(s) - 1;
             const double L = geo.length(si);
-            const double xl = *lo * kl;
+            const double xl = *lo * kxl;
             if (xl < -geo.eps || xl > L + geo.eps)
-              cell_error(c_local, "x_local = " + input::format_number(*lo) + " " + lu + " is outside span " +
-                                      std::to_string(si + 1) + " (0 to " + nice(L / kl) + " " + lu + ")");
+              cell_error(c_local, "x_local = " + input::format_number(*lo) + " " + luxl + " is outside span " +
+                                      std::to_string(si + 1) + " (0 to " + nice(L / kxl) + " " + luxl + ")");
             r.pos.global = false;
             r.pos.span = si;
             r.pos.local = std::min(std::max(xl, 0.0), L);
-            r.where = "span " + std::to_string(si + 1) + ", x_local = " + input::format_number(*lo) + " " + lu;
+            r.where = "span " + std::to_string(si + 1) + ", x_local = " + input::format_number(*lo) + " " + luxl;
           }
         }
       }
