@@ -59,10 +59,14 @@ struct Table {
   void print(std::ostream& out, const std::string& indent) const {
     std::vector<std::size_t> w(head.size(), 0);
     for (std::size_t c = 0; c < head.size(); ++c) w[c] = head[c].size();
+    // A row of one cell is a note (a claim's reason or finding, "... 11
+    // nodes not shown ..."): it goes on its own line and widens no column.
     for (const auto& r : rows)
-      for (std::size_t c = 0; c < r.size() && c < w.size(); ++c) w[c] = std::max(w[c], r[c].size());
+      if (r.size() > 1)
+        for (std::size_t c = 0; c < r.size() && c < w.size(); ++c) w[c] = std::max(w[c], r[c].size());
     auto line = [&](const std::vector<std::string>& r) {
       out << indent;
+      if (r.size() == 1 && head.size() > 1) { out << r[0] << "\n"; return; }
       for (std::size_t c = 0; c < r.size(); ++c) {
         const std::string& s = r[c];
         const std::size_t pad = w[c] > s.size() ? w[c] - s.size() : 0;
@@ -330,6 +334,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
                         r.evaluated ? fixed(r.difference, d) : "-", fixed(r.tolerance, d),
                         r.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
       if (!r.reason.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": " + r.reason});
+      if (!r.finding.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": finding: " + r.finding});
     }
     c.print(out, "  ");
     out << "\n";

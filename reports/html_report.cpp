@@ -601,6 +601,8 @@ struct Writer {
           << "</td><td>" << (r.holds ? st_badge("holds") : st_badge("fails")) << "</td></tr>\n";
         if (!r.reason.empty())
           o << "<tr><td></td><td colspan=\"8\">" << html_escape(r.reason) << "</td></tr>\n";
+        if (!r.finding.empty())
+          o << "<tr><td></td><td colspan=\"8\">finding: " << html_escape(r.finding) << "</td></tr>\n";
       }
       o << "</table>\n";
     }

@@ -437,6 +437,7 @@ void claims(JsonWriter& w, const Report& b) {
     w.member("tolerance", c.tolerance);
     w.member("holds", c.holds);
     if (!c.reason.empty()) w.member("reason", c.reason);
+    if (!c.finding.empty()) w.member("finding", c.finding);
     w.end_object();
   }
   w.end_array();

@@ -108,6 +108,7 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
       k.failure = c.evaluated ? "claimed " + num(c.claim.value) + ", computed " + num(c.computed) + ", difference " +
                                     num(c.difference) + ", tolerance " + num(c.tolerance)
                               : "claimed " + num(c.claim.value) + ": " + c.reason;
+      if (!c.finding.empty()) k.failure += "\nfinding: " + c.finding;
     }
     out.push_back(k);
   }

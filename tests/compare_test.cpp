@@ -326,3 +326,41 @@ TEST(DeflectionLimits, BadLimitsAreLocatedErrors) {
 
 }  // namespace
 }  // namespace trivet::compare
+
+namespace trivet::compare {
+namespace {
+
+// A failed claim says which usual mistake would make it hold, and still
+// fails. Values from the closed forms: a simple span under a UDL deflects
+// 5wL^4/(384EI) (Roark's Formulas for Stress and Strain, 7th ed., Table 8.1
+// case 2e, from memory); two equal spans under a UDL have M_B = -wL^2/8,
+// R_A = 3wL/8 and R_B = 10wL/8 (AISC Steel Construction Manual, "Beam
+// Diagrams and Formulas", continuous beam of two equal spans, from memory).
+TEST(ClaimFindings, TheUsualMistakesAreNamedAndTheClaimStillFails) {
+  const BeamResult simple = run(simple_beam(R"(, "claims": {"values": [
+      {"quantity": "max_deflection", "span": 1, "value": 8.4375},
+      {"quantity": "max_deflection", "span": 1, "value": 0.0084375}]})"));
+  ASSERT_EQ(simple.claims.size(), 2u);
+  EXPECT_FALSE(simple.claims[0].holds);
+  EXPECT_NE(simple.claims[0].finding.find("divided by 1000 (typed in mm, as m?)"), std::string::npos)
+      << simple.claims[0].finding;
+  EXPECT_TRUE(simple.claims[1].holds);
+  EXPECT_TRUE(simple.claims[1].finding.empty());
+
+  const BeamResult two = run(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6, "EI": 20000}, {"length": 6, "EI": 20000}], "supports": ["pinned", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 10}, {"type": "udl", "span": 2, "w": 10}],
+    "claims": {"values": [{"quantity": "moment", "node": "B", "value": 45},
+                          {"quantity": "reaction", "node": "B", "value": 22.5},
+                          {"quantity": "moment", "node": "B", "value": -45000000},
+                          {"quantity": "reaction", "node": "A", "value": 99}]}})");
+  ASSERT_EQ(two.claims.size(), 4u);
+  for (const auto& c : two.claims) EXPECT_FALSE(c.holds);
+  EXPECT_NE(two.claims[0].finding.find("opposite sign"), std::string::npos) << two.claims[0].finding;
+  EXPECT_NE(two.claims[1].finding.find("holds at node A"), std::string::npos) << two.claims[1].finding;
+  EXPECT_NE(two.claims[2].finding.find("divided by 10^6"), std::string::npos) << two.claims[2].finding;
+  EXPECT_TRUE(two.claims[3].finding.empty()) << two.claims[3].finding;  // no usual mistake explains 99
+}
+
+}  // namespace
+}  // namespace trivet::compare

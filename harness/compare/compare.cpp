@@ -496,6 +496,58 @@ struct TwoSided {
   std::optional<double> left, right;
 };
 
+// The usual mistake that explains a failed claim, as --against diagnoses a
+// column: the claimed value read with the other sign, times 10^-6 to 10^6,
+// on the other side of a jump, or at the node beside (labels shifted).
+std::string claim_finding(const input::Claim& claim, const ClaimResult& r, const TwoSided& v, const LoadSet& set,
+                          const input::BeamFile& file) {
+  using Q = input::Quantity;
+  const double c = claim.value;
+  auto holds = [&](double value, double computed) { return std::abs(value - computed) <= r.tolerance * (1 + 1e-12); };
+  const std::string unit = input::quantity_unit(file.units, claim.quantity);
+  if (!(r.tolerance > 0)) return "";
+  if (holds(-c, r.computed)) return "it holds with the opposite sign (another sign convention?)";
+  struct Factor { double f; const char* words; };
+  const Factor factors[] = {{1e3, "1000"}, {1e-3, "1/1000"}, {1e6, "10^6"}, {1e-6, "1/10^6"}};
+  for (const auto& [f, words] : factors)
+    for (double sg : {1.0, -1.0})
+      if (holds(sg * c / f, r.computed)) {
+        const bool length = claim.quantity == Q::Deflection || claim.quantity == Q::MaxDeflection;
+        const std::string& lu = file.units.length;
+        std::string why = "a unit " + std::string(words) + " times " + (f > 1 ? "smaller" : "larger") + " than the file's " + unit + "?";
+        if (length && f > 1 && f < 1e4 && lu == "m") why = "typed in mm, as m?";
+        if (length && f < 1 && f > 1e-4 && lu == "mm") why = "typed in m, as mm?";
+        return std::string("it holds if divided by ") + words + (sg < 0 ? " and read with the opposite sign" : "") +
+               (why.empty() ? "" : " (" + why + ")");
+      }
+  if (claim.side != input::Side::Unspecified) {
+    const auto& other = claim.side == input::Side::Left ? v.right : v.left;
+    if (other && holds(c, *other))
+      return std::string("it holds on the other side of the point (\"side\": \"") +
+             (claim.side == input::Side::Left ? "right" : "left") + "\")";
+  }
+  // The node beside: labels shifted by one.
+  if (claim.node && !set.consensus_nodes.empty()) {
+    const auto& cn = set.consensus_nodes;
+    for (int d : {-1, 1}) {
+      const long j = static_cast<long>(*claim.node) + d;
+      if (j < 0 || j >= static_cast<long>(cn.size())) continue;
+      const auto& nd = cn[static_cast<std::size_t>(j)];
+      std::optional<double> there;
+      switch (claim.quantity) {
+        case Q::Reaction: there = nd.reaction_force; break;
+        case Q::ReactionMoment: there = nd.reaction_moment; break;
+        case Q::Deflection: there = nd.deflection; break;
+        case Q::Moment: there = nd.moment_left ? nd.moment_left : nd.moment_right; break;
+        default: break;
+      }
+      if (there && holds(c, *there) && std::abs(*there) > 0)
+        return "it holds at node " + set.beam.labels[static_cast<std::size_t>(j)] + " (are the node labels shifted by one?)";
+    }
+  }
+  return "";
+}
+
 ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const input::BeamFile& file) {
   using Q = input::Quantity;
   ClaimResult r;
@@ -606,6 +658,7 @@ ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const 
   r.difference = claim.value - computed;
   // A tolerance is a closed bound; allow for rounding of the tolerance itself.
   r.holds = std::abs(r.difference) <= r.tolerance * (1 + 1e-12) + 1e-15 * scale;
+  if (!r.holds) r.finding = claim_finding(claim, r, v, set, file);
   return r;
 }
 

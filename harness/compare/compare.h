@@ -184,6 +184,10 @@ struct ClaimResult {
   double tolerance = 0;
   bool holds = false;
   std::string reason;
+  // For a claim that fails: the usual mistake that would make it hold (the
+  // other sign, a factor of 10^3 or 10^6, the other side of a jump, the node
+  // beside), in plain words; empty when none does. Never a pass.
+  std::string finding;
 };
 
 enum class BeamStatus { Agree, Disagree, Unconfirmed, Invalid };
