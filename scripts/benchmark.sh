@@ -100,14 +100,14 @@ done
   awk '
     function ns(t) { if (t ~ /us$/) return t * 1000; if (t ~ /ms$/) return t * 1e6; if (t ~ /ns$/) return t + 0; return t + 0 }
     /^(three_moment|slope_deflection|stiffness|all_three|thomas|typical)\// {
-      per = ""; for (i = 1; i <= NF; i++) if ($i ~ /^ns_per_span=/) { per = substr($i, 13) }
+      per = ""; for (i = 1; i <= NF; i++) { if ($i ~ /^ns_per_span=/) per = substr($i, 13); if ($i ~ /^ns_per_load=/) per = substr($i, 13) " a load" }
       name[++rows] = $1; time[rows] = $2 " " $3; perspan[rows] = per
       split($1, p, "/"); if (p[1] == "thomas") thomas[p[3]] = ns(per)
     }
     END {
       for (r = 1; r <= rows; r++) {
         split(name[r], p, "/"); k = p[1] == "stiffness" ? 2 : 1; ratio = ""
-        if ((p[1] == "three_moment" || p[1] == "slope_deflection" || p[1] == "stiffness") && thomas[p[3]] > 0)
+        if ((p[1] == "three_moment" || p[1] == "slope_deflection" || p[1] == "stiffness") && p[2] == "spans" && thomas[p[3]] > 0)
           ratio = sprintf("%.1fx", ns(perspan[r]) / (k * thomas[p[3]]))
         printf "| %s | %s | %s | %s |\n", name[r], time[r], perspan[r], ratio
       }
@@ -126,7 +126,7 @@ done
       split($1, p, "/")
       if (p[1] == "thomas") thomas[p[3]] = ns(per)
       else if (p[1] == "all_three") { if (p[2] == "spans" && p[3] == 1000000) warm = ms($2, $3); if (p[2] == "first_call") first = ms($2, $3) }
-      else if (p[3] >= 1000) { m[p[1], p[3]] = ns(per); sizes[p[3]] = 1 }
+      else if (p[2] == "spans" && p[3] >= 1000) { m[p[1], p[3]] = ns(per); sizes[p[3]] = 1 }
     }
     END {
       printf "| 10,000 typical beams, JSON + JUnit, --jobs 2: under 2 s | %s s | %s |\n", two, yes(two < 2)

@@ -9,6 +9,7 @@
 // which shares no code with the method.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <random>
 #include <string>
@@ -16,6 +17,7 @@
 #include <vector>
 
 #include "methods/beam/stability.h"
+#include "methods/slope_deflection/fused.h"
 #include "methods/slope_deflection/slope_deflection.h"
 
 namespace trivet {
@@ -1505,57 +1507,113 @@ TEST(Scale, OneMillionSpansEquilibrium) {
   EXPECT_NEAR(s.nodes[n / 2].reaction_force, w * L, 1e-9);
 }
 
-// The fused path for beams on pinned and roller supports (no hinge, no node
-// load) does the general path's operations in the same order. A node load
-// of zero sends the same beam down the general path: the two must give the
-// same numbers (a property of the code, no published source).
-TEST(SlopeDeflectionPaths, FusedPathMatchesTheGeneralPath) {
-  std::mt19937 rng(4711u);
-  std::uniform_real_distribution<double> U(0.0, 1.0);
-  for (int trial = 0; trial < 300; ++trial) {
-    const std::size_t n = 1 + static_cast<std::size_t>(U(rng) * 12);
-    std::vector<T> types(n + 1, T::Roller);
-    types[0] = T::Pinned;
-    std::vector<double> lengths(n);
-    for (auto& L : lengths) L = 2 + 8 * U(rng);
-    Beam b = make<double>(types, lengths);
-    for (auto& sp : b.spans) sp.EI = 1e4 * (1 + 9 * U(rng));
-    if (trial % 3 == 0) b.supports[static_cast<std::size_t>(U(rng) * double(n + 1))].settlement = 0.01 * U(rng);
-    for (std::size_t i = 0; i < n; ++i) {
-      const double L = lengths[i], a = L * (0.1 + 0.8 * U(rng)), c = a + (L - a) * U(rng);
-      switch (static_cast<int>(U(rng) * 5)) {
-        case 0: b.loads.push_back(span_udl<double>(i, 0.0, L, 1 + 9 * U(rng))); break;
-        case 1: b.loads.push_back(span_udl<double>(i, a, c, 1 + 9 * U(rng))); break;
-        case 2: b.loads.push_back(span_linear<double>(i, a, c, 9 * U(rng), 9 * U(rng))); break;
-        case 3: b.loads.push_back(span_point<double>(i, a, 1 + 20 * U(rng))); break;
-        default: b.loads.push_back(span_couple<double>(i, trial % 2 ? a : 0.0, 20 * U(rng) - 10)); break;
-      }
-      if (U(rng) < 0.5) b.loads.push_back(span_point<double>(i, a, 5 * U(rng)));
+// Many loads on one span. A span with more than 16 loads is evaluated by
+// `at` from running sums sorted by position (O(log N) a call); a span with
+// fewer sums its loads one by one. Superposition (law): the beam under all
+// the loads equals the sum of the beam under each load alone, and each of
+// those has one load, so this compares the running sums against the
+// load-by-load sums through the public solve. In exact arithmetic the two
+// must agree exactly, at every station, on both sides of every load.
+template <class R>
+BasicBeam<R> many_loads_beam(unsigned seed, int count, bool shuffle) {
+  std::mt19937 rng(seed);
+  auto frac = [&](int den) { return R(static_cast<int>(rng() % static_cast<unsigned>(den - 1)) + 1) / R(den); };
+  BasicBeam<R> b = make<R>({T::Fixed, T::Roller, T::Free}, {R(6), R(2)}, R(1000));
+  const R L = b.spans[0].length;
+  for (int i = 0; i < count; ++i) {
+    const R a = L * frac(64), c = a + (L - a) * frac(16);
+    const R w = R(static_cast<int>(rng() % 19u) - 9) / R(4);
+    switch (i % 6) {
+      case 0: case 1: b.loads.push_back(span_point<R>(0, a, w + R(5))); break;
+      case 2: b.loads.push_back(span_couple<R>(0, i % 12 == 2 ? R(0) : (i % 12 == 8 ? L : a), w)); break;
+      case 3: b.loads.push_back(span_udl<R>(0, a, c, w)); break;
+      case 4: b.loads.push_back(span_linear<R>(0, a, c, w, R(2) - w)); break;
+      default: b.loads.push_back(span_point<R>(0, L / R(2), R(3))); break;  // several at one position
     }
-    Beam g = b;
-    g.loads.push_back(node_point<double>(0, 0.0));
-    const auto st = build_stations(b, 4);
-    const Solution fast = sd::solve(b, st), general = sd::solve(g, st);
-    ASSERT_EQ(fast.status, MethodStatus::Ok) << fast.reason;
-    ASSERT_EQ(general.status, MethodStatus::Ok) << general.reason;
-    double scale = 0;
-    for (const auto& nr : general.nodes) scale = std::max({scale, std::abs(nr.reaction_force), std::abs(nr.moment_left.value_or(0))});
-    const double tol = 1e-13 * std::max(scale, 1.0);
-    for (std::size_t i = 0; i <= n; ++i) {
-      const auto& f = fast.nodes[i];
-      const auto& r = general.nodes[i];
-      EXPECT_NEAR(f.reaction_force, r.reaction_force, tol) << "trial " << trial << " node " << i;
-      EXPECT_NEAR(f.moment_left.value_or(0), r.moment_left.value_or(0), tol) << "trial " << trial << " node " << i;
-      EXPECT_NEAR(f.moment_right.value_or(0), r.moment_right.value_or(0), tol) << "trial " << trial << " node " << i;
-      EXPECT_NEAR(f.rotation_left, r.rotation_left, 1e-13 * std::max(std::abs(r.rotation_left), 1e-9));
-      EXPECT_NEAR(f.deflection, r.deflection, 1e-15);
+  }
+  b.loads.push_back(span_udl<R>(1, R(0), R(2), R(1)));
+  b.loads.push_back(node_point<R>(2, R(4)));
+  if (shuffle) std::shuffle(b.loads.begin(), b.loads.end(), rng);
+  return b;
+}
+
+TEST(ManyLoadsOnASpan, RunningSumsEqualTheLoadByLoadSumExactly) {
+  using X = Exact;
+  for (unsigned seed : {1u, 2u}) {
+    const BasicBeam<X> all = many_loads_beam<X>(seed, 40, seed == 2u);
+    const auto st = build_stations(all, 3);
+    const auto s = sd::solve(all, st);
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    std::vector<BasicSolution<X>> parts;
+    for (const auto& l : all.loads) {
+      BasicBeam<X> one = all;
+      one.loads = {l};
+      parts.push_back(sd::solve(one, st));
+      ASSERT_EQ(parts.back().status, MethodStatus::Ok) << parts.back().reason;
     }
+    std::size_t checked = 0;
     for (const auto& x : st) {
-      const PointValues pf = fast.at(x.span, x.local, x.after), pg = general.at(x.span, x.local, x.after);
-      EXPECT_NEAR(pf.moment, pg.moment, tol) << "trial " << trial;
-      EXPECT_NEAR(pf.shear, pg.shear, tol) << "trial " << trial;
-      EXPECT_NEAR(pf.deflection, pg.deflection, 1e-13 * std::max(std::abs(pg.deflection), 1e-9)) << "trial " << trial;
+      BasicPointValues<X> sum;
+      for (const auto& p : parts) {
+        const auto v = p.at(x.span, x.local, x.after);
+        sum.shear += v.shear; sum.moment += v.moment; sum.deflection += v.deflection; sum.rotation += v.rotation;
+      }
+      const auto v = s.at(x.span, x.local, x.after);
+      EXPECT_TRUE(v.shear == sum.shear) << "seed " << seed << " x " << x.x;
+      EXPECT_TRUE(v.moment == sum.moment) << "seed " << seed << " x " << x.x;
+      EXPECT_TRUE(v.deflection == sum.deflection) << "seed " << seed << " x " << x.x;
+      EXPECT_TRUE(v.rotation == sum.rotation) << "seed " << seed << " x " << x.x;
+      ++checked;
     }
+    EXPECT_GT(checked, 40u);  // every division, load point and both sides of each
+    for (std::size_t i = 0; i < all.node_count(); ++i) {
+      X ml{0}, mr{0}, r{0};
+      for (const auto& p : parts) {
+        ml += p.nodes[i].moment_left.value_or(X(0));
+        mr += p.nodes[i].moment_right.value_or(X(0));
+        r += p.nodes[i].reaction_force;
+      }
+      EXPECT_TRUE(s.nodes[i].moment_left.value_or(X(0)) == ml) << "node " << i;
+      EXPECT_TRUE(s.nodes[i].moment_right.value_or(X(0)) == mr) << "node " << i;
+      EXPECT_TRUE(s.nodes[i].reaction_force == r) << "node " << i;
+    }
+  }
+}
+
+// The same in double, with a short steep linear load among the others (the
+// running slope must leave no residue behind it): to rounding, 1e-12 of
+// the largest magnitude of each quantity.
+TEST(ManyLoadsOnASpan, RunningSumsAgreeToRoundingInDouble) {
+  Beam all = beam_cast<double>(many_loads_beam<Exact>(3u, 60, false));
+  all.loads.push_back(span_linear<double>(0, 2.0, 2.0 + 1e-4, 50.0, -30.0));
+  const auto st = build_stations(all, 5);
+  const Solution s = sd::solve(all, st);
+  ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+  std::vector<Solution> parts;
+  for (const auto& l : all.loads) {
+    Beam one = all;
+    one.loads = {l};
+    parts.push_back(sd::solve(one, st));
+    ASSERT_EQ(parts.back().status, MethodStatus::Ok) << parts.back().reason;
+  }
+  std::vector<PointValues> sums;
+  double vs = 1e-300, ms = 1e-300, ds = 1e-300, rs = 1e-300;
+  for (const auto& x : st) {
+    PointValues sum;
+    for (const auto& p : parts) {
+      const PointValues v = p.at(x.span, x.local, x.after);
+      sum.shear += v.shear; sum.moment += v.moment; sum.deflection += v.deflection; sum.rotation += v.rotation;
+    }
+    vs = std::max(vs, std::abs(sum.shear)); ms = std::max(ms, std::abs(sum.moment));
+    ds = std::max(ds, std::abs(sum.deflection)); rs = std::max(rs, std::abs(sum.rotation));
+    sums.push_back(sum);
+  }
+  for (std::size_t k = 0; k < st.size(); ++k) {
+    const PointValues v = s.at(st[k].span, st[k].local, st[k].after);
+    EXPECT_NEAR(v.shear, sums[k].shear, 1e-12 * vs) << "x " << st[k].x;
+    EXPECT_NEAR(v.moment, sums[k].moment, 1e-12 * ms) << "x " << st[k].x;
+    EXPECT_NEAR(v.deflection, sums[k].deflection, 1e-12 * ds) << "x " << st[k].x;
+    EXPECT_NEAR(v.rotation, sums[k].rotation, 1e-12 * rs) << "x " << st[k].x;
   }
 }
 
@@ -1581,6 +1639,179 @@ TEST(SlopeDeflectionPublished, TwoFixedEndsOneSpanLoadedDerived) {
   EXPECT_NEAR(*s.nodes[2].moment_left, wL2 / 48, 1e-9 * wL2);
   const double theta = -w * L * L * L / (96 * EI);
   EXPECT_NEAR(s.nodes[1].rotation_left, theta, 1e-9 * std::abs(theta));
+}
+
+
+// ---------------------------------------------------------------------------
+// The fused route of the common beam (fused.h) against the general path
+// (detail::solve_general) on seeded random common beams: pinned, roller and
+// fixed supports with settlements, every span load type in span order
+// (points, couples also at the span ends, partial and whole uniform loads,
+// linear loads), some spans with more than 16 loads (the running sums of
+// span_curve.h). Node results and `at` at every station are compared. In
+// double both routes do the same operations in the same order, but the
+// check does not rely on that: each value within 1e-13 of the largest
+// magnitude of its quantity over the beam (not bitwise). In exact
+// arithmetic both give the beam's one exact solution: exactly equal.
+
+struct CommonBeams {
+  std::mt19937 rng{20261204u};
+  double uni(double a, double b) { return std::uniform_real_distribution<double>(a, b)(rng); }
+  int pick(int n) { return std::uniform_int_distribution<int>(0, n - 1)(rng); }
+
+  Beam beam(int max_spans, int max_loads) {
+    const int n = 1 + pick(max_spans);
+    Beam b;
+    for (int i = 0; i < n; ++i) b.spans.push_back({uni(2, 8), uni(500, 3000)});
+    const T kinds[] = {T::Fixed, T::Pinned, T::Roller};
+    for (int i = 0; i <= n; ++i) {
+      Support s;
+      s.type = kinds[pick(3)];
+      if (pick(3) == 0) s.settlement = uni(-0.01, 0.01);
+      b.supports.push_back(s);
+      b.labels.push_back("N" + std::to_string(i));
+    }
+    for (int s = 0; s < n; ++s) {
+      const double L = b.spans[static_cast<std::size_t>(s)].length;
+      const std::size_t us = static_cast<std::size_t>(s);
+      const int count = pick(5) == 0 ? 17 + pick(8) : pick(max_loads + 1);
+      for (int k = 0; k < count; ++k) {
+        const double p = uni(0, L), q = uni(0, L);
+        const double lo = std::min(p, q), hi = std::max(p, q);
+        switch (pick(5)) {
+          case 0: b.loads.push_back(span_point<double>(us, L * uni(0.05, 0.95), uni(-10, 10))); break;
+          case 1: {
+            const int where = pick(4);  // 0: at the start, 1: at the end, else inside
+            const double a = where == 0 ? 0.0 : where == 1 ? L : L * uni(0.01, 0.99);
+            b.loads.push_back(span_couple<double>(us, a, uni(-10, 10)));
+            break;
+          }
+          case 2: b.loads.push_back(span_udl<double>(us, lo, hi, uni(-5, 5))); break;
+          case 3: b.loads.push_back(span_udl<double>(us, 0.0, L, uni(-5, 5))); break;
+          case 4: b.loads.push_back(span_linear<double>(us, lo, hi, uni(-5, 5), uni(-5, 5))); break;
+        }
+      }
+    }
+    return b;
+  }
+};
+
+// Largest magnitude of each node quantity and each station quantity.
+template <class R>
+std::vector<R> node_fields(const BasicNodeResult<R>& nr) {
+  return {nr.x, nr.moment_left.value_or(R(0)), nr.moment_right.value_or(R(0)), nr.reaction_force,
+          nr.reaction_moment, nr.deflection, nr.rotation_left, nr.rotation_right};
+}
+template <class R>
+std::vector<R> point_fields(const BasicPointValues<R>& v) {
+  return {v.shear, v.moment, v.deflection, v.rotation};
+}
+
+TEST(FusedRoute, AgreesWithTheGeneralPathInDouble) {
+  CommonBeams gen;
+  int running = 0, fixed = 0, settled = 0, end_couples = 0;
+  for (int trial = 0; trial < 400; ++trial) {
+    const Beam b = gen.beam(8, 6);
+    const std::vector<Station> st = build_stations(b, 5);
+    Solution fast;
+    ASSERT_TRUE(sd::detail::solve_fused(b, fast)) << "trial " << trial;
+    const Solution gen_s = sd::detail::solve_general(b, st);
+    ASSERT_EQ(fast.status, MethodStatus::Ok);
+    ASSERT_EQ(gen_s.status, MethodStatus::Ok) << gen_s.reason;
+    ASSERT_EQ(fast.nodes.size(), gen_s.nodes.size());
+    for (std::size_t i = 0; i < b.supports.size(); ++i) {
+      fixed += b.supports[i].type == T::Fixed;
+      settled += std::fabs(b.supports[i].settlement) > 0;
+      EXPECT_EQ(fast.nodes[i].moment_left.has_value(), gen_s.nodes[i].moment_left.has_value());
+      EXPECT_EQ(fast.nodes[i].moment_right.has_value(), gen_s.nodes[i].moment_right.has_value());
+    }
+    for (std::size_t s = 0; s < b.spans.size(); ++s) {
+      std::size_t on = 0;
+      for (const auto& l : b.loads) {
+        on += l.index == s;
+        if (l.index == s && l.type == LoadType::Couple && (!(l.at > 0) || !(l.at < b.spans[s].length))) ++end_couples;
+      }
+      running += on > 16;
+    }
+    // Nodes: 8 quantities; stations: 4.
+    std::vector<double> nmax(8, 0.0), pmax(4, 0.0);
+    std::vector<std::vector<double>> nf, ng, pf, pg;
+    for (std::size_t i = 0; i < fast.nodes.size(); ++i) {
+      nf.push_back(node_fields(fast.nodes[i]));
+      ng.push_back(node_fields(gen_s.nodes[i]));
+    }
+    for (const Station& x : st) {
+      pf.push_back(point_fields(fast.at(x.span, x.local, x.after)));
+      pg.push_back(point_fields(gen_s.at(x.span, x.local, x.after)));
+    }
+    for (std::size_t i = 0; i < nf.size(); ++i)
+      for (std::size_t q = 0; q < 8; ++q) nmax[q] = std::max({nmax[q], std::fabs(nf[i][q]), std::fabs(ng[i][q])});
+    for (std::size_t i = 0; i < pf.size(); ++i)
+      for (std::size_t q = 0; q < 4; ++q) pmax[q] = std::max({pmax[q], std::fabs(pf[i][q]), std::fabs(pg[i][q])});
+    for (std::size_t i = 0; i < nf.size(); ++i)
+      for (std::size_t q = 0; q < 8; ++q)
+        EXPECT_NEAR(nf[i][q], ng[i][q], 1e-13 * nmax[q]) << "trial " << trial << " node " << i << " quantity " << q;
+    for (std::size_t i = 0; i < pf.size(); ++i)
+      for (std::size_t q = 0; q < 4; ++q)
+        EXPECT_NEAR(pf[i][q], pg[i][q], 1e-13 * pmax[q]) << "trial " << trial << " station " << i << " quantity " << q;
+  }
+  // The generator reached what it is meant to exercise.
+  EXPECT_GT(running, 50);
+  EXPECT_GT(fixed, 300);
+  EXPECT_GT(settled, 300);
+  EXPECT_GT(end_couples, 100);
+}
+
+TEST(FusedRoute, EqualsTheGeneralPathExactly) {
+  using X = Exact;
+  CommonBeams gen;
+  for (int trial = 0; trial < 40; ++trial) {
+    const auto b = beam_cast<X>(gen.beam(4, 3));
+    const auto st = build_stations(b, 3);
+    BasicSolution<X> fast;
+    ASSERT_TRUE(sd::detail::solve_fused(b, fast)) << "trial " << trial;
+    const auto gen_s = sd::detail::solve_general(b, st);
+    ASSERT_EQ(gen_s.status, MethodStatus::Ok) << gen_s.reason;
+    ASSERT_EQ(fast.nodes.size(), gen_s.nodes.size());
+    for (std::size_t i = 0; i < fast.nodes.size(); ++i)
+      EXPECT_TRUE(node_fields(fast.nodes[i]) == node_fields(gen_s.nodes[i])) << "trial " << trial << " node " << i;
+    for (const auto& x : st)
+      EXPECT_TRUE(point_fields(fast.at(x.span, x.local, x.after)) == point_fields(gen_s.at(x.span, x.local, x.after)))
+          << "trial " << trial << " span " << x.span;
+  }
+}
+
+// What the fused route leaves to the general path: the same answers as
+// before through solve() (the general path gives the reasons), and the
+// route itself declines.
+TEST(FusedRoute, DeclinesWhatItDoesNotCover) {
+  Beam b = make({T::Pinned, T::Roller, T::Roller}, {4.0, 5.0});
+  b.loads = {span_udl<double>(0, 0.0, 4.0, 2.0), span_point<double>(1, 2.0, 3.0)};
+  Solution out;
+  EXPECT_TRUE(sd::detail::solve_fused(b, out));
+  Beam hinge = b;
+  hinge.supports[1].type = T::Free;
+  hinge.supports[1].hinge = true;
+  Beam node_load = b;
+  node_load.loads.push_back(node_point<double>(1, 1.0));
+  Beam out_of_order = b;
+  std::swap(out_of_order.loads[0], out_of_order.loads[1]);
+  Beam spring = b;
+  spring.supports[1].type = T::Spring;
+  spring.supports[1].k = 100;
+  Beam bad_load = b;
+  bad_load.loads[1].at = 5.0;  // at the span's end: the general path names it
+  for (const Beam* d : {&hinge, &node_load, &out_of_order, &spring, &bad_load}) {
+    Solution o;
+    EXPECT_FALSE(sd::detail::solve_fused(*d, o));
+  }
+  // Out of order, the general path gives the answer of the ordered loads.
+  const Solution a = sd::solve(b, {}), c = sd::solve(out_of_order, {});
+  ASSERT_EQ(c.status, MethodStatus::Ok) << c.reason;
+  EXPECT_NEAR(*a.nodes[1].moment_left, *c.nodes[1].moment_left, 1e-12 * std::fabs(*a.nodes[1].moment_left));
+  const Solution e = sd::solve(bad_load, {});
+  EXPECT_EQ(e.status, MethodStatus::NotApplicable);
+  EXPECT_NE(e.reason.find("span 2"), std::string::npos) << e.reason;
 }
 
 }  // namespace

@@ -28,6 +28,12 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
 
 namespace detail {
 
+// The general path alone: every beam the method covers, through the banded
+// system of band.h. solve() takes a fused route for the common beam
+// (fused.h) and this for the rest; the tests compare the two.
+template <class R>
+BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations);
+
 // A pair of values at the two ends of a span (left end i, right end j).
 template <class R>
 struct EndPair {
@@ -57,6 +63,12 @@ extern template BasicSolution<Exact> solve<Exact>(const BasicBeam<Exact>&,
                                                   const std::vector<BasicStation<Exact>>&);
 
 namespace detail {
+extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&,
+                                                            const std::vector<BasicStation<double>>&);
+extern template BasicSolution<Extended> solve_general<Extended>(const BasicBeam<Extended>&,
+                                                                const std::vector<BasicStation<Extended>>&);
+extern template BasicSolution<Exact> solve_general<Exact>(const BasicBeam<Exact>&,
+                                                          const std::vector<BasicStation<Exact>>&);
 extern template EndPair<double> fixed_end_moments<double>(const BasicLoad<double>&, const double&);
 extern template EndPair<Extended> fixed_end_moments<Extended>(const BasicLoad<Extended>&, const Extended&);
 extern template EndPair<Exact> fixed_end_moments<Exact>(const BasicLoad<Exact>&, const Exact&);
