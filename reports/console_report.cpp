@@ -94,6 +94,17 @@ std::string sci(double v) {
 
 }  // namespace
 
+LimitsBrief limits_brief(const LoadSet& set) {
+  LimitsBrief b;
+  double largest = 0;
+  for (const auto& d : set.deflection_checks) {
+    b.over += !d.holds;
+    largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
+  }
+  b.decimals = decimals_for(largest) + 1;
+  return b;
+}
+
 void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt) {
   // The file name and the title as text for a terminal (a title may hold
   // control characters; they are shown escaped, never sent raw).
@@ -112,13 +123,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
   // limits"); on a long beam only the spans over it, and a count.
   auto limits = [&](const LoadSet& set) {
     if (set.deflection_checks.empty()) return;
-    std::size_t over = 0;
-    double largest = 0;
-    for (const auto& d : set.deflection_checks) {
-      over += !d.holds;
-      largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
-    }
-    const int dd = decimals_for(largest) + 1;
+    const auto [over, dd] = limits_brief(set);
     const bool cut = !opt.all_rows && set.deflection_checks.size() > opt.max_rows;
     Table t;
     t.head = {"span", "limit", "max deflection [" + L + "]", "at x [" + L + "]", "allowed [" + L + "]", "span/deflection", "holds"};

@@ -563,13 +563,7 @@ struct Writer {
     against_summary(b);
     for (const auto& set : b.sets) {
       if (set.deflection_checks.empty()) continue;
-      std::size_t over = 0;
-      double largest = 0;
-      for (const auto& d : set.deflection_checks) {
-        over += !d.holds;
-        largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
-      }
-      const int dd = decimals_for(largest) + 1;
+      const auto [over, dd] = limits_brief(set);
       o << "<h3>Deflection limits, " << html_escape(set.name) << " (" << over << " of " << set.deflection_checks.size()
         << " spans over)</h3>\n";
       o << "<table><tr><th>span</th><th>limit</th><th>max deflection [" << html_escape(b.units.length)

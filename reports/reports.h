@@ -80,4 +80,12 @@ std::string fixed(double v, int decimals);
 // Decimals that give about 4 significant digits to the largest magnitude.
 int decimals_for(double largest);
 
+// A load set's deflection checks in brief: how many spans are over their
+// limit, and the decimals that show the largest deflection or allowance.
+struct LimitsBrief {
+  std::size_t over = 0;
+  int decimals = 0;
+};
+LimitsBrief limits_brief(const compare::LoadSet& set);
+
 }  // namespace trivet::reports
