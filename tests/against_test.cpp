@@ -534,6 +534,18 @@ TEST_F(Against, ReactionsPassAndShiftedLabelsAreFound) {
   const Summary* rc = summary(c, Quantity::ReactionForce);
   ASSERT_TRUE(rc->finding);
   EXPECT_EQ(rc->finding->shift, -1);
+  // All four, B..E: E, the letter after the beam's last, is a node beyond
+  // the end (not an unreadable row), so the shift is found on every row.
+  std::string all_ahead = "support,force\n";
+  for (std::size_t k = 0; k < 4; ++k)
+    all_ahead += std::string(1, static_cast<char>('B' + k)) + "," + format_number(nodes[k].reaction_force) + "\n";
+  Comparison e = run(all_ahead);
+  ASSERT_TRUE(e.ok()) << ::testing::PrintToString(messages(e));
+  EXPECT_FALSE(e.holds());
+  const Summary* re = summary(e, Quantity::ReactionForce);
+  ASSERT_TRUE(re->finding);
+  EXPECT_EQ(re->finding->shift, -1);
+  EXPECT_EQ(re->compared, 4u);
 
   // Down-positive reactions.
   std::string down = "support,force\n";

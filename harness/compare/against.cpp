@@ -1236,6 +1236,18 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
         if (beam.labels[k] == text) { node = static_cast<long>(k); found = true; }
       for (std::size_t k = 0; k < beam.labels.size() && !found; ++k)
         if (lower(beam.labels[k]) == lower(text)) { node = static_cast<long>(k); found = true; }
+      // The next name of the beam's own lettering past its last node (E after
+      // A to D): a node beyond the end, as a number past the last would be,
+      // so that labels shifted by one are found (the diagnosis below).
+      if (!found && beam.labels.size() == beam.node_count()) {
+        bool default_lettering = true;
+        for (std::size_t k = 0; k < beam.labels.size() && default_lettering; ++k)
+          default_lettering = beam.labels[k] == input::default_label(k);
+        if (default_lettering && lower(text) == lower(input::default_label(beam.node_count()))) {
+          node = static_cast<long>(beam.node_count());
+          found = true;
+        }
+      }
       if (!found) {
         auto v = number(text);
         if (text.empty()) {
