@@ -94,6 +94,15 @@ std::string sci(double v) {
 
 }  // namespace
 
+namespace {
+// Six significant digits: what a person compares (the JSON keeps every digit).
+std::string sig6(double v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.6g", v);
+  return buf;
+}
+}  // namespace
+
 LimitsBrief limits_brief(const LoadSet& set) {
   LimitsBrief b;
   double largest = 0;
@@ -359,21 +368,22 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     t.head = {"quantity", "rows", "failing", "worst difference", "at", "tolerance"};
     for (const auto& q : cmp->summary) {
       t.rows.push_back({ag::quantity_name(q.quantity), std::to_string(q.compared), std::to_string(q.failing),
-                        input::format_number(q.worst_difference), q.worst_where, input::format_number(q.tolerance)});
+                        sig6(q.worst_difference), q.worst_where, sig6(q.tolerance)});
       if (q.finding) t.rows.push_back({"    " + paint("finding: " + q.finding->text, kYellow, opt.color)});
       else if (!q.note.empty()) t.rows.push_back({"    note: " + q.note});
       if (q.empty > 0)
         t.rows.push_back({"    " + std::to_string(q.empty) + (q.empty == 1 ? " cell" : " cells") + " of this column empty: not compared"});
     }
     t.print(out, "  ");
+    for (const auto& n : cmp->notes) out << "    note: " << n << "\n";
     std::size_t shown = 0;
     for (const auto& r : cmp->rows)
       for (const auto& c : r.cells) {
         if (c.holds || shown >= 10) continue;
         ++shown;
         out << "    line " << r.line << ", " << r.where << ": " << ag::quantity_name(c.quantity) << " theirs "
-            << input::format_number(c.theirs) << ", ours " << input::format_number(c.ours) << ", difference "
-            << input::format_number(c.difference) << " (tolerance " << input::format_number(c.tolerance) << ")"
+            << sig6(c.theirs) << ", ours " << sig6(c.ours) << ", difference "
+            << sig6(c.difference) << " (tolerance " << sig6(c.tolerance) << ")"
             << (c.reason.empty() ? "" : ": " + c.reason) << "\n";
       }
     if (cmp->failing() > shown) out << "    ... " << cmp->failing() - shown << " more failing values in the JSON report\n";

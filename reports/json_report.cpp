@@ -463,6 +463,10 @@ void against_results(JsonWriter& w, const Report& b) {
     w.begin_array();
     for (const auto& e : c->errors) w.value(e.format(c->file));
     w.end_array();
+    w.key("notes");
+    w.begin_array();
+    for (const auto& n : c->notes) w.value(n);
+    w.end_array();
     w.key("summary");
     w.begin_array();
     for (const auto& q : c->summary) {

@@ -1079,3 +1079,20 @@ TEST_F(Against, UnitsInTheHeaderOrInARowBelowIt) {
 
 }  // namespace
 }  // namespace trivet::compare::against
+
+namespace trivet::compare::against {
+namespace {
+
+TEST_F(Against, AColumnNotComparedIsNamed) {
+  const auto rows = truth();
+  std::string text = "x,moment,rotation\n";
+  for (const auto& r : rows) text += format_number(r.x) + "," + format_number(r.moment) + ",0\n";
+  Comparison c = run(text);
+  ASSERT_TRUE(c.ok()) << ::testing::PrintToString(messages(c));
+  EXPECT_TRUE(c.holds());
+  ASSERT_EQ(c.notes.size(), 1u);
+  EXPECT_NE(c.notes[0].find("column 3 (\"rotation\") is not compared"), std::string::npos) << c.notes[0];
+}
+
+}  // namespace
+}  // namespace trivet::compare::against

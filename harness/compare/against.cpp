@@ -1151,6 +1151,22 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
     }
   }
 
+  // Columns read but not compared are named, never skipped without a word.
+  {
+    std::vector<char> used(table.header.size(), 0);
+    for (std::size_t c : {c_support, c_x, c_span, c_local})
+      if (c != kNone && c < used.size()) used[c] = 1;
+    for (std::size_t c : c_value)
+      if (c != kNone && c < used.size()) used[c] = 1;
+    for (std::size_t c = 0; c < table.header.size(); ++c)
+      if (!used[c])
+        out.notes.push_back("column " + std::to_string(c + 1) + " (\"" + input::printable_text(table.header[c], 40) +
+                            "\") is not compared: trivet compares " +
+                            (stations ? (set->envelope ? "the envelope's moment, shear and deflection columns"
+                                                       : "shear, moment and deflection")
+                                      : (set->envelope ? "reaction_max and reaction_min" : "force and moment")) +
+                            " (name a column with --column if it is one of these)");
+  }
   // Columns with a unit of their own (header or units row).
   const double kx = column_factor(c_x, {0, 1}, kl), kxl = column_factor(c_local, {0, 1}, kl);
   const std::string lux = c_x != kNone && !col_unit[c_x].empty() ? col_unit[c_x] : lu;

@@ -233,6 +233,9 @@ struct Comparison {
   std::vector<Summary> summary;  // one per quantity compared, in Quantity order
   std::vector<Error> errors;     // nothing was compared when not empty
   std::size_t errors_not_listed = 0;
+  // Plain words about what was read but not compared (a column trivet does
+  // not compare, such as a rotation).
+  std::vector<std::string> notes;
   bool ok() const { return errors.empty(); }
   // True when the file was read and every compared value holds.
   bool holds() const;
