@@ -295,10 +295,12 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
         i = ns - opt.max_rows / 2;
       }
       const SpanExtremes& x = set.extremes[i];
-      e.rows.push_back({std::to_string(i + 1), x.max_moment > 0 ? fixed(x.max_moment, dm) : "-",
-                        x.max_moment > 0 ? fixed(x.max_moment_x, dx) : "",
-                        x.min_moment < 0 ? fixed(x.min_moment, dm) : "-",
-                        x.min_moment < 0 ? fixed(x.min_moment_x, dx) : "", fixed(x.max_deflection, dd),
+      // Sagging or hogging below the rounding of the beam's largest moment
+      // is none ("-"), not "0.00" at some point.
+      const double none = 1e-12 * set.scale[static_cast<int>(Kind::Moment)];
+      const bool sag = x.max_moment > none, hog = x.min_moment < -none;
+      e.rows.push_back({std::to_string(i + 1), sag ? fixed(x.max_moment, dm) : "-", sag ? fixed(x.max_moment_x, dx) : "",
+                        hog ? fixed(x.min_moment, dm) : "-", hog ? fixed(x.min_moment_x, dx) : "", fixed(x.max_deflection, dd),
                         fixed(x.max_deflection_x, dx)});
     }
     out << "\n";
