@@ -1168,6 +1168,23 @@ std::string render(const PlotData& data, const RenderOptions& options, std::stri
   }
   if (options.format == ImageFormat::Svg && image.find("</svg>") == std::string::npos)
     return fail("gnuplot wrote an incomplete SVG");
+  if (options.format == ImageFormat::Svg) {
+    // The picture's title is the beam's, not the plotting program's name.
+    const std::string generic = "<title>Gnuplot</title>";
+    if (const auto at = image.find(generic); at != std::string::npos) {
+      std::string t;
+      for (char c : data.title + (data.subtitle.empty() ? std::string() : " - " + data.subtitle)) {
+        switch (c) {
+          case '&': t += "&amp;"; break;
+          case '<': t += "&lt;"; break;
+          case '>': t += "&gt;"; break;
+          case '"': t += "&quot;"; break;
+          default: t += static_cast<unsigned char>(c) < 0x20 ? ' ' : c;
+        }
+      }
+      image.replace(at, generic.size(), "<title>" + t + "</title>");
+    }
+  }
   return image;
 }
 

@@ -387,6 +387,10 @@ TEST(Render, SvgText) {
   // The legend names the methods; the axes carry units.
   for (const char* s : {"three-moment", "slope-deflection", "stiffness", "x [m]", "shear [kN]", "claim (fails)"})
     EXPECT_NE(svg.find(s), std::string::npos) << s;
+  // The picture's title is the beam's, not the plotting program's name.
+  EXPECT_EQ(svg.find("<title>Gnuplot</title>"), std::string::npos);
+  const reports::PlotData pd = plot_data(sample(), 0);
+  EXPECT_NE(svg.find("<title>" + pd.title), std::string::npos) << pd.title;
   // An envelope set: one legend entry per method for the pair, the combination written.
   std::size_t si = 0;
   const reports::Report eb = envelope_sample(&si);
