@@ -284,7 +284,8 @@ struct Writer {
       ro.format = ImageFormat::Svg;
       ro.width = opt.plot_width;
       ro.height = opt.plot_height;
-      const PlotData data = thinned(plot_data(b, si), opt.max_points);
+      PlotData data = thinned(plot_data(b, si), opt.max_points);
+      data.agreement = opt.agreement;
       std::string err;
       const std::string svg = render(data, ro, &err);
       if (svg.empty()) {

@@ -40,6 +40,7 @@ struct HtmlOptions {
   std::vector<HtmlSection> extra_sections;
   // More beams than this: the agreeing ones are listed folded.
   std::size_t fold_agreeing_after = 20;
+  double agreement = 1e-6;  // --agreement, drawn in the plots' difference panels
 };
 
 struct HtmlStats {

@@ -780,7 +780,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   lay.W = std::max(320, opt.width);
   lay.H = std::max(400, opt.height);
   lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
-  lay.left = 112;
+  lay.left = 136;
   if (!d.combination.empty()) lay.top += 16;
   if (d.envelope) lay.right = std::min(lay.right + 40, 0.3 * lay.W);  // "slope-deflection max/min"
 
@@ -1000,10 +1000,22 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
       for (const auto& c : p.others)
         if (std::isfinite(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
       if (p.kind == PanelKind::Difference) {
-        const double m = std::max({std::abs(lo), std::abs(hi), 1e-16});
+        // Scaled to the agreement bound at least, so that rounding noise far
+        // below it does not fill the panel; the bound drawn, and said when
+        // every difference is within it.
+        const double a = d.agreement > 0 ? d.agreement : 1e-6;
+        const double worst = std::max(std::abs(lo), std::abs(hi));
+        const double m = std::max({worst, a, 1e-16});
         lo = -1.25 * m;
         hi = 1.25 * m;
-        gp << "set format y \"%.1e\"\n";
+        gp << "set format y \"%.0e\"\n";
+        for (double b : {a, -a})
+          gp << "set arrow from graph 0, first " << num(b) << " to graph 1, first " << num(b)
+             << " nohead back lc rgb \"#b03030\" lw 1 dt (6,4)\n";
+        char text[96];
+        if (worst <= a) std::snprintf(text, sizeof text, "all within %.0e (the agreement bound, dashed)", a);
+        else std::snprintf(text, sizeof text, "largest %.1e: beyond the agreement bound %.0e (dashed)", worst, a);
+        gp << "set label 9101 " << gq(text) << " at graph 0.01, graph 0.93 left front font \",8\" textcolor rgb \"#222222\" noenhanced\n";
       } else {
         double r = hi - lo;
         if (!(r > 0)) r = 1;
@@ -1013,7 +1025,9 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
       }
       if (p.drawn_down) gp << "set yrange [" << num(hi) << ":" << num(lo) << "]\n";
       else gp << "set yrange [" << num(lo) << ":" << num(hi) << "]\n";
-      gp << "set ylabel " << gq(p.ylabel) << " offset 1,0 font \",9\"\n";
+      // Left of the tick labels, never over them (a covered minus sign would
+      // turn hogging into sagging for the reader).
+      gp << "set ylabel " << gq(p.ylabel) << " offset -2.5,0 font \",9\"\n";
       if (last) gp << "set format x \"%g\"\nset xlabel " << gq(d.x_label) << "\n";
       else gp << "set format x \"\"\nunset xlabel\n";
       gp << "set key at screen " << num(lay.fx(lay.W - lay.right + 14)) << ", screen " << num(lay.fy(y_px))

@@ -108,6 +108,8 @@ struct SketchLoad {
 };
 
 struct PlotData {
+  // The agreement bound (--agreement): drawn in the difference panel.
+  double agreement = 1e-6;
   std::string title;     // the beam's title or file
   std::string subtitle;  // "load set: loads; verdict: agree"
   // A combination: "1.2 x dead + 1.6 x live; live patterned span by span
