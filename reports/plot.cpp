@@ -996,7 +996,14 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
       for (const auto& c : p.curves)
         for (double v : c.y)
           if (std::isfinite(v)) { lo = std::min(lo, v); hi = std::max(hi, v); }
-      for (const auto& c : p.claims) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
+      // A claim far outside the results (5.72 claimed for a deflection of
+      // 0.00572) does not rescale the axis and flatten the real curves: it
+      // is drawn at the edge, with an arrow and its value.
+      const double curve_lo = lo, curve_hi = hi;
+      const double curve_span = std::max(curve_hi - curve_lo, 1e-300);
+      auto on_scale = [&](double y) { return y >= curve_lo - 0.5 * curve_span && y <= curve_hi + 0.5 * curve_span; };
+      for (const auto& c : p.claims)
+        if (on_scale(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
       for (const auto& c : p.others)
         if (std::isfinite(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
       if (p.kind == PanelKind::Difference) {
@@ -1042,10 +1049,27 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         gp << "set label " << gq(l.text) << " at first " << num(l.x) << ",first " << num(l.y) << " center offset 0,"
            << (up ? "0.8" : "-0.8") << " front font \",8\" textcolor rgb \"#222222\" noenhanced\n";
       }
-      for (const auto& c : p.claims)
-        gp << "set label " << gq(c.text) << " at first " << num(c.x) << ",first " << num(c.y)
+      // Where each claim is drawn: at its value, or at the edge it is beyond.
+      std::vector<double> claim_y;
+      for (const auto& c : p.claims) {
+        double y = c.y;
+        std::string text = c.text;
+        if (!(y >= lo && y <= hi)) {
+          const bool above = y > hi;
+          const double edge = above ? hi : lo, back = 0.1 * (hi - lo) * (above ? -1 : 1);
+          char value[48];
+          std::snprintf(value, sizeof value, "%.4g", c.y);
+          text += std::string(" = ") + value + " (off scale)";
+          gp << "set arrow from first " << num(c.x) << ", first " << num(edge + back) << " to first " << num(c.x)
+             << ", first " << num(edge) << " head size screen 0.008,25 front lw 1.2 lc rgb \""
+             << (c.holds ? "#1d7a34" : "#b3122e") << "\"\n";
+          y = edge + back;
+        }
+        claim_y.push_back(y);
+        gp << "set label " << gq(text) << " at first " << num(c.x) << ",first " << num(y)
            << " left offset 1.2,0.2 front font \",7\" textcolor rgb \"" << (c.holds ? "#1d7a34" : "#b3122e")
            << "\" noenhanced\n";
+      }
       std::vector<std::vector<std::pair<double, double>>> series;
       std::vector<std::string> specs;
       for (const auto& c : p.curves) {
@@ -1070,8 +1094,8 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
       }
       for (int holds = 1; holds >= 0; --holds) {
         std::vector<std::pair<double, double>> pts;
-        for (const auto& c : p.claims)
-          if (c.holds == (holds == 1)) pts.emplace_back(c.x, c.y);
+        for (std::size_t ci = 0; ci < p.claims.size(); ++ci)
+          if (p.claims[ci].holds == (holds == 1)) pts.emplace_back(p.claims[ci].x, claim_y[ci]);
         if (pts.empty()) continue;
         specs.push_back(std::string("'-' with points ls ") + (holds ? "21" : "22") + " title " +
                         gq(holds ? "claim (holds)" : "claim (fails)"));

@@ -456,3 +456,30 @@ TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
 
 }  // namespace
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// A claim typed in mm for a file in m (8.4375 for a midspan deflection of
+// 5wL^4/(384EI) = 0.0084375 m; Roark's Formulas for Stress and Strain, 7th
+// ed., Table 8.1 case 2e, from memory) is drawn at the panel's edge with its
+// value, and the axis keeps the scale of the results.
+TEST(Render, AClaimFarOffScaleIsDrawnAtTheEdge) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox)";
+  const input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6, "EI": 20000}], "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}],
+    "claims": {"values": [{"quantity": "deflection", "x": 3, "value": 8.4375}]}})", "off.json");
+  ASSERT_TRUE(f.ok());
+  const Report r(compare::check(f, {}));
+  std::string err;
+  const std::string svg = render(plot_data(r, 0), ImageFormat::Svg, 800, 900, &err);
+  ASSERT_FALSE(svg.empty()) << err;
+  EXPECT_NE(svg.find("claim 1 = 8.438 (off scale)"), std::string::npos);
+  // No tick label of the deflection axis reaches the claim's 8: the largest
+  // is about the results' 0.0084 (ticks of 0.002).
+  EXPECT_EQ(svg.find("<text>8</text>"), std::string::npos);
+  EXPECT_NE(svg.find("<text>0.008</text>"), std::string::npos);
+}
+
+}  // namespace
+}  // namespace trivet::reports
