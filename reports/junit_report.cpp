@@ -44,7 +44,13 @@ std::string xml(const std::string& raw) {
   return r;
 }
 
-std::string num(double v) { return input::format_number(v); }
+// Six significant digits, as a person reads a failure message (the JSON
+// keeps every digit).
+std::string num(double v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.6g", v);
+  return buf;
+}
 
 struct Case {
   std::string name;

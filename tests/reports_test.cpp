@@ -251,3 +251,32 @@ TEST(Junit, ClassnamesHaveNoDotSuffixForViewersToSplit) {
 
 }  // namespace
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// A JUnit failure message is read by a person in a CI viewer: numbers to six
+// significant digits, not every digit of the double (the JSON keeps those).
+TEST(Junit, FailureMessagesShowReadableNumbers) {
+  // Three equal spans of 7 m, w = 9.3: values whose doubles have long tails.
+  const input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 7, "EI": 30000}, {"length": 7, "EI": 30000}, {"length": 7, "EI": 30000}],
+    "supports": ["pinned", "roller", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 9.3}, {"type": "udl", "span": 2, "w": 9.3}, {"type": "udl", "span": 3, "w": 9.3}],
+    "claims": {"values": [{"quantity": "reaction", "node": "B", "value": 1.0}]}})", "t.json");
+  ASSERT_TRUE(f.ok());
+  std::vector<Report> beams{Report(compare::check(f, {}))};
+  std::ostringstream x;
+  write_junit(x, beams, 1e-6);
+  const std::string xml = x.str();
+  const auto at = xml.find("computed ");
+  ASSERT_NE(at, std::string::npos) << xml;
+  const std::string computed = xml.substr(at + 9, xml.find(',', at) - at - 9);
+  // R_B = 1.1 w L (three equal spans; AISC Steel Construction Manual, "Beam
+  // Diagrams and Formulas", continuous beam of three equal spans, from memory).
+  EXPECT_NEAR(std::stod(computed), 1.1 * 9.3 * 7, 1e-3);
+  EXPECT_LE(computed.size(), 8u) << computed;
+}
+
+}  // namespace
+}  // namespace trivet::reports
