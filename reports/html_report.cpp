@@ -188,6 +188,12 @@ Kind claim_kind(input::Quantity q) {
   }
 }
 
+// A beam that needs an engineer's attention: not agreeing, a failed claim,
+// a span over its deflection limit.
+bool needs_attention(const Report& b) {
+  return b.status != BeamStatus::Agree || b.claims_failed() > 0 || b.limits_failed() > 0;
+}
+
 struct Writer {
   std::ostream& o;
   const HtmlOptions& opt;
@@ -224,10 +230,13 @@ struct Writer {
       o << "<table class=\"summary\"><tr><th>#</th><th>file</th><th>title</th><th>status</th><th>methods</th>"
            "<th>largest difference</th><th>claims failed</th></tr>\n";
     };
+    const bool brief = fold && !opt.all_details;  // agreeing beams have no section of their own
     auto row = [&](std::size_t i) {
       const Report& b = beams[i];
-      o << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\"><a href=\"#" << beam_anchor(i) << "\">"
-        << html_escape(b.file) << "</a></td><td>" << html_escape(b.title) << "</td><td>"
+      o << "<tr><td class=\"n\">" << i + 1 << "</td><td class=\"mono\">"
+        << (brief && !needs_attention(b) ? html_escape(b.file)
+                                         : "<a href=\"#" + beam_anchor(i) + "\">" + html_escape(b.file) + "</a>")
+        << "</td><td>" << html_escape(b.title) << "</td><td>"
         << st_badge(beam_status_name(b.status))
         << (b.warnings.empty() ? std::string()
                                : " <span class=\"st warn\" title=\"see the beam's section\">" +
@@ -239,7 +248,7 @@ struct Writer {
     };
     std::size_t problems = 0;
     for (std::size_t i : order)
-      if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0 || beams[i].limits_failed() > 0) ++problems;
+      if (needs_attention(beams[i])) ++problems;
     if (!fold) {
       head();
       for (std::size_t i : order) row(i);
@@ -249,16 +258,16 @@ struct Writer {
         o << "<h3>Beams with a problem (" << problems << ")</h3>\n";
         head();
         for (std::size_t i : order)
-          if (beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0) row(i);
+          if (needs_attention(beams[i])) row(i);
         o << "</table>\n";
       } else {
         o << "<p>No beam has a problem.</p>\n";
       }
-      o << "<details><summary>Beams whose methods agree and whose claims hold (" << beams.size() - problems
-        << ")</summary>\n";
+      o << "<details><summary>Beams whose methods agree and whose checks hold (" << beams.size() - problems
+        << ")" << (brief ? ": listed here only (every beam's detail: --html-all)" : "") << "</summary>\n";
       head();
       for (std::size_t i : order)
-        if (!(beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0)) row(i);
+        if (!needs_attention(beams[i])) row(i);
       o << "</table></details>\n";
     }
     o << "<p class=\"muted\">Largest difference: the largest difference between two methods in moment, shear, "
@@ -614,8 +623,8 @@ HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const 
   std::vector<std::size_t> order(beams.size());
   for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
   std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
-    const int ra = rank(beams[a].status) - (beams[a].claims_failed() > 0 ? 1 : 0) * (beams[a].status == BeamStatus::Agree);
-    const int rb = rank(beams[b].status) - (beams[b].claims_failed() > 0 ? 1 : 0) * (beams[b].status == BeamStatus::Agree);
+    const int ra = rank(beams[a].status) - (needs_attention(beams[a]) ? 1 : 0) * (beams[a].status == BeamStatus::Agree);
+    const int rb = rank(beams[b].status) - (needs_attention(beams[b]) ? 1 : 0) * (beams[b].status == BeamStatus::Agree);
     return ra < rb;
   });
   // Which beams get plots: problems first, up to the limit.
@@ -649,7 +658,8 @@ HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const 
         << s.html << "\n</section>\n";
   }
   for (std::size_t i = 0; i < beams.size(); ++i) {
-    const bool problem = beams[i].status != BeamStatus::Agree || beams[i].claims_failed() > 0;
+    const bool problem = needs_attention(beams[i]);
+    if (large && !opt.all_details && !problem) continue;  // listed in the summary only
     w.beam(beams[i], i, plotted[i] != 0, !large || problem);
   }
   // Provenance.

@@ -41,6 +41,11 @@ struct HtmlOptions {
   // More beams than this: the agreeing ones are listed folded.
   std::size_t fold_agreeing_after = 20;
   double agreement = 1e-6;  // --agreement, drawn in the plots' difference panels
+  // With more than fold_agreeing_after beams, only the beams that need
+  // attention (not agreeing, a failed claim or deflection limit) get their
+  // detail section; every beam is listed in the summary. True: every beam's
+  // detail (--html-all).
+  bool all_details = false;
 };
 
 struct HtmlStats {

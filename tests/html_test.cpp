@@ -195,15 +195,25 @@ TEST(Html, ALargeLibraryPutsProblemsFirstAndFoldsTheRest) {
   const std::string h = out.str();
   EXPECT_NE(h.find("<b>60</b> beams: <b>59</b> agree, <b>1</b> disagree"), std::string::npos);
   const std::size_t problems = h.find("Beams with a problem (1)");
-  const std::size_t folded = h.find("<details><summary>Beams whose methods agree and whose claims hold (59)");
+  const std::size_t folded = h.find("<details><summary>Beams whose methods agree and whose checks hold (59)");
   ASSERT_NE(problems, std::string::npos);
   ASSERT_NE(folded, std::string::npos);
   const std::size_t odd = h.find("href=\"#beam-42\"");
   EXPECT_LT(problems, odd);
   EXPECT_LT(odd, folded);
-  EXPECT_EQ(count(h, "<section class=\"beam\""), 60u);
-  // The 59 beams read from the file carry its hash in their section and in the provenance table.
-  EXPECT_EQ(count(h, sha256_hex(kBeam)), 2u * 59u);
+  // Past 20 beams only the one that needs attention has a section of its
+  // own; the others are listed in the summary, without a link to nowhere.
+  EXPECT_EQ(count(h, "<section class=\"beam\""), 1u);
+  EXPECT_EQ(count(h, "href=\"#beam-"), 1u);
+  EXPECT_NE(h.find("every beam's detail: --html-all"), std::string::npos);
+  // The 59 beams read from the file carry its hash in the provenance table.
+  EXPECT_EQ(count(h, sha256_hex(kBeam)), 59u);
+  // Asked for, every beam's detail.
+  o.all_details = true;
+  std::ostringstream all;
+  write_html(all, beams, o);
+  EXPECT_EQ(count(all.str(), "<section class=\"beam\""), 60u);
+  EXPECT_EQ(count(all.str(), sha256_hex(kBeam)), 2u * 59u);
 }
 
 TEST(Html, PlotLimitLeavesANote) {

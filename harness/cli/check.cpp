@@ -360,6 +360,7 @@ int run_check(const CheckArgs& a) {
   if (!a.html.empty()) {
     reports::HtmlOptions ho;
     ho.agreement = opt.agreement;
+    ho.all_details = a.html_all;
     ho.tool_version = TRIVET_VERSION;
     ho.command_line = a.command_line;
     reports::HtmlStats st;

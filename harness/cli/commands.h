@@ -50,6 +50,7 @@ struct CheckArgs {
   std::vector<std::string> against, columns;
   std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
   std::string their_separator, their_decimal;
+  bool html_all = false;
   std::string arithmetic = "double", reference;
 };
 
