@@ -294,9 +294,30 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       c.style = mi;
       c.x.reserve(m.stations.size());
       c.y.reserve(m.stations.size());
-      for (const auto& s : m.stations) {
-        c.x.push_back(s.x);
-        c.y.push_back(value_of(s, k));
+      // With few stations in a span the diagram between them is drawn from
+      // the method's own values there (about 12 pieces a span), so that a
+      // curve never hides an extreme that is between stations.
+      std::size_t span_begin = 0;
+      for (std::size_t i = 0; i < m.stations.size(); ++i) {
+        const Station& st = set.stations[i];
+        if (i == 0 || set.stations[i - 1].span != st.span) span_begin = i;
+        c.x.push_back(m.stations[i].x);
+        c.y.push_back(value_of(m.stations[i], k));
+        if (i + 1 >= m.stations.size() || set.stations[i + 1].span != st.span || !m.solution.at) continue;
+        const double from = st.local, to = set.stations[i + 1].local;
+        if (!(to > from)) continue;
+        std::size_t span_end = i + 1;
+        while (span_end + 1 < set.stations.size() && set.stations[span_end + 1].span == st.span) ++span_end;
+        const std::size_t pieces = span_end - span_begin;
+        const std::size_t extra = pieces >= 12 ? 0 : (12 + pieces - 1) / pieces - 1;
+        for (std::size_t e = 1; e <= extra; ++e) {
+          const double t = from + (to - from) * static_cast<double>(e) / static_cast<double>(extra + 1);
+          const PointValues pv = m.solution.at(st.span, t, false);
+          const double v = k == Kind::Shear ? pv.shear : k == Kind::Moment ? pv.moment : pv.deflection;
+          if (!std::isfinite(v)) continue;
+          c.x.push_back(m.stations[i].x + (t - from));
+          c.y.push_back(v);
+        }
       }
       p->curves.push_back(std::move(c));
     }
@@ -1006,6 +1027,10 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         if (on_scale(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
       for (const auto& c : p.others)
         if (std::isfinite(c.y)) { lo = std::min(lo, c.y); hi = std::max(hi, c.y); }
+      // The labelled extremes (found between stations too) stay inside their
+      // panel: a label beyond the range would be drawn over the next one.
+      for (const auto& l : p.labels)
+        if (std::isfinite(l.y)) { lo = std::min(lo, l.y); hi = std::max(hi, l.y); }
       if (p.kind == PanelKind::Difference) {
         // Scaled to the agreement bound at least, so that rounding noise far
         // below it does not fill the panel; the bound drawn, and said when

@@ -6,6 +6,7 @@
 
 #include <regex>
 
+#include <algorithm>
 #include <cmath>
 #include <memory>
 #include <string>
@@ -479,6 +480,38 @@ TEST(Render, AClaimFarOffScaleIsDrawnAtTheEdge) {
   // is about the results' 0.0084 (ticks of 0.002).
   EXPECT_EQ(svg.find("<text>8</text>"), std::string::npos);
   EXPECT_NE(svg.find("<text>0.008</text>"), std::string::npos);
+}
+
+}  // namespace
+}  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// With one station a span the diagrams are still drawn through the span:
+// the moment curve of a simple span under a UDL reaches wL^2/8 = 45 at
+// midspan (Roark's Formulas for Stress and Strain, 7th ed., Table 8.1
+// case 2e, from memory), not the straight line between its zero ends.
+TEST(PlotData, CurvesShowTheExtremesBetweenStations) {
+  const input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"}, "stations_per_span": 1,
+    "spans": [{"length": 6, "EI": 20000}], "supports": ["pinned", "roller"], "loads": [{"type": "udl", "span": 1, "w": 10}]})",
+                                                   "one.json");
+  ASSERT_TRUE(f.ok());
+  const Report r(compare::check(f, {}));
+  const PlotData d = plot_data(r, 0);
+  bool found = false;
+  for (const auto& p : d.panels) {
+    if (p.kind != PanelKind::Moment) continue;
+    ASSERT_FALSE(p.curves.empty());
+    for (const auto& c : p.curves) {
+      const double top = *std::max_element(c.y.begin(), c.y.end());
+      EXPECT_GT(top, 0.99 * 45.0) << c.method;
+      EXPECT_LE(top, 45.0 + 1e-9) << c.method;
+      EXPECT_TRUE(std::is_sorted(c.x.begin(), c.x.end())) << c.method;
+    }
+    found = true;
+  }
+  EXPECT_TRUE(found);
 }
 
 }  // namespace
