@@ -66,11 +66,17 @@ TEST(PlotData, EachCurveIsTheMethodsStations) {
       const Curve& c = p->curves[mi];
       EXPECT_EQ(c.method, m.name);
       EXPECT_EQ(c.style, mi);
-      ASSERT_EQ(c.x.size(), m.stations.size()) << m.name << " " << panel_name(k);
-      ASSERT_EQ(c.y.size(), m.stations.size());
+      // Every station's value, in order; between stations of a span with few
+      // of them, the method's own values there (PlotData.CurvesShow...).
+      ASSERT_EQ(c.x.size(), c.y.size());
+      ASSERT_GE(c.x.size(), m.stations.size()) << m.name << " " << panel_name(k);
+      std::size_t j = 0;
       for (std::size_t i = 0; i < m.stations.size(); ++i) {
-        EXPECT_DOUBLE_EQ(c.x[i], m.stations[i].x) << m.name << " " << panel_name(k) << " " << i;
-        EXPECT_DOUBLE_EQ(c.y[i], station_value(m.stations[i], k)) << m.name << " " << panel_name(k) << " " << i;
+        // The same doubles, copied: compared without tolerance on purpose.
+        auto same = [](double u, double v) { return !(u < v) && !(v < u); };
+        while (j < c.x.size() && !(same(c.x[j], m.stations[i].x) && same(c.y[j], station_value(m.stations[i], k)))) ++j;
+        ASSERT_LT(j, c.x.size()) << m.name << " " << panel_name(k) << ": station " << i << " not on the curve";
+        ++j;
       }
     }
   }
