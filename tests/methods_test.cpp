@@ -240,6 +240,31 @@ TEST_P(EveryMethod, FixedFixedSettlement) {
   EXPECT_NEAR(s.nodes[1].deflection, D, 1e-12);
 }
 
+// A beam of two equal spans L on three equal springs k under a UDL w on
+// both spans (closed form derived here): by symmetry R_A = R_C = R1 and
+// 2 R1 + R2 = 2wL; B's spring shortens by (R2 - R1)/k more than A's and
+// C's, which is the midspan deflection of a simple span 2L under w less
+// that of R2 at its middle: 5w(2L)^4/(384EI) - R2 (2L)^3/(48EI) (Roark's
+// Formulas for Stress and Strain, 7th ed., Table 8.1 cases 2e and 1e, from
+// memory). So R2 = (wL/k + 5wL^4/(24EI)) / (3/(2k) + L^3/(6EI)); its limits
+// are 10wL/8 (rigid supports) and 2wL/3 (a rigid beam on soft springs).
+TEST_P(EveryMethod, TwoSpansOnThreeSprings) {
+  const double Ls = 5, ws = 10, EIs = 2e4;
+  for (double k : {1e2, 1e3, 1e4, 1e7}) {
+    Beam b = beam_of({Ls, Ls}, {T::Spring, T::Spring, T::Spring}, EIs);
+    for (auto& s : b.supports) s.k = k;
+    udl_all(b, ws);
+    const Solution s = GetParam().solve(b, build_stations(b, 4));
+    ASSERT_EQ(s.status, MethodStatus::Ok) << s.reason;
+    const double R2 = (ws * Ls / k + 5 * ws * Ls * Ls * Ls * Ls / (24 * EIs)) / (3 / (2 * k) + Ls * Ls * Ls / (6 * EIs));
+    const double R1 = (2 * ws * Ls - R2) / 2;
+    EXPECT_NEAR(s.nodes[1].reaction_force, R2, 1e-9 * ws * Ls) << "k " << k;
+    EXPECT_NEAR(s.nodes[0].reaction_force, R1, 1e-9 * ws * Ls) << "k " << k;
+    EXPECT_NEAR(s.nodes[2].reaction_force, R1, 1e-9 * ws * Ls) << "k " << k;
+    EXPECT_NEAR(s.nodes[1].deflection, R2 / k, 1e-9 * R2 / k) << "k " << k;
+  }
+}
+
 INSTANTIATE_TEST_SUITE_P(Methods, EveryMethod, ::testing::ValuesIn(all_methods()),
                          [](const ::testing::TestParamInfo<MethodParam>& i) { return i.param.name; });
 
