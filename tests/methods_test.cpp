@@ -603,3 +603,101 @@ TEST(RandomBeams, ThreeMomentExactEqualsExactSlopeDeflection) {
 
 }  // namespace
 }  // namespace trivet
+
+namespace trivet {
+namespace {
+
+// Each method's fast path against its general path, through the seams the
+// methods declare for tests (detail::solve_general), on random common beams
+// (pinned, roller and fixed supports, settlements, every span load type,
+// loads in span order: what the fast paths take). The two are different
+// code for the same mechanics, so they agree to 1e-13 of the largest value
+// of each quantity, not bitwise.
+struct FastAndGeneral {
+  std::string name;
+  registry::Solver<double> fast;
+  std::function<Solution(const Beam&, const std::vector<Station>&)> general;
+};
+void PrintTo(const FastAndGeneral& p, std::ostream* os) { *os << p.name; }
+
+class FastEqualsGeneral : public ::testing::TestWithParam<FastAndGeneral> {};
+
+TEST_P(FastEqualsGeneral, OnRandomCommonBeams) {
+  std::mt19937 rng(20261204);
+  int compared = 0;
+  for (int trial = 0; trial < 250; ++trial) {
+    Beam b = random_beam(rng, {false, false});
+    // Common beams only: no hinge, no free end, no load at a node.
+    for (auto& s : b.supports) {
+      s.hinge = false;
+      if (s.type == T::Free) s.type = T::Roller;
+    }
+    b.loads.erase(std::remove_if(b.loads.begin(), b.loads.end(), [](const Load& l) { return l.on_node; }), b.loads.end());
+    std::stable_sort(b.loads.begin(), b.loads.end(), [](const Load& x, const Load& y) { return x.index < y.index; });
+    if (b.loads.empty() || find_mechanism(b)) continue;
+    const std::vector<Station> st = build_stations(b, 4);
+    const Solution f = GetParam().fast(b, st), g = GetParam().general(b, st);
+    ASSERT_EQ(f.status, MethodStatus::Ok) << f.reason << " trial " << trial;
+    ASSERT_EQ(g.status, MethodStatus::Ok) << g.reason << " trial " << trial;
+    ASSERT_EQ(f.nodes.size(), g.nodes.size());
+    // The largest magnitude of each kind, from the general path.
+    double sm = 0, sv = 0, sd = 0, sr = 0, sf = 0;
+    for (const auto& n : g.nodes) {
+      sm = std::max({sm, std::abs(n.moment_left.value_or(0)), std::abs(n.moment_right.value_or(0)), std::abs(n.reaction_moment)});
+      sf = std::max(sf, std::abs(n.reaction_force));
+      sd = std::max(sd, std::abs(n.deflection));
+      sr = std::max({sr, std::abs(n.rotation_left), std::abs(n.rotation_right)});
+    }
+    std::vector<PointValues> gv;
+    for (const auto& s : st) {
+      gv.push_back(g.at(s.span, s.local, s.after));
+      sm = std::max(sm, std::abs(gv.back().moment));
+      sv = std::max(sv, std::abs(gv.back().shear));
+      sd = std::max(sd, std::abs(gv.back().deflection));
+      sr = std::max(sr, std::abs(gv.back().rotation));
+    }
+    sv = std::max(sv, sf);
+    auto near = [&](double a, double c, double scale, const std::string& what) {
+      EXPECT_LE(std::abs(a - c), 1e-13 * scale + 1e-300) << what << " trial " << trial << ": fast " << a << ", general " << c;
+    };
+    for (std::size_t i = 0; i < f.nodes.size(); ++i) {
+      const auto &p = f.nodes[i], &q = g.nodes[i];
+      const std::string where = "node " + std::to_string(i);
+      ASSERT_EQ(p.moment_left.has_value(), q.moment_left.has_value()) << where;
+      ASSERT_EQ(p.moment_right.has_value(), q.moment_right.has_value()) << where;
+      if (p.moment_left) near(*p.moment_left, *q.moment_left, sm, where + " moment left");
+      if (p.moment_right) near(*p.moment_right, *q.moment_right, sm, where + " moment right");
+      near(p.reaction_force, q.reaction_force, sv, where + " reaction");
+      near(p.reaction_moment, q.reaction_moment, sm, where + " reaction moment");
+      near(p.deflection, q.deflection, sd, where + " deflection");
+      near(p.rotation_left, q.rotation_left, sr, where + " rotation left");
+      near(p.rotation_right, q.rotation_right, sr, where + " rotation right");
+    }
+    for (std::size_t k = 0; k < st.size(); ++k) {
+      const PointValues p = f.at(st[k].span, st[k].local, st[k].after);
+      const std::string where = "station " + std::to_string(k);
+      near(p.shear, gv[k].shear, sv, where + " shear");
+      near(p.moment, gv[k].moment, sm, where + " moment");
+      near(p.deflection, gv[k].deflection, sd, where + " deflection");
+      near(p.rotation, gv[k].rotation, sr, where + " rotation");
+    }
+    ++compared;
+    if (HasFailure()) return;
+  }
+  EXPECT_GE(compared, 150);
+}
+
+INSTANTIATE_TEST_SUITE_P(
+    Methods, FastEqualsGeneral,
+    ::testing::Values(
+        FastAndGeneral{"ThreeMoment", &three_moment::solve<double>,
+                       [](const Beam& b, const std::vector<Station>& s) { return three_moment::detail::solve_general<double>(b, s); }},
+        FastAndGeneral{"SlopeDeflection", &slope_deflection::solve<double>,
+                       [](const Beam& b, const std::vector<Station>& s) { return slope_deflection::detail::solve_general<double>(b, s); }},
+        // The stiffness method's seam takes the beam only: it uses no stations.
+        FastAndGeneral{"Stiffness", &stiffness::solve<double>,
+                       [](const Beam& b, const std::vector<Station>&) { return stiffness::detail::solve_general<double>(b); }}),
+    [](const ::testing::TestParamInfo<FastAndGeneral>& i) { return i.param.name; });
+
+}  // namespace
+}  // namespace trivet

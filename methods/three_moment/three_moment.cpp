@@ -549,4 +549,28 @@ template BasicSolution<Extended> solve<Extended>(const BasicBeam<Extended>&,
                                                  const std::vector<BasicStation<Extended>>&);
 template BasicSolution<Exact> solve<Exact>(const BasicBeam<Exact>&, const std::vector<BasicStation<Exact>>&);
 
+namespace detail {
+
+// For tests only: the same checks as `solve`, then always the general path
+// (tridiagonal when it fits, banded otherwise), never the fast path.
+template <class R>
+BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
+  (void)stations;
+  const std::size_t n = beam.spans.size();
+  if (n == 0) return failed<R>("beam has no spans");
+  if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
+    return failed<R>("supports/labels do not match the number of spans");
+  if (fits_tridiagonal(beam)) return solve_tridiagonal(beam);
+  return solve_banded(beam);
+}
+
+template BasicSolution<double> solve_general<double>(const BasicBeam<double>&,
+                                                     const std::vector<BasicStation<double>>&);
+template BasicSolution<Extended> solve_general<Extended>(const BasicBeam<Extended>&,
+                                                         const std::vector<BasicStation<Extended>>&);
+template BasicSolution<Exact> solve_general<Exact>(const BasicBeam<Exact>&,
+                                                   const std::vector<BasicStation<Exact>>&);
+
+}  // namespace detail
+
 }  // namespace trivet::three_moment

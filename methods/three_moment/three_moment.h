@@ -34,4 +34,22 @@ extern template BasicSolution<Extended> solve<Extended>(const BasicBeam<Extended
 extern template BasicSolution<Exact> solve<Exact>(const BasicBeam<Exact>&,
                                                   const std::vector<BasicStation<Exact>>&);
 
+namespace detail {
+
+// For tests only: always takes the general path (tridiagonal when the beam
+// fits it, banded otherwise), never the fast path, so a test can compare the
+// fast path with the general one without relying on what the fast path
+// declines.
+template <class R>
+BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations);
+
+extern template BasicSolution<double> solve_general<double>(const BasicBeam<double>&,
+                                                            const std::vector<BasicStation<double>>&);
+extern template BasicSolution<Extended> solve_general<Extended>(const BasicBeam<Extended>&,
+                                                                const std::vector<BasicStation<Extended>>&);
+extern template BasicSolution<Exact> solve_general<Exact>(const BasicBeam<Exact>&,
+                                                          const std::vector<BasicStation<Exact>>&);
+
+}  // namespace detail
+
 }  // namespace trivet::three_moment
