@@ -4,9 +4,9 @@
 // jumps; rendering gives an SVG or PNG, or a plain reason.
 #include <gtest/gtest.h>
 
-#include <regex>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <memory>
 #include <string>
@@ -437,18 +437,54 @@ TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
   std::string err;
   const std::string svg = render(plot_data(sample(), 0), ImageFormat::Svg, 800, 900, &err);
   ASSERT_FALSE(svg.empty()) << err;
-  const std::regex item(R"re(<g transform="translate\(([-0-9.]+),([-0-9.]+)\)( rotate\(270\))?"[^>]*font-size="([0-9.]+)"[^>]*text-anchor="(end|middle|start)">\s*<text>([^<]*)</text>)re");
-  const std::regex number(R"(^-?[0-9.]+(e[-+]?[0-9]+)?$)");
+  // Each text item of gnuplot's SVG reads
+  //   <g transform="translate(X,Y)[ rotate(270)]" ... font-size="S" ... text-anchor="A">
+  //   <text>T</text>
+  // (scanned by hand: std::regex trips GCC 12's maybe-uninitialized warning
+  // under the sanitizer build).
+  const auto attribute = [](const std::string& tag, const std::string& name) -> std::string {
+    const std::string key = name + "=\"";
+    const auto at = tag.find(key);
+    if (at == std::string::npos) return {};
+    const auto end = tag.find('"', at + key.size());
+    return end == std::string::npos ? std::string() : tag.substr(at + key.size(), end - at - key.size());
+  };
+  const auto is_number = [](const std::string& t) {
+    if (t.empty()) return false;
+    std::size_t i = t[0] == '-' ? 1 : 0;
+    bool digits = false;
+    for (; i < t.size() && (std::isdigit(static_cast<unsigned char>(t[i])) || t[i] == '.'); ++i) digits = true;
+    if (i < t.size() && t[i] == 'e') {
+      ++i;
+      if (i < t.size() && (t[i] == '-' || t[i] == '+')) ++i;
+      if (i == t.size()) return false;
+      for (; i < t.size() && std::isdigit(static_cast<unsigned char>(t[i])); ++i) {}
+    }
+    return digits && i == t.size();
+  };
   double leftmost_tick = 1e9, rightmost_title = -1e9;
   int ticks = 0, titles = 0;
-  for (auto it = std::sregex_iterator(svg.begin(), svg.end(), item); it != std::sregex_iterator(); ++it) {
-    const auto& m = *it;
-    const double x = std::stod(m[1].str()), size = std::stod(m[4].str());
-    const std::string text = m[6].str();
-    if (m[3].matched) {
+  for (std::size_t at = svg.find("<g transform=\"translate("); at != std::string::npos;
+       at = svg.find("<g transform=\"translate(", at + 1)) {
+    const auto close = svg.find('>', at);
+    if (close == std::string::npos) break;
+    const std::string tag = svg.substr(at, close - at + 1);
+    const std::string size_text = attribute(tag, "font-size"), anchor = attribute(tag, "text-anchor");
+    if (size_text.empty() || anchor.empty()) continue;
+    auto open_text = close + 1;
+    while (open_text < svg.size() && std::isspace(static_cast<unsigned char>(svg[open_text]))) ++open_text;
+    if (svg.compare(open_text, 6, "<text>") != 0) continue;
+    const auto end_text = svg.find("</text>", open_text);
+    if (end_text == std::string::npos) break;
+    const std::string text = svg.substr(open_text + 6, end_text - open_text - 6);
+    if (text.find('<') != std::string::npos) continue;
+    const std::string transform = attribute(tag, "transform");  // translate(X,Y)[ rotate(270)]
+    const double x = std::stod(transform.substr(std::string("translate(").size()));
+    const double size = std::stod(size_text);
+    if (transform.find("rotate(270)") != std::string::npos) {
       rightmost_title = std::max(rightmost_title, x + 0.3 * size);
       ++titles;
-    } else if (m[5].str() == "end" && std::regex_match(text, number) && x < 200) {
+    } else if (anchor == "end" && is_number(text) && x < 200) {
       double w = 0;
       for (char c : text) w += c == '-' ? 0.34 : c == '.' ? 0.28 : 0.56;
       leftmost_tick = std::min(leftmost_tick, x - w * size);
