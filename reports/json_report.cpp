@@ -4,6 +4,7 @@
 #include <future>
 #include <sstream>
 #include <system_error>
+#include <unordered_map>
 
 #include "harness/compare/against.h"
 #include "harness/precision/precision.h"
@@ -75,8 +76,7 @@ void optional_number(JsonWriter& w, std::string_view k, const std::optional<doub
   else w.null();
 }
 
-void governs(JsonWriter& w, std::string_view k, const Governs& g, const input::Combination& c) {
-  w.key(k);
+void governs_object(JsonWriter& w, const Governs& g, const input::Combination& c) {
   w.begin_object(true);
   if (!c.pattern.empty()) {
     w.key("loaded_spans");
@@ -97,8 +97,33 @@ void governs(JsonWriter& w, std::string_view k, const Governs& g, const input::C
   w.end_object();
 }
 
+// What governs, each once as text: most points of a long envelope share
+// their governing arrangement (interned by the envelope), and a patterned
+// arrangement lists up to every span.
+class GovernsText {
+ public:
+  explicit GovernsText(const input::Combination& c) : c_(c) {}
+  void write(JsonWriter& w, std::string_view k, const std::shared_ptr<const Governs>& g) {
+    w.key(k);
+    auto found = text_.find(g.get());
+    if (found == text_.end()) {
+      std::string t;
+      {
+        JsonWriter sub(t);
+        governs_object(sub, governs_of(g), c_);
+      }
+      found = text_.emplace(g.get(), std::string(t)).first;  // a copy of its own size (the writer keeps room)
+    }
+    w.raw_value(found->second);
+  }
+
+ private:
+  const input::Combination& c_;
+  std::unordered_map<const Governs*, std::string> text_;
+};
+
 void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
-  const input::Combination& c = *set.combination;
+  GovernsText gov(*set.combination);
   w.key("envelope");
   w.begin_object();
   w.key("stations");
@@ -114,12 +139,12 @@ void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
     w.member("deflection_min", e.deflection[i].min);
     w.key("governs");
     w.begin_object(true);
-    governs(w, "moment_max", governs_of(e.moment[i].max_by), c);
-    governs(w, "moment_min", governs_of(e.moment[i].min_by), c);
-    governs(w, "shear_max", governs_of(e.shear[i].max_by), c);
-    governs(w, "shear_min", governs_of(e.shear[i].min_by), c);
-    governs(w, "deflection_max", governs_of(e.deflection[i].max_by), c);
-    governs(w, "deflection_min", governs_of(e.deflection[i].min_by), c);
+    gov.write(w, "moment_max", e.moment[i].max_by);
+    gov.write(w, "moment_min", e.moment[i].min_by);
+    gov.write(w, "shear_max", e.shear[i].max_by);
+    gov.write(w, "shear_min", e.shear[i].min_by);
+    gov.write(w, "deflection_max", e.deflection[i].max_by);
+    gov.write(w, "deflection_min", e.deflection[i].min_by);
     w.end_object();
     w.end_object();
   }
@@ -134,8 +159,8 @@ void envelope(JsonWriter& w, const Envelope& e, const LoadSet& set) {
     w.member("reaction_min", e.reaction[i].min);
     w.key("governs");
     w.begin_object(true);
-    governs(w, "reaction_max", governs_of(e.reaction[i].max_by), c);
-    governs(w, "reaction_min", governs_of(e.reaction[i].min_by), c);
+    gov.write(w, "reaction_max", e.reaction[i].max_by);
+    gov.write(w, "reaction_min", e.reaction[i].min_by);
     w.end_object();
     w.end_object();
   }

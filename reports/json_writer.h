@@ -42,6 +42,12 @@ class JsonWriter {
     stack_.assign(depth, Level{false});
     start();
   }
+  // Writes into `target` one value as it reads inside a compact container
+  // (no line break or indent before it), for raw_value().
+  explicit JsonWriter(std::string& target) : buf_(target) {
+    stack_.assign(1, Level{true});
+    start(256);  // a small value: little room, grown when needed
+  }
   ~JsonWriter() {
     flush();
     buf_.resize(used());  // a string target: its text, without the room left for more
@@ -97,6 +103,14 @@ class JsonWriter {
     maybe_flush();
   }
 
+  // A value written beforehand by a JsonWriter(target) (a compact object
+  // written once and put in many places).
+  void raw_value(std::string_view text) {
+    separate();
+    put(text);
+    maybe_flush();
+  }
+
   template <class T>
   void member(std::string_view k, const T& v) { key(k); value(v); }
 
@@ -135,9 +149,9 @@ class JsonWriter {
   // text (its size is the room), so that a character or a number is one
   // copy, not a call to std::string's append.
   static constexpr std::size_t kRoom = std::size_t(1) << 16;
-  void start() {
+  void start(std::size_t room_first = kRoom) {
     const std::size_t n = buf_.size();
-    buf_.resize(n + kRoom);
+    buf_.resize(n + room_first);
     cur_ = buf_.data() + n;
     end_ = buf_.data() + buf_.size();
   }
@@ -150,7 +164,7 @@ class JsonWriter {
   void grow(std::size_t n) {
     flush();  // a stream writer empties its buffer instead of growing it, when it can
     const std::size_t u = used();
-    if (buf_.size() - u < n) buf_.resize(std::max(2 * buf_.size(), u + n + kRoom));
+    if (buf_.size() - u < n) buf_.resize(std::max(2 * buf_.size(), u + n + 256));
     cur_ = buf_.data() + u;
     end_ = buf_.data() + buf_.size();
   }

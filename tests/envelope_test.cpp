@@ -223,3 +223,47 @@ TEST(Envelope, CombinationErrorsNameTheirLocation) {
 
 }  // namespace
 }  // namespace trivet::compare
+
+namespace trivet::compare {
+namespace {
+
+// On a long beam what governs names the spans that matter. Forty equal
+// spans, a live UDL patterned on every span: the influence of a span's load
+// on a point decays by a factor of about 0.27 a span (the carry-over of
+// equal continuous spans, 2 - sqrt(3) = 0.268; a general property of the
+// three-moment recurrence, derived from M_{i-1} + 4 M_i + M_{i+1} = 0, see
+// any text on continuous beams, e.g. Timoshenko & Young, "Theory of
+// Structures", 2nd ed., 1965, art. on continuous beams; from memory), so a
+// span 30 spans away changes the end span's moment by about 0.27^30 =
+// 1e-17 of it: below the rounding of the sum, it is left off. The spans
+// near by still follow the alternate pattern (spans 1, 3 and 5 loaded,
+// 2 and 4 not), and the value is the same as with every alternate span
+// loaded to rounding (all three methods re-solve the arrangement in the
+// second route, which must hold).
+TEST(Envelope, FarSpansOfRoundingInfluenceAreLeftOffWhatGoverns) {
+  std::string spans, supports = "\"pinned\"", loads;
+  for (int i = 1; i <= 40; ++i) {
+    spans += std::string(i > 1 ? "," : "") + R"({"length": 5, "EI": 40000})";
+    supports += R"(, "roller")";
+    loads += std::string(i > 1 ? "," : "") + R"({"type": "udl", "case": "live", "w": 10, "span": )" + std::to_string(i) + "}";
+  }
+  const BeamResult r = run(R"({"units": {"force": "kN", "length": "m"}, "spans": [)" + spans + R"(], "supports": [)" + supports +
+                           R"(], "loads": [)" + loads + R"(], "combinations": [{"name": "live-pattern", "factors": {"live": 1.0}, "pattern": ["live"]}]})");
+  const LoadSet* s = set_named(r, "live-pattern");
+  ASSERT_NE(s, nullptr);
+  EXPECT_EQ(s->verdict, Verdict::Agree) << s->problem;
+  ASSERT_FALSE(s->second_route.empty());
+  for (const auto& rc : s->second_route) EXPECT_TRUE(rc.holds) << rc.quantity << " " << rc.where;
+  for (const auto& m : s->methods) {
+    ASSERT_TRUE(m.envelope) << m.name;
+    const Governs& g = governs_of(m.envelope->moment[s->stations.size() / 80].max_by);  // inside span 1
+    ASSERT_FALSE(g.spans.empty());
+    EXPECT_EQ(g.spans[0], 0u) << m.name;
+    for (std::uint32_t sp : {1u, 3u}) EXPECT_EQ(std::count(g.spans.begin(), g.spans.end(), sp), 0) << m.name << " span " << sp + 1;
+    for (std::uint32_t sp : {2u, 4u}) EXPECT_EQ(std::count(g.spans.begin(), g.spans.end(), sp), 1) << m.name << " span " << sp + 1;
+    EXPECT_LT(g.spans.back(), 35u) << m.name << ": a span of rounding influence is named";
+  }
+}
+
+}  // namespace
+}  // namespace trivet::compare

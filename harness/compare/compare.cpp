@@ -840,7 +840,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
       r.name = m->name;
       try {
         if (set.envelope) {
-          run_envelope_method(*m, set.beam, *set.combination, set.stations, r);
+          run_envelope_method(*m, set.beam, *set.combination, set.stations, r, set.beam.spans.size() >= kParallelEnvelopeSpans);
         } else {
           r.solution = m->solve(set.beam, set.stations);
           r.status = r.solution.status;

@@ -34,8 +34,10 @@ void consensus_extremes(LoadSet& set);
 // Envelopes (envelope.cpp): one method over the shares of a combination,
 // with its envelope at the stations and its own span extremes of the
 // envelope; then the methods compared; then the second route.
+// `side_by_side`: a long beam, whose envelope is worked out in two halves
+// at once (the same values).
 void run_envelope_method(const Method& method, const Beam& full, const input::Combination& comb,
-                         const std::vector<Station>& stations, MethodResult& r);
+                         const std::vector<Station>& stations, MethodResult& r, bool side_by_side = false);
 void compare_envelopes(LoadSet& set, double agreement);
 // `side_by_side`: the methods' direct solves run in threads of their own
 // (a long beam); the results are the same either way.

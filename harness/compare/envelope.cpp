@@ -2,13 +2,18 @@
 
 #include <algorithm>
 #include <array>
+#include <cstdint>
+#include <cstring>
+#include <atomic>
 #include <cmath>
 #include <exception>
 #include <future>
 #include <map>
 #include <memory>
 #include <new>
+#include <string>
 #include <system_error>
+#include <thread>
 
 #include "harness/compare/detail.h"
 #include "harness/compare/extremes.h"
@@ -47,20 +52,63 @@ double EnvelopeModel::pick(std::size_t u, double g, bool want_max, bool allow_of
   return best_v;
 }
 
+void EnvelopeModel::prepare() {
+  options.assign(units.size(), Options{});
+  const bool all = comb.arrangements == input::Arrangements::All || arrangements.empty();
+  if (!all) return;
+  for (std::size_t u = 0; u < units.size(); ++u) {
+    Options& o = options[u];
+    const bool off = units[u].patterned;
+    // pick() with a value of each sign (its choice depends on nothing else).
+    pick(u, 1.0, true, off, &o.max_pos);
+    pick(u, -1.0, true, off, &o.max_neg);
+    pick(u, 0.0, true, off, &o.max_zero);
+    pick(u, 1.0, false, off, &o.min_pos);
+    pick(u, -1.0, false, off, &o.min_neg);
+    pick(u, 0.0, false, off, &o.min_zero);
+  }
+}
+
 double EnvelopeModel::extreme(const std::vector<double>& g, bool want_max, Choice* choice) const {
-  if (choice) choice->assign(units.size(), 0.0);
   double f = 0;
   if (comb.arrangements == input::Arrangements::All || arrangements.empty()) {
     // Every share independently: the sum of each share's best.
+    if (choice) choice->resize(units.size());
+    // A share whose value here is below one unit in the last place of the
+    // sum of every share's magnitude cannot change the sum beyond its
+    // rounding: it is taken as zero (a patterned share stays off), so that
+    // what governs names the spans that matter, not a far span whose
+    // influence is rounding.
+    double magnitude = 0;
+    for (std::size_t u = 0; u < units.size(); ++u) magnitude += std::abs(g[u]);
+    const double negligible = magnitude * 0x1p-52;
     double sum = 0;
+    if (options.size() == units.size()) {
+      // The factor pick() would choose, by the sign of the value (a
+      // positive value wants the largest factor, a negative one the
+      // smallest, for the largest sum; zero the first option).
+      for (std::size_t u = 0; u < units.size(); ++u) {
+        const Options& o = options[u];
+        const double v = g[u];
+        const bool pos = v > negligible, neg = v < -negligible;
+        const double fu = want_max ? (pos ? o.max_pos : neg ? o.max_neg : o.max_zero)
+                                   : (pos ? o.min_pos : neg ? o.min_neg : o.min_zero);
+        sum += fu * v;
+        if (choice) (*choice)[u] = fu;
+      }
+      return sum;
+    }
     for (std::size_t u = 0; u < units.size(); ++u) {
-      sum += pick(u, g[u], want_max, units[u].patterned, &f);
+      const double v = std::abs(g[u]) > negligible ? g[u] : 0.0;
+      pick(u, v, want_max, units[u].patterned, &f);
+      sum += f * g[u];
       if (choice) (*choice)[u] = f;
     }
     return sum;
   }
   // Named arrangements: the shares that are not patterned pick their best;
   // each span's patterned shares are on or off together.
+  if (choice) choice->assign(units.size(), 0.0);
   double fixed_part = 0;
   std::vector<double> on(spans, 0.0);
   for (std::size_t u = 0; u < units.size(); ++u) {
@@ -140,19 +188,37 @@ std::shared_ptr<const Governs> EnvelopeModel::intern(Governs g, Interned* pool) 
   return bucket.back();
 }
 
+namespace {
+// A hash of a choice's factors (FNV-1a over their bits; 0 and -0 alike).
+std::uint64_t hash_of(const EnvelopeModel::Choice& c) {
+  std::uint64_t h = 14695981039346656037ull;
+  for (double f : c) {
+    std::uint64_t bits = 0;
+    const double v = f + 0.0;
+    std::memcpy(&bits, &v, sizeof bits);
+    h = (h ^ bits) * 1099511628211ull;
+  }
+  return h;
+}
+}  // namespace
+
 std::shared_ptr<const Governs> EnvelopeModel::governs(const Choice& c, Interned* pool) const {
   if (!pool) return intern(governs(c), nullptr);
-  for (const auto& [choice, by] : pool->recent)
-    if (by && choice.size() == c.size() && std::equal(c.begin(), c.end(), choice.begin(), same)) return by;
+  const std::uint64_t h = hash_of(c);
+  for (const auto& r : pool->recent)
+    if (r.by && r.hash == h && r.choice.size() == c.size() && std::equal(c.begin(), c.end(), r.choice.begin(), same))
+      return r.by;
   auto by = intern(governs(c), pool);
-  pool->recent[pool->next] = {c, by};
+  pool->recent[pool->next] = {c, h, by};
   pool->next = (pool->next + 1) % pool->recent.size();
   return by;
 }
 
 Bound EnvelopeModel::combine(const std::vector<double>& g, Interned* pool) const {
   Bound b;
-  Choice hi, lo;
+  Choice own_hi, own_lo;
+  Choice& hi = pool ? pool->hi : own_hi;
+  Choice& lo = pool ? pool->lo : own_lo;
   b.max = extreme(g, true, &hi);
   b.min = extreme(g, false, &lo);
   b.max_by = governs(hi, pool);
@@ -268,7 +334,13 @@ double quantity(const PointValues& p, EnvelopeModel::What w) {
 }
 struct Best {
   double value = 0, local = 0;
-  std::string by;
+  // What governs: interned at a station, or the choice found between
+  // stations (described once, at the end).
+  std::shared_ptr<const Governs> at_station;
+  EnvelopeModel::Choice between;
+  std::string describe(const EnvelopeModel& model) const {
+    return compare::describe(between.empty() ? governs_of(at_station) : model.governs(between), model.comb);
+  }
 };
 
 // One piece [a, b] of a span between consecutive stations, and each unit's
@@ -281,6 +353,7 @@ struct Zeros {
 struct Piece {
   double a = 0, b = 0;
   std::vector<Poly> poly[2];   // [0] moment, [1] deflection; one per unit
+  std::vector<std::pair<double, double>> range[2];  // rigorous bounds of each unit's value on the piece
   std::vector<double> size[2]; // a bound on each unit's |value| on the piece
   std::vector<Zeros> zeros[2]; // each unit's zeros in (-1, 1), found when first asked
   double negligible[2] = {0, 0};  // below this a unit's kinks are rounding (see walk)
@@ -412,8 +485,11 @@ std::pair<double, double> walk(Piece& pc, int q, const std::vector<std::size_t>&
 // exactly. A piece (or an arrangement) whose rigorous upper bound cannot
 // beat the best value so far is skipped. The value found is evaluated again
 // from the units at its point, with what governs it.
+// Spans [span_begin, span_end) only: `env` gets the envelope at their
+// stations, in order, and out[s] their extremes (`out` has a place for
+// every span), so that two parts of a long beam can run side by side.
 void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const std::vector<Station>& stations,
-                           Envelope& env, std::vector<SpanExtremes>& out) {
+                           Envelope& env, std::vector<SpanExtremes>& out, std::size_t span_begin, std::size_t span_end) {
   using M = EnvelopeModel;
   const std::size_t ns = stations.size(), nu = model.units.size();
   const bool all = model.comb.arrangements == input::Arrangements::All || model.arrangements.empty();
@@ -456,15 +532,18 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
   env.shear.reserve(ns);
   env.deflection.reserve(ns);
   M::Interned pool;
-  out.assign(full.spans.size(), {});
   std::vector<std::vector<PointValues>> at_station;  // the units' values at the span's stations
   std::array<std::vector<PointValues>, kDegree - 1> inner_values;
   std::vector<PointValues> pv;
   std::vector<double> g(nu);
+  M::Choice choice;
   Piece pc;
   std::size_t i = 0;
   double x0 = 0;
-  for (std::size_t s = 0; s < full.spans.size(); ++s) {
+  while (i < ns && stations[i].span < span_begin) ++i;
+  for (std::size_t s = 0; s < span_begin; ++s) x0 += full.spans[s].length;
+  const std::size_t i0 = i;  // env's first station
+  for (std::size_t s = span_begin; s < span_end; ++s) {
     const std::size_t begin = i;
     while (i < ns && stations[i].span == s) ++i;
     const std::size_t end = i;
@@ -485,12 +564,16 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
       const bool want_max = t % 2 == 0;
       std::size_t at = begin;
       for (std::size_t k = begin; k < end; ++k) {
-        const double x = want_max ? v[k].max : v[k].min;
-        const double b = want_max ? v[at].max : v[at].min;
+        const double x = want_max ? v[k - i0].max : v[k - i0].min;
+        const double b = want_max ? v[at - i0].max : v[at - i0].min;
         if (want_max ? x > b : x < b) at = k;
       }
-      best[static_cast<std::size_t>(t)] = {want_max ? v[at].max : v[at].min, stations[at].local,
-                                           describe(governs_of(want_max ? v[at].max_by : v[at].min_by), model.comb)};
+      const Bound& here = v[at - i0];
+      Best& bt = best[static_cast<std::size_t>(t)];
+      bt.value = want_max ? here.max : here.min;
+      bt.local = stations[at].local;
+      bt.at_station = want_max ? here.max_by : here.min_by;
+      bt.between.clear();
     }
     for (std::size_t k = begin; k + 1 < end; ++k) {
       const double a = stations[k].local, b = stations[k + 1].local;
@@ -504,6 +587,7 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
         pc.poly[q].resize(nu);
         pc.zeros[q].assign(nu, Zeros{});
         pc.size[q].resize(nu);
+        pc.range[q].resize(nu);
       }
       // Units without a load on the span: M linear, v the Hermite cubic.
       for (std::size_t u = 0; u < nu; ++u) {
@@ -533,7 +617,7 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
       for (int q = 0; q < 2; ++q) {
         double total = 0;
         for (std::size_t u = 0; u < nu; ++u) {
-          const auto rg = range_of(pc.poly[q][u]);
+          const auto rg = pc.range[q][u] = range_of(pc.poly[q][u]);
           pc.size[q][u] = std::max(std::abs(rg.first), std::abs(rg.second));
           total += pc.size[q][u] * max_factor;
         }
@@ -550,7 +634,7 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
         for (const auto& units : walks) {
           double bound = 0;
           for (std::size_t u : units) {
-            const auto rg = range_of(pc.poly[q][u]);
+            const auto& rg = pc.range[q][u];
             const Factors& f = fac[k2][u];
             bound += std::max({sign * f.pos * rg.second, sign * f.neg * rg.first, sign * f.pos * rg.first,
                                sign * f.neg * rg.second});
@@ -564,16 +648,19 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
         const double x = 0.5 * (a + b) + 0.5 * (b - a) * found.second;
         model.values(s, x, false, pv);
         for (std::size_t u = 0; u < nu; ++u) g[u] = quantity(pv[u], q == 0 ? M::kMoment : M::kDeflection);
-        M::Choice c;
-        const double v = model.extreme(g, sign > 0, &c);
-        if (sign * v > sign * bt.value) bt = {v, x, describe(model.governs(c), model.comb)};
+        const double v = model.extreme(g, sign > 0, &choice);
+        if (sign * v > sign * bt.value) {
+          bt.value = v;
+          bt.local = x;
+          bt.between.swap(choice);
+        }
       }
     }
     SpanExtremes& e = out[s];
-    e.max_moment = best[0].value; e.max_moment_x = x0 + best[0].local; e.max_moment_by = best[0].by;
-    e.min_moment = best[1].value; e.min_moment_x = x0 + best[1].local; e.min_moment_by = best[1].by;
+    e.max_moment = best[0].value; e.max_moment_x = x0 + best[0].local; e.max_moment_by = best[0].describe(model);
+    e.min_moment = best[1].value; e.min_moment_x = x0 + best[1].local; e.min_moment_by = best[1].describe(model);
     const Best& d = std::abs(best[2].value) >= std::abs(best[3].value) ? best[2] : best[3];
-    e.max_deflection = d.value; e.max_deflection_x = x0 + d.local; e.max_deflection_by = d.by;
+    e.max_deflection = d.value; e.max_deflection_x = x0 + d.local; e.max_deflection_by = d.describe(model);
     x0 += full.spans[s].length;
   }
 }
@@ -583,7 +670,7 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
 namespace detail {
 
 void run_envelope_method(const Method& method, const Beam& full, const input::Combination& comb,
-                         const std::vector<Station>& stations, MethodResult& r) {
+                         const std::vector<Station>& stations, MethodResult& r, bool side_by_side) {
   using M = EnvelopeModel;
   auto model = std::make_shared<EnvelopeModel>();
   model->comb = comb;
@@ -627,6 +714,7 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
         once.settlements.emplace_back(i, full.supports[i].settlement);
     if (!once.settlements.empty() || model->units.empty()) model->units.push_back(std::move(once));
   }
+  model->prepare();
   r.status = MethodStatus::Ok;
   for (std::size_t k = 0; k < model->units.size(); ++k) {
     M::Unit& u = model->units[k];
@@ -650,9 +738,29 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
     std::vector<NodeResult>().swap(u.solution.nodes);  // only the reactions are kept
   }
 
-  // The envelope at the stations and each span's extremes, span by span.
+  // The envelope at the stations and each span's extremes, span by span;
+  // on a long beam its two halves side by side.
   Envelope env;
-  envelope_and_extremes(*model, full, stations, env, r.extremes);
+  const std::size_t n = full.spans.size();
+  r.extremes.assign(n, {});
+  std::future<void> later;
+  Envelope second;
+  const std::size_t mid = side_by_side && n >= 2 ? n / 2 : n;
+  if (mid < n) {
+    try {
+      later = std::async(std::launch::async, [&] { envelope_and_extremes(*model, full, stations, second, r.extremes, mid, n); });
+    } catch (const std::system_error&) {
+      // no thread to be had: the second half runs below, in turn
+    }
+  }
+  envelope_and_extremes(*model, full, stations, env, r.extremes, 0, mid);
+  if (mid < n) {
+    if (later.valid()) later.get();
+    else envelope_and_extremes(*model, full, stations, second, r.extremes, mid, n);
+    env.moment.insert(env.moment.end(), second.moment.begin(), second.moment.end());
+    env.shear.insert(env.shear.end(), second.shear.begin(), second.shear.end());
+    env.deflection.insert(env.deflection.end(), second.deflection.begin(), second.deflection.end());
+  }
   {
     std::vector<double> g(model->units.size());
     M::Interned pool;
@@ -817,22 +925,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     std::size_t arrangement = 0;
   };
   std::vector<Item> items;
-  // Each arrangement once (the same factor for every unit is solved once):
-  // the map holds it, `choices` points at it in order of discovery.
-  std::vector<const M::Choice*> choices;
-  std::vector<PointValues> pv;
-  std::vector<double> g(model.units.size());
-  std::map<M::Choice, std::size_t> index;  // lexicographic order of the factors
-  auto add = [&](Item it, bool want_max) {
-    M::Choice c;
-    model.extreme(g, want_max, &c);
-    const auto found = index.emplace(std::move(c), choices.size());
-    if (found.second) choices.push_back(&found.first->first);
-    it.arrangement = found.first->second;
-    const M::Choice& chosen = found.first->first;
-    it.check.arrangement = describe(model.governs(chosen), model.comb);
-    items.push_back(std::move(it));
-  };
+  std::vector<char> wants_max;  // per item: the largest value governs (else the smallest)
   double x0 = 0;
   for (std::size_t s = 0; s < beam.spans.size(); ++s) {
     const SpanExtremes& e = set.extremes[s];
@@ -852,9 +945,8 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
       it.index = s;
       it.local = std::min(std::max(sp.x - x0, 0.0), L);
       it.what = sp.w;
-      model.values(s, it.local, false, pv);
-      for (std::size_t u = 0; u < pv.size(); ++u) g[u] = quantity(pv[u], sp.w);
-      add(std::move(it), sp.want_max);
+      items.push_back(std::move(it));
+      wants_max.push_back(sp.want_max);
     }
     x0 += L;
   }
@@ -871,15 +963,64 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
       it.kind = Kind::Reaction;
       it.node = true;
       it.index = j;
-      for (std::size_t u = 0; u < model.units.size(); ++u) g[u] = model.units[u].reactions[j];
-      add(std::move(it), side == 0);
+      items.push_back(std::move(it));
+      wants_max.push_back(side == 0);
+    }
+  }
+
+  // Each item's arrangement in the lead model, worked out a block of items
+  // at a time (on a long beam, the two halves of a block side by side),
+  // then each arrangement kept once (the same factor for every unit is
+  // solved once): the map holds it, `choices` points at it in order of
+  // discovery.
+  std::vector<const M::Choice*> choices;
+  std::map<M::Choice, std::size_t> index;  // lexicographic order of the factors
+  std::vector<std::string> described;      // per arrangement, in order of discovery
+  constexpr std::size_t kBlock = 256;
+  std::vector<M::Choice> block(kBlock);
+  for (std::size_t from = 0; from < items.size(); from += kBlock) {
+    const std::size_t n = std::min(kBlock, items.size() - from);
+    auto choose = [&](std::size_t a, std::size_t b) {
+      std::vector<PointValues> pv;
+      std::vector<double> g(model.units.size());
+      for (std::size_t k = a; k < b; ++k) {
+        const Item& it = items[from + k];
+        if (it.node) {
+          for (std::size_t u = 0; u < model.units.size(); ++u) g[u] = model.units[u].reactions[it.index];
+        } else {
+          model.values(it.index, it.local, false, pv);
+          for (std::size_t u = 0; u < pv.size(); ++u) g[u] = quantity(pv[u], it.what);
+        }
+        model.extreme(g, wants_max[from + k] != 0, &block[k]);
+      }
+    };
+    std::future<void> other;
+    if (side_by_side && n > 1) {
+      try {
+        other = std::async(std::launch::async, choose, n / 2, n);
+      } catch (const std::system_error&) {
+        // no thread to be had: in turn, below
+      }
+    }
+    choose(0, other.valid() ? n / 2 : n);
+    if (other.valid()) other.get();
+    for (std::size_t k = 0; k < n; ++k) {
+      Item& it = items[from + k];
+      const auto found = index.emplace(std::move(block[k]), choices.size());
+      if (found.second) {
+        choices.push_back(&found.first->first);
+        described.push_back(describe(model.governs(found.first->first), model.comb));
+      }
+      it.arrangement = found.first->second;
+      it.check.arrangement = described[it.arrangement];
     }
   }
 
   // Each arrangement solved directly by every method, as an ordinary load
   // set, and read at the points it governs (one solution at a time). On a
-  // long beam the methods run side by side, each building the arrangements'
-  // beams itself; their values are merged in the order of the methods.
+  // long beam the arrangements are shared out between threads: each builds
+  // an arrangement's beam once and every method solves it. The values are
+  // merged in the order of the methods.
   std::vector<std::vector<std::size_t>> uses(choices.size());
   for (std::size_t i = 0; i < items.size(); ++i) uses[items[i].arrangement].push_back(i);
   struct Read {
@@ -887,18 +1028,23 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     std::vector<char> got;      // per item: the method gave a value (finite or not)
     std::vector<char> failed;   // per item: the method failed (not merely not applicable)
   };
-  auto read = [&](const Method* m) {
-    Read rd;
+  std::vector<Read> reads(methods.size());
+  for (auto& rd : reads) {
     rd.value.assign(items.size(), 0.0);
     rd.got.assign(items.size(), 0);
     rd.failed.assign(items.size(), 0);
-    // The load set's stations hold every position where a load of the
-    // arrangement acts (its loads are some of the load set's).
-    const std::vector<Station>& st = set.stations;
-    for (std::size_t k = 0; k < choices.size(); ++k) {
+  }
+  // The load set's stations hold every position where a load of the
+  // arrangement acts (its loads are some of the load set's). Each item
+  // belongs to one arrangement: threads write to different items.
+  const std::vector<Station>& st = set.stations;
+  auto solve_one = [&](std::size_t k) {
+    const Beam ab = model.arrangement_beam(*choices[k]);
+    for (std::size_t mi = 0; mi < methods.size(); ++mi) {
+      Read& rd = reads[mi];
       Solution sol;
       try {
-        sol = m->solve(model.arrangement_beam(*choices[k]), st);
+        sol = methods[mi]->solve(ab, st);
       } catch (const std::bad_alloc&) {
         throw;
       } catch (const std::exception& e) {
@@ -924,20 +1070,27 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
         }
       }
     }
-    return rd;
   };
-  std::vector<std::future<Read>> later(methods.size());
-  if (side_by_side)
-    for (std::size_t k = 1; k < methods.size(); ++k) {
+  std::atomic<std::size_t> next{0};
+  auto work = [&] {
+    for (std::size_t k; (k = next++) < choices.size();) solve_one(k);
+  };
+  std::vector<std::future<void>> helpers;
+  if (side_by_side) {
+    const unsigned threads = std::max(1u, std::thread::hardware_concurrency());
+    for (unsigned t = 1; t < threads; ++t) {
       try {
-        later[k] = std::async(std::launch::async, read, methods[k]);
+        helpers.push_back(std::async(std::launch::async, work));
       } catch (const std::system_error&) {
-        // no thread to be had: this method runs below, in turn
+        break;  // no thread to be had: fewer helpers
       }
     }
+  }
+  work();
+  for (auto& h : helpers) h.get();
   for (auto& it : items) it.check.holds = true;
   for (std::size_t k = 0; k < methods.size(); ++k) {
-    const Read rd = later[k].valid() ? later[k].get() : read(methods[k]);
+    const Read& rd = reads[k];
     for (std::size_t i = 0; i < items.size(); ++i) {
       RouteCheck& rc = items[i].check;
       if (rd.failed[i]) rc.holds = false;

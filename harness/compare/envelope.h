@@ -17,6 +17,7 @@
 
 #include <array>
 #include <cstddef>
+#include <cstdint>
 #include <limits>
 #include <map>
 #include <memory>
@@ -52,13 +53,29 @@ class EnvelopeModel {
   // The largest (want_max) or smallest combined value of units' values g
   // (one per unit), and the choice that gives it.
   double extreme(const std::vector<double>& g, bool want_max, Choice* choice) const;
+  // For "all" arrangements: each unit's factor in the largest (max) and
+  // the smallest (min) envelope where its value is positive, negative or
+  // zero: the choice pick() makes, worked out once (prepare()).
+  struct Options {
+    double max_pos = 0, max_neg = 0, max_zero = 0, min_pos = 0, min_neg = 0, min_zero = 0;
+  };
+  std::vector<Options> options;  // empty until prepare(): extreme() then asks pick()
+  // Works out `options` from `units` and `comb` (call after the units are set).
+  void prepare();
   // What governs, shared between the points that have the same.
   struct Interned {
     std::map<std::pair<std::size_t, std::size_t>, std::vector<std::shared_ptr<const Governs>>> buckets;
     // The last few choices and what they govern: along a span most points
-    // have the choice of the point before.
-    std::array<std::pair<Choice, std::shared_ptr<const Governs>>, 4> recent;
+    // have the choices of the point before (six a station: the largest and
+    // smallest moment, shear and deflection).
+    struct Recent {
+      Choice choice;
+      std::uint64_t hash = 0;  // of `choice`, compared first
+      std::shared_ptr<const Governs> by;
+    };
+    std::array<Recent, 8> recent;
     std::size_t next = 0;
+    Choice hi, lo;  // room for combine()'s choices
   };
   std::shared_ptr<const Governs> intern(Governs g, Interned* pool) const;
   // Both bounds, with what governs them (shared through `pool` if given).

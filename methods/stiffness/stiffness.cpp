@@ -346,7 +346,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
     // In scope, so the loads are out of span order: group them by span,
     // in their own order within a span, the node loads first.
     std::vector<std::size_t> off(n + 2, 0);
-    auto key = [n](const BasicLoad<R>& l) { return l.on_node ? 0 : l.index + 1; };
+    auto key = [](const BasicLoad<R>& l) { return l.on_node ? 0 : l.index + 1; };
     for (const BasicLoad<R>& l : loads) ++off[key(l) + 1];
     for (std::size_t s = 0; s <= n; ++s) off[s + 1] += off[s];
     std::vector<const BasicLoad<R>*> grouped(loads.size());
