@@ -407,4 +407,43 @@ void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOpt
   out << "caution: " << caution_text() << "\n";
 }
 
+namespace {
+
+// The tables for a person as a reporter: each beam's tables as they come,
+// the summary at the end. `errors_only` (the JSON report is on standard
+// output, this on standard error): only the errors of invalid beams.
+class ConsoleReporter final : public CheckReporter {
+ public:
+  ConsoleReporter(std::ostream& out, const ConsoleOptions& opt, bool errors_only)
+      : out_(out), opt_(opt), errors_only_(errors_only) {}
+  void begin(const RunInfo&) override {}
+  Part render(const Report& beam) const override {
+    std::ostringstream o;
+    write(o, beam);
+    return {o.str(), {}};
+  }
+  void beam(Part&& part) override { out_ << part.text; }
+  void keep(const Report& beam) override { write(out_, beam); }
+  std::string end(const Summary& s) override {
+    write_console_summary(out_, s, opt_);
+    return "";
+  }
+
+ private:
+  void write(std::ostream& o, const Report& b) const {
+    if (!errors_only_) write_console(o, b, opt_);
+    else if (b.status == BeamStatus::Invalid)
+      for (const auto& e : b.errors) o << "error: " << e.format(b.file) << "\n";
+  }
+  std::ostream& out_;
+  ConsoleOptions opt_;
+  bool errors_only_;
+};
+
+}  // namespace
+
+std::unique_ptr<CheckReporter> console_reporter(std::ostream& out, const ConsoleOptions& opt, bool errors_only) {
+  return std::make_unique<ConsoleReporter>(out, opt, errors_only);
+}
+
 }  // namespace trivet::reports

@@ -194,6 +194,18 @@ bool needs_attention(const Report& b) {
   return b.status != BeamStatus::Agree || b.claims_failed() > 0 || b.limits_failed() > 0;
 }
 
+// The beams as the writer reads them: in file order, owned by the caller.
+class BeamList {
+ public:
+  explicit BeamList(const std::vector<const Report*>& beams) : p_(beams) {}
+  std::size_t size() const { return p_.size(); }
+  bool empty() const { return p_.empty(); }
+  const Report& operator[](std::size_t i) const { return *p_[i]; }
+
+ private:
+  const std::vector<const Report*>& p_;
+};
+
 struct Writer {
   std::ostream& o;
   const HtmlOptions& opt;
@@ -208,15 +220,16 @@ struct Writer {
     return hashes[path] = h ? *h : std::string("(file not readable)");
   }
 
-  void summary(const std::vector<Report>& beams, const std::vector<std::size_t>& order) {
-    const Summary s = summarize(beams);
+  void summary(const BeamList& beams, const std::vector<std::size_t>& order) {
+    Summary s;
+    for (std::size_t i = 0; i < beams.size(); ++i) s.add(beams[i].status, beams[i].claims_failed(), beams[i].limits_failed());
     o << "<section id=\"summary\"><h2>Summary</h2>\n<p class=\"counts\"><b>" << s.beams << "</b> "
       << (s.beams == 1 ? "beam" : "beams") << ": <b>" << s.agree << "</b> agree, <b>" << s.disagree
       << "</b> disagree, <b>" << s.unconfirmed << "</b> unconfirmed, <b>" << s.invalid << "</b> invalid; <b>"
       << s.claims_failed << "</b> " << (s.claims_failed == 1 ? "claim fails" : "claims fail") << ".</p>\n";
     {
       std::size_t warned = 0;
-      for (const auto& b : beams) warned += b.warnings.empty() ? 0 : 1;
+      for (std::size_t i = 0; i < beams.size(); ++i) warned += beams[i].warnings.empty() ? 0 : 1;
       if (warned > 0)
         o << "<p class=\"warning\" id=\"summary-warnings\"><b>" << warned << "</b> "
           << (warned == 1 ? "beam has" : "beams have") << " warnings (marked below; see each beam's section).</p>\n";
@@ -616,7 +629,15 @@ struct Writer {
 
 }  // namespace
 
-HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const HtmlOptions& opt) {
+HtmlStats write_html(std::ostream& out, const std::vector<Report>& all, const HtmlOptions& opt) {
+  std::vector<const Report*> beams;
+  beams.reserve(all.size());
+  for (const auto& b : all) beams.push_back(&b);
+  return write_html(out, beams, opt);
+}
+
+HtmlStats write_html(std::ostream& out, const std::vector<const Report*>& pointers, const HtmlOptions& opt) {
+  const BeamList beams(pointers);
   Writer w{out, opt, {}, false, {}};
   const std::string date = opt.date_utc.empty() ? utc_now_iso8601() : opt.date_utc;
   // Problems first, then file order.

@@ -7,13 +7,15 @@
 #pragma once
 
 #include <cstddef>
+#include <memory>
 #include <ostream>
 #include <string>
 #include <vector>
 
 #include "harness/compare/compare.h"
-#include "reports/report.h"
 #include "reports/plot.h"
+#include "reports/report.h"
+#include "reports/reports.h"
 
 namespace trivet::reports {
 
@@ -55,6 +57,14 @@ struct HtmlStats {
 };
 
 HtmlStats write_html(std::ostream& out, const std::vector<Report>& beams, const HtmlOptions& options);
+// The same for beams held elsewhere (in file order; none may be null).
+HtmlStats write_html(std::ostream& out, const std::vector<const Report*>& beams, const HtmlOptions& options);
+
+// The HTML report as a sibling of the other formats (reports.h): it needs
+// every beam before it writes (the summary comes first), so it keeps the
+// beams it is given (needs_all_results()) and writes the page at end().
+// warning() then names plots that could not be made.
+std::unique_ptr<CheckReporter> html_reporter(std::ostream& out, const HtmlOptions& options);
 
 // &, <, >, " and ' as entities.
 std::string html_escape(const std::string& s);

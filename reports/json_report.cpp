@@ -666,4 +666,65 @@ void write_json(std::ostream& out, const std::vector<Report>& beams, const RunIn
   });
 }
 
+namespace {
+
+// The JSON report as a reporter. Streamed: the head with room for the
+// counts, each beam's element as it comes, then the head again. Otherwise
+// the elements are held (or, for kept beams, the beams themselves) and the
+// whole report written at end().
+class JsonReporter final : public CheckReporter {
+ public:
+  explicit JsonReporter(const Output& output) : out_(*output.out), streamed_(output.streamed) {}
+  void begin(const RunInfo& run) override {
+    run_ = run;
+    if (streamed_) out_ << json_head({}, run_, true);
+  }
+  Part render(const Report& beam) const override {
+    Part p;
+    json_beam_fragment(beam, p.text);
+    return p;
+  }
+  void beam(Part&& part) override {
+    if (streamed_) {
+      if (any_) out_ << ',';
+      out_ << part.text;
+    } else {
+      held_.push_back(std::move(part.text));
+    }
+    any_ = true;
+  }
+  void keep(const Report& beam) override {
+    if (streamed_) return CheckReporter::keep(beam);
+    kept_.push_back(&beam);  // written straight from the beam at end(), without a copy of its text
+    any_ = true;
+  }
+  std::string end(const Summary& s) override {
+    if (streamed_) {
+      out_ << json_tail(any_);
+      out_.seekp(0);
+      out_ << json_head(s, run_, true);  // the same length, now with the counts
+    } else if (!kept_.empty()) {
+      report(out_, s, run_, [&](JsonWriter& w) {
+        for (const Report* b : kept_) beam_object(w, *b);
+      });
+    } else {
+      std::vector<std::string_view> parts(held_.begin(), held_.end());
+      write_json_fragments(out_, s, parts, run_);
+    }
+    return "";  // a failed write shows in the stream, which the caller checks when it closes it
+  }
+
+ private:
+  std::ostream& out_;
+  bool streamed_;
+  RunInfo run_;
+  bool any_ = false;
+  std::vector<std::string> held_;
+  std::vector<const Report*> kept_;
+};
+
+}  // namespace
+
+std::unique_ptr<CheckReporter> json_reporter(const Output& output) { return std::make_unique<JsonReporter>(output); }
+
 }  // namespace trivet::reports

@@ -233,4 +233,56 @@ void write_junit(std::ostream& out, const std::vector<Report>& beams, double equ
   write_junit_suites(out, counts, suites);
 }
 
+namespace {
+
+// JUnit XML as a reporter. Streamed: the root tag with room for the
+// counts, each beam's suite as it comes, then the root tag again.
+// Otherwise the suites are held and the document written at end().
+class JunitReporter final : public CheckReporter {
+ public:
+  JunitReporter(const Output& output, double equilibrium_bound)
+      : out_(*output.out), streamed_(output.streamed), bound_(equilibrium_bound) {}
+  void begin(const RunInfo&) override {
+    if (streamed_) out_ << junit_head({}, true);
+  }
+  Part render(const Report& beam) const override {
+    Part p;
+    p.tally = junit_suite(beam, bound_, p.text);
+    return p;
+  }
+  void beam(Part&& part) override {
+    total_.add(part.tally);
+    if (streamed_) {
+      out_ << part.text;
+      return;
+    }
+    counts_.push_back(part.tally);
+    held_.push_back(std::move(part.text));
+  }
+  std::string end(const Summary&) override {
+    if (streamed_) {
+      out_ << junit_tail();
+      out_.seekp(0);
+      out_ << junit_head(total_, true);  // the same length, now with the counts
+    } else {
+      write_junit_suites(out_, counts_, std::vector<std::string_view>(held_.begin(), held_.end()));
+    }
+    return "";  // a failed write shows in the stream, which the caller checks when it closes it
+  }
+
+ private:
+  std::ostream& out_;
+  bool streamed_;
+  double bound_;
+  JunitCounts total_;
+  std::vector<JunitCounts> counts_;
+  std::vector<std::string> held_;
+};
+
+}  // namespace
+
+std::unique_ptr<CheckReporter> junit_reporter(const Output& output, double equilibrium_bound) {
+  return std::make_unique<JunitReporter>(output, equilibrium_bound);
+}
+
 }  // namespace trivet::reports

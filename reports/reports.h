@@ -1,6 +1,7 @@
 // trivet: report writers. They read results and never compute them.
 #pragma once
 
+#include <memory>
 #include <ostream>
 #include <string>
 #include <string_view>
@@ -8,6 +9,7 @@
 
 #include "harness/compare/compare.h"
 #include "reports/report.h"
+#include "reports/reporter.h"
 
 namespace trivet::reports {
 
@@ -17,12 +19,6 @@ struct Summary {
   void add(compare::BeamStatus status, std::size_t failed_claims, std::size_t failed_limits = 0);
 };
 Summary summarize(const std::vector<Report>& beams);
-
-struct RunInfo {
-  std::string version;
-  std::vector<std::string> methods;  // asked for
-  double agreement = 1e-6;
-};
 
 // The full report (CONTRACT section 4) as JSON.
 void write_json(std::ostream& out, const std::vector<Report>& beams, const RunInfo& run);
@@ -48,10 +44,7 @@ const char* json_tail(bool any_beams);
 void write_junit(std::ostream& out, const std::vector<Report>& beams, double equilibrium_bound);
 // The same in two steps (see json_beam_fragment): one beam's testsuite with
 // its counts, then the document around the suites, in order.
-struct JunitCounts {
-  std::size_t tests = 0, failures = 0, errors = 0;
-  double seconds = 0;
-};
+using JunitCounts = Tally;  // tests, failures, errors, seconds
 // A JUnit classname for a beam file: its path without ".json", other dots
 // as "_" (CI viewers split classnames at dots).
 std::string junit_classname(const std::string& path);
@@ -74,6 +67,20 @@ struct ConsoleOptions {
 void write_console(std::ostream& out, const Report& beam, const ConsoleOptions& opt);
 // The closing summary line(s).
 void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOptions& opt);
+
+// The check's report formats, siblings of one interface (reporter.h); the
+// HTML report's is in html_report.h. Each writes to `output`, which the
+// caller opens and, after end(), closes.
+using CheckReporter = Reporter<Report, Summary>;
+// The tables for a person (or, `errors_only`, just the errors of invalid
+// beams, when standard output carries the JSON report), then the summary.
+std::unique_ptr<CheckReporter> console_reporter(std::ostream& out, const ConsoleOptions& opt, bool errors_only);
+// The JSON report (CONTRACT section 4): the same bytes as write_json, or,
+// streamed, with spaces after the summary where its counts were left room.
+std::unique_ptr<CheckReporter> json_reporter(const Output& output);
+// JUnit XML: the same bytes as write_junit, or, streamed, with spaces in
+// the root tag where its counts were left room.
+std::unique_ptr<CheckReporter> junit_reporter(const Output& output, double equilibrium_bound);
 
 // Rounds a value for a person: `decimals` after the point, no "-0".
 std::string fixed(double v, int decimals);

@@ -10,6 +10,7 @@ trivet_add_test(methods_test ${CMAKE_CURRENT_SOURCE_DIR}/methods_test.cpp
   trivet_registry trivet_three_moment trivet_slope_deflection trivet_stiffness)
 trivet_add_test(references_test ${CMAKE_CURRENT_SOURCE_DIR}/references_test.cpp trivet_references nlohmann_json::nlohmann_json)
 trivet_add_test(reports_test ${CMAKE_CURRENT_SOURCE_DIR}/reports_test.cpp trivet_reports nlohmann_json::nlohmann_json)
+trivet_add_test(reporter_test ${CMAKE_CURRENT_SOURCE_DIR}/reporter_test.cpp trivet_reports trivet_report_selfcheck nlohmann_json::nlohmann_json)
 
 # The program end to end, on the bundled examples and on invalid input.
 add_test(NAME cli_examples_agree COMMAND trivet check ${PROJECT_SOURCE_DIR}/examples --jobs 2)

@@ -10,16 +10,20 @@
 #include <cstdio>
 #include <cstdlib>
 #include <iostream>
+#include <memory>
 #include <mutex>
 #include <new>
 #include <sstream>
 #include <thread>
+#include <utility>
+#include <vector>
 
 #include <unistd.h>
 
 
 #include "harness/cli/files.h"
 #include "harness/cli/memory.h"
+#include "harness/cli/reporting.h"
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
@@ -103,74 +107,76 @@ int run_check(const CheckArgs& a) {
     files.swap(mine);
   }
 
-  // Each beam is read, checked and written out (console text, JSON and
-  // JUnit parts) by a worker, so that report writing runs in parallel too
-  // and a checked beam's results can be let go at once. The main thread
-  // takes the parts in file order as they are ready and writes them to the
-  // console and the report files while the workers go on, so the output
-  // does not depend on --jobs. The report files' counts come first, so
-  // their heads are written with room for the counts and written again at
-  // the end. --html and --against need the whole results afterwards: then
-  // they are kept (and with --against, written after the comparison).
+  // Each beam is read and checked by a worker, which also renders its part
+  // of every report format (reports/reporter.h), so that report writing
+  // runs in parallel too and a checked beam's results can be let go at
+  // once. The main thread hands the parts to the formats in file order as
+  // they are ready, while the workers go on, so the output does not depend
+  // on --jobs. One beam (perhaps a very long one) and --against are
+  // reported from the whole results afterwards (with --against, after the
+  // comparison; the JSON report then straight from the results, without a
+  // copy of its text in memory), as are formats that need every beam (HTML).
   const bool json_to_stdout = a.json == "-";
   reports::ConsoleOptions copt;
   copt.color = !json_to_stdout && use_color(1);
   copt.all_rows = a.all_rows;
-  // One beam (perhaps a very long one) is written straight from its results
-  // instead, without a copy of its report text in memory.
   const bool single = files.size() == 1;
-  const bool keep_results = !a.html.empty() || !a.against.empty() || single;
-  const bool render_in_workers = a.against.empty() && !single;
+  const bool streamed = a.against.empty() && !single;  // parts rendered by the workers
+
+  // The formats, in the order they finish (and name their problems): the
+  // tables (on standard error when the JSON report is on standard output),
+  // JSON, HTML, JUnit. A report file that cannot be opened gets no reporter;
+  // its reason is given at the end.
+  std::ostream& human = json_to_stdout ? std::cerr : std::cout;
+  Reporting<reports::CheckReporter> reporting(reports::console_reporter(human, copt, json_to_stdout));
+  reporting.add("--json", a.json, [&](ReportFile& f) { return reports::json_reporter({&f.out(), streamed && f.seekable()}); });
+  reporting.add("--html", a.html, [&](ReportFile& f) {
+    reports::HtmlOptions ho;
+    ho.agreement = opt.agreement;
+    ho.all_details = a.html_all;
+    ho.tool_version = TRIVET_VERSION;
+    ho.command_line = a.command_line;
+    return reports::html_reporter(f.out(), ho);
+  });
+  reporting.add("--junit", a.junit, [&](ReportFile& f) {
+    return reports::junit_reporter({&f.out(), streamed && f.seekable()}, opt.agreement);
+  });
+  auto& reporters = reporting.list();
+  bool any_needs_all = false;
+  for (const auto& rep : reporters) any_needs_all = any_needs_all || rep->needs_all_results();
+  const bool keep_results = !streamed || any_needs_all;
+
   struct Rendered {
-    std::string console;  // the beam's tables; with --json -, its errors (for stderr)
-    std::string json;
-    std::string junit;
-    reports::JunitCounts junit_counts;
+    std::vector<reports::Part> parts;  // one per reporter (empty for one that needs all results)
+    std::string problem;               // an internal error while rendering (then no parts)
     compare::BeamStatus status = compare::BeamStatus::Invalid;
     std::size_t claims_failed = 0;
     std::size_t limits_failed = 0;
   };
+  // Room for every beam and every unreadable path: the kept beams do not
+  // move, so the formats that keep them may hold on to them.
   std::vector<reports::Report> results(files.size());
-  std::vector<Rendered> rendered(files.size());
+  results.reserve(files.size() + problems.size());
+  std::vector<Rendered> rendered(streamed ? files.size() : 0);
   unsigned jobs = a.jobs ? a.jobs : std::max(1u, std::thread::hardware_concurrency());
   jobs = static_cast<unsigned>(std::min<std::size_t>(jobs, std::max<std::size_t>(files.size(), 1)));
 
   const reports::RunInfo run{TRIVET_VERSION, opt.methods, opt.agreement};
-  ReportFile json_file, junit_file;
-  std::string json_err, junit_err;
-  bool json_stream = false, junit_stream = false;  // written as the run goes on
-  if (render_in_workers) {
-    if (!a.json.empty()) {
-      json_err = json_file.open(a.json);
-      json_stream = json_err.empty() && json_file.seekable();
-      if (json_stream) json_file.out() << reports::json_head({}, run, true);
-    }
-    if (!a.junit.empty()) {
-      junit_err = junit_file.open(a.junit);
-      junit_stream = junit_err.empty() && junit_file.seekable();
-      if (junit_stream) junit_file.out() << reports::junit_head({}, true);
-    }
-  }
+  for (auto& rep : reporters) rep->begin(run);
 
   auto render = [&](const reports::Report& r, Rendered& out) {
     out.status = r.status;
     out.claims_failed = r.claims_failed();
     out.limits_failed = r.limits_failed();
-    {
-      std::ostringstream con;
-      if (!json_to_stdout) reports::write_console(con, r, copt);
-      else if (r.status == compare::BeamStatus::Invalid)
-        for (const auto& e : r.errors) con << "error: " << e.format(r.file) << "\n";
-      out.console = con.str();
-    }
-    if (!a.json.empty()) reports::json_beam_fragment(r, out.json);
-    if (!a.junit.empty()) out.junit_counts = reports::junit_suite(r, opt.agreement, out.junit);
+    out.parts.resize(reporters.size());
+    for (std::size_t k = 0; k < reporters.size(); ++k)
+      if (!reporters[k]->needs_all_results()) out.parts[k] = reporters[k]->render(r);
   };
   std::atomic<std::size_t> next{0};
   std::atomic<bool> internal_error{false};
   // Progress on a terminal, kept by the writing thread: it clears the line
   // before a beam's text goes to the same terminal, then puts it back.
-  const bool progress = render_in_workers && isatty(2) && files.size() > 5;
+  const bool progress = streamed && isatty(2) && files.size() > 5;
   const bool human_on_terminal = isatty(json_to_stdout ? 2 : 1);
   std::mutex ready_mutex;
   std::condition_variable ready_cv;
@@ -203,11 +209,12 @@ int run_check(const CheckArgs& a) {
       r.errors.push_back({"", "", std::string("internal error while checking: ") + e.what(), "internal.error"});
     }
     r.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count();
-    if (render_in_workers) {
+    if (streamed) {
       try { render(r, rendered[i]); }
       catch (const std::exception& e) {
         internal_error = true;
-        rendered[i].console = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
+        rendered[i].parts.clear();
+        rendered[i].problem = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
       }
       if (!keep_results) r = reports::Report{};
       {
@@ -221,34 +228,24 @@ int run_check(const CheckArgs& a) {
     for (std::size_t i; (i = next++) < files.size();) check_one(i);
   };
 
-  std::ostream& human = json_to_stdout ? std::cerr : std::cout;
   reports::Summary s;
-  reports::JunitCounts junit_total;
-  bool any_json = false;
-  // Writes one beam's parts and lets them go (those for standard output
-  // wait for the end, where the counts are known).
-  auto emit = [&](Rendered& r) {
-    human << r.console;
-    std::string().swap(r.console);
-    s.add(r.status, r.claims_failed, r.limits_failed);
-    junit_total.tests += r.junit_counts.tests;
-    junit_total.failures += r.junit_counts.failures;
-    junit_total.errors += r.junit_counts.errors;
-    junit_total.seconds += r.junit_counts.seconds;
-    if (json_stream) {
-      if (any_json) json_file.out() << ',';
-      json_file.out() << r.json;
+  // Hands beam i to every format, in file order: its rendered parts (then
+  // lets them go), or, to a format that needs all results, the beam.
+  auto emit = [&](std::size_t i) {
+    Rendered& r = rendered[i];
+    if (!r.problem.empty()) human << r.problem;
+    for (std::size_t k = 0; k < reporters.size(); ++k) {
+      if (reporters[k]->needs_all_results()) reporters[k]->keep(results[i]);
+      else if (r.problem.empty()) reporters[k]->beam(std::move(r.parts[k]));
     }
-    if (json_stream || !json_err.empty()) std::string().swap(r.json);
-    any_json = true;
-    if (junit_stream) junit_file.out() << r.junit;
-    if (junit_stream || !junit_err.empty()) std::string().swap(r.junit);
+    std::vector<reports::Part>().swap(r.parts);
+    s.add(r.status, r.claims_failed, r.limits_failed);
   };
-  if (render_in_workers) {
+  if (streamed) {
     // The main thread is one of the `jobs` checkers: between beams of its
-    // own it writes, in file order, every beam that is ready, and at the
-    // end it waits for the rest. (A separate writing thread would make one
-    // thread more than cores, and a wake-up per beam.)
+    // own it hands over, in file order, every beam that is ready, and at
+    // the end it waits for the rest. (A separate writing thread would make
+    // one thread more than cores, and a wake-up per beam.)
     std::vector<std::thread> pool;
     for (unsigned t = 1; t < jobs; ++t) pool.emplace_back(work);
     std::size_t written = 0;
@@ -260,7 +257,7 @@ int run_check(const CheckArgs& a) {
           else if (!ready[written]) return;
         }
         if (progress && human_on_terminal) std::cerr << "\r" << std::string(40, ' ') << "\r" << std::flush;
-        emit(rendered[written]);
+        emit(written);
         ++written;
         if (progress) {
           if (human_on_terminal) human.flush();
@@ -308,97 +305,31 @@ int run_check(const CheckArgs& a) {
     }
   }
 
+  // Paths that could not be read, after the beams.
   for (const auto& [path, why] : problems) {
     reports::Report r;
     r.file = path;
     r.errors.push_back({"", "", why, "input.file"});
-    if (render_in_workers) {
+    results.push_back(std::move(r));  // within the room reserved above
+    if (streamed) {
       rendered.emplace_back();
-      render(r, rendered.back());
-      emit(rendered.back());
+      render(results.back(), rendered.back());
+      emit(results.size() - 1);
+      if (!keep_results) results.back() = reports::Report{};
     }
-    if (keep_results) results.push_back(std::move(r));
   }
 
-  // One beam, or --against: the console tables and reports straight from
-  // the results.
-  if (!render_in_workers) {
+  // One beam, or --against: every format from the whole results.
+  if (!streamed) {
     for (const auto& r : results) {
-      if (!json_to_stdout) reports::write_console(std::cout, r, copt);
-      else if (r.status == compare::BeamStatus::Invalid)
-        for (const auto& e : r.errors) std::cerr << "error: " << e.format(r.file) << "\n";
+      for (auto& rep : reporters) rep->keep(r);
+      s.add(r.status, r.claims_failed(), r.limits_failed());
     }
-    s = reports::summarize(results);
   }
-  reports::write_console_summary(human, s, copt);
 
-  int code = kExitAgree;
-  if (!a.json.empty()) {
-    std::string err;
-    if (!render_in_workers) {
-      err = write_report_file(a.json, [&](std::ostream& o) { reports::write_json(o, results, run); });
-    } else if (!json_err.empty()) {
-      err = json_err;
-    } else if (json_stream) {
-      std::ostream& o = json_file.out();
-      o << reports::json_tail(any_json);
-      o.seekp(0);
-      o << reports::json_head(s, run, true);  // the same length, now with the counts
-      err = json_file.commit();
-    } else {  // standard output: the parts were kept
-      std::vector<std::string_view> parts;
-      parts.reserve(rendered.size());
-      for (const auto& r : rendered) parts.push_back(r.json);
-      reports::write_json_fragments(json_file.out(), s, parts, run);
-      err = json_file.commit();
-    }
-    if (!err.empty()) {
-      std::cerr << "trivet: --json: " << err << "\n";
-      code = kExitInvalid;
-    }
-  }
-  if (!a.html.empty()) {
-    reports::HtmlOptions ho;
-    ho.agreement = opt.agreement;
-    ho.all_details = a.html_all;
-    ho.tool_version = TRIVET_VERSION;
-    ho.command_line = a.command_line;
-    reports::HtmlStats st;
-    const std::string err = write_report_file(a.html, [&](std::ostream& o) { st = reports::write_html(o, results, ho); });
-    if (!err.empty()) {
-      std::cerr << "trivet: --html: " << err << "\n";
-      code = kExitInvalid;
-    } else if (!st.plot_error.empty()) {
-      std::cerr << "trivet: --html: the report was written without some plots: " << st.plot_error << "\n";
-    }
-  }
-  if (!a.junit.empty()) {
-    std::string err;
-    if (!render_in_workers) {
-      err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_junit(o, results, opt.agreement); });
-    } else if (!junit_err.empty()) {
-      err = junit_err;
-    } else if (junit_stream) {
-      std::ostream& o = junit_file.out();
-      o << reports::junit_tail();
-      o.seekp(0);
-      o << reports::junit_head(junit_total, true);
-      err = junit_file.commit();
-    } else {
-      std::vector<reports::JunitCounts> counts;
-      std::vector<std::string_view> suites;
-      for (const auto& r : rendered) {
-        counts.push_back(r.junit_counts);
-        suites.push_back(r.junit);
-      }
-      reports::write_junit_suites(junit_file.out(), counts, suites);
-      err = junit_file.commit();
-    }
-    if (!err.empty()) {
-      std::cerr << "trivet: --junit: " << err << "\n";
-      code = kExitInvalid;
-    }
-  }
+  // The formats finish in order; a report file is put in place only when
+  // its format has written it whole.
+  const int code = reporting.finish(s) ? kExitAgree : kExitInvalid;
   if (files.empty() && problems.empty() && a.shard.empty()) {
     fail("trivet: no beam files found");
   }

@@ -9,15 +9,20 @@
 #include <cstdio>
 #include <cstdlib>
 #include <iostream>
+#include <memory>
 #include <mutex>
 #include <sstream>
+#include <string>
 #include <thread>
+#include <utility>
+#include <vector>
 
 #include <unistd.h>
 
 
 #include "harness/cli/files.h"
 #include "harness/cli/memory.h"
+#include "harness/cli/reporting.h"
 #include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
@@ -34,17 +39,6 @@
 #include "methods/registry/registry.h"
 
 namespace trivet::cli {
-
-namespace {
-// A number for a person to read in the record: `digits` significant digits
-// (the JSON record keeps every digit).
-std::string sig(double v, int digits) {
-  char buf[48];
-  std::snprintf(buf, sizeof buf, "%.*g", digits, v);
-  return buf;
-}
-}  // namespace
-
 
 // `trivet selfcheck`: every cited case on every method, a table, and exit 0
 // only when every published value holds on every applicable method.
@@ -84,95 +78,36 @@ int run_selfcheck(const SelfcheckArgs& a) {
   if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
       !why.empty())
     fail("trivet: ", why);
+  // The formats, in the order they finish (and name their problems): the
+  // tables (only the counts, on standard error, when the JSON record is on
+  // standard output), JSON, HTML, JUnit.
   const bool to_stdout = a.json == "-";
-  std::ostream& human = to_stdout ? std::cerr : std::cout;
-  const bool color = !to_stdout && use_color(1);
-  auto paint = [&](const std::string& t, bool good) {
-    return color ? std::string(good ? "\033[32m" : "\033[1;31m") + t + "\033[0m" : t;
-  };
-  if (!to_stdout) {
-    for (const auto& c : r.cases) {
-      std::cout << c.id << "  [" << paint(c.holds ? "holds" : "FAILS", c.holds) << "]  " << c.title << "\n";
-      std::cout << "  source: " << c.citation << "\n";
-      for (const auto& [id, line] : rounding)
-        if (id == c.id && !line.empty())
-          std::cout << "  arithmetic: " << (a.arithmetic != "double" ? a.arithmetic : "double, reference " + a.reference)
-                    << "; correct digits of the double results:" << line << "\n";
-      for (const auto& e : c.errors) std::cout << "  error: " << e.format(c.file) << "\n";
-      for (const auto& [m, why] : c.methods_skipped) std::cout << "  " << m << ": not applicable (" << why << ")\n";
-      for (const auto& [m, why] : c.methods_failed) std::cout << "  " << m << ": " << paint("failed", false) << " (" << why << ")\n";
-      if (!c.verdict_problem.empty()) std::cout << "  " << c.verdict_problem << "\n";
-      auto g = [](double x, int digits) {
-        char buf[48];
-        std::snprintf(buf, sizeof buf, "%.*g", digits, x);
-        return std::string(buf);
-      };
-      for (const auto& v : c.values) {
-        std::string printed = v.published;
-        if (!v.multiplier.empty() && v.multiplier != "1")
-          printed = printed == "1" ? v.multiplier : printed == "-1" ? "-" + v.multiplier : printed + " " + v.multiplier;
-        if (v.magnitude) printed += " (printed without sign; the magnitude is compared)";
-        std::cout << "  " << (v.holds ? "  ok " : paint("FAIL ", false)) << v.quantity << " at " << v.where << ": published "
-                  << printed << " = " << g(v.expected, 10) << " +- " << g(v.tolerance, 2) << "; computed";
-        for (const auto& m : v.methods) {
-          if (!m.evaluated) continue;
-          std::cout << " " << m.method << " " << g(m.computed, 10) << (m.holds ? "" : " (out)");
-        }
-        std::cout << "\n";
-      }
-    }
-  }
-  human << "selfcheck: " << r.cases.size() << " cited cases, " << r.values_checked() << " published values: "
-        << r.cases.size() - r.cases_failed() << " cases hold, " << r.cases_failed() << " fail ("
-        << r.values_failed() << " values out of tolerance)\n";
-  human << "caution: " << compare::caution_text() << "\n";
-  int code = r.holds() ? kExitAgree : kExitDisagree;
-  if (!a.json.empty()) {
-    const std::string err = write_report_file(a.json, [&](std::ostream& o) { reports::write_selfcheck_json(o, r, TRIVET_VERSION); });
-    if (!err.empty()) { std::cerr << "trivet: --json: " << err << "\n"; code = kExitInvalid; }
-  }
-  if (!a.html.empty()) {
+  reports::SelfcheckConsoleOptions copt;
+  copt.color = !to_stdout && use_color(1);
+  copt.cases = !to_stdout;
+  copt.arithmetic = a.arithmetic != "double" ? a.arithmetic : "double, reference " + a.reference;
+  copt.rounding = std::move(rounding);
+  Reporting<reports::SelfcheckReporter> reporting(reports::selfcheck_console_reporter(to_stdout ? std::cerr : std::cout, copt));
+  reporting.add("--json", a.json, [](ReportFile& f) { return reports::selfcheck_json_reporter(f.out()); });
+  reporting.add("--html", a.html, [&](ReportFile& f) {
     reports::HtmlOptions ho;
     ho.title = "trivet verification record (selfcheck)";
     ho.tool_version = TRIVET_VERSION;
     ho.command_line = a.command_line;
     ho.plots = false;
-    std::ostringstream h;
-    char host[256] = "unknown";
-    gethostname(host, sizeof host - 1);
-    h << "<p>Tool trivet " << TRIVET_VERSION << ", built " << __DATE__ << " with " << __VERSION__ << "; machine "
-      << reports::html_escape(host) << " (" << std::thread::hardware_concurrency() << " cores). "
-      << r.cases.size() << " cited cases, " << r.values_checked() << " published values; "
-      << r.cases.size() - r.cases_failed() << " cases hold, " << r.cases_failed() << " fail.</p>\n";
-    h << "<table><tr><th>case</th><th>source</th><th>quantity</th><th>published</th><th>expected</th><th>tolerance</th>"
-         "<th>" << registry::names("</th><th>") << "</th><th>holds</th></tr>\n";
-    for (const auto& c : r.cases) {
-      for (std::size_t i = 0; i < c.values.size(); ++i) {
-        const auto& v = c.values[i];
-        h << "<tr><td>" << (i == 0 ? reports::html_escape(c.id) : "") << "</td><td>" << (i == 0 ? reports::html_escape(c.citation) : "")
-          << "</td><td>" << reports::html_escape(v.quantity + " at " + v.where) << "</td><td>" << reports::html_escape(v.published + " " + v.multiplier + (v.magnitude ? " (printed without sign; magnitude compared)" : ""))
-          << "</td><td>" << sig(v.expected, 10) << "</td><td>" << sig(v.tolerance, 2) << "</td>";
-        for (const auto& method : registry::all()) {
-          const std::string m = method.name;
-          std::string cell = "-";
-          for (const auto& mv : v.methods)
-            if (mv.method == m) cell = mv.evaluated ? sig(mv.computed, 10) : "n/a";
-          h << "<td>" << reports::html_escape(cell) << "</td>";
-        }
-        h << "<td>" << (v.holds ? "yes" : "<strong>NO</strong>") << "</td></tr>\n";
-      }
-      if (c.values.empty() || !c.errors.empty())
-        h << "<tr><td>" << reports::html_escape(c.id) << "</td><td colspan=\"9\">" << (c.holds ? "holds" : "<strong>FAILS</strong>") << "</td></tr>\n";
-    }
-    h << "</table>\n";
-    ho.extra_sections.push_back({"selfcheck", "Verification record: cited reference cases", h.str()});
-    const std::string err = write_report_file(a.html, [&](std::ostream& o) { reports::write_html(o, {}, ho); });
-    if (!err.empty()) { std::cerr << "trivet: --html: " << err << "\n"; code = kExitInvalid; }
+    return reports::selfcheck_html_reporter(f.out(), ho);
+  });
+  reporting.add("--junit", a.junit, [](ReportFile& f) { return reports::selfcheck_junit_reporter(f.out()); });
+
+  const reports::RunInfo run{TRIVET_VERSION, opt.methods, opt.agreement};
+  for (auto& rep : reporting.list()) rep->begin(run);
+  reports::SelfcheckSummary s;
+  for (const auto& c : r.cases) {
+    for (auto& rep : reporting.list()) rep->keep(c);
+    s.add(c);
   }
-  if (!a.junit.empty()) {
-    const std::string err = write_report_file(a.junit, [&](std::ostream& o) { reports::write_selfcheck_junit(o, r); });
-    if (!err.empty()) { std::cerr << "trivet: --junit: " << err << "\n"; code = kExitInvalid; }
-  }
+  int code = r.holds() ? kExitAgree : kExitDisagree;
+  if (!reporting.finish(s)) code = kExitInvalid;
   return code;
 }
 
