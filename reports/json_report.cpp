@@ -229,6 +229,7 @@ void method(JsonWriter& w, const MethodResult& m, const LoadSet& set) {
   w.begin_object();
   w.member("status", method_status_name(m.status));
   w.member("reason", m.reason);
+  w.member("reason_id", m.reason_id);
   if (set.envelope) {
     if (m.envelope) envelope(w, *m.envelope, set);
     if (m.status == MethodStatus::Ok) span_extremes(w, m.extremes, true);
@@ -311,6 +312,7 @@ void arithmetic(JsonWriter& w, const precision::LoadSetNumbers& pn) {
     w.member("note", m.note);
     w.member("status", method_status_name(m.status));
     w.member("reason", m.reason);
+    w.member("reason_id", m.reason_id);
     if (m.rounding) {
       w.key("double_rounding");
       w.begin_object(true);

@@ -701,3 +701,44 @@ INSTANTIATE_TEST_SUITE_P(
 
 }  // namespace
 }  // namespace trivet
+
+namespace trivet {
+namespace {
+
+// A method that gives no answer says why with a stable id
+// (methods/beam/status.h), the same in every method: a couple on an
+// interior hinge (which the reader refuses, so it can only come from a
+// caller that skips the reader) is a feature no method takes; a load past
+// the end of its span is a fault upstream; and an answer always has no id.
+class MethodReasons : public ::testing::TestWithParam<MethodParam> {};
+
+TEST_P(MethodReasons, NoAnswerCarriesItsStableId) {
+  Beam b = beam_of({3, 3}, {SupportType::Fixed, SupportType::Free, SupportType::Roller}, 1e4);
+  b.supports[1].hinge = true;
+  Load c;
+  c.type = LoadType::Couple; c.on_node = true; c.index = 1; c.C = 5;
+  b.loads = {c};
+  const Solution hinge = GetParam().solve(b, build_stations(b, 2));
+  EXPECT_EQ(hinge.status, MethodStatus::NotApplicable) << hinge.reason;
+  EXPECT_EQ(hinge.reason_id, "method.not_applicable.feature") << hinge.reason;
+
+  Beam ok = beam_of({3, 3}, {SupportType::Pinned, SupportType::Roller, SupportType::Roller}, 1e4);
+  udl_all(ok, 2);
+  const Solution fine = GetParam().solve(ok, build_stations(ok, 2));
+  EXPECT_EQ(fine.status, MethodStatus::Ok) << fine.reason;
+  EXPECT_EQ(fine.reason_id, "");
+
+  Load far;
+  far.type = LoadType::Point; far.index = 0; far.P = 1; far.at = 4;  // span 1 is 3 long
+  ok.loads = {far};
+  const Solution off = GetParam().solve(ok, build_stations(ok, 2));
+  EXPECT_NE(off.status, MethodStatus::Ok);
+  EXPECT_FALSE(off.reason_id.empty()) << off.reason;
+  EXPECT_EQ(off.reason_id.rfind("method.", 0), 0u) << off.reason_id;
+}
+
+INSTANTIATE_TEST_SUITE_P(Methods, MethodReasons, ::testing::ValuesIn(all_methods()),
+                         [](const ::testing::TestParamInfo<MethodParam>& i) { return i.param.name; });
+
+}  // namespace
+}  // namespace trivet

@@ -1,5 +1,7 @@
 #include "harness/compare/compare.h"
 
+#include "methods/beam/status.h"
+
 #include "harness/compare/detail.h"
 #include "harness/compare/extremes.h"
 
@@ -845,10 +847,12 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
           r.solution = m->solve(set.beam, set.stations);
           r.status = r.solution.status;
           r.reason = r.solution.reason;
+          r.reason_id = r.solution.reason_id;
           if (r.status == MethodStatus::Ok) {
             if (r.solution.nodes.size() != set.beam.node_count() || !r.solution.at) {
               r.status = MethodStatus::Failed;
               r.reason = "the method returned an incomplete result";
+              r.reason_id = reason_id::kIncomplete;
             } else {
               r.nodes = std::move(r.solution.nodes);  // the solution keeps only `at`
               r.stations.reserve(set.stations.size());
@@ -859,6 +863,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
               if (!finite_solution(r)) {
                 r.status = MethodStatus::Failed;
                 r.reason = "the method produced a non-finite number (the beam may be too badly conditioned for double precision)";
+                r.reason_id = reason_id::kNonFinite;
               } else {
                 r.equilibrium = equilibrium_of(set.beam, r.nodes);
                 method_extremes(r, set);
@@ -871,6 +876,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
       } catch (const std::exception& e) {
         r.status = MethodStatus::Failed;
         r.reason = std::string("internal error: ") + e.what();
+        r.reason_id = reason_id::kInternal;
       }
       if (r.status != MethodStatus::Ok) {
         r.nodes.clear();

@@ -91,6 +91,7 @@ struct MethodResult {
   std::string name;
   MethodStatus status = MethodStatus::Failed;
   std::string reason;
+  std::string reason_id;  // empty when ok; else a stable id (methods/beam/status.h)
   std::vector<NodeResult> nodes;
   std::vector<StationValues> stations;  // one per load set station
   Equilibrium equilibrium;

@@ -17,6 +17,7 @@
 
 #include "harness/compare/detail.h"
 #include "harness/compare/extremes.h"
+#include "methods/beam/status.h"
 
 namespace trivet::compare {
 
@@ -190,21 +191,26 @@ std::shared_ptr<const Governs> EnvelopeModel::intern(Governs g, Interned* pool) 
 
 namespace {
 // A hash of a choice's factors (FNV-1a over their bits; 0 and -0 alike).
+constexpr std::uint64_t kHashStart = 14695981039346656037ull;
+inline std::uint64_t hash_step(std::uint64_t h, double f) {
+  std::uint64_t bits = 0;
+  const double v = f + 0.0;
+  std::memcpy(&bits, &v, sizeof bits);
+  return (h ^ bits) * 1099511628211ull;
+}
 std::uint64_t hash_of(const EnvelopeModel::Choice& c) {
-  std::uint64_t h = 14695981039346656037ull;
-  for (double f : c) {
-    std::uint64_t bits = 0;
-    const double v = f + 0.0;
-    std::memcpy(&bits, &v, sizeof bits);
-    h = (h ^ bits) * 1099511628211ull;
-  }
+  std::uint64_t h = kHashStart;
+  for (double f : c) h = hash_step(h, f);
   return h;
 }
 }  // namespace
 
 std::shared_ptr<const Governs> EnvelopeModel::governs(const Choice& c, Interned* pool) const {
   if (!pool) return intern(governs(c), nullptr);
-  const std::uint64_t h = hash_of(c);
+  return governs(c, hash_of(c), pool);
+}
+
+std::shared_ptr<const Governs> EnvelopeModel::governs(const Choice& c, std::uint64_t h, Interned* pool) const {
   for (const auto& r : pool->recent)
     if (r.by && r.hash == h && r.choice.size() == c.size() && std::equal(c.begin(), c.end(), r.choice.begin(), same))
       return r.by;
@@ -219,6 +225,36 @@ Bound EnvelopeModel::combine(const std::vector<double>& g, Interned* pool) const
   Choice own_hi, own_lo;
   Choice& hi = pool ? pool->hi : own_hi;
   Choice& lo = pool ? pool->lo : own_lo;
+  const bool all = comb.arrangements == input::Arrangements::All || arrangements.empty();
+  if (all && pool && options.size() == units.size()) {
+    // extreme() for both bounds in one pass (the same sums, term by term in
+    // the same order), with the choices' hashes (hash_of) on the way.
+    double magnitude = 0;
+    for (std::size_t u = 0; u < units.size(); ++u) magnitude += std::abs(g[u]);
+    const double negligible = magnitude * 0x1p-52;
+    hi.resize(units.size());
+    lo.resize(units.size());
+    double sum_hi = 0, sum_lo = 0;
+    std::uint64_t h_hi = kHashStart, h_lo = kHashStart;
+    for (std::size_t u = 0; u < units.size(); ++u) {
+      const Options& o = options[u];
+      const double v = g[u];
+      const bool pos = v > negligible, neg = v < -negligible;
+      const double f_hi = pos ? o.max_pos : neg ? o.max_neg : o.max_zero;
+      const double f_lo = pos ? o.min_pos : neg ? o.min_neg : o.min_zero;
+      sum_hi += f_hi * v;
+      sum_lo += f_lo * v;
+      hi[u] = f_hi;
+      lo[u] = f_lo;
+      h_hi = hash_step(h_hi, f_hi);
+      h_lo = hash_step(h_lo, f_lo);
+    }
+    b.max = sum_hi;
+    b.min = sum_lo;
+    b.max_by = governs(hi, h_hi, pool);
+    b.min_by = governs(lo, h_lo, pool);
+    return b;
+  }
   b.max = extreme(g, true, &hi);
   b.min = extreme(g, false, &lo);
   b.max_by = governs(hi, pool);
@@ -614,12 +650,22 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
             pc.poly[q][u] = interpolate(quantity(va[u], w), inner, quantity(vb[u], w));
           }
       }
+      // With every arrangement ("all": one walk of every unit in order),
+      // the upper bound of each target (below) in the same pass.
+      std::array<double, 4> all_bound{};
       for (int q = 0; q < 2; ++q) {
         double total = 0;
         for (std::size_t u = 0; u < nu; ++u) {
           const auto rg = pc.range[q][u] = range_of(pc.poly[q][u]);
           pc.size[q][u] = std::max(std::abs(rg.first), std::abs(rg.second));
           total += pc.size[q][u] * max_factor;
+          if (all)
+            for (int k2 = 0; k2 < 2; ++k2) {
+              const double sign = k2 == 0 ? 1.0 : -1.0;
+              const Factors& f = fac[k2][u];
+              all_bound[static_cast<std::size_t>(2 * q + k2)] +=
+                  std::max({sign * f.pos * rg.second, sign * f.neg * rg.first, sign * f.pos * rg.first, sign * f.neg * rg.second});
+            }
         }
         pc.negligible[q] = 1e-15 * total / std::max<double>(1.0, static_cast<double>(nu));
       }
@@ -633,11 +679,15 @@ void envelope_and_extremes(const EnvelopeModel& model, const Beam& full, const s
         bool any = false;
         for (const auto& units : walks) {
           double bound = 0;
-          for (std::size_t u : units) {
-            const auto& rg = pc.range[q][u];
-            const Factors& f = fac[k2][u];
-            bound += std::max({sign * f.pos * rg.second, sign * f.neg * rg.first, sign * f.pos * rg.first,
-                               sign * f.neg * rg.second});
+          if (all) {
+            bound = all_bound[static_cast<std::size_t>(t)];
+          } else {
+            for (std::size_t u : units) {
+              const auto& rg = pc.range[q][u];
+              const Factors& f = fac[k2][u];
+              bound += std::max({sign * f.pos * rg.second, sign * f.neg * rg.first, sign * f.pos * rg.first,
+                                 sign * f.neg * rg.second});
+            }
           }
           if (!(bound > sign * bt.value)) continue;
           const auto m = walk(pc, q, units, fac[k2], sign, sign * bt.value);
@@ -723,11 +773,13 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
     if (u.solution.status != MethodStatus::Ok) {
       r.status = u.solution.status;
       r.reason = u.solution.reason;
+      r.reason_id = u.solution.reason_id;
       return;
     }
     if (u.solution.nodes.size() != full.node_count() || !u.solution.at) {
       r.status = MethodStatus::Failed;
       r.reason = "the method returned an incomplete result";
+      r.reason_id = reason_id::kIncomplete;
       return;
     }
     const Equilibrium e = equilibrium_of(ub, u.solution.nodes);
@@ -777,6 +829,7 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
   if (!finite(env.moment) || !finite(env.shear) || !finite(env.deflection) || !finite(env.reaction)) {
     r.status = MethodStatus::Failed;
     r.reason = "the method produced a non-finite number";
+    r.reason_id = reason_id::kNonFinite;
     return;
   }
   r.envelope = std::move(env);
@@ -1050,6 +1103,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
       } catch (const std::exception& e) {
         sol.status = MethodStatus::Failed;
         sol.reason = std::string("internal error: ") + e.what();
+        sol.reason_id = reason_id::kInternal;
       }
       const bool ok = sol.status == MethodStatus::Ok && sol.at && sol.nodes.size() == beam.node_count();
       for (std::size_t i : uses[k]) {

@@ -87,6 +87,8 @@ class EnvelopeModel {
   Governs governs(const Choice& c) const;
   // What governs choice `c`, shared through `pool`.
   std::shared_ptr<const Governs> governs(const Choice& c, Interned* pool) const;
+  // The same, with the choice's hash worked out already.
+  std::shared_ptr<const Governs> governs(const Choice& c, std::uint64_t hash, Interned* pool) const;
   // The beam of one unit (its loads and settlements, unfactored).
   Beam unit_beam(std::size_t u) const;
   // The beam of one arrangement with its factors: every unit's loads and

@@ -8,6 +8,7 @@
 #include <limits>
 #include <sstream>
 
+#include "methods/beam/status.h"
 #include "methods/registry/registry.h"
 
 namespace trivet::precision {
@@ -28,6 +29,7 @@ BasicSolution<Exact> solve_exact(const std::string& name, const BasicBeam<Exact>
   BasicSolution<Exact> s;
   s.status = MethodStatus::NotApplicable;
   s.reason = "no exact version of the method '" + name + "'" + (m ? std::string(": ") + m->why_not_exact : "");
+  s.reason_id = reason_id::kArithmetic;
   return s;
 }
 
@@ -38,6 +40,7 @@ BasicSolution<Extended> solve_extended(const std::string& name, const BasicBeam<
   BasicSolution<Extended> s;
   s.status = MethodStatus::NotApplicable;
   s.reason = "no extended version of the method '" + name + "'";
+  s.reason_id = reason_id::kArithmetic;
   return s;
 }
 
@@ -102,10 +105,12 @@ Values fill(MethodNumbers& m, const BasicSolution<R>& sol, const std::vector<Bas
   Values v;
   m.status = sol.status;
   m.reason = sol.reason;
+  m.reason_id = sol.reason_id;
   if (sol.status != MethodStatus::Ok) return v;
   if (sol.nodes.size() != node_count || !sol.at) {
     m.status = MethodStatus::Failed;
     m.reason = "the method returned an incomplete result";
+    m.reason_id = reason_id::kIncomplete;
     return v;
   }
   for (const auto& n : sol.nodes) {
@@ -413,17 +418,19 @@ LoadSetNumbers run_load_set(const ExactBeamFile& exact, const input::BeamFile& f
         case Arithmetic::Exact: ref = fill(m, solve_exact(name, xbeam, xst), xst, xbeam.node_count(), options.exact_digits); break;
         case Arithmetic::Extended: ref = fill(m, solve_extended(name, ebeam, est), est, ebeam.node_count(), 50); break;
         case Arithmetic::Double:
-          if (!dm) { m.status = MethodStatus::NotApplicable; m.reason = "no method '" + name + "'"; break; }
+          if (!dm) { m.status = MethodStatus::NotApplicable; m.reason = "no method '" + name + "'"; m.reason_id = reason_id::kFeature; break; }
           ref = fill(m, dm->solve(dbeam, dst), dst, dbeam.node_count(), 17);
           break;
       }
     } catch (const std::exception& e) {
       m.status = MethodStatus::Failed;
       m.reason = std::string("the method threw: ") + e.what();
+      m.reason_id = reason_id::kInternal;
     }
     if (m.status == MethodStatus::Ok && !finite(ref)) {
       m.status = MethodStatus::Failed;
       m.reason = "the method returned a value that is not finite";
+      m.reason_id = reason_id::kNonFinite;
     }
     if (options.reference && m.status == MethodStatus::Ok && m.used != Arithmetic::Double && dm) {
       Rounding r;

@@ -79,6 +79,7 @@ struct MethodNumbers {
   std::string note;               // e.g. why stiffness ran in Extended
   MethodStatus status = MethodStatus::Failed;
   std::string reason;
+  std::string reason_id;  // empty when ok; else a stable id (methods/beam/status.h)
   std::vector<NodeNumbers> nodes;
   std::vector<StationNumbers> stations;
   std::optional<Rounding> rounding;  // with Options::reference

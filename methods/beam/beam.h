@@ -161,6 +161,7 @@ template <class R>
 struct BasicSolution {
   MethodStatus status = MethodStatus::Failed;
   std::string reason;  // empty when ok; else names the beam feature or fault
+  std::string reason_id;  // empty when ok; else a stable id (methods/beam/status.h)
   std::vector<BasicNodeResult<R>> nodes;  // one per node, when ok
   // Values in span `span` (0-based) at local position `local` in [0, L],
   // with `after` choosing, at an interior point where a point force or

@@ -35,6 +35,7 @@
 #include <utility>
 
 #include "methods/slope_deflection/band.h"
+#include "methods/beam/status.h"
 #include "methods/slope_deflection/fixed_end.h"
 #include "methods/slope_deflection/fused.h"
 #include "methods/slope_deflection/plumbing.h"
@@ -61,13 +62,6 @@ std::string fault_text(LoadFault f, std::size_t span) {
   return what + (" on span " + std::to_string(span + 1));
 }
 
-template <class R>
-BasicSolution<R> give_up(MethodStatus status, std::string reason) {
-  BasicSolution<R> s;
-  s.status = status;
-  s.reason = std::move(reason);
-  return s;
-}
 
 // The unknowns of a node (-1: none, the value is known).
 struct NodeUnknowns {
@@ -219,7 +213,7 @@ BasicSolution<R> solve_band(Problem<R>& pb) {
       if (un[i].dv == bad) { node = i; what = "deflection"; break; }
       if (un[i].thR == bad) { node = i; what = "rotation right of the hinge"; break; }
     }
-    return give_up<R>(MS::Failed, std::string("zero or non-positive pivot at the ") + what + " of node " +
+    return give_up<R>(MS::Failed, reason_id::kSingular, std::string("zero or non-positive pivot at the ") + what + " of node " +
                                       name(node) + " (a mechanism, or too ill-conditioned)");
   }
 
@@ -271,8 +265,8 @@ BasicSolution<R> solve_band(Problem<R>& pb) {
     const R M_ji = k * (ti + R(2) * tj - R(3) * psi) + ld.fem_j;
     if (!is_finite(M_ij) || !is_finite(M_ji)) {
       for (std::size_t r = 0; r < nu; ++r)
-        if (!is_finite(x[r])) return give_up<R>(MS::Failed, "non-finite value in the solution");
-      return give_up<R>(MS::Failed, "non-finite end moment");
+        if (!is_finite(x[r])) return give_up<R>(MS::Failed, reason_id::kNonFinite, "non-finite value in the solution");
+      return give_up<R>(MS::Failed, reason_id::kNonFinite, "non-finite end moment");
     }
     sc.M_i = M_ij;
     sc.M_j = -M_ji;
@@ -316,9 +310,9 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<Basic
   using MS = MethodStatus;
   using detail::reserve_huge;
   const std::size_t n = beam.spans.size();
-  if (n == 0) return give_up<R>(MS::Failed, "invalid beam: no span");
+  if (n == 0) return give_up<R>(MS::Failed, reason_id::kInput, "invalid beam: no span");
   const std::size_t N = n + 1;
-  if (beam.supports.size() != N) return give_up<R>(MS::Failed, "invalid beam: support count is not spans + 1");
+  if (beam.supports.size() != N) return give_up<R>(MS::Failed, reason_id::kInput, "invalid beam: support count is not spans + 1");
   auto name = [&](std::size_t i) { return detail::node_name(beam.labels, i); };
 
   auto state = std::make_shared<detail::SolvedSpans<R>>();
@@ -339,30 +333,30 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<Basic
     if (i < n) {
       const BasicSpan<R>& bs = beam.spans[i];
       if (!(bs.length > R(0)) || !is_finite(bs.length))
-        return give_up<R>(MS::Failed, "invalid beam: length of span " + std::to_string(i + 1) + " is not positive");
+        return give_up<R>(MS::Failed, reason_id::kInput, "invalid beam: length of span " + std::to_string(i + 1) + " is not positive");
       if (!(bs.EI > R(0)) || !is_finite(bs.EI))
-        return give_up<R>(MS::Failed, "invalid beam: EI of span " + std::to_string(i + 1) + " is not positive");
+        return give_up<R>(MS::Failed, reason_id::kInput, "invalid beam: EI of span " + std::to_string(i + 1) + " is not positive");
       spans.emplace_back(bs.length, bs.EI);
     }
     const BasicSupport<R>& sp = beam.supports[i];
     const SupportType t = sp.type;
     if (t == SupportType::Spring && (sp.k < R(0) || sp.kr < R(0)))
-      return give_up<R>(MS::NotApplicable, "negative spring stiffness at node " + name(i));
+      return give_up<R>(MS::NotApplicable, reason_id::kFeature, "negative spring stiffness at node " + name(i));
     if ((t == SupportType::Free || t == SupportType::Guided) && !is_zero(sp.settlement))
-      return give_up<R>(MS::NotApplicable, "settlement on a " + std::string(support_type_name(t)) + " node " + name(i));
+      return give_up<R>(MS::NotApplicable, reason_id::kFeature, "settlement on a " + std::string(support_type_name(t)) + " node " + name(i));
     if (sp.hinge) {
-      if (i == 0 || i == n) return give_up<R>(MS::NotApplicable, "hinge at end node " + name(i));
+      if (i == 0 || i == n) return give_up<R>(MS::NotApplicable, reason_id::kFeature, "hinge at end node " + name(i));
       if (restrains_rotation(t))
-        return give_up<R>(MS::NotApplicable, "hinge on a " + std::string(support_type_name(t)) + " support at node " + name(i));
+        return give_up<R>(MS::NotApplicable, reason_id::kFeature, "hinge on a " + std::string(support_type_name(t)) + " support at node " + name(i));
       if (t == SupportType::Spring && sp.kr > R(0))
-        return give_up<R>(MS::NotApplicable, "hinge on a rotational spring at node " + name(i));
+        return give_up<R>(MS::NotApplicable, reason_id::kFeature, "hinge on a rotational spring at node " + name(i));
     }
     const bool rotates = !restrains_rotation(t);
     NodeUnknowns& u = un[i];
     if (rotates) u.thL = u.thR = static_cast<std::int32_t>(next++);
     if (!restrains_deflection(t)) u.dv = static_cast<std::int32_t>(next++);
     if (rotates && sp.hinge) u.thR = static_cast<std::int32_t>(next++);
-    if (next > 2000000000L) return give_up<R>(MS::NotApplicable, "more than 2e9 unknowns");
+    if (next > 2000000000L) return give_up<R>(MS::NotApplicable, reason_id::kSize, "more than 2e9 unknowns");
     if (i > 0) {
       // Half-bandwidth: the spread of span i-1's unknowns (at most 3).
       const NodeUnknowns& v = un[i - 1];
@@ -396,9 +390,9 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<Basic
   R invL2 = spans[0].invL * spans[0].invL;
   for (const auto& l : beam.loads) {
     if (l.on_node) {
-      if (l.index >= N) return give_up<R>(MS::NotApplicable, "load on a node outside the beam");
+      if (l.index >= N) return give_up<R>(MS::NotApplicable, reason_id::kFeature, "load on a node outside the beam");
       if (l.type != LoadType::Point && l.type != LoadType::Couple)
-        return give_up<R>(MS::NotApplicable, std::string(load_type_name(l.type)) + " load on node " + name(l.index));
+        return give_up<R>(MS::NotApplicable, reason_id::kFeature, std::string(load_type_name(l.type)) + " load on node " + name(l.index));
       if (nodeP.empty()) {
         nodeP.assign(N, R(0));
         nodeC.assign(N, R(0));
@@ -408,7 +402,7 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<Basic
       continue;
     }
     const std::size_t s = l.index;
-    if (s >= n) return give_up<R>(MS::NotApplicable, "load on a span outside the beam");
+    if (s >= n) return give_up<R>(MS::NotApplicable, reason_id::kFeature, "load on a span outside the beam");
     if (s != run_span) {
       end_run();
       run_count = 0;
@@ -418,14 +412,14 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<Basic
     }
     detail::Term<R>& t = terms.emplace_back();
     const LoadFault f = take_load(l, spans[s].L, invL2, t, sums[s]);
-    if (f != LoadFault::None) return give_up<R>(MS::NotApplicable, fault_text(f, s));
+    if (f != LoadFault::None) return give_up<R>(MS::NotApplicable, reason_id::kFeature, fault_text(f, s));
     ++run_count;
   }
   end_run();
   if (!nodeC.empty())
     for (std::size_t i = 0; i < N; ++i)
       if (beam.supports[i].hinge && !is_zero(nodeC[i]))
-        return give_up<R>(MS::NotApplicable, "couple at hinge node " + name(i));
+        return give_up<R>(MS::NotApplicable, reason_id::kFeature, "couple at hinge node " + name(i));
   if (!grouped) {
     // A stable counting sort of the terms by span (the loads jump back and
     // forth between spans).

@@ -97,7 +97,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
   using std::abs;
   using std::sqrt;
   const std::size_t n = beam.spans.size();
-  if (n == 0 || beam.supports.size() != n + 1) return not_applicable<R>(check_scope(beam));
+  if (n == 0 || beam.supports.size() != n + 1) return not_applicable<R>(reason_id::kFeature, check_scope(beam));
 
   // Degrees of freedom, only at the beam's nodes, and only the free ones
   // numbered: at node i v, theta (left side) and, at a hinge, theta of the
@@ -148,7 +148,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
     const std::size_t hi = b.thL != kNone ? b.thL : b.v != kNone ? b.v : a.thR != kNone ? a.thR : a.v;
     if (lo != kNone && hi - lo > width) width = hi - lo;
   }
-  if (!in_scope) return not_applicable<R>(check_scope(beam));
+  if (!in_scope) return not_applicable<R>(reason_id::kFeature, check_scope(beam));
 
   // Pass 2, spans with their loads. The actions applied at the nodes (down
   // +, clockwise +) are kept in a list, by node; in pass 3 each node result
@@ -342,7 +342,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
   };
   const std::vector<BasicLoad<R>>& loads = beam.loads;
   if (!assemble([&](std::size_t k) -> const BasicLoad<R>& { return loads[k]; }, loads.size())) {
-    if (std::string why = check_scope(beam); !why.empty()) return not_applicable<R>(why);
+    if (std::string why = check_scope(beam); !why.empty()) return not_applicable<R>(reason_id::kFeature, why);
     // In scope, so the loads are out of span order: group them by span,
     // in their own order within a span, the node loads first.
     std::vector<std::size_t> off(n + 2, 0);
@@ -352,16 +352,16 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
     std::vector<const BasicLoad<R>*> grouped(loads.size());
     for (const BasicLoad<R>& l : loads) grouped[off[key(l)]++] = &l;
     if (!assemble([&](std::size_t k) -> const BasicLoad<R>& { return *grouped[k]; }, grouped.size()))
-      return failed<R>("internal fault: the loads could not be grouped by span");
+      return failed<R>(reason_id::kInternal, "internal fault: the loads could not be grouped by span");
   }
-  if (width > kMaxBand) return failed<R>("internal fault: DOF numbering wider than the band solve");
+  if (width > kMaxBand) return failed<R>(reason_id::kInternal, "internal fault: DOF numbering wider than the band solve");
 
   if (const std::size_t bad = factor_solve<kFast>(K, f); bad < ndof)
-    return failed<R>("zero or negative pivot in the stiffness solve (degree of freedom " +
+    return failed<R>(reason_id::kSingular, "zero or negative pivot in the stiffness solve (degree of freedom " +
                      std::to_string(bad) + "): the beam is unstable or ill-conditioned");
   const std::vector<R>& u = f;
   for (std::size_t i = 0; i < ndof; ++i)
-    if (!is_finite(u[i])) return failed<R>("non-finite displacement in the stiffness solve");
+    if (!is_finite(u[i])) return failed<R>(reason_id::kNonFinite, "non-finite displacement in the stiffness solve");
 
   // Pass 3: end displacements and end forces F = k u - f of every element;
   // at the nodes the reactions are the applied actions minus the sum of F
@@ -441,7 +441,7 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
       r.reaction_moment = sp.kr * r.rotation_left;
     }
     if (!is_finite(r.reaction_force) || !is_finite(r.reaction_moment))
-      return failed<R>("non-finite reaction at " + node_name(beam, i));
+      return failed<R>(reason_id::kNonFinite, "non-finite reaction at " + node_name(beam, i));
     react_force += r.reaction_force;
     react_moment += r.reaction_force * r.x + r.reaction_moment;
     scale += abs(r.reaction_force);
@@ -474,9 +474,9 @@ BasicSolution<R> solve_impl(const BasicBeam<R>& beam, std::size_t index_above = 
     }
     const R fscale = scale + mscale / length + moved;  // couples count as forces over the beam's length
     if (tol * fscale < abs(force))
-      return failed<R>("equilibrium residual in force exceeds sqrt(epsilon) of the loads");
+      return failed<R>(reason_id::kEquilibrium, "equilibrium residual in force exceeds sqrt(epsilon) of the loads");
     if (tol * fscale * length < abs(moment))
-      return failed<R>("equilibrium residual in moment exceeds sqrt(epsilon) of the loads");
+      return failed<R>(reason_id::kEquilibrium, "equilibrium residual in moment exceeds sqrt(epsilon) of the loads");
   }
   sol.status = MethodStatus::Ok;
   std::shared_ptr<const State<R>> frozen = std::move(st);
@@ -495,7 +495,7 @@ BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<
   try {
     return solve_impl(beam);
   } catch (const std::exception& ex) {
-    return failed<R>(std::string("internal fault in the stiffness solve: ") + ex.what());
+    return failed<R>(reason_id::kInternal, std::string("internal fault in the stiffness solve: ") + ex.what());
   }
 }
 
@@ -508,7 +508,7 @@ BasicSolution<R> solve_general(const BasicBeam<R>& beam) {
   try {
     return solve_impl<R, false>(beam);
   } catch (const std::exception& ex) {
-    return failed<R>(std::string("internal fault in the stiffness solve: ") + ex.what());
+    return failed<R>(reason_id::kInternal, std::string("internal fault in the stiffness solve: ") + ex.what());
   }
 }
 template BasicSolution<double> solve_general<double>(const BasicBeam<double>&);
@@ -518,7 +518,7 @@ BasicSolution<R> solve_with_index_above(const BasicBeam<R>& beam, std::size_t in
   try {
     return solve_impl<R, true>(beam, index_above);
   } catch (const std::exception& ex) {
-    return failed<R>(std::string("internal fault in the stiffness solve: ") + ex.what());
+    return failed<R>(reason_id::kInternal, std::string("internal fault in the stiffness solve: ") + ex.what());
   }
 }
 template BasicSolution<double> solve_with_index_above<double>(const BasicBeam<double>&, std::size_t);

@@ -11,6 +11,7 @@
 #include <utility>
 
 #include "methods/beam/beam.h"
+#include "methods/beam/status.h"
 
 namespace trivet::stiffness::internal {
 
@@ -33,21 +34,7 @@ bool nonzero(const R& x) {
   return x < R(0) || R(0) < x;
 }
 
-template <class R>
-BasicSolution<R> not_applicable(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::NotApplicable;
-  s.reason = std::move(why);
-  return s;
-}
 
-template <class R>
-BasicSolution<R> failed(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::Failed;
-  s.reason = std::move(why);
-  return s;
-}
 
 // Empty when the beam is within scope, else the feature that is not.
 template <class R>

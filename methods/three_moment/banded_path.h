@@ -92,18 +92,15 @@ BasicSolution<R> solve_banded(const BasicBeam<R>& beam) {
   const std::size_t n = beam.spans.size();
   const auto& sup = beam.supports;
   auto label = [&](std::size_t i) { return "node " + beam.labels[i]; };
-  for (std::size_t s = 0; s < n; ++s)
-    if (!(beam.spans[s].length > R(0)) || !(beam.spans[s].EI > R(0)) || !finite(beam.spans[s].length) ||
-        !finite(beam.spans[s].EI))
-      return failed<R>("span " + std::to_string(s + 1) + " has a non-positive length or EI");
+  if (BasicSolution<R> why; !spans_sound(beam, &why)) return why;
   for (std::size_t i = 0; i <= n; ++i) {
     const auto& s = sup[i];
     if (s.type == SupportType::Spring && (s.k < R(0) || s.kr < R(0) || !finite(s.k) || !finite(s.kr)))
-      return failed<R>("negative or non-finite spring stiffness at " + label(i));
+      return failed<R>(reason_id::kInput, "negative or non-finite spring stiffness at " + label(i));
     const bool turns = s.type == SupportType::Fixed || s.type == SupportType::Guided ||
                        (s.type == SupportType::Spring && R(0) < s.kr);
     if (s.hinge && turns)
-      return not_applicable<R>(std::string("hinge at ") + support_type_name(s.type) + " support " + label(i) +
+      return not_applicable<R>(reason_id::kFeature, std::string("hinge at ") + support_type_name(s.type) + " support " + label(i) +
                                " (a release where the rotation is restrained)");
   }
 
@@ -113,24 +110,16 @@ BasicSolution<R> solve_banded(const BasicBeam<R>& beam) {
   std::vector<R> P(n + 1, R(0)), C(n + 1, R(0));
   st->seg.resize(n);
   for (const auto& l : beam.loads) {
+    if (BasicSolution<R> why; !load_sound(beam, l, &why)) return why;
     if (l.on_node) {
-      if (l.index > n) return failed<R>("node load on a node that does not exist");
       if (l.type == LoadType::Point) P[l.index] += l.P;
-      else if (l.type == LoadType::Couple) C[l.index] += l.C;
-      else return not_applicable<R>(std::string(load_type_name(l.type)) + " load on " + label(l.index));
+      else C[l.index] += l.C;
       continue;
-    }
-    if (l.index >= n) return failed<R>("span load on a span that does not exist");
-    const R& L = beam.spans[l.index].length;
-    if (l.type == LoadType::Point || l.type == LoadType::Couple) {
-      if (l.at < R(0) || L < l.at) return failed<R>("load position outside span " + std::to_string(l.index + 1));
-    } else if (l.from < R(0) || !(l.from < l.to) || L < l.to) {
-      return failed<R>("load extent outside span " + std::to_string(l.index + 1));
     }
     ++st->seg[l.index].last;  // a count for now
   }
   for (std::size_t i = 1; i < n; ++i)
-    if (sup[i].hinge && !is_zero(C[i])) return not_applicable<R>("couple at hinge " + label(i));
+    if (sup[i].hinge && !is_zero(C[i])) return not_applicable<R>(reason_id::kFeature, "couple at hinge " + label(i));
   std::size_t total = 0;
   for (auto& sg : st->seg) {
     const std::size_t count = sg.last;
@@ -275,7 +264,7 @@ BasicSolution<R> solve_banded(const BasicBeam<R>& beam) {
   const auto x = sys.solve(bad_col);
   if (!x) {
     const std::size_t i = bad_col / 3 <= n ? bad_col / 3 : n;
-    return failed<R>("the three-moment system is singular near " + label(i) + " (a mechanism?)");
+    return failed<R>(reason_id::kSingular, "the three-moment system is singular near " + label(i) + " (a mechanism?)");
   }
 
   // ---- Span statics, rotations and deflections (as on the other paths).
@@ -323,7 +312,7 @@ BasicSolution<R> solve_banded(const BasicBeam<R>& beam) {
     if (rot_fixed) nr.rotation_left = nr.rotation_right = R(0);
     if (!(finite(nr.deflection) && finite(nr.reaction_force) && finite(nr.reaction_moment) &&
           finite(nr.rotation_left) && finite(nr.rotation_right)))
-      return failed<R>("non-finite result at " + label(i));
+      return failed<R>(reason_id::kNonFinite, "non-finite result at " + label(i));
     out.nodes.push_back(std::move(nr));
   }
   out.status = MethodStatus::Ok;

@@ -16,6 +16,7 @@
 #endif
 
 #include "methods/three_moment/load_terms.h"
+#include "methods/beam/status.h"
 
 namespace trivet::three_moment::detail {
 
@@ -252,20 +253,6 @@ BasicPointValues<R> eval_span(const State<R>& st, std::size_t span, const R& loc
   return eval(st, st.span_seg[span], R(off + local), after);
 }
 
-template <class R>
-BasicSolution<R> not_applicable(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::NotApplicable;
-  s.reason = std::move(why);
-  return s;
-}
-template <class R>
-BasicSolution<R> failed(std::string why) {
-  BasicSolution<R> s;
-  s.status = MethodStatus::Failed;
-  s.reason = std::move(why);
-  return s;
-}
 
 // Hands the solved state to the Solution's `at`.
 // `many_loads` false: the caller knows no segment has kIndexFrom loads or
@@ -280,6 +267,48 @@ void set_at(BasicSolution<R>& out, std::shared_ptr<State<R>> st, bool many_loads
   }
   std::shared_ptr<const State<R>> cst = std::move(st);
   out.at = [cst](std::size_t span, const R& local, bool after) { return eval_span(*cst, span, local, after); };
+}
+
+// The checks both solve paths make of the beam as given (the reader has
+// ruled these out; a fault here is upstream). False, with `why` set, when
+// a span has a length or EI that is not positive and finite.
+template <class R>
+bool spans_sound(const BasicBeam<R>& beam, BasicSolution<R>* why) {
+  for (std::size_t s = 0; s < beam.spans.size(); ++s)
+    if (!(beam.spans[s].length > R(0)) || !(beam.spans[s].EI > R(0)) || !finite(beam.spans[s].length) ||
+        !finite(beam.spans[s].EI)) {
+      *why = failed<R>(reason_id::kInput, "span " + std::to_string(s + 1) + " has a non-positive length or EI");
+      return false;
+    }
+  return true;
+}
+// False, with `why` set, when load `l` is not on the beam, not within its
+// span, or a node load other than a point force or a couple.
+template <class R>
+bool load_sound(const BasicBeam<R>& beam, const BasicLoad<R>& l, BasicSolution<R>* why) {
+  const std::size_t n = beam.spans.size();
+  if (l.on_node) {
+    if (l.index > n) *why = failed<R>(reason_id::kInput, "node load on a node that does not exist");
+    else if (l.type != LoadType::Point && l.type != LoadType::Couple)
+      *why = not_applicable<R>(reason_id::kFeature, std::string(load_type_name(l.type)) + " load on node " + beam.labels[l.index]);
+    else return true;
+    return false;
+  }
+  if (l.index >= n) {
+    *why = failed<R>(reason_id::kInput, "span load on a span that does not exist");
+    return false;
+  }
+  const R& L = beam.spans[l.index].length;
+  if (l.type == LoadType::Point || l.type == LoadType::Couple) {
+    if (l.at < R(0) || L < l.at) {
+      *why = failed<R>(reason_id::kInput, "load position outside span " + std::to_string(l.index + 1));
+      return false;
+    }
+  } else if (l.from < R(0) || !(l.from < l.to) || L < l.to) {
+    *why = failed<R>(reason_id::kInput, "load extent outside span " + std::to_string(l.index + 1));
+    return false;
+  }
+  return true;
 }
 
 }  // namespace trivet::three_moment::detail

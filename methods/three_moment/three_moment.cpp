@@ -133,10 +133,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   const std::size_t n = beam.spans.size();
   const auto& sup = beam.supports;
   auto label = [&](std::size_t i) { return "node " + beam.labels[i]; };
-  for (std::size_t s = 0; s < n; ++s)
-    if (!(beam.spans[s].length > R(0)) || !(beam.spans[s].EI > R(0)) ||
-        !finite(beam.spans[s].length) || !finite(beam.spans[s].EI))
-      return failed<R>("span " + std::to_string(s + 1) + " has a non-positive length or EI");
+  if (BasicSolution<R> why; !spans_sound(beam, &why)) return why;
   std::size_t free_interior = 0, fixed_interior = 0;
   for (std::size_t i = 1; i < n; ++i) {
     if (sup[i].type == SupportType::Free) ++free_interior;
@@ -194,19 +191,10 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   std::size_t nload = 0;
   std::size_t next_span = 0;  // in order: spans before it have their `first`
   for (const auto& l : beam.loads) {
+    if (BasicSolution<R> why; !load_sound(beam, l, &why)) return why;
     if (l.on_node) {
-      if (l.index > n) return failed<R>("node load on a node that does not exist");
-      if (l.type != LoadType::Point && l.type != LoadType::Couple)
-        return not_applicable<R>(std::string(load_type_name(l.type)) + " load on " + label(l.index));
       any_node_load = true;
       continue;
-    }
-    if (l.index >= n) return failed<R>("span load on a span that does not exist");
-    const R& L = beam.spans[l.index].length;
-    if (l.type == LoadType::Point || l.type == LoadType::Couple) {
-      if (l.at < R(0) || L < l.at) return failed<R>("load position outside span " + std::to_string(l.index + 1));
-    } else if (l.from < R(0) || !(l.from < l.to) || L < l.to) {
-      return failed<R>("load extent outside span " + std::to_string(l.index + 1));
     }
     if (!in_order) continue;
     if (l.index < last_span) {
@@ -232,7 +220,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   auto node_C = [&](std::size_t i) TM_INLINE { return nodeC.empty() ? R(0) : nodeC[i]; };
   if (any_node_load)  // (a couple at a hinge is a node load)
     for (std::size_t i = 1; i < n; ++i)
-      if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>("couple at hinge " + label(i));
+      if (sup[i].hinge && !is_zero(node_C(i))) return not_applicable<R>(reason_id::kFeature, "couple at hinge " + label(i));
 
   if (in_order) {  // the ranges are set; the spans after the last loaded one have none
     st->loads.shrink(nload);
@@ -297,11 +285,11 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
 
   const bool left_free = type_of(0) == SupportType::Free;
   const bool right_free = type_of(m) == SupportType::Free;
-  if (m == 1 && left_free && right_free) return failed<R>("mechanism: no support");
+  if (m == 1 && left_free && right_free) return failed<R>(reason_id::kSingular, "mechanism: no support");
   R V0_left{0}, V0_right{0}, MB_left{0}, MA_right{0};
   if (left_free) {
     // Overhang to the left, by statics from the free end: MA = C0, V0 = -P0.
-    if (sup[real_of(1)].hinge) return failed<R>("mechanism: hinge at " + label(real_of(1)) + " next to a free end");
+    if (sup[real_of(1)].hinge) return failed<R>(reason_id::kSingular, "mechanism: hinge at " + label(real_of(1)) + " next to a free end");
     const Segment<R>& sg = st->seg[0];
     const Sums<R> s = sums(loads + sg.first, loads + sg.last, sg.L, true, K);
     V0_left = R(0) - node_P(real_of(0));
@@ -310,7 +298,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   if (right_free) {
     // Overhang to the right: MB = -Cm, V(L) = Pm.
     if (m > 1 && sup[real_of(m - 1)].hinge)
-      return failed<R>("mechanism: hinge at " + label(real_of(m - 1)) + " next to a free end");
+      return failed<R>(reason_id::kSingular, "mechanism: hinge at " + label(real_of(m - 1)) + " next to a free end");
     const Segment<R>& sg = st->seg[m - 1];
     const Sums<R> s = sums(loads + sg.first, loads + sg.last, sg.L, true, K);
     V0_right = node_P(real_of(m)) - s.V;
@@ -370,7 +358,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
       else fixed_left_row(cur);
       continue;
     }
-    if (lt && rt) return failed<R>("mechanism: overhangs either side of " + label(real_of(k)));
+    if (lt && rt) return failed<R>(reason_id::kSingular, "mechanism: overhangs either side of " + label(real_of(k)));
     if (lt) {
       known(MB_left);
     } else if (rt) {
@@ -387,16 +375,16 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   if (type_of(m) != SupportType::Fixed) known(R(R(0) - node_C(real_of(m))));
   else if (m == 1 && left_free) known(MB_left);
   else fixed_right_row(m - 1, cur);
-  if (!ok || nrow != nv) return failed<R>("zero or non-finite pivot in the three-moment system");
-  if (!finite(rows[nv - 1].dp)) return failed<R>("non-finite support moment");
+  if (!ok || nrow != nv) return failed<R>(reason_id::kSingular, "zero or non-finite pivot in the three-moment system");
+  if (!finite(rows[nv - 1].dp)) return failed<R>(reason_id::kNonFinite, "non-finite support moment");
   for (std::size_t i = nv - 1; i-- > 0;) {
     rows[i].dp = rows[i].dp - rows[i].cp * rows[i + 1].dp;
-    if (!finite(rows[i].dp)) return failed<R>("non-finite support moment");
+    if (!finite(rows[i].dp)) return failed<R>(reason_id::kNonFinite, "non-finite support moment");
   }
   if (right_free && type_of(m - 1) != SupportType::Fixed && (m - 1 == 0 || (m - 1 == 1 && left_free)))
-    return failed<R>("mechanism near " + label(real_of(m - 1)));
+    return failed<R>(reason_id::kSingular, "mechanism near " + label(real_of(m - 1)));
   if (left_free && type_of(1) != SupportType::Fixed && (m == 1 || (m == 2 && right_free)))
-    return failed<R>("mechanism near " + label(real_of(1)));
+    return failed<R>(reason_id::kSingular, "mechanism near " + label(real_of(1)));
 
   // ---- Span statics from the support moments, rotations and deflections,
   // and the node results, in one pass along the beam. A left overhang
@@ -521,7 +509,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
     emit_node(n, lv, lv, R(0));
   }
   rows.release();
-  if (bad) return failed<R>("non-finite result");
+  if (bad) return failed<R>(reason_id::kNonFinite, "non-finite result");
   out.status = MethodStatus::Ok;
   set_at(out, std::move(st));
   return out;
@@ -533,9 +521,9 @@ template <class R>
 BasicSolution<R> solve(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
   (void)stations;  // `at` is exact everywhere; the grid is not needed.
   const std::size_t n = beam.spans.size();
-  if (n == 0) return failed<R>("beam has no spans");
+  if (n == 0) return failed<R>(reason_id::kInput, "beam has no spans");
   if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
-    return failed<R>("supports/labels do not match the number of spans");
+    return failed<R>(reason_id::kInput, "supports/labels do not match the number of spans");
   {
     BasicSolution<R> fast;
     if (solve_fast(beam, fast)) return fast;
@@ -557,9 +545,9 @@ template <class R>
 BasicSolution<R> solve_general(const BasicBeam<R>& beam, const std::vector<BasicStation<R>>& stations) {
   (void)stations;
   const std::size_t n = beam.spans.size();
-  if (n == 0) return failed<R>("beam has no spans");
+  if (n == 0) return failed<R>(reason_id::kInput, "beam has no spans");
   if (beam.supports.size() != n + 1 || beam.labels.size() != n + 1)
-    return failed<R>("supports/labels do not match the number of spans");
+    return failed<R>(reason_id::kInput, "supports/labels do not match the number of spans");
   if (fits_tridiagonal(beam)) return solve_tridiagonal(beam);
   return solve_banded(beam);
 }
