@@ -40,7 +40,7 @@ bool solve_fast(const BasicBeam<R>& beam, BasicSolution<R>& out) {
   if (!plain(0) || !plain(n)) return false;
   auto st = std::make_shared<State<R>>();
   const Consts<R>& K = st->K;
-  reserve_fresh(st->seg, n);
+  reserve_huge(st->seg, n);
   st->loads.allocate(nl);
   SpanLoad<R>* const loads = st->loads.data();
   FreshArray<ThomasRow<R>> rows;
@@ -105,7 +105,7 @@ bool solve_fast(const BasicBeam<R>& beam, BasicSolution<R>& out) {
   for (std::size_t i = n; i-- > 0;) rw[i].dp = rw[i].dp - rw[i].cp * rw[i + 1].dp;
 
   // ---- Pass 3: span statics, rotations and deflections, node results.
-  reserve_fresh(out.nodes, n + 1);
+  reserve_huge(out.nodes, n + 1);
   bool bad = false;
   R x{0};
   BasicPointValues<R> lv;  // values just left of node g

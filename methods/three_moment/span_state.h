@@ -11,38 +11,15 @@
 #include <string>
 #include <vector>
 
-#if defined(__linux__)
-#include <sys/mman.h>
-#endif
-
 #include "methods/three_moment/load_terms.h"
+#include "methods/beam/memory_advice.h"
 #include "methods/beam/status.h"
 
 namespace trivet::three_moment::detail {
 
-// Asks the kernel for transparent huge pages on a large fresh array before
-// its first write: at a million spans most of the cost of the big arrays is
-// the page faults of fresh memory (one fault per 2 MiB instead of per 4 KiB).
-// Only a hint: nothing depends on it.
-inline void advise_huge(void* data, std::size_t bytes) {
-#if defined(__linux__) && defined(MADV_HUGEPAGE)
-  constexpr std::uintptr_t huge = std::uintptr_t(1) << 21;
-  if (bytes < 4 * huge) return;
-  const auto p = reinterpret_cast<std::uintptr_t>(data);
-  const std::uintptr_t b = (p + huge - 1) & ~(huge - 1), e = (p + bytes) & ~(huge - 1);
-  if (e > b) (void)madvise(reinterpret_cast<void*>(b), e - b, MADV_HUGEPAGE);
-#else
-  (void)data;
-  (void)bytes;
-#endif
-}
-
-// Reserves `count` elements of `v` (written once, front to back, next).
-template <class T>
-void reserve_fresh(std::vector<T>& v, std::size_t count) {
-  v.reserve(count);
-  advise_huge(v.data(), count * sizeof(T));
-}
+// Large fresh arrays: the kernel's huge pages (methods/beam/memory_advice.h).
+using trivet::advise_huge;
+using trivet::reserve_huge;
 
 // An array written once by index straight after it is allocated. Unlike
 // std::vector::resize, the elements are default-initialised, so an array of

@@ -155,7 +155,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   }
   auto real_of = [&](std::size_t g) TM_INLINE { return merged ? real[g] : g; };
   auto st = std::make_shared<State<R>>();
-  reserve_fresh(st->seg, m);
+  reserve_huge(st->seg, m);
   if (merged) {
     st->span_seg.resize(n);
     st->span_off.resize(n);
@@ -415,7 +415,7 @@ BasicSolution<R> solve_tridiagonal(const BasicBeam<R>& beam) {
   };
 
   BasicSolution<R> out;
-  reserve_fresh(out.nodes, n + 1);
+  reserve_huge(out.nodes, n + 1);
   bool bad = false;
   R x{0};                   // global x of the next node
   BasicPointValues<R> lv;   // values just left of the next node
