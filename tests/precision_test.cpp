@@ -204,6 +204,26 @@ TEST(ExactReader, SharesTheUnitGrammarAndSymbols) {
   EXPECT_EQ(e.value, Exact(200000000));
 }
 
+// The one unit table's two columns agree: each symbol's double factor is
+// within about one ulp of its exact num / den (the double reader's values
+// are products of rounded constants), and the exact factors are the definitions: 1 lbf =
+// 4.4482216152605 N and 1 in = 0.0254 m exactly (NIST Special Publication
+// 811, 2008 ed., appendix B.8), 1 ft = 12 in, 1 psi = 1 lbf/in^2.
+TEST(ExactReader, TheUnitTableHoldsBothColumnsOfOneFactor) {
+  for (const auto& u : input::unit_symbols()) {
+    const Exact exact = frac(u.num, u.den);
+    EXPECT_EQ(*exact_unit_factor(u.symbol), exact) << u.symbol;
+    const double nearest = static_cast<double>(exact);
+    EXPECT_LE(std::abs(u.si - nearest), std::abs(nearest) * 2.3e-16) << u.symbol << ": " << u.si << " against " << nearest;
+  }
+  EXPECT_EQ(*exact_unit_factor("lbf"), frac(44482216152605, 10000000000000));
+  EXPECT_EQ(*exact_unit_factor("ft"), 12 * *exact_unit_factor("in"));
+  EXPECT_EQ(*exact_unit_factor("in"), frac(254, 10000));
+  EXPECT_EQ(*exact_unit_factor("psi"), *exact_unit_factor("lbf") / (*exact_unit_factor("in") * *exact_unit_factor("in")));
+  EXPECT_EQ(*exact_unit_factor("ksi"), 1000 * *exact_unit_factor("psi"));
+  EXPECT_EQ(*exact_unit_factor("kip"), 1000 * *exact_unit_factor("lbf"));
+}
+
 // ---------------------------------------------------------------------------
 // The exact reader.
 

@@ -9,32 +9,53 @@
 namespace trivet::input {
 namespace {
 
-// SI value (N, m) and dimension of each unit symbol we accept.
-// Conversion factors: lbf = 4.4482216152605 N and in = 0.0254 m exactly by
-// definition (NIST Special Publication 811, 2008 ed., appendix B.8);
-// kip = 1000 lbf, ft = 12 in, psi = lbf/in^2, ksi = 1000 psi.
+// SI value (N, m) and dimension of each unit symbol we accept, in the order
+// people read them: forces, lengths, stresses, angle. Conversion factors:
+// lbf = 4.4482216152605 N and in = 0.0254 m exactly by definition (NIST
+// Special Publication 811, 2008 ed., appendix B.8); kip = 1000 lbf,
+// ft = 12 in, psi = lbf/in^2, ksi = 1000 psi. Each row's exact factor is
+// num / den; the double one is written as it always was (the readers' bits
+// do not change), and a test holds it to num / den.
+constexpr double kLbf = 4.4482216152605;
+constexpr double kInch = 0.0254;
+constexpr std::int64_t kLbfNum = 44482216152605, kLbfDen = 10000000000000;  // 4.4482216152605
+constexpr std::int64_t kPsiDen = 6451600000;  // lbf / in^2 = kLbfNum / (0.0254^2 * 1e13) = kLbfNum / 6451600000
+
+const std::vector<UnitSymbol>& rows() {
+  static const std::vector<UnitSymbol> v = {
+      {"N", {1, 0}, 1.0, 1, 1},
+      {"kN", {1, 0}, 1e3, 1000, 1},
+      {"MN", {1, 0}, 1e6, 1000000, 1},
+      {"lbf", {1, 0}, kLbf, kLbfNum, kLbfDen},
+      {"kip", {1, 0}, 1e3 * kLbf, kLbfNum, kLbfDen / 1000},
+      {"kips", {1, 0}, 1e3 * kLbf, kLbfNum, kLbfDen / 1000},
+      {"mm", {0, 1}, 1e-3, 1, 1000},
+      {"cm", {0, 1}, 1e-2, 1, 100},
+      {"m", {0, 1}, 1.0, 1, 1},
+      {"in", {0, 1}, kInch, 254, 10000},
+      {"ft", {0, 1}, 12 * kInch, 3048, 10000},
+      {"Pa", {1, -2}, 1.0, 1, 1},
+      {"kPa", {1, -2}, 1e3, 1000, 1},
+      {"MPa", {1, -2}, 1e6, 1000000, 1},
+      {"GPa", {1, -2}, 1e9, 1000000000, 1},
+      {"psi", {1, -2}, kLbf / (kInch * kInch), kLbfNum, kPsiDen},
+      {"ksi", {1, -2}, 1e3 * kLbf / (kInch * kInch), kLbfNum * 1000, kPsiDen},
+      {"rad", {0, 0}, 1.0, 1, 1},
+  };
+  return v;
+}
+
 struct UnitDef {
   double si;
   Dimension dim;
 };
 
-constexpr double kLbf = 4.4482216152605;
-constexpr double kInch = 0.0254;
-
 const std::map<std::string, UnitDef>& unit_table() {
-  static const std::map<std::string, UnitDef> t = {
-      {"N", {1.0, {1, 0}}},        {"kN", {1e3, {1, 0}}},
-      {"MN", {1e6, {1, 0}}},       {"lbf", {kLbf, {1, 0}}},
-      {"kip", {1e3 * kLbf, {1, 0}}}, {"kips", {1e3 * kLbf, {1, 0}}},
-      {"mm", {1e-3, {0, 1}}},      {"cm", {1e-2, {0, 1}}},
-      {"m", {1.0, {0, 1}}},        {"in", {kInch, {0, 1}}},
-      {"ft", {12 * kInch, {0, 1}}},
-      {"Pa", {1.0, {1, -2}}},      {"kPa", {1e3, {1, -2}}},
-      {"MPa", {1e6, {1, -2}}},     {"GPa", {1e9, {1, -2}}},
-      {"psi", {kLbf / (kInch * kInch), {1, -2}}},
-      {"ksi", {1e3 * kLbf / (kInch * kInch), {1, -2}}},
-      {"rad", {1.0, {0, 0}}},
-  };
+  static const std::map<std::string, UnitDef> t = [] {
+    std::map<std::string, UnitDef> m;
+    for (const auto& r : rows()) m[r.symbol] = {r.si, r.dim};
+    return m;
+  }();
   return t;
 }
 
@@ -81,17 +102,7 @@ std::optional<double> length_unit(const std::string& name) {
   return it->second.si;
 }
 
-const std::vector<UnitSymbol>& unit_symbols() {
-  static const std::vector<UnitSymbol> v = [] {
-    std::vector<UnitSymbol> out;
-    // In the order people read them: forces, lengths, stresses, angle.
-    for (const char* s : {"N", "kN", "MN", "lbf", "kip", "kips", "mm", "cm", "m", "in", "ft", "Pa", "kPa", "MPa",
-                          "GPa", "psi", "ksi", "rad"})
-      out.push_back({s, unit_table().at(s).dim});
-    return out;
-  }();
-  return v;
-}
+const std::vector<UnitSymbol>& unit_symbols() { return rows(); }
 
 std::string known_units_text() {
   std::string s;

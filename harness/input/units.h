@@ -1,6 +1,7 @@
 // trivet: units of a beam file and quantities written with their own unit.
 #pragma once
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -49,12 +50,15 @@ struct UnitTerm {
   int power = 1;
 };
 
-// The unit symbols the readers know, each with its dimension, in one list
-// (the double reader's factors are in units.cpp, the exact reader's in
-// harness/precision/exact_reader.cpp; a test holds the two to this list).
+// The unit symbols the readers know: the one table of both readers. Each
+// with its dimension, its factor to N and m in double (`si`) and exactly
+// (`num` / `den`; the exact reader, harness/precision/exact_reader.cpp,
+// reads it from here; a test holds `si` to the nearest double of num/den).
 struct UnitSymbol {
   const char* symbol;
   Dimension dim;
+  double si;
+  std::int64_t num, den;
 };
 const std::vector<UnitSymbol>& unit_symbols();
 // "N, kN, MN, lbf, kip, mm, ..." for messages.

@@ -89,34 +89,13 @@ struct ExactUnit {
   input::Dimension dim;
 };
 
-// The exact factors. lbf = 4.4482216152605 N and in = 0.0254 m exactly by
-// definition (NIST Special Publication 811, 2008 ed., appendix B.8);
-// kip = 1000 lbf, ft = 12 in, psi = lbf/in^2, ksi = 1000 psi.
+// The exact factors: num / den of the readers' one unit table
+// (harness/input/units.h, with its sources).
 const std::map<std::string, ExactUnit>& exact_units() {
   static const std::map<std::string, ExactUnit> t = [] {
-    const Exact lbf = make_exact(cpp_int(44482216152605LL), pow10(13));
-    const Exact inch = make_exact(254, 10000);
-    const Exact thousand(1000);
-    std::map<std::string, ExactUnit> m = {
-        {"N", {Exact(1), {1, 0}}},
-        {"kN", {thousand, {1, 0}}},
-        {"MN", {Exact(1000000), {1, 0}}},
-        {"lbf", {lbf, {1, 0}}},
-        {"kip", {thousand * lbf, {1, 0}}},
-        {"kips", {thousand * lbf, {1, 0}}},
-        {"mm", {make_exact(1, 1000), {0, 1}}},
-        {"cm", {make_exact(1, 100), {0, 1}}},
-        {"m", {Exact(1), {0, 1}}},
-        {"in", {inch, {0, 1}}},
-        {"ft", {12 * inch, {0, 1}}},
-        {"Pa", {Exact(1), {1, -2}}},
-        {"kPa", {thousand, {1, -2}}},
-        {"MPa", {Exact(1000000), {1, -2}}},
-        {"GPa", {Exact(1000000000), {1, -2}}},
-        {"psi", {lbf / (inch * inch), {1, -2}}},
-        {"ksi", {thousand * lbf / (inch * inch), {1, -2}}},
-        {"rad", {Exact(1), {0, 0}}},
-    };
+    std::map<std::string, ExactUnit> m;
+    for (const auto& u : input::unit_symbols())
+      m[u.symbol] = {make_exact(cpp_int(u.num), cpp_int(u.den)), u.dim};
     return m;
   }();
   return t;
