@@ -60,7 +60,7 @@ bool is_envelope_quantity(Quantity q) {
 }
 
 bool Combination::is_envelope() const {
-  if (!pattern.empty()) return true;
+  if (!pattern.empty() || moving) return true;
   for (const auto& f : factors)
     if (f.second.range) return true;
   return false;
@@ -1159,8 +1159,8 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             // Structures", section 2.3.1, combinations 1 and 2 with dead and live load only
             // (from memory): 1.4D; 1.2D + 1.6L.
             const std::string src = "ASCE/SEI 7-16, section 2.3.1, combinations 1 and 2 (from memory)";
-            Combination c1{base + " 1.4D", ptr, {{map["D"], Factor{1.4, 1.4, false}}}, {}, arr, src, false, {}};
-            Combination c2{base + " 1.2D+1.6L", ptr, {{map["D"], Factor{1.2, 1.2, false}}, {map["L"], Factor{1.6, 1.6, false}}}, {map["L"]}, arr, src, false, {}};
+            Combination c1{base + " 1.4D", ptr, {{map["D"], Factor{1.4, 1.4, false}}}, {}, arr, src, false, {}, std::nullopt};
+            Combination c2{base + " 1.2D+1.6L", ptr, {{map["D"], Factor{1.2, 1.2, false}}, {map["L"], Factor{1.6, 1.6, false}}}, {map["L"]}, arr, src, false, {}, std::nullopt};
             add(c1, ptr, where);
             add(c2, ptr, where);
           } else {
@@ -1168,7 +1168,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
             // 1.35 unfavourable / 1.00 favourable, the leading variable action 1.5 where
             // unfavourable, 0 where favourable (from memory).
             const std::string src = "EN 1990:2002+A1:2005, expression (6.10), Table A1.2(B) (from memory)";
-            Combination c1{base, ptr, {{map["G"], Factor{1.0, 1.35, true}}, {map["Q"], Factor{1.5, 1.5, false}}}, {map["Q"]}, arr, src, false, {}};
+            Combination c1{base, ptr, {{map["G"], Factor{1.0, 1.35, true}}, {map["Q"], Factor{1.5, 1.5, false}}}, {map["Q"]}, arr, src, false, {}, std::nullopt};
             add(c1, ptr, where);
           }
           continue;

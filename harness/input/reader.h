@@ -103,6 +103,22 @@ struct DeflectionLimit {
   std::string text() const;             // "L/360" or "L/360, cantilever L/180"
 };
 
+// A train of concentrated loads that moves along the beam (the file's
+// "moving_loads"): a crane's wheels, a vehicle's axles. Each point stands at
+// a fixed distance `offset` from the train's first point; the first point's
+// position is what places the train. Running "backward" the offsets point to
+// the left of the first point. Each moving load is a load set of its own.
+struct MovingPoint {
+  double P = 0;       // force, positive downward (file units)
+  double offset = 0;  // distance from the first point, >= 0 (file units)
+};
+struct MovingLoad {
+  std::string name;
+  std::string pointer;              // "/moving_loads/0"
+  std::vector<MovingPoint> points;  // in file order; at least one
+  bool both_directions = true;      // "both" (default) or "forward"
+};
+
 struct Combination {
   std::string name;
   std::string pointer;                                  // "/combinations/1"
@@ -113,7 +129,12 @@ struct Combination {
   // Its own deflection limit (ratio 0 with `limit_set`: "none", no check).
   bool limit_set = false;
   DeflectionLimit deflection_limit;
-  bool is_envelope() const;  // a pattern or a factor range
+  // A moving load this combination names, with its factor (one number):
+  // the envelope of the combination's cases (as `factors` and `pattern`
+  // give) plus the factor times the moving load at its worst position.
+  // Empty: none. At most one per combination.
+  std::optional<std::pair<std::string, double>> moving;
+  bool is_envelope() const;  // a pattern, a factor range or a moving load
 };
 
 struct BeamFile {
@@ -122,6 +143,7 @@ struct BeamFile {
   Beam beam;                        // valid only when errors is empty
   std::vector<std::string> cases;   // load cases in order of first use
   std::vector<Combination> combinations;
+  std::vector<MovingLoad> moving_loads;  // each a load set of its own, after the cases
   // The beam's deflection limit, for the load sets named in
   // `deflection_limit_sets` (empty: every load set); a combination's own
   // limit takes its place.
