@@ -687,14 +687,16 @@ class Consensus {
  public:
   explicit Consensus(const LoadSet& set) : set_(set) {
     for (const auto& m : set.methods)
-      if (m.status == MethodStatus::Ok && (set.envelope ? static_cast<bool>(m.envelope_model) : static_cast<bool>(m.solution.at)))
+      if (m.status == MethodStatus::Ok &&
+          (set.envelope ? m.envelope_model || m.moving_model : static_cast<bool>(m.solution.at)))
         ok_.push_back(&m);
   }
   bool empty() const { return ok_.empty(); }
   // The median of the methods' envelope value of `q`.
   double envelope(input::Quantity q, std::size_t span, double local, bool after) const {
     std::vector<double> v;
-    for (auto* m : ok_) v.push_back(envelope_value(*m->envelope_model, q, span, local, after));
+    for (auto* m : ok_)
+      if (const auto e = envelope_value(*m, q, span, local, after)) v.push_back(*e);
     return median(v);
   }
   // The consensus deflection envelope at a station at global x, if there is one.

@@ -3,6 +3,7 @@
 #include "methods/beam/status.h"
 
 #include "harness/compare/detail.h"
+#include "harness/compare/moving.h"
 #include "harness/compare/extremes.h"
 
 #include <algorithm>
@@ -585,7 +586,7 @@ ClaimResult evaluate_claim(const input::Claim& claim, const LoadSet& set, const 
     auto value = [&](std::size_t s, double local, bool after) {
       tmp.clear();
       for (auto* m : ok)
-        if (m->envelope_model) tmp.push_back(envelope_value(*m->envelope_model, claim.quantity, s, local, after));
+        if (const auto e = envelope_value(*m, claim.quantity, s, local, after)) tmp.push_back(*e);
       return median(tmp);
     };
     if (claim.quantity == Q::ReactionMax || claim.quantity == Q::ReactionMin) {
@@ -817,17 +818,41 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
     std::string name;
     Beam beam;
     std::optional<input::Combination> combination;
+    const input::MovingLoad* moving = nullptr;
+    double moving_factor = 1;
   };
   std::vector<Spec> specs;
+  auto train = [&](const std::string& name) -> const input::MovingLoad* {
+    for (const auto& ml : file.moving_loads)
+      if (ml.name == name) return &ml;
+    return nullptr;
+  };
   for (const auto& case_name : file.cases)
     specs.push_back({case_name, file.cases.size() == 1 ? file.beam : beam_for_case(file.beam, case_name), std::nullopt});
   for (const auto& comb : file.combinations) {
     // An ordinary combination: one load set of factored loads (and
     // settlements by the rule of load_sets.h). An envelope: the loads of its
-    // cases as they are; each method splits them into shares.
+    // cases as they are; each method splits them into shares. With a moving
+    // load (never patterned nor a range, the reader says): the factored
+    // loads, and the train on top.
     std::vector<std::pair<std::string, double>> factors;
-    for (const auto& [cs, f] : comb.factors) factors.emplace_back(cs, comb.is_envelope() ? 1.0 : f.high);
-    specs.push_back({comb.name, beam_for_factors(file.beam, factors), comb});
+    for (const auto& [cs, f] : comb.factors)
+      factors.emplace_back(cs, comb.is_envelope() && !comb.moving ? 1.0 : f.high);
+    Spec spec{comb.name, beam_for_factors(file.beam, factors), comb};
+    if (comb.moving) {
+      spec.moving = train(comb.moving->first);
+      spec.moving_factor = comb.moving->second;
+    }
+    specs.push_back(std::move(spec));
+  }
+  // Each moving load on its own, factor 1, with the settlements that act in
+  // every load set (load_sets.h).
+  for (const auto& ml : file.moving_loads) {
+    input::Combination own;
+    own.name = ml.name;
+    own.pointer = ml.pointer;
+    own.moving = std::make_pair(ml.name, 1.0);
+    specs.push_back({ml.name, beam_for_factors(file.beam, std::vector<std::pair<std::string, double>>{}), own, &ml, 1.0});
   }
   for (auto& spec : specs) {
     LoadSet set;
@@ -835,13 +860,19 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
     set.beam = std::move(spec.beam);
     set.combination = spec.combination;
     set.envelope = spec.combination && spec.combination->is_envelope();
+    if (spec.moving) {
+      set.moving = *spec.moving;
+      set.moving_factor = spec.moving_factor;
+    }
     set.beam.stations_per_span = per_span;
     set.stations = build_stations(set.beam, per_span);
     auto run_method = [&set](const Method* m) {
       MethodResult r;
       r.name = m->name;
       try {
-        if (set.envelope) {
+        if (set.moving) {
+          run_moving_method(*m, set, r);
+        } else if (set.envelope) {
           run_envelope_method(*m, set.beam, *set.combination, set.stations, r, set.beam.spans.size() >= kParallelEnvelopeSpans);
         } else {
           r.solution = m->solve(set.beam, set.stations);
@@ -884,6 +915,7 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
         r.solution.at = nullptr;
         r.envelope.reset();
         r.envelope_model.reset();
+        r.moving_model.reset();
       }
       return r;
     };
@@ -904,7 +936,12 @@ BeamResult check(const input::BeamFile& file, const Options& options) {
       }
     for (std::size_t k = 0; k < chosen.size(); ++k)
       set.methods.push_back(later[k].valid() ? later[k].get() : run_method(chosen[k]));
-    if (set.envelope) {
+    if (set.moving) {
+      compare_envelopes(set, options.agreement);
+      compare_influence_lines(set, options.agreement);
+      consensus_extremes(set);
+      moving_second_route(set, chosen, options.agreement);
+    } else if (set.envelope) {
       compare_envelopes(set, options.agreement);
       consensus_extremes(set);
       second_route(set, chosen, options.agreement, set.beam.spans.size() >= kParallelEnvelopeSpans);

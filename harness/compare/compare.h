@@ -54,6 +54,18 @@ struct Governs {
   // Loaded spans whose share of a patterned case with a factor range took
   // the other end of the range than `factors` names for that case.
   std::vector<std::uint32_t> spans_other_factor;
+  // A moving load (its own load set, or a combination that names one):
+  // `Placed` with its first point at global x `first`, the train running
+  // backward (its other points to the left of the first) or forward; `Off`:
+  // the train off the beam governs.
+  enum class Train : std::uint8_t { None, Placed, Off };
+  Train train = Train::None;
+  double first = 0;
+  bool backward = false;
+  // Where a value is the limit as the train comes to `first` from below (-1)
+  // or from above (+1), not its value there (0): a point at an end of the
+  // beam is then on it or off it as it was just before.
+  std::int8_t approach = 0;
 };
 
 // The largest and smallest value of a quantity over a combination's
@@ -86,6 +98,7 @@ struct SpanExtremes {
 };
 
 class EnvelopeModel;  // a method's unit solutions, for envelope values anywhere
+class MovingModel;    // a method's influence lines and a moving load on them (moving.h)
 
 struct MethodResult {
   std::string name;
@@ -100,6 +113,8 @@ struct MethodResult {
   // and the unit solutions it came from.
   std::optional<Envelope> envelope;
   std::shared_ptr<const EnvelopeModel> envelope_model;
+  // For a moving load's load set: the method's influence lines and the train.
+  std::shared_ptr<const MovingModel> moving_model;
   // This method's own span extremes (of its envelope, for an envelope).
   std::vector<SpanExtremes> extremes;
 };
@@ -124,6 +139,9 @@ struct RouteCheck {
 // at a point of a span (`after`: the right-hand limit at a jump) or, for
 // reactions, at a node (`span` is then the node).
 double envelope_value(const EnvelopeModel& model, input::Quantity q, std::size_t span, double local, bool after);
+// The same for one method's result of an envelope load set (a patterned
+// combination or a moving load); nothing when the method has no envelope.
+std::optional<double> envelope_value(const MethodResult& m, input::Quantity q, std::size_t span, double local, bool after);
 
 
 enum class Verdict { Agree, Disagree, Unconfirmed };
@@ -157,6 +175,11 @@ struct LoadSet {
   // has a pattern or a factor range (the methods then carry envelopes).
   std::optional<input::Combination> combination;
   bool envelope = false;
+  // A moving load's load set (the moving load's own, with `combination`
+  // holding only it, or a combination that names one): the train and its
+  // factor. Such a load set is an envelope.
+  std::optional<input::MovingLoad> moving;
+  double moving_factor = 1;
   Envelope consensus_envelope;
   Beam beam;  // the beam with this set's loads only
   std::vector<Station> stations;

@@ -42,5 +42,9 @@ void compare_envelopes(LoadSet& set, double agreement);
 // `side_by_side`: the methods' direct solves run in threads of their own
 // (a long beam); the results are the same either way.
 void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement, bool side_by_side);
+// After set.second_route is filled (each check's `holds` set): the load set
+// disagrees with the worst check that fails, in words naming the governing
+// `what` ("arrangement", "position").
+void settle_second_route(LoadSet& set, const char* what);
 
 }  // namespace trivet::compare::detail

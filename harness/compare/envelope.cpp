@@ -17,6 +17,7 @@
 
 #include "harness/compare/detail.h"
 #include "harness/compare/extremes.h"
+#include "harness/compare/moving.h"
 #include "methods/beam/status.h"
 
 namespace trivet::compare {
@@ -327,7 +328,35 @@ std::string describe(const Governs& g, const input::Combination& c) {
   }
   for (std::size_t k = 0; k < c.factors.size() && k < g.factors.size(); ++k)
     s += (k ? ", " : "") + c.factors[k].first + " x" + fmt(g.factors[k]);
+  if (c.moving && g.train != Governs::Train::None) {
+    if (!s.empty() && s.back() != ' ') s += "; ";
+    const auto& [name, f] = *c.moving;
+    s += name;
+    if (f < 1 || f > 1) s += " x" + fmt(f);
+    s += g.train == Governs::Train::Off ? std::string(" off the beam")
+                                        : " with its first point at x = " + fmt(g.first) +
+                                              (g.backward ? ", running backward" : ", running forward") +
+                                              (g.approach < 0 ? " (the limit as it arrives there from the left)"
+                                               : g.approach > 0 ? " (the limit as it arrives there from the right)" : "");
+  }
   return s;
+}
+
+std::optional<double> envelope_value(const MethodResult& m, input::Quantity q, std::size_t span, double local, bool after) {
+  if (m.envelope_model) return envelope_value(*m.envelope_model, q, span, local, after);
+  if (!m.moving_model) return std::nullopt;
+  using Q = input::Quantity;
+  using V = MovingModel;
+  const V& model = *m.moving_model;
+  switch (q) {
+    case Q::MomentMax: return model.at(span, local, after, V::kMoment).max;
+    case Q::MomentMin: return model.at(span, local, after, V::kMoment).min;
+    case Q::ShearMax: return model.at(span, local, after, V::kShear).max;
+    case Q::ShearMin: return model.at(span, local, after, V::kShear).min;
+    case Q::ReactionMax: return model.reaction(span).max;
+    case Q::ReactionMin: return model.reaction(span).min;
+    default: return 0.0;
+  }
 }
 
 double envelope_value(const EnvelopeModel& model, input::Quantity q, std::size_t span, double local, bool after) {
@@ -1162,6 +1191,10 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     if (rc.values.empty() || !(rc.difference <= agreement)) rc.holds = false;
     set.second_route.push_back(std::move(rc));
   }
+  settle_second_route(set, "arrangement");
+}
+
+void settle_second_route(LoadSet& set, const char* what) {
   const RouteCheck* worst = nullptr;
   for (const auto& rc : set.second_route)
     if (!rc.holds && (!worst || rc.difference > worst->difference)) worst = &rc;
@@ -1170,7 +1203,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     std::string vals;
     for (const auto& [name, v] : worst->values) vals += (vals.empty() ? "" : ", ") + name + " " + fmt(v);
     set.problem = "second route: the envelope's " + worst->quantity + " of " + worst->where + " (" + fmt(worst->envelope) +
-                  ") is not what its governing arrangement (" + worst->arrangement + ") gives when solved directly (" +
+                  ") is not what its governing " + what + " (" + worst->arrangement + ") gives when solved directly (" +
                   (vals.empty() ? std::string("no method solved it") : vals) + ")";
   }
 }
