@@ -187,9 +187,18 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     }
     if (set.envelope && set.ok_count() > 0) {
       const input::Combination& cb = *set.combination;
-      out << "  combination " << set.name << ":";
+      if (set.moving && cb.factors.empty()) {
+        out << "  moving load " << set.name << ":";
+        for (const auto& pt : set.moving->points)
+          out << " " << input::format_number(pt.P) << " " << F << " at " << input::format_number(pt.offset) << " " << L << ";";
+        out << (set.moving->both_directions ? " running either way" : " running forward only");
+      } else {
+        out << "  combination " << set.name << ":";
+      }
       for (const auto& [cs, f] : cb.factors)
         out << " " << cs << " x" << (f.range ? "[" + input::format_number(f.low) + ", " + input::format_number(f.high) + "]" : input::format_number(f.high));
+      if (cb.moving && !cb.factors.empty())
+        out << " + " << cb.moving->first << " x" << input::format_number(cb.moving->second) << " (moving)";
       if (!cb.pattern.empty()) {
         out << "; patterned:";
         for (const auto& p : cb.pattern) out << " " << p;
@@ -208,7 +217,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
         std::set<std::string> arrangements;
         for (const auto& rc : set.second_route) arrangements.insert(rc.arrangement);
         out << "  second route: " << set.second_route.size() << " governing values re-solved directly ("
-            << arrangements.size() << " arrangements, every method): " << holds << " reproduced, largest difference "
+            << arrangements.size() << (set.moving ? " positions" : " arrangements") << ", every method): " << holds << " reproduced, largest difference "
             << sci(worst) << " (of the largest value)\n";
       }
       const Envelope& e = set.consensus_envelope;

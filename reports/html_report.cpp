@@ -345,7 +345,15 @@ struct Writer {
     };
     if (set.combination) {
       const input::Combination& c = *set.combination;
-      o << "<p class=\"envelope-combination\">Envelope of combination <b>" << html_escape(set.name) << "</b>: ";
+      if (set.moving && c.factors.empty()) {
+        o << "<p class=\"envelope-combination\">Envelope of moving load <b>" << html_escape(set.name) << "</b> over every position";
+        o << (set.moving->both_directions ? ", running either way" : ", running forward only") << ": ";
+        for (std::size_t k = 0; k < set.moving->points.size(); ++k)
+          o << (k ? "; " : "") << input::format_number(set.moving->points[k].P) << " " << F << " at "
+            << input::format_number(set.moving->points[k].offset) << " " << L;
+      } else {
+        o << "<p class=\"envelope-combination\">Envelope of combination <b>" << html_escape(set.name) << "</b>: ";
+      }
       for (std::size_t k = 0; k < c.factors.size(); ++k) {
         const input::Factor& f = c.factors[k].second;
         o << (k ? " + " : "")
@@ -353,6 +361,9 @@ struct Writer {
                                  : input::format_number(f.low))
           << " &times; " << html_escape(c.factors[k].first);
       }
+      if (c.moving && !c.factors.empty())
+        o << " + " << html_escape(input::format_number(c.moving->second)) << " &times; " << html_escape(c.moving->first)
+          << " (moving, at its worst position)";
       if (!c.pattern.empty()) {
         o << "; patterned span by span: ";
         for (std::size_t k = 0; k < c.pattern.size(); ++k) o << (k ? ", " : "") << html_escape(c.pattern[k]);
@@ -417,8 +428,9 @@ struct Writer {
     o << "<details class=\"second-route\"" << (holds == set.second_route.size() ? "" : " open")
       << "><summary>Second route: " << set.second_route.size()
       << " governing values re-solved directly by every method, " << holds << " reproduced</summary>\n";
-    o << "<p>Each value the envelope reports as governing, and the arrangement that governs it, with its factors, "
-         "solved directly as an ordinary load set by every method; the difference is relative to the largest value of "
+    o << (set.moving ? "<p>Each value the envelope reports as governing, and the position of the train that governs it, "
+                       : "<p>Each value the envelope reports as governing, and the arrangement that governs it, with its factors, ")
+      << "solved directly as an ordinary load set by every method; the difference is relative to the largest value of "
          "its kind.</p>\n";
     o << "<table class=\"second-route\"><tr><th>value</th><th>where</th><th>x [" << L
       << "]</th><th>arrangement</th><th>envelope</th>";

@@ -94,6 +94,16 @@ void governs_object(JsonWriter& w, const Governs& g, const input::Combination& c
   w.begin_object(true);
   for (std::size_t i = 0; i < c.factors.size() && i < g.factors.size(); ++i) w.member(c.factors[i].first, g.factors[i]);
   w.end_object();
+  if (g.train == Governs::Train::Off) {
+    w.member("train_position", "off the beam");
+  } else if (g.train == Governs::Train::Placed) {
+    w.key("train_position");
+    w.begin_object(true);
+    w.member("first_point_x", g.first);
+    w.member("direction", g.backward ? "backward" : "forward");
+    if (g.approach != 0) w.member("limit", g.approach < 0 ? "arriving from the left" : "arriving from the right");
+    w.end_object();
+  }
   w.end_object();
 }
 
@@ -369,7 +379,24 @@ void load_set(JsonWriter& w, const LoadSet& set, const Report& b) {
   w.member("verdict", verdict_name(set.verdict));
   for (const auto& pn : b.precision)
     if (pn->load_case == set.name) arithmetic(w, *pn);
-  if (set.combination) {
+  if (set.moving) {
+    w.key("moving_load");
+    w.begin_object(true);
+    w.member("name", set.moving->name);
+    w.member("factor", set.moving_factor);
+    w.key("points");
+    w.begin_array(true);
+    for (const auto& pt : set.moving->points) {
+      w.begin_object(true);
+      w.member("P", pt.P);
+      w.member("offset", pt.offset);
+      w.end_object();
+    }
+    w.end_array();
+    w.member("directions", set.moving->both_directions ? "both" : "forward");
+    w.end_object();
+  }
+  if (set.combination && !(set.moving && set.combination->factors.empty())) {
     const input::Combination& c = *set.combination;
     w.key("combination");
     w.begin_object();
