@@ -37,6 +37,7 @@ work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
 "$gen" "$work/lib" 10000 1
 "$gen" --long "$work/long.json" 100000 1
 "$gen" --patterned "$work/patterned.json" 1000 1
+"$gen" --moving "$work/moving.json" 20 1
 "$gen" --loads "$work/loads100k.json" 100000 1
 "$gen" --loads "$work/loads1m.json" 1000000 1
 once() {  # once CMD... -> "seconds KiB" of one run
@@ -56,7 +57,7 @@ row() {  # row LABEL FILE -> "| LABEL | median s (runs) | MiB |"; the median to 
 # the speed of a core swings by up to half from minute to minute, with the
 # host's other guests: an odd number of runs, and their median.)
 runs=9
-: > "$work/j2"; : > "$work/j1"; : > "$work/long"; : > "$work/patterned"; : > "$work/l100k"; : > "$work/l1m"
+: > "$work/j2"; : > "$work/j1"; : > "$work/long"; : > "$work/patterned"; : > "$work/l100k"; : > "$work/l1m"; : > "$work/moving"
 for k in $(seq 1 "$runs"); do
   once "$trivet" check "$work/lib" --jobs 2 --json "$work/a.json" --junit "$work/a.xml" >> "$work/j2"
   once "$trivet" check "$work/lib" --jobs 1 --json "$work/b.json" --junit "$work/b.xml" >> "$work/j1"
@@ -66,6 +67,9 @@ for k in $(seq 1 "$runs"); do
 done
 for k in $(seq 1 3); do
   once "$trivet" check "$work/patterned.json" --json "$work/d.json" >> "$work/patterned"
+done
+for k in $(seq 1 "$runs"); do
+  once "$trivet" check "$work/moving.json" --json "$work/g.json" >> "$work/moving"
 done
 # One span with many point loads: the cost must grow linearly with the file.
 for k in $(seq 1 3); do
@@ -86,6 +90,8 @@ done
   long=$(cat "$work/last"); long_mib=$(cat "$work/last_mib")
   runs=3 row "1,000-span beam, live load patterned (every arrangement), 4 stations per span, all methods, JSON" "$work/patterned"
   pat=$(cat "$work/last"); pat_mib=$(cat "$work/last_mib")
+  row "20-span beam, a two-point train running either way, and dead + 1.5 x train, 10 stations per span, all methods, JSON" "$work/moving"
+  mov=$(cat "$work/last")
   runs=3 row "one span with 100,000 point loads, all methods, JSON" "$work/l100k"
   l100k=$(cat "$work/last")
   runs=3 row "one span with 1,000,000 point loads (a 60 MB file), all methods, JSON" "$work/l1m"
@@ -117,7 +123,7 @@ done
   echo "| target | measured | met |"
   echo "| --- | --- | --- |"
   awk -v two="$two" -v one="$one" -v long="$long" -v long_mib="$long_mib" -v pat="$pat" -v pat_mib="$pat_mib" \
-      -v l100k="$l100k" -v l1m="$l1m" '
+      -v l100k="$l100k" -v l1m="$l1m" -v mov="$mov" '
     function ns(t) { if (t ~ /us$/) return t * 1000; if (t ~ /ms$/) return t * 1e6; return t + 0 }
     function ms(v, u) { if (u == "us") return v / 1000; if (u == "s") return v * 1000; if (u == "ns") return v / 1e6; return v + 0 }
     function yes(c) { return c ? "yes" : "**no**" }
@@ -133,6 +139,7 @@ done
       printf "| --jobs 2 at least 1.7x faster than --jobs 1 | %.2fx | %s |\n", one / two, yes(one / two >= 1.7)
       printf "| 100,000-span beam, JSON: under 2 s and 1 GiB | %s s, %d MiB | %s |\n", long, long_mib, yes(long < 2 && long_mib < 1024)
       printf "| 1,000-span patterned envelope, 4 stations per span, JSON: under 2 s and 400 MiB | %s s, %d MiB | %s |\n", pat, pat_mib, yes(pat < 2 && pat_mib < 400)
+      printf "| a two-point train over 20 spans, 10 stations per span, all methods, JSON: under 1 s | %s s | %s |\n", mov, yes(mov < 1)
       printf "| one span, 1,000,000 point loads: linear (at most 13x the time of 100,000) | %s s against %s s: %.1fx | %s |\n", l1m, l100k, l1m / l100k, yes(l1m / l100k <= 13)
       printf "| three solvers on 1,000,000 spans: under 1 s together | %.0f ms (one first call in a fresh process: %.0f ms) | %s |\n", warm, first, yes(warm < 1000 && first < 1000)
       split("three_moment slope_deflection stiffness", names, " ")

@@ -12,6 +12,12 @@
 //                                             patterned (every arrangement)
 //   generate_library --loads FILE COUNT [SEED] one 20 m span (pinned, roller)
 //                                             with COUNT point loads
+//   generate_library --moving FILE SPANS [SEED]
+//                                             one beam of SPANS spans, 10 stations
+//                                             per span, its loads as "dead", a
+//                                             two-point train (100 kN and 60 kN,
+//                                             3.5 m apart) running either way,
+//                                             and dead + 1.5 x train
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
@@ -21,7 +27,7 @@
 
 namespace {
 
-std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool patterned = false) {
+std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool patterned = false, bool moving = false) {
   std::uniform_real_distribution<double> U(0.0, 1.0);
   auto num = [](double v) {
     char b[32];
@@ -44,7 +50,7 @@ std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool p
       s += first ? "" : ",";
       first = false;
       const std::string span = std::to_string(i + 1);
-      const std::string cs = patterned ? ", \"case\": \"dead\"}" : "}";
+      const std::string cs = patterned || moving ? ", \"case\": \"dead\"}" : "}";
       switch (rng() % 3) {
         case 0: s += "{\"type\": \"udl\", \"span\": " + span + ", \"w\": " + num(2 + 20 * U(rng)) + cs; break;
         case 1: s += "{\"type\": \"point\", \"span\": " + span + ", \"P\": " + num(5 + 50 * U(rng)) + ", \"at\": " + num(0.5 + 2 * U(rng)) + cs; break;
@@ -56,6 +62,9 @@ std::string beam_text(std::mt19937& rng, std::size_t spans, int stations, bool p
   s += "],\n\"stations_per_span\": " + std::to_string(stations);
   if (patterned)
     s += ",\n\"combinations\": [{\"name\": \"strength\", \"factors\": {\"dead\": 1.2, \"live\": 1.6}, \"pattern\": [\"live\"]}]";
+  if (moving)
+    s += ",\n\"moving_loads\": [{\"name\": \"train\", \"points\": [{\"P\": 100, \"offset\": 0}, {\"P\": 60, \"offset\": 3.5}]}]"
+         ",\n\"combinations\": [{\"name\": \"dead+train\", \"factors\": {\"dead\": 1.2, \"train\": 1.5}}]";
   s += "}\n";
   return s;
 }
@@ -84,13 +93,18 @@ int main(int argc, char** argv) {
     std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 4, true);
     return 0;
   }
+  if (argc >= 4 && std::string(argv[1]) == "--moving") {
+    std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
+    std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 10, false, true);
+    return 0;
+  }
   if (argc >= 4 && std::string(argv[1]) == "--long") {
     std::mt19937 rng(argc > 4 ? static_cast<unsigned>(std::atoi(argv[4])) : 1u);
     std::ofstream(argv[2]) << beam_text(rng, static_cast<std::size_t>(std::atol(argv[3])), 1);
     return 0;
   }
   if (argc < 3) {
-    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED] | --patterned FILE SPANS [SEED] | --loads FILE COUNT [SEED]\n");
+    std::fprintf(stderr, "usage: generate_library DIR COUNT [SEED] | --long FILE SPANS [SEED] | --patterned FILE SPANS [SEED] | --loads FILE COUNT [SEED] | --moving FILE SPANS [SEED]\n");
     return 2;
   }
   const std::filesystem::path dir(argv[1]);
