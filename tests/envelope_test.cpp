@@ -263,6 +263,40 @@ TEST(Envelope, FarSpansOfRoundingInfluenceAreLeftOffWhatGoverns) {
     for (std::uint32_t sp : {2u, 4u}) EXPECT_EQ(std::count(g.spans.begin(), g.spans.end(), sp), 1) << m.name << " span " << sp + 1;
     EXPECT_LT(g.spans.back(), 35u) << m.name << ": a span of rounding influence is named";
   }
+  // The second route carries the alternate pattern on to the ends of the
+  // beam where the influence is rounding (the value changes by rounding
+  // only), so the largest sagging moment of every odd span is governed by
+  // one arrangement, every odd span loaded, and solved once; on the screen
+  // a run of every other span reads "1, 3, ..., 39".
+  std::string odd;
+  std::size_t odd_spans = 0;
+  for (const auto& rc : s->second_route) {
+    if (rc.quantity != "max_moment") continue;
+    const int span = std::stoi(rc.where.substr(5));
+    if (span % 2 == 0) continue;
+    ++odd_spans;
+    if (odd.empty()) odd = rc.arrangement;
+    EXPECT_EQ(rc.arrangement, odd) << rc.where;
+  }
+  EXPECT_EQ(odd_spans, 20u);
+  EXPECT_EQ(odd, "spans 1, 3, ..., 39 loaded; live x1");
+}
+
+// What governs in words: runs of spans are shortened, a run of three or more
+// consecutive spans to "4-6", of five or more alternate spans to "1, 3, ..., 9".
+TEST(Envelope, RunsOfSpansReadShort) {
+  input::Combination c;
+  c.name = "c";
+  c.factors = {{"live", input::Factor{1.5, 1.5, false}}};
+  c.pattern = {"live"};
+  Governs g;
+  g.factors = {1.5};
+  g.spans = {0, 2, 4, 6, 8, 9, 10, 11, 13, 15, 17};
+  EXPECT_EQ(describe(g, c), "spans 1, 3, ..., 9, 10-12, 14, 16, 18 loaded; live x1.5");
+  g.spans = {0, 1, 3, 5};
+  EXPECT_EQ(describe(g, c), "spans 1, 2, 4, 6 loaded; live x1.5");
+  g.spans = {4};
+  EXPECT_EQ(describe(g, c), "span 5 loaded; live x1.5");
 }
 
 }  // namespace

@@ -55,6 +55,14 @@ double EnvelopeModel::pick(std::size_t u, double g, bool want_max, bool allow_of
 }
 
 void EnvelopeModel::prepare() {
+  span_units.assign(comb.factors.size(), {});
+  for (std::size_t u = 0; u < units.size(); ++u) {
+    const Unit& un = units[u];
+    if (!un.patterned || un.factor >= span_units.size()) continue;
+    auto& su = span_units[un.factor];
+    if (su.empty()) su.assign(spans, kAlways);
+    if (un.span < su.size()) su[un.span] = u;
+  }
   options.assign(units.size(), Options{});
   const bool all = comb.arrangements == input::Arrangements::All || arrangements.empty();
   if (!all) return;
@@ -135,6 +143,25 @@ double EnvelopeModel::extreme(const std::vector<double>& g, bool want_max, Choic
         (*choice)[u] = f;
       }
   return best;
+}
+
+void EnvelopeModel::extend_pattern(const std::vector<double>& g, Choice& c) const {
+  if (c.size() != units.size() || g.size() != units.size()) return;
+  double magnitude = 0;
+  for (double v : g) magnitude += std::abs(v);
+  const double negligible = magnitude * 0x1p-52;
+  for (const auto& su : span_units) {
+    if (su.empty()) continue;
+    auto matters = [&](std::size_t s) { return su[s] != kAlways && std::abs(g[su[s]]) > negligible; };
+    std::size_t first = su.size(), last = 0;
+    for (std::size_t s = 0; s < su.size(); ++s)
+      if (matters(s)) { first = std::min(first, s); last = s; }
+    if (first == su.size()) continue;
+    for (std::size_t s = last + 1; s < su.size(); ++s)
+      if (su[s] != kAlways && s >= 2 && su[s - 2] != kAlways) c[su[s]] = c[su[s - 2]];
+    for (std::size_t s = first; s-- > 0;)
+      if (su[s] != kAlways && s + 2 < su.size() && su[s + 2] != kAlways) c[su[s]] = c[su[s + 2]];
+  }
 }
 
 Governs EnvelopeModel::governs(const Choice& c) const {
@@ -309,18 +336,44 @@ Beam EnvelopeModel::unit_beam(std::size_t u) const {
   return b;
 }
 
+namespace {
+// 0-based spans, increasing, as 1-based text: a run of three or more
+// consecutive spans as "4-9", a run of five or more every other span as
+// "2, 4, ..., 40", the rest listed.
+std::string span_list(const std::vector<std::uint32_t>& v) {
+  std::string s;
+  auto num = [&](std::size_t i) { return std::to_string(static_cast<std::size_t>(v[i]) + 1); };
+  for (std::size_t i = 0; i < v.size();) {
+    std::size_t one = i, two = i;
+    while (one + 1 < v.size() && v[one + 1] == v[one] + 1) ++one;
+    while (two + 1 < v.size() && v[two + 1] == v[two] + 2) ++two;
+    if (!s.empty()) s += ", ";
+    if (one - i + 1 >= 3) {
+      s += num(i) + "-" + num(one);
+      i = one + 1;
+    } else if (two - i + 1 >= 5) {
+      s += num(i) + ", " + num(i + 1) + ", ..., " + num(two);
+      i = two + 1;
+    } else {
+      s += num(i);
+      ++i;
+    }
+  }
+  return s;
+}
+}  // namespace
+
 std::string describe(const Governs& g, const input::Combination& c) {
   std::string s;
   if (!c.pattern.empty()) {
     if (g.spans.empty()) s = "no span loaded";
     else {
       s = g.spans.size() == 1 ? "span " : "spans ";
-      for (std::size_t i = 0; i < g.spans.size(); ++i) s += (i ? ", " : "") + std::to_string(g.spans[i] + 1);
+      s += span_list(g.spans);
       s += " loaded";
       if (!g.spans_other_factor.empty()) {
         s += g.spans_other_factor.size() == 1 ? " (span " : " (spans ";
-        for (std::size_t i = 0; i < g.spans_other_factor.size(); ++i)
-          s += (i ? ", " : "") + std::to_string(g.spans_other_factor[i] + 1);
+        s += span_list(g.spans_other_factor);
         s += " with the other end of the factor range)";
       }
     }
@@ -1060,6 +1113,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
   std::vector<std::string> described;      // per arrangement, in order of discovery
   constexpr std::size_t kBlock = 256;
   std::vector<M::Choice> block(kBlock);
+  const bool all = model.comb.arrangements == input::Arrangements::All || model.arrangements.empty();
   for (std::size_t from = 0; from < items.size(); from += kBlock) {
     const std::size_t n = std::min(kBlock, items.size() - from);
     auto choose = [&](std::size_t a, std::size_t b) {
@@ -1074,6 +1128,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
           for (std::size_t u = 0; u < pv.size(); ++u) g[u] = quantity(pv[u], it.what);
         }
         model.extreme(g, wants_max[from + k] != 0, &block[k]);
+        if (all) model.extend_pattern(g, block[k]);
       }
     };
     std::future<void> other;

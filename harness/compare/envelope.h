@@ -60,8 +60,20 @@ class EnvelopeModel {
     double max_pos = 0, max_neg = 0, max_zero = 0, min_pos = 0, min_neg = 0, min_zero = 0;
   };
   std::vector<Options> options;  // empty until prepare(): extreme() then asks pick()
-  // Works out `options` from `units` and `comb` (call after the units are set).
+  // Works out `options` and `span_units` from `units` and `comb` (call after
+  // the units are set).
   void prepare();
+  // Per case (index into comb.factors), the unit of its patterned share on
+  // each span (kAlways where it has none); empty for a case not patterned.
+  std::vector<std::vector<std::size_t>> span_units;
+  // For the second route (all arrangements): a choice made by extreme() for
+  // values g, with each patterned share whose value is negligible (taken as
+  // zero, so off) beyond the outermost spans that matter set as the share
+  // two spans nearer took: the alternate pattern carried on to the ends. Its
+  // value differs from the choice's by rounding only (each such share is
+  // below 2^-52 of the sum); far from their points, many governing
+  // arrangements become one, so fewer need a direct solve.
+  void extend_pattern(const std::vector<double>& g, Choice& c) const;
   // What governs, shared between the points that have the same.
   struct Interned {
     std::map<std::pair<std::size_t, std::size_t>, std::vector<std::shared_ptr<const Governs>>> buckets;
