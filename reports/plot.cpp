@@ -5,7 +5,10 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <cctype>
+#include <cerrno>
 #include <cmath>
+#include <tuple>
 #include <cstdio>
 #include <cstdlib>
 #include <fstream>
@@ -16,6 +19,7 @@
 #include <gnuplot-iostream.h>
 
 #include "harness/compare/against.h"
+#include "harness/compare/moving.h"
 #include "harness/input/units.h"
 #include "reports/reports.h"
 
@@ -30,6 +34,7 @@ const char* panel_name(PanelKind k) {
     case PanelKind::Moment: return "moment";
     case PanelKind::Deflection: return "deflection";
     case PanelKind::Difference: return "difference";
+    case PanelKind::Influence: return "influence";
   }
   return "?";
 }
@@ -90,7 +95,21 @@ std::string combination_text(const input::Combination& c) {
     s += std::string(" patterned span by span (") +
          (c.arrangements == input::Arrangements::All ? "every arrangement" : "all, alternate and adjacent spans") + ")";
   }
+  if (c.moving)
+    s += (c.factors.empty() ? std::string() : " + ") + input::format_number(c.moving->second) + " x " + c.moving->first +
+         " (moving)";
   if (!c.source.empty()) s += "; factors: " + c.source;
+  return s;
+}
+
+// A moving load in words: "moving load trolley: 40 kN at 0, 60 kN at 3 m;
+// both directions".
+std::string moving_text(const input::MovingLoad& t, const std::string& F, const std::string& L) {
+  std::string s = "moving load " + t.name + ":";
+  for (std::size_t k = 0; k < t.points.size(); ++k)
+    s += (k ? ", " : " ") + input::format_number(t.points[k].P) + " " + F + " at " +
+         input::format_number(t.points[k].offset) + " " + L;
+  s += t.both_directions ? "; both directions" : "; forward only";
   return s;
 }
 
@@ -119,7 +138,11 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
   d.subtitle = b.file + "  |  load set: " + set.name + (set.envelope ? " (envelope)" : "") + "  |  methods " +
                verdict_name(set.verdict);
   d.envelope = set.envelope;
-  if (set.combination) d.combination = "combination " + set.name + " = " + combination_text(*set.combination);
+  // A moving load's own load set: its combination holds only the train.
+  const bool own_moving = set.moving && set.combination && set.combination->factors.empty() &&
+                          set.combination->moving && set.combination->moving->first == set.name;
+  if (own_moving) d.combination = moving_text(*set.moving, F, L);
+  else if (set.combination) d.combination = "combination " + set.name + " = " + combination_text(*set.combination);
   d.x_label = "x [" + L + "]";
   const std::size_t nn = beam.node_count();
   d.x_min = 0;
@@ -571,6 +594,282 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
 }
 
 // ---------------------------------------------------------------------------
+// Influence lines.
+
+const char* influence_syntax() {
+  return "QUANTITY@WHERE: QUANTITY one of moment, shear, deflection, reaction; WHERE a node label (B; B- the end of "
+         "the span on its left, B+ the start of the span on its right; B alone takes the left) or x=7.5 (global x "
+         "in the file's length unit; not for reaction)";
+}
+
+namespace {
+std::string trimmed(const std::string& s) {
+  std::size_t a = 0, b = s.size();
+  while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
+  while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
+  return s.substr(a, b - a);
+}
+const char* quantity_word(InfluenceRequest::Quantity q) {
+  switch (q) {
+    case InfluenceRequest::Quantity::Moment: return "moment";
+    case InfluenceRequest::Quantity::Shear: return "shear";
+    case InfluenceRequest::Quantity::Deflection: return "deflection";
+    case InfluenceRequest::Quantity::Reaction: return "reaction";
+  }
+  return "?";
+}
+}  // namespace
+
+std::optional<InfluenceRequest> parse_influence(const std::string& text, std::string* error) {
+  auto bad = [&](const std::string& why) -> std::optional<InfluenceRequest> {
+    if (error) *error = "--influence '" + text + "': " + why + "; expected " + influence_syntax();
+    return std::nullopt;
+  };
+  const std::size_t at = text.find('@');
+  if (at == std::string::npos) return bad("no '@'");
+  if (text.find('@', at + 1) != std::string::npos) return bad("more than one '@'");
+  std::string what = trimmed(text.substr(0, at));
+  const std::string where = trimmed(text.substr(at + 1));
+  for (char& c : what) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  InfluenceRequest q;
+  q.text = text;
+  if (what == "moment") q.quantity = InfluenceRequest::Quantity::Moment;
+  else if (what == "shear") q.quantity = InfluenceRequest::Quantity::Shear;
+  else if (what == "deflection") q.quantity = InfluenceRequest::Quantity::Deflection;
+  else if (what == "reaction") q.quantity = InfluenceRequest::Quantity::Reaction;
+  else return bad("unknown quantity '" + what + "'");
+  if (where.empty()) return bad("no place after '@'");
+  if (where.size() >= 2 && (where[0] == 'x' || where[0] == 'X') && where.find('=') != std::string::npos &&
+      trimmed(where.substr(1, where.find('=') - 1)).empty()) {
+    const std::string num_text = trimmed(where.substr(where.find('=') + 1));
+    if (num_text.empty()) return bad("no number after 'x='");
+    char* end = nullptr;
+    errno = 0;
+    const double v = std::strtod(num_text.c_str(), &end);
+    if (end == num_text.c_str() || *end != '\0' || errno == ERANGE || !std::isfinite(v))
+      return bad("'" + num_text + "' is not a number");
+    if (q.quantity == InfluenceRequest::Quantity::Reaction) return bad("a reaction is at a node: give its label, not x");
+    q.x = v;
+    return q;
+  }
+  q.node = where;
+  return q;
+}
+
+std::string influence_slug(const InfluenceRequest& q) {
+  std::string where = q.x ? "x" + input::format_number(*q.x) : q.node;
+  // "B-" and "B+" (parse_influence keeps the sign; influence_data reads it).
+  if (!q.x && where.size() >= 2 && (where.back() == '-' || where.back() == '+')) {
+    const char sign = where.back();
+    where.pop_back();
+    where += sign == '-' ? "-left" : "-right";
+  }
+  std::string s = std::string(quantity_word(q.quantity)) + "-";
+  for (char c : where)
+    s += std::isalnum(static_cast<unsigned char>(c)) || c == '.' || c == '-' || c == '_' ? c : '_';
+  return s;
+}
+
+PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req,
+                        const std::vector<const compare::Method*>& methods, int stations_per_span, std::string* error) {
+  PlotData d;
+  InfluenceRequest q = req;
+  auto bad = [&](const std::string& why) {
+    if (error) *error = "--influence '" + q.text + "': " + why;
+    d.panels.clear();
+    d.notes.push_back(why);
+    return d;
+  };
+  if (!file.ok()) return bad("the beam file is invalid");
+  // The beam of the lines: the file's, without loads or settlements.
+  Beam beam = file.beam;
+  beam.loads.clear();
+  for (auto& s : beam.supports) s.settlement = 0;
+  const std::size_t nn = beam.node_count();
+  if (nn < 2) return bad("the beam has no span");
+  std::vector<double> node_x(nn, 0.0);
+  for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + beam.spans[i - 1].length;
+  const double total = node_x[nn - 1];
+  auto label_of = [&](std::size_t i) { return i < beam.labels.size() ? beam.labels[i] : input::default_label(i); };
+
+  // Where: a node (with its side) or a point inside a span.
+  std::optional<std::size_t> node;
+  std::size_t span = 0;
+  double local = 0;
+  if (!q.x) {
+    for (std::size_t i = 0; i < nn && !node; ++i)
+      if (label_of(i) == q.node) node = i;
+    if (!node && q.node.size() >= 2 && (q.node.back() == '-' || q.node.back() == '+')) {
+      const std::string bare = q.node.substr(0, q.node.size() - 1);
+      for (std::size_t i = 0; i < nn && !node; ++i)
+        if (label_of(i) == bare) {
+          node = i;
+          q.side = q.node.back() == '-' ? -1 : 1;
+          q.node = bare;
+        }
+    }
+    if (!node) {
+      std::string names;
+      for (std::size_t i = 0; i < nn && i < 30; ++i) names += (i ? ", " : "") + label_of(i);
+      if (nn > 30) names += ", ...";
+      return bad("no node '" + q.node + "' (nodes " + names + ")");
+    }
+  } else {
+    const double tol = 1e-12 * total;
+    if (!(*q.x >= -tol && *q.x <= total + tol))
+      return bad("x = " + input::format_number(*q.x) + " is off the beam (0 to " + input::format_number(total) + " " +
+                 file.units.length + ")");
+    node = compare::node_at(beam, *q.x);
+    if (!node) std::tie(span, local) = compare::locate(beam, *q.x);
+  }
+  bool after = false;
+  if (node) {
+    if (q.side < 0 && *node == 0) return bad("node " + label_of(0) + " has no span on its left");
+    if (q.side > 0 && *node + 1 == nn) return bad("node " + label_of(nn - 1) + " has no span on its right");
+    const bool right = q.side > 0 || (q.side == 0 && *node == 0);
+    span = right ? *node : *node - 1;
+    local = right ? 0.0 : beam.spans[span].length;
+    after = right;
+    if (q.quantity == InfluenceRequest::Quantity::Reaction) {
+      const SupportType t = beam.supports[*node].type;
+      if (!restrains_deflection(t) && t != SupportType::Spring)
+        return bad("node " + label_of(*node) + " has no vertical support, so no reaction");
+    }
+  }
+  const double mark = node ? node_x[*node] : *q.x;
+
+  // The stations: the beam file's, and a pair at a point that is none.
+  const int per_span = stations_per_span > 0 ? stations_per_span : file.beam.stations_per_span;
+  std::vector<Station> stations = build_stations(beam, per_span);
+  if (!node) {
+    const double L = beam.spans[span].length;
+    bool found = false;
+    for (auto& st : stations)
+      if (st.span == span && std::abs(st.local - local) <= 1e-12 * L) { found = true; local = st.local; }
+    if (!found) {
+      auto it = std::find_if(stations.begin(), stations.end(),
+                             [&](const Station& st) { return st.span > span || (st.span == span && st.local > local); });
+      it = stations.insert(it, Station{*q.x, span, local, true});
+      stations.insert(it, Station{*q.x, span, local, false});
+    }
+  }
+
+  const std::string F = file.units.force, L = file.units.length;
+  const std::string where = node ? (q.x ? "x = " + input::format_number(*q.x) + " " + L + " (node " + label_of(*node) + ")"
+                                        : label_of(*node)) +
+                                       (q.quantity == InfluenceRequest::Quantity::Moment ||
+                                                q.quantity == InfluenceRequest::Quantity::Shear
+                                            ? (*node == 0 || *node + 1 == nn ? std::string()
+                                               : after ? std::string(", right side") : std::string(", left side"))
+                                            : std::string())
+                                 : "x = " + input::format_number(*q.x) + " " + L;
+  d.title = std::string("Influence line: ") + quantity_word(q.quantity) + " at " + where;
+  d.x_label = "position of the unit load x [" + L + "]";
+  d.x_min = 0;
+  d.x_max = total > 0 ? total : 1;
+  d.mark_x = mark;
+  d.mark_text = where;
+
+  // The sketch: supports, hinges and labels; no loads.
+  for (std::size_t i = 0; i < nn; ++i) {
+    SketchNode n;
+    n.x = node_x[i];
+    n.label = label_of(i);
+    const Support& s = beam.supports[i];
+    n.type = s.type;
+    n.hinge = s.hinge;
+    n.rotational_spring = s.type == SupportType::Spring && s.kr > 0;
+    d.nodes.push_back(std::move(n));
+  }
+  Panel sketch;
+  sketch.kind = PanelKind::Sketch;
+  Panel p;
+  p.kind = PanelKind::Influence;
+  switch (q.quantity) {
+    case InfluenceRequest::Quantity::Moment:
+      p.ylabel = "moment per unit load [" + L + "]\nsagging +";
+      break;
+    case InfluenceRequest::Quantity::Shear:
+      p.ylabel = "shear [per unit load]\nup +";
+      break;
+    case InfluenceRequest::Quantity::Deflection:
+      p.ylabel = "deflection per unit load [" + L + "/" + F + "]\ndown +";
+      break;
+    case InfluenceRequest::Quantity::Reaction:
+      p.ylabel = "reaction [per unit load]\nup +";
+      break;
+  }
+
+  input::MovingLoad unit;
+  unit.name = "unit load";
+  unit.points = {{1.0, 0.0}};
+  constexpr int kPerPiece = 24;
+  double largest = 0;
+  for (std::size_t mi = 0; mi < methods.size(); ++mi) {
+    const compare::Method& m = *methods[mi];
+    compare::MethodResult r;
+    r.name = m.name;
+    std::shared_ptr<compare::MovingModel> model;
+    try {
+      model = compare::MovingModel::build(m, beam, stations, unit, 1.0, r);
+    } catch (const std::exception& e) {
+      r.status = MethodStatus::Failed;
+      r.reason = e.what();
+    }
+    if (!model) {
+      d.notes.push_back(m.name + ": " + method_status_name(r.status) + (r.reason.empty() ? "" : " (" + r.reason + ")") +
+                        ", not drawn");
+      continue;
+    }
+    const std::vector<double> line =
+        q.quantity == InfluenceRequest::Quantity::Reaction
+            ? model->reaction_influence(*node)
+            : model->influence(span, local, after,
+                               q.quantity == InfluenceRequest::Quantity::Moment  ? compare::MovingModel::kMoment
+                               : q.quantity == InfluenceRequest::Quantity::Shear ? compare::MovingModel::kShear
+                                                                                 : compare::MovingModel::kDeflection);
+    Curve c;
+    c.method = c.label = m.name;
+    c.style = mi;
+    bool finite = true;
+    for (const auto& pc : model->pieces()) {
+      if (!(pc.x1 > pc.x0)) continue;
+      for (int k = 0; k <= kPerPiece; ++k) {
+        const double x = k == kPerPiece ? pc.x1 : pc.x0 + (pc.x1 - pc.x0) * k / kPerPiece;
+        const double v = model->influence_value(line, x, k == 0);
+        finite = finite && std::isfinite(v);
+        c.x.push_back(x);
+        c.y.push_back(v);
+        largest = std::max(largest, std::abs(v));
+      }
+    }
+    if (!finite) {
+      d.notes.push_back(m.name + ": a value of its influence line is not finite, not drawn");
+      continue;
+    }
+    p.curves.push_back(std::move(c));
+  }
+  // How far apart the methods' lines are (each point against the first
+  // method's), relative to the largest ordinate.
+  double diff = 0;
+  for (std::size_t k = 1; k < p.curves.size(); ++k)
+    if (p.curves[k].y.size() == p.curves[0].y.size())
+      for (std::size_t i = 0; i < p.curves[k].y.size(); ++i)
+        diff = std::max(diff, std::abs(p.curves[k].y[i] - p.curves[0].y[i]));
+  char agree[96] = "";
+  if (p.curves.size() >= 2)
+    std::snprintf(agree, sizeof agree, "  |  methods differ by %.1e of the largest ordinate",
+                  largest > 0 ? diff / largest : diff);
+  d.subtitle = file.beam.title.empty() ? file.path : file.beam.title;
+  d.combination = std::string("a unit downward load anywhere on the beam") + agree;
+  if (p.curves.empty()) d.notes.push_back("no method gave an influence line");
+  d.panels.push_back(std::move(sketch));
+  d.panels.push_back(std::move(p));
+  if (error) error->clear();
+  return d;
+}
+
+// ---------------------------------------------------------------------------
 // Thinning.
 
 std::vector<std::size_t> thin_indices(const std::vector<double>& x, const std::vector<double>& y,
@@ -803,6 +1102,22 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
   lay.left = 136;
   if (!d.combination.empty()) lay.top += 16;
+  // The caution at the foot, in lines of about a picture's width.
+  std::vector<std::string> caution_lines;
+  {
+    const std::size_t width = static_cast<std::size_t>(std::max(40, lay.W / 5));
+    std::istringstream words(d.caution);
+    std::string w, line;
+    while (words >> w) {
+      if (!line.empty() && line.size() + 1 + w.size() > width) {
+        caution_lines.push_back(line);
+        line.clear();
+      }
+      line += (line.empty() ? "" : " ") + w;
+    }
+    if (!line.empty()) caution_lines.push_back(line);
+  }
+  if (!caution_lines.empty()) lay.bottom += 8 + 12 * static_cast<double>(caution_lines.size());
   if (d.envelope) lay.right = std::min(lay.right + 40, 0.3 * lay.W);  // "slope-deflection max/min"
 
   // The sketch's height in pixels: loads stacked above the beam, the
@@ -872,11 +1187,22 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   }
   gp << "set label 9001 " << gq(title) << " at screen 0.5, screen " << num(lay.fy(18))
      << " center font \",13\" noenhanced\n";
-  gp << "set label 9002 " << gq(d.subtitle) << " at screen 0.5, screen " << num(lay.fy(38))
+  std::string subtitle = d.subtitle;
+  const std::size_t sub_fit = static_cast<std::size_t>(lay.W / 6.2);  // about a 9-point character's width
+  if (subtitle.size() > sub_fit) {
+    std::size_t cut = sub_fit - 3;
+    while (cut > 0 && (static_cast<unsigned char>(subtitle[cut]) & 0xC0) == 0x80) --cut;
+    subtitle = subtitle.substr(0, cut) + "...";
+  }
+  gp << "set label 9002 " << gq(subtitle) << " at screen 0.5, screen " << num(lay.fy(38))
      << " center font \",9\" textcolor rgb \"#444444\" noenhanced\n";
   if (!d.combination.empty())
     gp << "set label 9003 " << gq(d.combination) << " at screen 0.5, screen " << num(lay.fy(54))
        << " center font \",9\" textcolor rgb \"#222222\" noenhanced\n";
+
+  for (std::size_t k = 0; k < caution_lines.size(); ++k)
+    gp << "set label " << 9010 + k << " " << gq((k ? "" : "Caution: ") + caution_lines[k]) << " at screen 0.5, screen "
+       << num(lay.fy(lay.H - 12.0 * static_cast<double>(caution_lines.size() - k) + 3)) << " center font \",7\" textcolor rgb \"#7a5600\" noenhanced\n";
 
   for (std::size_t pi = 0; pi < d.panels.size(); ++pi) {
     const Panel& p = d.panels[pi];
@@ -1069,6 +1395,13 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         for (const auto& n : d.nodes)
           gp << "set arrow from first " << num(n.x) << ", graph 0 to first " << num(n.x)
              << ", graph 1 nohead back lc rgb \"#c8c8c8\" lw 0.8 dt (3,3)\n";
+      // The point of an influence line.
+      if (d.mark_x) {
+        gp << "set arrow from first " << num(*d.mark_x) << ", graph 0 to first " << num(*d.mark_x)
+           << ", graph 1 nohead back lc rgb \"#b03030\" lw 1.2 dt (6,3)\n";
+        gp << "set label " << gq(d.mark_text) << " at first " << num(*d.mark_x)
+           << ", graph 0.96 left offset 0.6,0 front font \",8\" textcolor rgb \"#b03030\" noenhanced\n";
+      }
       for (const auto& l : p.labels) {
         const bool up = p.drawn_down ? l.y < 0 : l.y >= 0;
         gp << "set label " << gq(l.text) << " at first " << num(l.x) << ",first " << num(l.y) << " center offset 0,"

@@ -31,8 +31,8 @@
 
 namespace trivet::reports {
 
-enum class PanelKind { Sketch, Shear, Moment, Deflection, Difference };
-const char* panel_name(PanelKind k);  // "sketch", "shear", ...
+enum class PanelKind { Sketch, Shear, Moment, Deflection, Difference, Influence };
+const char* panel_name(PanelKind k);  // "sketch", "shear", ..., "influence"
 
 // Which bound of an envelope a curve is; None for an ordinary load set.
 enum class Limit { None, Max, Min };
@@ -113,7 +113,10 @@ struct PlotData {
   std::string title;     // the beam's title or file
   std::string subtitle;  // "load set: loads; verdict: agree"
   // A combination: "1.2 x dead + 1.6 x live; live patterned span by span
-  // (every arrangement)"; empty for a load case.
+  // (every arrangement)"; a moving load's own load set: "moving load
+  // trolley: 40 kN at 0 m, ..."; an influence line: the unit load and how
+  // far apart the methods' lines are; empty for a load case. Drawn as a
+  // third title line.
   std::string combination;
   bool envelope = false;  // an envelope load set (max and min curves)
   std::string x_label;   // "x [m]"
@@ -124,12 +127,58 @@ struct PlotData {
   // sketch panel has no curves.
   std::vector<Panel> panels;
   std::vector<std::string> notes;  // methods left out and why, claims not drawn
+  // A line at the foot of the picture (the plot command sets it to
+  // compare::caution_text(); the HTML report, which carries it once, not).
+  std::string caution;
+  // Where a vertical marker line is drawn in the data panels (the point of
+  // an influence line), with its text; none when empty.
+  std::optional<double> mark_x;
+  std::string mark_text;
   const Panel* panel(PanelKind k) const;
 };
 
 // The data of one load set. An invalid beam or a set index out of range
 // gives a PlotData with no panels and a note saying why.
 PlotData plot_data(const Report& beam, std::size_t set_index);
+
+// An influence line asked for on the command line (`--influence
+// QUANTITY@WHERE`): QUANTITY one of moment, shear, deflection, reaction;
+// WHERE a node label (for moment and shear at an interior node the end of
+// the span on its left, `B-`; `B+` the start of the span on its right) or
+// `x=7.5`, a global x in the file's length unit (not for reaction).
+struct InfluenceRequest {
+  enum class Quantity { Moment, Shear, Deflection, Reaction };
+  Quantity quantity = Quantity::Moment;
+  // A node label as given, "B", "B-" or "B+" (influence_data takes a
+  // trailing sign as the side unless the label itself ends so), or empty
+  // for `x`.
+  std::string node;
+  std::optional<double> x;   // global x, file units
+  int side = 0;              // set by influence_data: -1 left, +1 right, 0 the default (left where there is a span)
+  std::string text;          // as given
+};
+// What --influence accepts, in words (for error messages and the help).
+const char* influence_syntax();
+// Reads QUANTITY@WHERE; nothing, and the reason in *error, when it is not
+// that form (a node label is checked against the beam by influence_data).
+std::optional<InfluenceRequest> parse_influence(const std::string& text, std::string* error);
+// A short name for the request to put in a file name: "moment-B",
+// "shear-B-right", "deflection-x7.5" (letters, digits, '.', '-', '_').
+std::string influence_slug(const InfluenceRequest& q);
+
+// The influence line of `q` for a beam file: each method (`methods`, in
+// that order, style = index) builds its own influence lines
+// (compare::MovingModel) on the file's beam without loads or settlements,
+// at the stations of that beam (`stations_per_span`, with a station pair
+// added at an `x` that is none) and the line is drawn from the method's
+// cubic on every piece (24 points a piece and both limits at each piece
+// end). Panels: Sketch, Influence; a method without lines (not applicable,
+// failed) is left out with a note. A node label the beam does not have, an
+// x off the beam or a reaction at a node without a vertical support gives
+// no panels and the reason in *error.
+PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& q,
+                        const std::vector<const compare::Method*>& methods, int stations_per_span,
+                        std::string* error);
 
 // The indices of a curve's points to keep so it has at most about
 // `max_points`: always the first and last, every jump (two points at the

@@ -558,3 +558,171 @@ TEST(PlotData, CurvesShowTheExtremesBetweenStations) {
 
 }  // namespace
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// Two equal spans of 8 m, pinned-roller-roller, with a load that the lines
+// must ignore.
+const char* kTwoSpans = R"({"title": "two equal spans", "units": {"force": "kN", "length": "m"},
+  "spans": [{"length": 8, "EI": 20000}, {"length": 8, "EI": 20000}],
+  "supports": ["pinned", "roller", "roller"], "stations_per_span": 4,
+  "loads": [{"type": "udl", "span": 1, "w": 10}]})";
+
+std::vector<const compare::Method*> all_methods() {
+  std::vector<const compare::Method*> v;
+  for (const auto& m : compare::methods()) v.push_back(&m);
+  return v;
+}
+
+// The plotted value of a curve at x (a point it holds).
+double curve_at(const Curve& c, double x) {
+  for (std::size_t i = 0; i < c.x.size(); ++i)
+    if (std::abs(c.x[i] - x) < 1e-12) return c.y[i];
+  ADD_FAILURE() << c.method << ": no point at x = " << x;
+  return 0;
+}
+
+// The moment at B of two equal spans L with a unit load at a = xi L in span
+// 1: M_B = -L xi (1 - xi)(1 + xi) / 4 (three-moment equation with M_A = M_C
+// = 0: 4 L M_B = -P a b (L + a) / L; derived here). At midspan -3L/32: AISC
+// Steel Construction Manual, Table 3-23, two equal spans, concentrated load
+// at the center of one span, support moment 3PL/32 (from memory).
+TEST(Influence, MomentAtBIsEachMethodsLineAndTheClosedForm) {
+  const input::BeamFile f = input::parse_beam_text(kTwoSpans, "two.json");
+  ASSERT_TRUE(f.ok());
+  std::string err;
+  const auto q = parse_influence("moment@B", &err);
+  ASSERT_TRUE(q) << err;
+  const PlotData d = influence_data(f, *q, all_methods(), 0, &err);
+  ASSERT_EQ(d.panels.size(), 2u) << err;
+  EXPECT_EQ(d.title, "Influence line: moment at B, left side");
+  EXPECT_NE(d.x_label.find("[m]"), std::string::npos);
+  ASSERT_TRUE(d.mark_x);
+  EXPECT_DOUBLE_EQ(*d.mark_x, 8.0);
+  const Panel* p = d.panel(PanelKind::Influence);
+  ASSERT_NE(p, nullptr);
+  EXPECT_NE(p->ylabel.find("[m]"), std::string::npos) << p->ylabel;
+  ASSERT_EQ(p->curves.size(), compare::methods().size());
+  const double L = 8.0;
+  for (std::size_t mi = 0; mi < p->curves.size(); ++mi) {
+    const Curve& c = p->curves[mi];
+    EXPECT_EQ(c.method, compare::methods()[mi].name);
+    EXPECT_EQ(c.style, mi);
+    // 4 stations a span: 8 pieces of 25 points.
+    EXPECT_EQ(c.x.size(), 8u * 25u) << c.method;
+    EXPECT_NEAR(curve_at(c, L / 2), -3 * L / 32, 1e-12 * L) << c.method;
+    EXPECT_NEAR(curve_at(c, 3 * L / 2), -3 * L / 32, 1e-12 * L) << c.method;
+    for (std::size_t i = 0; i < c.x.size(); ++i) {
+      const double a = c.x[i] <= L ? c.x[i] : 2 * L - c.x[i];  // span 2 by symmetry
+      const double xi = a / L;
+      EXPECT_NEAR(c.y[i], -L * xi * (1 - xi) * (1 + xi) / 4, 1e-12 * L) << c.method << " x = " << c.x[i];
+    }
+  }
+}
+
+// Shear at an x inside span 1 that is no station (the point is added as
+// one): with V = dM/dx, a unit load just left of the point gives V = R - 1
+// there and just right of it V = R, R continuous in the load's position
+// (statics), so the line jumps up by one as the load passes the point.
+TEST(Influence, ShearAtAnXOffTheStationsJumpsByOneThere) {
+  const input::BeamFile f = input::parse_beam_text(kTwoSpans, "two.json");
+  std::string err;
+  const auto q = parse_influence("shear@x=3.3", &err);
+  ASSERT_TRUE(q) << err;
+  const PlotData d = influence_data(f, *q, all_methods(), 0, &err);
+  ASSERT_EQ(d.panels.size(), 2u) << err;
+  const Panel* p = d.panel(PanelKind::Influence);
+  ASSERT_EQ(p->curves.size(), compare::methods().size());
+  for (const Curve& c : p->curves) {
+    bool found = false;
+    for (std::size_t i = 0; i + 1 < c.x.size(); ++i)
+      if (std::abs(c.x[i] - 3.3) < 1e-12 && std::abs(c.x[i + 1] - 3.3) < 1e-12) {
+        EXPECT_NEAR(c.y[i + 1] - c.y[i], 1.0, 1e-9) << c.method;
+        found = true;
+      }
+    EXPECT_TRUE(found) << c.method << ": both limits at x = 3.3";
+  }
+}
+
+TEST(Influence, BadTextNamesTheOptionAndWhatIsAccepted) {
+  std::string err;
+  for (const char* bad : {"moment", "torque@B", "moment@", "moment@x=abc", "reaction@x=2", "shear@B@C"}) {
+    err.clear();
+    EXPECT_FALSE(parse_influence(bad, &err)) << bad;
+    EXPECT_NE(err.find("--influence"), std::string::npos) << err;
+    EXPECT_NE(err.find("moment, shear, deflection, reaction"), std::string::npos) << err;
+  }
+  const input::BeamFile f = input::parse_beam_text(kTwoSpans, "two.json");
+  for (const char* bad : {"moment@Q", "moment@x=99", "shear@A-", "moment@C+"}) {
+    err.clear();
+    const auto q = parse_influence(bad, &err);
+    ASSERT_TRUE(q) << bad << ": " << err;
+    const PlotData d = influence_data(f, *q, all_methods(), 0, &err);
+    EXPECT_TRUE(d.panels.empty()) << bad;
+    EXPECT_NE(err.find("--influence"), std::string::npos) << bad << ": " << err;
+  }
+  // A node without a vertical support has no reaction.
+  const input::BeamFile g = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 4, "EI": 1000}, {"length": 2, "EI": 1000}], "supports": ["fixed", "roller", "free"]})", "c.json");
+  ASSERT_TRUE(g.ok());
+  const auto q = parse_influence("reaction@C", &err);
+  ASSERT_TRUE(q);
+  EXPECT_TRUE(influence_data(g, *q, all_methods(), 0, &err).panels.empty());
+  EXPECT_NE(err.find("no vertical support"), std::string::npos) << err;
+}
+
+TEST(Influence, SvgHasTheTitleEveryMethodAndTheCaution) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox)";
+  const input::BeamFile f = input::parse_beam_text(kTwoSpans, "two.json");
+  std::string err;
+  PlotData d = influence_data(f, *parse_influence("reaction@B", &err), all_methods(), 0, &err);
+  d.caution = compare::caution_text();
+  const std::string svg = render(d, ImageFormat::Svg, 960, 620, &err);
+  ASSERT_FALSE(svg.empty()) << err;
+  EXPECT_NE(svg.find("Influence line: reaction at B"), std::string::npos);
+  for (const auto& m : compare::methods()) EXPECT_NE(svg.find(m.name), std::string::npos) << m.name;
+  EXPECT_NE(svg.find("reaction [per unit load]"), std::string::npos);
+  EXPECT_NE(svg.find("Caution: trivet is a checking aid"), std::string::npos);
+}
+
+// A moving load's own load set plots as an envelope, its title naming the
+// train; a combination that names one says so.
+TEST(PlotData, MovingLoadSetIsAnEnvelopeNamedByItsTrain) {
+  input::BeamFile f = input::parse_beam_text(kTwoSpans, "two.json");
+  ASSERT_TRUE(f.ok());
+  input::MovingLoad t;
+  t.name = "trolley";
+  t.points = {{40.0, 0.0}, {60.0, 3.0}};
+  f.moving_loads.push_back(t);
+  input::Combination c;
+  c.name = "strength";
+  c.factors.push_back({f.cases.at(0), input::Factor{}});
+  c.factors.back().second.low = c.factors.back().second.high = 1.2;
+  c.moving = std::make_pair(std::string("trolley"), 1.5);
+  f.combinations.push_back(c);
+  const reports::Report b = compare::check(f, {});
+  for (const char* name : {"trolley", "strength"}) {
+    std::size_t si = b.sets.size();
+    for (std::size_t i = 0; i < b.sets.size(); ++i)
+      if (b.sets[i].name == name) si = i;
+    ASSERT_LT(si, b.sets.size()) << name;
+    const PlotData d = plot_data(b, si);
+    ASSERT_EQ(d.panels.size(), 5u) << name;
+    EXPECT_TRUE(d.envelope) << name;
+    ASSERT_EQ(d.panel(PanelKind::Moment)->curves.size(), 2 * compare::methods().size()) << name;
+    const std::string want = std::string(name) == "trolley"
+                                 ? "moving load trolley: 40 kN at 0 m, 60 kN at 3 m"
+                                 : "1.2 x " + f.cases.at(0) + " + 1.5 x trolley (moving)";
+    EXPECT_NE(d.combination.find(want), std::string::npos) << d.combination;
+    if (!find_gnuplot()) continue;
+    std::string err;
+    const std::string svg = render(d, ImageFormat::Svg, 960, 1100, &err);
+    ASSERT_FALSE(svg.empty()) << err;
+    EXPECT_NE(svg.find(want), std::string::npos) << name;
+    EXPECT_NE(svg.find("stiffness max/min"), std::string::npos) << name;
+  }
+}
+
+}  // namespace
+}  // namespace trivet::reports

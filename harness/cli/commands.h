@@ -78,7 +78,10 @@ void apply_precision_text(compare::BeamResult& r, std::vector<std::shared_ptr<co
 // The commands.
 int run_check(const CheckArgs& a);
 int run_selfcheck(const SelfcheckArgs& a);
-int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods);
+// `influence`: the --influence texts (QUANTITY@WHERE); when any is given the
+// plot command draws those influence lines instead of the diagrams.
+int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods,
+             const std::vector<std::string>& influence = {});
 int run_merge(const std::vector<std::string>& inputs, const std::string& out_path);
 int run_example();
 int run_schema();

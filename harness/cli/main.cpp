@@ -81,6 +81,12 @@ int main(int argc, char** argv) {
   plot->add_option("-o,--output", plot_out, "OUT.svg or OUT.png")->required();
   plot->add_option("--case", plot_case, "The load case or combination to draw (default: the first)");
   plot->add_option("--methods", ca.methods, "Comma list of " + trivet::registry::names() + " (default all)");
+  std::vector<std::string> plot_influence;
+  plot->add_option("--influence", plot_influence,
+                   "Draw the influence line of QUANTITY@WHERE instead of the diagrams (repeatable): QUANTITY moment, "
+                   "shear, deflection or reaction; WHERE a node label (B: the end of the span on its left; B- left, "
+                   "B+ right side) or x=7.5 (global x in the file's length unit). Several: OUT-moment-B.svg, ...")
+      ->expected(1)->take_all();
 
   std::vector<std::string> merge_inputs;
   std::string merge_json = "-", merge_junit;
@@ -109,7 +115,7 @@ int main(int argc, char** argv) {
     else if (*merge) code = run_merge(merge_inputs, merge_json);
     else if (*schema) code = run_schema();
     else if (*selfcheck) code = run_selfcheck(sa);
-    else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods);
+    else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods, plot_influence);
     else if (*example) code = run_example();
   } catch (const UsageError& e) {
     std::cerr << e.what() << "\n";
