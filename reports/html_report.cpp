@@ -639,7 +639,160 @@ struct Writer {
   }
 };
 
+const char* kRecordCss = R"(
+.record-head td{min-width:16em}.record-head td.blank{height:1.9em;border-bottom:1px solid #444}
+.governing td:first-child{white-space:nowrap}
+@media print{@page{margin:14mm}h1,h2,h3,summary{break-after:avoid;page-break-after:avoid}
+table,svg,.caution,.record-head{break-inside:avoid;page-break-inside:avoid}
+a{color:inherit;text-decoration:none}}
+a[href="#summary"]{display:none}
+)";
+
+// The governing values of one load set, in the load set's units: each a
+// row of what, value, where.
+void governing_rows(std::ostream& o, const Report& b, const LoadSet& set) {
+  const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
+  const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
+  const int dv = decimals_for(set.scale[static_cast<std::size_t>(Kind::Shear)]);
+  const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
+  const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
+  const int dx = 2;
+  auto row = [&](const std::string& what, const std::string& value, const std::string& where) {
+    o << "<tr><td>" << what << "</td><td class=\"n\">" << value << "</td><td>" << where << "</td></tr>\n";
+  };
+  // Span extremes: largest sagging and hogging, largest deflection.
+  std::size_t smax = 0, smin = 0, sdef = 0;
+  for (std::size_t i = 0; i < set.extremes.size(); ++i) {
+    if (set.extremes[i].max_moment > set.extremes[smax].max_moment) smax = i;
+    if (set.extremes[i].min_moment < set.extremes[smin].min_moment) smin = i;
+    if (std::abs(set.extremes[i].max_deflection) > std::abs(set.extremes[sdef].max_deflection)) sdef = i;
+  }
+  if (!set.extremes.empty()) {
+    const SpanExtremes& a = set.extremes[smax];
+    const SpanExtremes& c = set.extremes[smin];
+    const SpanExtremes& d = set.extremes[sdef];
+    auto by = [](const std::string& t) { return t.empty() ? std::string() : "; " + html_escape(t); };
+    row("largest sagging moment [" + FL + "]", a.max_moment > 0 ? fixed(a.max_moment, dm) : "none",
+        a.max_moment > 0 ? "span " + std::to_string(smax + 1) + ", x = " + fixed(a.max_moment_x, dx) + " " + L + by(a.max_moment_by) : "");
+    row("largest hogging moment [" + FL + "]", c.min_moment < 0 ? fixed(c.min_moment, dm) : "none",
+        c.min_moment < 0 ? "span " + std::to_string(smin + 1) + ", x = " + fixed(c.min_moment_x, dx) + " " + L + by(c.min_moment_by) : "");
+    std::string ratio;
+    for (const auto& dc : set.deflection_checks)
+      if (dc.span == sdef)
+        ratio = "; span/deflection " + (std::isfinite(dc.ratio) ? fixed(dc.ratio, 0) : std::string("-")) + " against " +
+                html_escape(dc.limit) + (dc.holds ? " (holds)" : " (fails)");
+    row("largest deflection [" + L + "]", fixed(d.max_deflection, dd),
+        "span " + std::to_string(sdef + 1) + ", x = " + fixed(d.max_deflection_x, dx) + " " + L + by(d.max_deflection_by) + ratio);
+  }
+  // Shear and reactions.
+  if (set.envelope) {
+    const Envelope& e = set.consensus_envelope;
+    std::size_t k = 0;
+    double best = -1;
+    for (std::size_t i = 0; i < e.shear.size() && i < set.stations.size(); ++i)
+      for (double v : {e.shear[i].max, e.shear[i].min})
+        if (std::abs(v) > best) { best = std::abs(v); k = i; }
+    if (best >= 0) {
+      const double v = std::abs(e.shear[k].max) >= std::abs(e.shear[k].min) ? e.shear[k].max : e.shear[k].min;
+      row("largest shear [" + F + "]", fixed(v, dv), "x = " + fixed(set.stations[k].x, dx) + " " + L);
+    }
+    for (std::size_t j = 0; j < e.reaction.size() && j < set.beam.supports.size(); ++j) {
+      const SupportType t = set.beam.supports[j].type;
+      if (!restrains_deflection(t) && t != SupportType::Spring) continue;
+      row("reaction at node " + html_escape(set.beam.labels[j]) + ", largest / smallest [" + F + "]",
+          fixed(e.reaction[j].max, dr) + " / " + fixed(e.reaction[j].min, dr),
+          e.reaction[j].min < 0 ? "uplift: the support must hold the beam down" : "");
+    }
+  } else {
+    std::size_t k = 0;
+    double best = -1;
+    for (std::size_t i = 0; i < set.consensus_stations.size(); ++i)
+      if (std::abs(set.consensus_stations[i].shear) > best) { best = std::abs(set.consensus_stations[i].shear); k = i; }
+    if (best >= 0)
+      row("largest shear [" + F + "]", fixed(set.consensus_stations[k].shear, dv),
+          "x = " + fixed(set.consensus_stations[k].x, dx) + " " + L);
+    for (std::size_t j = 0; j < set.consensus_nodes.size() && j < set.beam.supports.size(); ++j) {
+      const SupportType t = set.beam.supports[j].type;
+      if (!restrains_deflection(t) && t != SupportType::Spring) continue;
+      const double r = set.consensus_nodes[j].reaction_force;
+      row("reaction at node " + html_escape(set.beam.labels[j]) + " [" + F + "]", fixed(r, dr),
+          r < 0 ? "uplift: the support must hold the beam down" : "");
+      if (restrains_rotation(t) || set.beam.supports[j].kr > 0)
+        row("reaction moment at node " + html_escape(set.beam.labels[j]) + " [" + FL + "]",
+            fixed(set.consensus_nodes[j].reaction_moment, dm), "counter-clockwise positive");
+    }
+  }
+}
+
 }  // namespace
+
+std::string record_file_name(const std::string& path) {
+  std::string s = path;
+  while (s.rfind("./", 0) == 0) s.erase(0, 2);
+  while (!s.empty() && (s.front() == '/' || s.front() == '.')) s.erase(0, 1);
+  if (s.size() > 5 && s.compare(s.size() - 5, 5, ".json") == 0) s.resize(s.size() - 5);
+  for (char& c : s)
+    if (c == '/' || c == '\\' || c == ':' || static_cast<unsigned char>(c) < 0x20) c = '-';
+  if (s.empty()) s = "beam";
+  return s + ".html";
+}
+
+void write_record(std::ostream& out, const Report& b, const HtmlOptions& opt) {
+  Writer w{out, opt, {}, false, {}};
+  const std::string date = opt.date_utc.empty() ? utc_now_iso8601() : opt.date_utc;
+  const std::string version = opt.tool_version.empty() ? "(version not given)" : opt.tool_version;
+  const std::string title = b.title.empty() ? b.file : b.title;
+  out << "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+         "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<title>Checking record: "
+      << html_escape(title) << "</title>\n<style>" << kCss << kRecordCss << "</style>\n</head>\n<body>\n";
+  out << "<header><h1>Checking record: " << html_escape(title) << "</h1>\n";
+  out << "<table class=\"record-head\">\n"
+      << "<tr><th>beam file</th><td class=\"mono\">" << html_escape(b.file) << "</td><th>project</th><td class=\"blank\"></td></tr>\n"
+      << "<tr><th>SHA-256 of the file</th><td class=\"mono\">" << html_escape(w.hash_of(b.file))
+      << "</td><th>checked by</th><td class=\"blank\"></td></tr>\n"
+      << "<tr><th>checked with</th><td>trivet " << html_escape(version) << ", " << html_escape(date)
+      << "</td><th>date</th><td class=\"blank\"></td></tr>\n"
+      << "<tr><th>units</th><td>" << html_escape(b.units.force) << ", " << html_escape(b.units.length)
+      << "</td><th>signature</th><td class=\"blank\"></td></tr>\n</table>\n</header>\n";
+  out << "<div class=\"caution\"><b>Caution.</b> " << html_escape(caution_text()) << "</div>\n";
+  // The result in one paragraph.
+  out << "<h2>Result: " << st_badge(beam_status_name(b.status)) << "</h2>\n<p>";
+  if (b.status == BeamStatus::Invalid) {
+    out << "The file could not be checked: " << b.errors.size() << (b.errors.size() == 1 ? " error" : " errors") << " below.";
+  } else {
+    double worst = 0;
+    for (const auto& set : b.sets)
+      for (std::size_t k = 0; k < 4; ++k) worst = std::max(worst, set.max_difference[k]);
+    out << b.sets.size() << (b.sets.size() == 1 ? " load set" : " load sets") << "; the methods ("
+        << html_escape(methods_cell(b)) << ") differ by at most " << sci(worst)
+        << " of the largest value of each kind; " << b.claims_failed() << " of " << b.claims.size()
+        << " claims fail; " << b.limits_failed() << " spans over their deflection limit";
+    std::size_t compared = 0, failing = 0;
+    for (const auto& c : b.against)
+      if (c)
+        for (const auto& sm : c->summary) {
+          compared += sm.compared;
+          failing += sm.failing;
+        }
+    if (compared) out << "; " << failing << " of " << compared << " values compared with the other results fail";
+    out << ".";
+  }
+  out << "</p>\n";
+  if (b.status != BeamStatus::Invalid) {
+    out << "<h2>Governing values</h2>\n";
+    for (const auto& set : b.sets) {
+      out << "<h3>Load set " << html_escape(set.name) << (set.envelope ? " (envelope)" : "") << ": methods "
+          << st_badge(verdict_name(set.verdict)) << "</h3>\n";
+      out << "<table class=\"governing\"><tr><th>value</th><th>consensus</th><th>where, and what governs</th></tr>\n";
+      governing_rows(out, b, set);
+      out << "</table>\n";
+    }
+  }
+  out << "<h2>Detail</h2>\n";
+  w.beam(b, 0, true, true);
+  out << "<footer><p class=\"caution\"><b>Caution.</b> " << html_escape(caution_text()) << "</p></footer>\n";
+  out << "</body>\n</html>\n";
+}
 
 HtmlStats write_html(std::ostream& out, const std::vector<Report>& all, const HtmlOptions& opt) {
   std::vector<const Report*> beams;

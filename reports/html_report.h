@@ -66,6 +66,25 @@ HtmlStats write_html(std::ostream& out, const std::vector<const Report*>& beams,
 // warning() then names plots that could not be made.
 std::unique_ptr<CheckReporter> html_reporter(std::ostream& out, const HtmlOptions& options);
 
+// A checking record: one printable page for one beam, for a firm's files.
+// The beam and its result first (verdict, the methods' agreement, claims
+// and limits failed), the governing values of every load set (largest
+// sagging and hogging moment, shear, reactions, deflection and span over
+// deflection), then the whole detail of the HTML report for that beam
+// (tables, claims, comparisons, diagrams), the input's SHA-256, the tool's
+// version and date, blank fields for the project, the checker, the date and
+// a signature, and the caution. A print style sheet keeps each heading with
+// what follows it and a table or diagram on one page.
+void write_record(std::ostream& out, const Report& beam, const HtmlOptions& options);
+// The name of a beam's record in the records' folder: its path with the
+// folder separators as '-' and ".json" as ".html" ("examples/a.json" ->
+// "examples-a.html").
+std::string record_file_name(const std::string& path);
+// The records as a sibling of the other formats: each beam's page written
+// to `dir` (created if needed) as soon as the beam is checked, in full or
+// not at all. end() names the pages that could not be written.
+std::unique_ptr<CheckReporter> record_reporter(const std::string& dir, const HtmlOptions& options);
+
 // &, <, >, " and ' as entities.
 std::string html_escape(const std::string& s);
 // The current time in UTC as ISO 8601, "2024-05-01T12:34:56Z".

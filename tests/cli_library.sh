@@ -35,5 +35,21 @@ assert int(root.get("tests")) == len(cases)
 assert int(root.get("errors")) == len(root.findall("testsuite/testcase/error")) == 1
 print("ok:", n, "beams,", len(cases), "test cases")
 PY
+# Checking records: one page per beam, named after its path, the invalid
+# one included (its errors); a folder that cannot be made is a report that
+# could not be written.
+"$trivet" check "$lib/block7" "$lib/block8" --record "$res/records" >/dev/null 2>"$res/rec.err"
+want=$(find "$lib/block7" "$lib/block8" -name '*.json' | wc -l)
+got=$(find "$res/records" -name '*.html' | wc -l)
+[ "$got" = "$want" ] || { echo "FAIL: $got checking records for $want beams"; fail=1; }
+grep -q "checking records written to" "$res/rec.err" || { echo "FAIL: no note of the records written"; cat "$res/rec.err"; fail=1; }
+rec=$(find "$res/records" -name '*block7-negative-span.html' | head -1)
+[ -n "$rec" ] && grep -q "Checking record" "$rec" && grep -q "invalid" "$rec" || { echo "FAIL: no record of the invalid beam"; fail=1; }
+ls "$res/records" | grep -q '\.part$' && { echo "FAIL: a partial record was left"; fail=1; }
+touch "$res/afile"
+"$trivet" check "$lib/block8" --record "$res/afile/sub" >/dev/null 2>"$res/rec2.err"
+rc=$?
+[ $rc = 3 ] || [ $rc = 2 ] || { echo "FAIL: exit $rc when the records' folder cannot be made"; fail=1; }
+grep -q "^trivet: --record: cannot make the folder" "$res/rec2.err" || { echo "FAIL: no reason for the folder"; cat "$res/rec2.err"; fail=1; }
 rm -rf "$lib" "$res"
 exit $fail

@@ -3,6 +3,7 @@
 // each input file); nothing fetched from elsewhere. And SHA-256 itself.
 #include <gtest/gtest.h>
 
+#include <cmath>
 #include <cstdio>
 #include <fstream>
 #include <memory>
@@ -323,6 +324,74 @@ TEST(Html, UtcDate) {
   EXPECT_EQ(d[4], '-');
   EXPECT_EQ(d[10], 'T');
   EXPECT_EQ(d.back(), 'Z');
+}
+
+}  // namespace
+}  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// The checking record of one beam: its file and SHA-256, the tool and date,
+// blank fields for the project and the checker, the result, the governing
+// values (here the fixed end's hogging moment, which the node table also
+// shows), the claims with their verdicts, the detail and the caution; a
+// print style that keeps headings with what follows; nothing fetched.
+TEST(Record, OnePrintablePageWithTheGoverningValuesAndBlankFields) {
+  TempFile file(kBeam);
+  const Report b = beam_as(file.path);
+  ASSERT_NE(b.status, compare::BeamStatus::Invalid);
+  std::ostringstream out;
+  HtmlOptions o = options();
+  o.plots = false;
+  write_record(out, b, o);
+  const std::string html = out.str();
+  EXPECT_NE(html.find("Checking record: two spans &amp; a &lt;cantilever&gt;"), std::string::npos);
+  const auto sha = sha256_file(file.path);
+  ASSERT_TRUE(sha);
+  EXPECT_NE(html.find(*sha), std::string::npos);
+  EXPECT_NE(html.find("trivet 9.8.7, 2024-01-02T03:04:05Z"), std::string::npos) << html.substr(0, 2000);
+  for (const char* field : {">project<", ">checked by<", ">date<", ">signature<"})
+    EXPECT_NE(html.find(field), std::string::npos) << field;
+  EXPECT_EQ(count(html, "class=\"blank\""), 4u);
+  EXPECT_GE(count(html, compare::caution_text()), 2u);
+  // The governing values: the hogging moment at the fixed end A equals the
+  // consensus node value, to the digits shown.
+  const auto& set = b.sets.front();
+  ASSERT_TRUE(set.consensus_nodes.front().moment_right);
+  double hog = 0;
+  for (const auto& e : set.extremes) hog = std::min(hog, e.min_moment);
+  ASSERT_LT(hog, 0);
+  const std::size_t gov = html.find("<h2>Governing values</h2>");
+  ASSERT_NE(gov, std::string::npos);
+  const std::size_t row = html.find("largest hogging moment [kN*m]", gov);
+  ASSERT_NE(row, std::string::npos);
+  const std::string cell = "<td class=\"n\">";
+  const std::size_t at = html.find(cell, row);
+  ASSERT_NE(at, std::string::npos);
+  const std::string shown = html.substr(at + cell.size(), html.find('<', at + cell.size()) - at - cell.size());
+  const std::size_t dot = shown.find('.');
+  const int decimals = dot == std::string::npos ? 0 : static_cast<int>(shown.size() - dot - 1);
+  // The value shown is the hogging moment rounded to the digits shown.
+  EXPECT_LE(std::abs(std::stod(shown) - hog), 0.5 * std::pow(10.0, -decimals) + 1e-12) << shown << " for " << hog;
+  EXPECT_NE(html.find("reaction moment at node A"), std::string::npos);
+  // Claims: the record says how many fail, and shows each.
+  EXPECT_NE(html.find(std::to_string(b.claims_failed()) + " of 2 claims fail"), std::string::npos);
+  EXPECT_NE(html.find("<h3>Claims"), std::string::npos);
+  // Print: headings kept with what follows, tables and plots not split.
+  EXPECT_NE(html.find("break-after:avoid"), std::string::npos);
+  EXPECT_NE(html.find("break-inside:avoid"), std::string::npos);
+  EXPECT_EQ(html.find("<script"), std::string::npos);
+  EXPECT_EQ(html.find("http://"), std::string::npos);
+  EXPECT_EQ(html.find("https://"), std::string::npos);
+}
+
+TEST(Record, FileNamesKeepTheFoldersApart) {
+  EXPECT_EQ(record_file_name("examples/core-wall-beam.json"), "examples-core-wall-beam.html");
+  EXPECT_EQ(record_file_name("./lib/a/beam.json"), "lib-a-beam.html");
+  EXPECT_EQ(record_file_name("lib/b/beam.json"), "lib-b-beam.html");
+  EXPECT_EQ(record_file_name("/abs/x.json"), "abs-x.html");
+  EXPECT_EQ(record_file_name("noext"), "noext.html");
 }
 
 }  // namespace

@@ -138,6 +138,13 @@ int run_check(const CheckArgs& a) {
     ho.command_line = a.command_line;
     return reports::html_reporter(f.out(), ho);
   });
+  reporting.add_writer("--record", a.record, [&] {
+    reports::HtmlOptions ho;
+    ho.agreement = opt.agreement;
+    ho.tool_version = TRIVET_VERSION;
+    ho.command_line = a.command_line;
+    return reports::record_reporter(a.record, ho);
+  });
   reporting.add("--junit", a.junit, [&](ReportFile& f) {
     return reports::junit_reporter({&f.out(), streamed && f.seekable()}, opt.agreement);
   });

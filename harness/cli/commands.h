@@ -51,6 +51,7 @@ struct CheckArgs {
   std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
   std::string their_separator, their_decimal;
   bool html_all = false;
+  std::string record;   // --record DIR: a checking record per beam
   std::string arithmetic = "double", reference;
 };
 

@@ -43,6 +43,7 @@ int main(int argc, char** argv) {
   check->add_flag("--all-rows", ca.all_rows, "Print every node and span, however long the beam");
   check->add_option("--junit", ca.junit, "Write a JUnit XML report to FILE (a test suite per beam file)");
   check->add_option("--html", ca.html, "Write a self-contained HTML report with the diagrams to FILE");
+  check->add_option("--record", ca.record, "Write a printable checking record per beam (HTML) into the folder DIR");
   check->add_flag("--html-all", ca.html_all, "Every beam's detail in the HTML report (default, past 20 beams: the beams that need attention)");
   check->add_option("--arithmetic", ca.arithmetic, "double (default), extended (50 digits) or exact (rationals; stiffness in extended)")
       ->check(CLI::IsMember({"double", "extended", "exact"}));

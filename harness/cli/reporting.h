@@ -35,6 +35,18 @@ class Reporting {
     t.reporter = list_.back().get();
   }
 
+  // For a format that writes files of its own (named on the command line
+  // by `option`; not empty): adds the reporter `make()` returns; its end()
+  // gives its problems.
+  template <class Make>
+  void add_writer(const char* option, const std::string& path, Make make) {
+    if (path.empty()) return;
+    auto& t = *targets_.emplace_back(std::make_unique<Target>());
+    t.option = option;
+    t.own_files = true;
+    list_.push_back(make());
+    t.reporter = list_.back().get();
+  }
   // Every reporter, the console's first.
   std::vector<std::unique_ptr<Reporter>>& list() { return list_; }
 
@@ -49,7 +61,7 @@ class Reporting {
     for (auto& t : targets_) {
       std::string err = t->error;
       if (err.empty()) err = t->reporter->end(totals);
-      if (err.empty()) err = t->file.commit();
+      if (err.empty() && !t->own_files) err = t->file.commit();
       if (!err.empty()) {
         std::cerr << "trivet: " << t->option << ": " << err << "\n";
         ok = false;
@@ -66,6 +78,7 @@ class Reporting {
     ReportFile file;
     std::string error;  // why it could not be opened
     Reporter* reporter = nullptr;
+    bool own_files = false;  // add_writer(): no report file of ours
   };
   std::vector<std::unique_ptr<Reporter>> list_;
   std::vector<std::unique_ptr<Target>> targets_;

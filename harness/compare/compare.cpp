@@ -8,6 +8,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <exception>
 #include <future>
 #include <new>
@@ -179,6 +180,11 @@ Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& node
 }
 
 std::string fmt(double v) { return input::format_number(v); }
+std::string fmt_place(double v) {
+  char b[32];
+  std::snprintf(b, sizeof b, "%.6g", v);
+  return b;
+}
 
 // A kind whose values are all rounding noise (the moments of a beam whose
 // only load sits on a support, say) must not be scaled by that noise, or
@@ -425,7 +431,7 @@ void compare_methods(LoadSet& set, double agreement) {
   if (set.worst)
     set.worst->where = worst_place.span   ? "span " + std::to_string(worst_place.index + 1) + worst_place.suffix
                        : worst_place.node ? "node " + set.beam.labels[worst_place.index] + worst_place.suffix
-                                          : "x = " + fmt(set.worst->x);
+                                          : "x = " + fmt_place(set.worst->x);
 
   bool any_failed = false;
   for (const auto& m : set.methods)

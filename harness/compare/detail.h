@@ -18,6 +18,9 @@ Equilibrium equilibrium_of(const Beam& beam, const std::vector<NodeResult>& node
 // Floors each kind's largest magnitude from the others (see compare.cpp).
 void floor_scales(double* scale, const Beam& beam);
 std::string fmt(double v);
+// A position for a person to read: six significant digits (a station's x
+// may carry the rounding of the sum of the divisions, 6.4799999999999995).
+std::string fmt_place(double v);
 
 // One method's extremes of span `s` (stations [begin, end) of the load
 // set), from the method's own values at the stations and its own `at`

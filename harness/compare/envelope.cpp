@@ -980,7 +980,7 @@ void compare_envelopes(LoadSet& set, double agreement) {
             note(k, side ? A[i].min : A[i].max, side ? B[i].min : B[i].max,
                  nodes ? set.beam.node_x(i) : set.stations[i].x, [&] {
                    return nodes ? "node " + set.beam.labels[i] + (side ? " (reaction_min)" : " (reaction_max)")
-                                : "x = " + fmt(set.stations[i].x) + (side ? " (min)" : " (max)");
+                                : "x = " + fmt_place(set.stations[i].x) + (side ? " (min)" : " (max)");
                  });
       };
       cmp(Kind::Moment, ok[a]->envelope->moment, ok[b]->envelope->moment, false);
