@@ -346,5 +346,71 @@ TEST(Moving, EveryMethodsEnvelopeBoundsEveryPositionAndIsAttained) {
   EXPECT_EQ(beams, 30);
 }
 
+// Between stations: a point that is no station (a claim's x, a row of
+// another program's table) gets the lines there from unit loads on either
+// side of it, solved by the method on demand. Its envelope must bound the
+// train at every position of a fine grid and be attained where it says; a
+// claim there reads it.
+TEST(Moving, BetweenStationsTheEnvelopeIsFoundOnDemand) {
+  Beam beam = spans_beam({6.0, 7.5, 5.0}, 3.0e4);
+  beam.stations_per_span = 2;
+  input::MovingLoad t;
+  t.name = "axles";
+  t.points = {{80.0, 0.0}, {120.0, 1.8}, {40.0, 4.1}};
+  input::BeamFile file = file_of(beam, {t});
+  const double x = 2.3, xs = 6.0 + 4.4;  // span 1 at 2.3, span 2 at 4.4: no stations
+  input::Claim c;
+  c.quantity = input::Quantity::MomentMax;
+  c.x = x;
+  c.load_case = "axles";
+  c.value = 0;  // replaced below by the computed value
+  file.claims.push_back(c);
+  const BeamResult first = check(file, Options{});
+  const LoadSet* set = set_named(first, "axles");
+  ASSERT_NE(set, nullptr);
+  ASSERT_EQ(first.claims.size(), 1u);
+  ASSERT_TRUE(first.claims[0].evaluated) << first.claims[0].reason;
+  for (const auto& m : set->methods) {
+    SCOPED_TRACE(m.name);
+    ASSERT_EQ(m.status, MethodStatus::Ok) << m.reason;
+    const MovingModel& mm = *m.moving_model;
+    const Method* method = find_method(m.name);
+    ASSERT_NE(method, nullptr);
+    for (int which = 0; which < 2; ++which) {
+      const double at = which == 0 ? x : xs;
+      const auto [span, local] = locate(beam, at);
+      const Bound bm = mm.at(span, local, false, MovingModel::kMoment);
+      const Bound bv = mm.at(span, local, false, MovingModel::kShear);
+      const double sm = set->scale[static_cast<int>(Kind::Moment)], sv = set->scale[static_cast<int>(Kind::Shear)];
+      for (int dir : {1, -1})
+        for (int k = 0; k <= 400; ++k) {
+          const double p = -4.6 + (18.5 + 9.2) * k / 400.0;
+          const Beam pb = placed(beam, t, p, dir, 1.0, 1.0);
+          const Solution s = method->solve(pb, build_stations(pb, 1));
+          ASSERT_EQ(s.status, MethodStatus::Ok);
+          const PointValues v = s.at(span, local, false);
+          EXPECT_LE(v.moment, bm.max + 1e-9 * sm) << at << " " << p;
+          EXPECT_GE(v.moment, bm.min - 1e-9 * sm) << at << " " << p;
+          EXPECT_LE(v.shear, bv.max + 1e-9 * sv) << at << " " << p;
+          EXPECT_GE(v.shear, bv.min - 1e-9 * sv) << at << " " << p;
+        }
+      const Governs& g = governs_of(bm.max_by);
+      ASSERT_EQ(g.train, Governs::Train::Placed);
+      const Beam pb = placed(beam, t, g.first, g.backward ? -1 : 1, 1.0, 1.0, g.approach);
+      const Solution s = method->solve(pb, build_stations(pb, 1));
+      const double l = s.at(span, local, false).moment, r = s.at(span, local, true).moment;
+      EXPECT_NEAR(std::abs(l - bm.max) < std::abs(r - bm.max) ? l : r, bm.max, 1e-9 * sm) << at;
+      if (which == 0) {
+        EXPECT_NEAR(first.claims[0].computed, bm.max, 1e-9 * sm);
+      }
+    }
+  }
+  // The claim holds at the computed value and fails 5% away.
+  file.claims[0].value = first.claims[0].computed;
+  EXPECT_TRUE(check(file, Options{}).claims[0].holds);
+  file.claims[0].value = first.claims[0].computed * 1.05;
+  EXPECT_FALSE(check(file, Options{}).claims[0].holds);
+}
+
 }  // namespace
 }  // namespace trivet::compare
