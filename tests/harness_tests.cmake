@@ -1,6 +1,7 @@
 # Tests of the harness: reader, units, comparison, reports and the program.
 trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_input)
 trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
+trivet_add_test(moving_reader_test ${CMAKE_CURRENT_SOURCE_DIR}/moving_reader_test.cpp trivet_input)
 trivet_add_test(against_test ${CMAKE_CURRENT_SOURCE_DIR}/against_test.cpp trivet_compare)
 trivet_add_test(envelope_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_test.cpp trivet_compare)
 trivet_add_test(envelope_bruteforce_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_bruteforce_test.cpp trivet_compare)

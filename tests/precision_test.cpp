@@ -330,6 +330,36 @@ TEST(ExactReader, FailsLoudlyOnAPositionPastTheEnd) {
   EXPECT_NE(l.exact.error.find("outside the span"), std::string::npos) << l.exact.error;
 }
 
+// Moving loads are not (yet) run in exact arithmetic: a file with one and
+// with combinations naming it reads exactly as without them, and the exact
+// run covers its load cases only. Two equal spans L = 6 under w = 4:
+// M_B = -wL^2/8 = -18 (the three-moment equation, closed form; the same
+// value as in ASettlementNamingItsCaseStaysInThatCase).
+TEST(ExactReader, SkipsMovingLoads) {
+  const Loaded l = load_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6, "EI": 50000}, {"length": 6, "EI": 50000}],
+    "supports": ["pinned", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 4, "case": "dead"}, {"type": "udl", "span": 2, "w": 4, "case": "dead"}],
+    "moving_loads": [{"name": "trolley", "points": [{"P": "100 kN", "offset": 0}, {"P": 60.1, "offset": "3500 mm"}]}],
+    "combinations": [{"name": "crane", "factors": {"dead": 1.2, "trolley": 1.6}},
+                     {"name": "crane alone", "factors": {"trolley": 1.5}}]})");
+  ASSERT_TRUE(l.file.ok()) << l.file.errors.front().format("test");
+  ASSERT_EQ(l.file.moving_loads.size(), 1u);
+  ASSERT_TRUE(l.exact.ok) << l.exact.error;
+  EXPECT_EQ(l.exact.beam.loads.size(), 2u);
+  EXPECT_EQ(l.exact.cases, std::vector<std::string>{"dead"});
+  Options o;
+  o.arithmetic = Arithmetic::Exact;
+  o.methods = {"three-moment"};
+  const FileNumbers run = run_file(l.text, l.file, o);
+  ASSERT_TRUE(run.ok) << run.error;
+  ASSERT_EQ(run.sets.size(), 1u);
+  EXPECT_EQ(run.sets[0].load_case, "dead");
+  ASSERT_EQ(run.sets[0].methods.size(), 1u);
+  ASSERT_EQ(run.sets[0].methods[0].status, MethodStatus::Ok) << run.sets[0].methods[0].reason;
+  EXPECT_EQ(run.sets[0].methods[0].nodes[1].moment_left->fraction, "-18");
+}
+
 TEST(ExactNumbers, CorrectRounding) {
   EXPECT_EQ(decimal_text(frac(1, 3), 5), "3.3333e-1");
   EXPECT_EQ(decimal_text(frac(2, 3), 5), "6.6667e-1");

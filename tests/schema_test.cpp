@@ -4,6 +4,7 @@
 // the corpus against it is the python3-jsonschema test, schema_check.py.)
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <fstream>
 #include <sstream>
 
@@ -44,14 +45,27 @@ TEST(Schema, IsDraft202012) {
 TEST(Schema, NamesEveryTopLevelFieldAndTheLimits) {
   const json s = json::parse(beam_file_schema());
   for (const char* key : {"$schema", "title", "description", "units", "spans", "supports", "labels", "loads",
-                          "stations_per_span", "combinations", "deflection_limit", "claims"})
+                          "stations_per_span", "combinations", "deflection_limit", "moving_loads", "claims"})
     EXPECT_TRUE(s.at("properties").contains(key)) << key;
-  EXPECT_EQ(s.at("properties").size(), 12u);
+  EXPECT_EQ(s.at("properties").size(), 13u);
   const Limits lim;
   EXPECT_EQ(s["properties"]["spans"]["maxItems"].get<std::size_t>(), lim.max_spans);
   EXPECT_EQ(s["properties"]["supports"]["maxItems"].get<std::size_t>(), lim.max_spans + 1);
   EXPECT_EQ(s["properties"]["loads"]["maxItems"].get<std::size_t>(), lim.max_loads);
   EXPECT_EQ(s["properties"]["stations_per_span"]["maximum"].get<int>(), lim.max_stations_per_span);
+  EXPECT_EQ(s["$defs"]["movingLoad"]["properties"]["points"]["maxItems"].get<std::size_t>(), lim.max_moving_points);
+}
+
+TEST(Schema, AMovingLoadHasTheReadersFields) {
+  const json s = json::parse(beam_file_schema());
+  const json& m = s["$defs"]["movingLoad"];
+  EXPECT_EQ(m["required"].get<std::vector<std::string>>(), (std::vector<std::string>{"name", "points"}));
+  std::vector<std::string> keys;
+  for (auto it = m["properties"].begin(); it != m["properties"].end(); ++it) keys.push_back(it.key());
+  std::sort(keys.begin(), keys.end());
+  EXPECT_EQ(keys, (std::vector<std::string>{"directions", "name", "points"}));
+  EXPECT_EQ(m["properties"]["directions"]["enum"].get<std::vector<std::string>>(), (std::vector<std::string>{"both", "forward"}));
+  EXPECT_EQ(s["$defs"]["movingPoint"]["required"].get<std::vector<std::string>>(), (std::vector<std::string>{"P", "offset"}));
 }
 
 TEST(Schema, PresetsAreTheReadersPresets) {

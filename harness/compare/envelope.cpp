@@ -387,7 +387,7 @@ std::string describe(const Governs& g, const input::Combination& c) {
     s += name;
     if (f < 1 || f > 1) s += " x" + fmt(f);
     s += g.train == Governs::Train::Off ? std::string(" off the beam")
-                                        : " with its first point at x = " + fmt(g.first) +
+                                        : " with its first point at x = " + fmt_place(g.first) +
                                               (g.backward ? ", running backward" : ", running forward") +
                                               (g.approach < 0 ? " (the limit as it arrives there from the left)"
                                                : g.approach > 0 ? " (the limit as it arrives there from the right)" : "");

@@ -140,6 +140,7 @@ MovingModel::Table MovingModel::table_for(const std::vector<Piece>& pieces) cons
 
 Bound MovingModel::train_bound(const std::vector<double>& line, const std::vector<Piece>& pieces, const Table& table) const {
   const auto& C = cheb();
+  const double length = pieces.empty() ? 0.0 : pieces.back().x1;
   std::vector<std::array<double, 4>> coef(pieces.size());
   for (std::size_t j = 0; j < pieces.size(); ++j) coef[j] = C.fit(&line[4 * j]);
   // The train off the beam: no effect.
@@ -165,6 +166,17 @@ Bound MovingModel::train_bound(const std::vector<double>& line, const std::vecto
           if (t <= -1) { g.first = run.p0; g.approach = 1; }
           if (t >= 1) { g.first = run.p1; g.approach = -1; }
           g.backward = dir == 1;
+          // The side it comes from matters only where a point stands on an
+          // end of the beam (on it or just off it); elsewhere the train
+          // stands there as it is.
+          if (g.approach != 0) {
+            bool at_end = false;
+            for (const auto& pt : train_.points) {
+              const double a = g.first + (dir == 0 ? 1.0 : -1.0) * pt.offset;
+              if (std::abs(a - pieces.front().x0) <= 1e-12 * length || std::abs(a - length) <= 1e-12 * length) at_end = true;
+            }
+            if (!at_end) g.approach = 0;
+          }
           if (v > best_hi) { best_hi = v; hi = g; }
           if (v < best_lo) { best_lo = v; lo = g; }
         }

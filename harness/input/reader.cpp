@@ -374,20 +374,23 @@ struct Reader {
     return std::nullopt;
   }
 
+  // True when a key of `obj` has been reported as unknown with `key`
+  // suggested: the missing `key` is then not reported again. (Only a field
+  // reported as unknown can be the misspelling: "w1" is not a misspelt "w2".)
+  bool misspelt(const json& obj, const std::string& ptr, const std::string& key) const {
+    for (auto k = obj.begin(); k != obj.end(); ++k)
+      if (k.key() != key && unknown_keys.count(ptr + "/" + escape_key(k.key())) &&
+          did_you_mean(k.key(), {key}) == std::optional<std::string>(key))
+        return true;
+    return false;
+  }
+
   std::optional<double> field(const json& obj, const char* key, const std::string& ptr,
                               const std::string& where, Dimension dim, bool required) {
     auto it = obj.find(key);
     if (it == obj.end()) {
       // A misspelt key has already been reported with this one suggested.
-      bool misspelt = false;
-      // (Only a field reported as unknown can be the misspelling: "w1" is
-      // not a misspelt "w2".)
-      if (required)
-        for (auto k = obj.begin(); k != obj.end(); ++k)
-          if (k.key() != key && unknown_keys.count(ptr + "/" + escape_key(k.key())) &&
-              did_you_mean(k.key(), {key}) == std::optional<std::string>(key))
-            misspelt = true;
-      if (required && !misspelt) error("missing_field", ptr + "/" + key, where, "required field is missing");
+      if (required && !misspelt(obj, ptr, key)) error("missing_field", ptr + "/" + key, where, "required field is missing");
       return std::nullopt;
     }
     return quantity(*it, ptr + "/" + key, where, dim);
@@ -406,7 +409,7 @@ struct Reader {
 
 const std::vector<std::string> kTopKeys = {"title", "description", "units", "spans", "supports",
                                            "labels", "loads", "stations_per_span", "claims", "combinations",
-                                           "deflection_limit", "$schema"};
+                                           "deflection_limit", "moving_loads", "$schema"};
 const std::vector<std::string> kSupportTypes = {"fixed", "pinned", "roller", "free", "spring", "guided"};
 const std::vector<std::string> kLoadTypes = {"point", "udl", "linear", "couple"};
 const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "reaction_moment",
@@ -551,7 +554,8 @@ std::string where_of(const std::string& ptr) {
   // "/spans/1/..." -> "span 2", "/supports/0" -> "node 1", ...
   static const std::vector<std::pair<std::string, std::string>> prefixes = {
       {"/spans/", "span "}, {"/supports/", "node "}, {"/labels/", "node "},
-      {"/loads/", "load "}, {"/claims/values/", "claim "}, {"/combinations/", "combination "}};
+      {"/loads/", "load "}, {"/claims/values/", "claim "}, {"/combinations/", "combination "},
+      {"/moving_loads/", "moving load "}};
   for (const auto& [p, w] : prefixes) {
     if (ptr.compare(0, p.size(), p) == 0) {
       std::size_t i = p.size();
@@ -1077,6 +1081,126 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
       out.cases.push_back(sup.settlement_case);
   if (out.cases.empty()) out.cases.push_back("loads");
 
+  // moving loads: each a train of point loads at fixed distances from its
+  // first point, a load set of its own.
+  // Every moving load's name as read, with its index, also of one refused
+  // for another reason: a combination or claim naming it then adds no
+  // second error.
+  std::vector<std::pair<std::string, std::size_t>> moving_names;
+  if (auto it = root.find("moving_loads"); it != root.end()) {
+    if (!it->is_array()) {
+      rd.error("wrong_type", "/moving_loads", "", "must be a list of moving loads (" + got(*it) + ")");
+    } else {
+      for (std::size_t i = 0; i < it->size(); ++i) {
+        const json& m = (*it)[i];
+        const std::string ptr = "/moving_loads/" + std::to_string(i);
+        const std::string where = "moving load " + std::to_string(i + 1);
+        if (!m.is_object()) {
+          rd.error("wrong_type", ptr, where, "must be an object with a name and points (" + got(m) + ")");
+          continue;
+        }
+        const std::size_t before = out.errors.size();
+        rd.check_keys(m, ptr, where, {"name", "points", "directions"});
+        MovingLoad ml;
+        ml.pointer = ptr;
+        if (auto n = m.find("name"); n == m.end()) {
+          if (!rd.misspelt(m, ptr, "name"))
+            rd.error("missing_field", ptr + "/name", where, "required field is missing (a name of its own, e.g. \"crane\")");
+        } else if (!n->is_string() || n->get<std::string>().empty()) {
+          rd.error("wrong_type", ptr + "/name", where, "must be a non-empty name (" + got(*n) + ")");
+        } else if (has_control(n->get<std::string>())) {
+          rd.error("control_characters", ptr + "/name", where, "a name must not contain control characters (got \"" + printable(n->get<std::string>(), 60) + "\")");
+        } else {
+          ml.name = n->get<std::string>();
+          if (std::find(out.cases.begin(), out.cases.end(), ml.name) != out.cases.end()) {
+            rd.error("duplicate", ptr + "/name", where, "the name '" + ml.name + "' is already a load case's; a moving load needs a name of its own");
+          } else {
+            for (const auto& [other, k] : moving_names)
+              if (other == ml.name) {
+                rd.error("duplicate", ptr + "/name", where, "the name '" + ml.name + "' is used by another moving load (moving load " +
+                                                         std::to_string(k + 1) + ")");
+                break;
+              }
+          }
+          moving_names.emplace_back(ml.name, i);
+        }
+        if (auto d = m.find("directions"); d != m.end()) {
+          static const std::vector<std::string> kDirections = {"both", "forward"};
+          if (!d->is_string()) {
+            rd.error("wrong_type", ptr + "/directions", where, "must be \"both\" or \"forward\" (" + got(*d) + ")");
+          } else if (d->get<std::string>() == "both") {
+            ml.both_directions = true;
+          } else if (d->get<std::string>() == "forward") {
+            ml.both_directions = false;
+          } else {
+            std::string reason = "unknown direction '" + printable(d->get<std::string>(), 60) + "'";
+            if (auto dm = did_you_mean(d->get<std::string>(), kDirections)) reason += " (did you mean '" + *dm + "'?)";
+            else reason += " (\"both\", the default: the train as listed and reversed; \"forward\": only as listed, each point at its offset to the right of the first)";
+            rd.error("unknown_name", ptr + "/directions", where, reason);
+          }
+        }
+        auto pts = m.find("points");
+        if (pts == m.end()) {
+          if (!rd.misspelt(m, ptr, "points"))
+            rd.error("missing_field", ptr + "/points", where,
+                   "required field is missing (a list of {\"P\": force, \"offset\": distance from the first point})");
+        } else if (!pts->is_array()) {
+          rd.error("wrong_type", ptr + "/points", where, "must be a list of {\"P\": force, \"offset\": distance from the first point} (" + got(*pts) + ")");
+        } else if (pts->empty()) {
+          rd.error("wrong_count", ptr + "/points", where, "must have at least one point");
+        } else if (pts->size() > limits.max_moving_points) {
+          rd.error("limit", ptr + "/points", where, "has " + std::to_string(pts->size()) + " points, more than the limit of " +
+                                                  std::to_string(limits.max_moving_points) + " per moving load");
+        } else {
+          bool points_ok = true;
+          for (std::size_t k = 0; k < pts->size(); ++k) {
+            const json& p = (*pts)[k];
+            const std::string pp = ptr + "/points/" + std::to_string(k);
+            if (!p.is_object()) {
+              rd.error("wrong_type", pp, where, "must be an object {\"P\": force, \"offset\": distance from the first point} (" + got(p) + ")");
+              points_ok = false;
+              continue;
+            }
+            const std::size_t point_before = out.errors.size();
+            rd.check_keys(p, pp, where, {"P", "offset"});
+            MovingPoint mp;
+            if (auto P = rd.field(p, "P", pp, where, kForce, true)) mp.P = *P;
+            if (auto o = rd.field(p, "offset", pp, where, kLength, true)) {
+              if (*o < 0) rd.error("out_of_range", pp + "/offset", where, "must be 0 or more (got " + format_number(*o) + ")");
+              else mp.offset = *o;
+            }
+            if (out.errors.size() != point_before) points_ok = false;
+            ml.points.push_back(mp);
+          }
+          // The train as a whole, once every point reads.
+          if (points_ok) {
+            if (ml.points.front().offset > 0)
+              rd.error("bad_train", ptr + "/points/0/offset", where,
+                       "the first point's offset must be 0: offsets are measured from the train's first point (got " +
+                           format_number(ml.points.front().offset) + ")");
+            for (std::size_t k = 1; k < ml.points.size(); ++k)
+              if (!(ml.points[k].offset > ml.points[k - 1].offset))
+                rd.error("bad_train", ptr + "/points/" + std::to_string(k) + "/offset", where,
+                         "offsets must increase along the train, each point farther from the first than the one before (got " +
+                             format_number(ml.points[k].offset) + " after " + format_number(ml.points[k - 1].offset) + ")");
+            bool any = false;
+            for (const auto& mp : ml.points) any = any || mp.P > 0 || mp.P < 0;
+            if (!any) rd.error("bad_train", ptr + "/points", where, "every point's P is 0: a moving load needs at least one load that is not 0");
+          }
+        }
+        if (out.errors.size() == before) out.moving_loads.push_back(std::move(ml));
+      }
+    }
+  }
+  auto is_moving = [&](const std::string& name) {
+    for (const auto& mn : moving_names)
+      if (mn.first == name) return true;
+    return false;
+  };
+  std::vector<std::string> moving_list;  // the names, for messages
+  for (const auto& mn : moving_names)
+    if (std::find(moving_list.begin(), moving_list.end(), mn.first) == moving_list.end()) moving_list.push_back(mn.first);
+
   // combinations
   if (auto it = root.find("combinations"); it != root.end()) {
     if (!it->is_array()) {
@@ -1088,6 +1212,12 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           rd.error("duplicate", ptr + "/name", where, "the name '" + c.name + "' is already a load case's; a combination needs a name of its own");
           return;
         }
+        for (const auto& [mn, k] : moving_names)
+          if (mn == c.name) {
+            rd.error("duplicate", ptr + "/name", where, "the name '" + c.name + "' is already a moving load's (moving load " +
+                                                     std::to_string(k + 1) + "); a combination needs a name of its own");
+            return;
+          }
         if (!names.insert(c.name).second) {
           rd.error("duplicate", ptr + "/name", where, "the name '" + c.name + "' is used by another combination");
           return;
@@ -1108,11 +1238,24 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         else if (has_control(n->get<std::string>()))
           rd.error("control_characters", ptr + "/name", where, "a name must not contain control characters (got \"" + printable(n->get<std::string>(), 60) + "\")");
         else name = n->get<std::string>();
-        auto known_case = [&](const std::string& cs, const std::string& p) {
+        // `moving`: a moving load may be named here too (a combination's
+        // factors, not a preset's cases).
+        auto known_case = [&](const std::string& cs, const std::string& p, bool moving = false) {
           if (std::find(out.cases.begin(), out.cases.end(), cs) != out.cases.end()) return true;
-          std::string reason = "there is no load case '" + cs + "'";
-          if (auto d = did_you_mean(cs, out.cases)) reason += " (did you mean '" + *d + "'?)";
-          else { reason += " (cases: "; for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k]; reason += ")"; }
+          moving = moving && !moving_list.empty();
+          std::vector<std::string> known = out.cases;
+          if (moving) known.insert(known.end(), moving_list.begin(), moving_list.end());
+          std::string reason = std::string("there is no load case ") + (moving ? "or moving load " : "") + "'" + cs + "'";
+          if (auto d = did_you_mean(cs, known)) reason += " (did you mean '" + *d + "'?)";
+          else {
+            reason += " (cases: ";
+            for (std::size_t k = 0; k < out.cases.size(); ++k) reason += (k ? ", " : "") + out.cases[k];
+            if (moving) {
+              reason += "; moving loads: ";
+              for (std::size_t k = 0; k < moving_list.size(); ++k) reason += (k ? ", " : "") + moving_list[k];
+            }
+            reason += ")";
+          }
           rd.error("no_such_item", p, where, reason);
           return false;
         };
@@ -1185,12 +1328,28 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
         else {
           for (auto f = fs->begin(); f != fs->end(); ++f) {
             const std::string p = ptr + "/factors/" + escape_key(f.key());
-            if (!known_case(f.key(), p)) continue;
-            Factor fac;
             auto number = [&](const json& v, const std::string& pp) -> std::optional<double> {
               if (!v.is_number() || !std::isfinite(v.get<double>())) { rd.error("wrong_type", pp, where, "must be a number (" + got(v) + ")"); return std::nullopt; }
               return v.get<double>();
             };
+            if (is_moving(f.key())) {
+              // A moving load: one factor, at most one moving load.
+              if (f->is_array()) {
+                rd.error("bad_factor_range", p, where, "a moving load takes one factor, not a range: give one number");
+                continue;
+              }
+              auto v = number(*f, p);
+              if (!v) continue;
+              if (comb.moving) {
+                rd.error("conflicting_fields", p, where, "a combination takes at most one moving load ('" + comb.moving->first +
+                                                       "' is already in it): put each moving load in a combination of its own");
+                continue;
+              }
+              comb.moving = std::make_pair(f.key(), *v);
+              continue;
+            }
+            if (!known_case(f.key(), p, true)) continue;
+            Factor fac;
             if (f->is_array()) {
               if (f->size() != 2) { rd.error("bad_factor_range", p, where, "a factor range is [low, high] (got " + std::to_string(f->size()) + " numbers)"); continue; }
               auto lo = number((*f)[0], p + "/0"), hi = number((*f)[1], p + "/1");
@@ -1213,6 +1372,10 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
               const std::string p = ptr + "/pattern/" + std::to_string(k);
               if (!v.is_string()) { rd.error("wrong_type", p, where, "must be the name of a load case (" + got(v) + ")"); continue; }
               const std::string cs = v.get<std::string>();
+              if (is_moving(cs)) {
+                rd.error("conflicting_fields", p, where, "'" + cs + "' is a moving load: it is placed by moving it along the beam, not span by span; remove it from the pattern");
+                continue;
+              }
               bool in = false;
               for (const auto& f : comb.factors) in = in || f.first == cs;
               if (!in) { rd.error("conflicting_fields", p, where, "the patterned case '" + cs + "' has no factor in this combination"); continue; }
@@ -1225,6 +1388,17 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           else rd.error("wrong_type", ptr + "/arrangements", where, "must be \"all\" or \"adjacent-and-alternate\" (" + got(*a) + ")");
           if (comb.pattern.empty()) rd.error("conflicting_fields", ptr + "/arrangements", where, "arrangements need a \"pattern\" (the cases placed span by span)");
         }
+        // A moving load with a pattern or a factor range: not supported (yet).
+        if (comb.moving) {
+          const std::string what = "a combination with a moving load ('" + comb.moving->first + "') and ";
+          const std::string instead = " is not supported (yet): split it into two combinations, one with the moving load and one with the ";
+          if (!comb.pattern.empty())
+            rd.error("unsupported_feature", ptr + "/pattern", where, what + "a pattern" + instead + "pattern");
+          for (const auto& [cs, f] : comb.factors)
+            if (f.range)
+              rd.error("unsupported_feature", ptr + "/factors/" + escape_key(cs), where,
+                       what + "a factor range (on '" + cs + "')" + instead + "factor range");
+        }
         if (out.errors.size() == before) add(comb, ptr, where);
       }
     }
@@ -1236,9 +1410,11 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     if (rd.deflection_limit(*dl, "/deflection_limit", "", true, out.deflection_limit, &sets)) {
       std::vector<std::string> known = out.cases;
       for (const auto& cb : out.combinations) known.push_back(cb.name);
+      known.insert(known.end(), moving_list.begin(), moving_list.end());
       for (std::size_t i = 0; i < sets.size(); ++i)
         if (std::find(known.begin(), known.end(), sets[i]) == known.end()) {
-          std::string reason = "there is no load case or combination '" + printable(sets[i], 60) + "'";
+          std::string reason = std::string(moving_list.empty() ? "there is no load case or combination '" : "there is no load case, combination or moving load '") +
+                               printable(sets[i], 60) + "'";
           if (auto d = did_you_mean(sets[i], known)) reason += " (did you mean '" + *d + "'?)";
           rd.error("no_such_item", "/deflection_limit/load_sets/" + std::to_string(i), "", reason);
         }
@@ -1248,15 +1424,19 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
 
   // Load sets and stations in all (each load set has its own stations).
   {
-    const std::size_t sets = out.cases.size() + out.combinations.size();
+    const std::size_t sets = out.cases.size() + out.combinations.size() + out.moving_loads.size();
     const std::size_t along = spans_ok ? n_spans * static_cast<std::size_t>(beam.stations_per_span + 1) : 0;
     const std::size_t per_set = along + beam.loads.size();
+    // Where the count is reported: the last list that adds load sets.
+    const char* set_list = !out.combinations.empty() ? "/combinations" : !out.moving_loads.empty() ? "/moving_loads" : "/loads";
     if (sets > limits.max_load_sets)
-      rd.error("limit", out.combinations.empty() ? "/loads" : "/combinations", "",
-               "has " + std::to_string(out.cases.size()) + " load cases and " + std::to_string(out.combinations.size()) +
+      rd.error("limit", set_list, "",
+               "has " + std::to_string(out.cases.size()) + " load cases" +
+                   (out.moving_loads.empty() ? std::string(" and ") : ", " + std::to_string(out.moving_loads.size()) + " moving loads and ") +
+                   std::to_string(out.combinations.size()) +
                    " combinations, more than the limit of " + std::to_string(limits.max_load_sets) + " load sets");
     else if (spans_ok && along <= limits.max_stations && per_set * sets > limits.max_stations)
-      rd.error("limit", sets > 1 ? (out.combinations.empty() ? "/loads" : "/combinations") : "/loads", "",
+      rd.error("limit", sets > 1 ? set_list : "/loads", "",
                "asks for " + std::to_string(per_set * sets) + " stations in all (" + std::to_string(per_set) + " in each of " +
                    std::to_string(sets) + (sets == 1 ? " load set" : " load sets") + "), more than the limit of " +
                    std::to_string(limits.max_stations));
@@ -1381,22 +1561,27 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
   }
   std::vector<std::string> sets = out.cases;
   for (const auto& cb : out.combinations) sets.push_back(cb.name);
+  sets.insert(sets.end(), moving_list.begin(), moving_list.end());
   for (const auto& c : out.claims) {
     if (c.load_case.empty() && sets.size() > 1) {
       rd.error("missing_field", c.pointer + "/case", where_of(c.pointer),
                "required field is missing: the file has " + std::to_string(sets.size()) +
-                   " load cases and combinations, so a claim must name its \"case\"");
+                   (moving_list.empty() ? " load cases and combinations" : " load cases, combinations and moving loads") +
+                   ", so a claim must name its \"case\"");
       continue;
     }
     const Combination* comb = nullptr;
     for (const auto& cb : out.combinations)
       if (cb.name == c.load_case) comb = &cb;
-    if (is_envelope_quantity(c.quantity) && !(comb && comb->is_envelope())) {
+    // A moving load is an envelope load set (over the train's positions).
+    const bool envelope = (comb && comb->is_envelope()) || is_moving(c.load_case);
+    if (is_envelope_quantity(c.quantity) && !envelope) {
       rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
-               std::string(quantity_name(c.quantity)) + " is an envelope value: name a combination with a pattern or a factor range in \"case\"");
+               std::string(quantity_name(c.quantity)) + " is an envelope value: name a combination with a pattern or a factor range" +
+                   (moving_list.empty() ? "" : ", a moving load or a combination that names one,") + " in \"case\"");
       continue;
     }
-    if (comb && comb->is_envelope() && !is_envelope_quantity(c.quantity)) {
+    if (envelope && !is_envelope_quantity(c.quantity)) {
       rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
                "'" + c.load_case + "' is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min");
       continue;
@@ -1425,12 +1610,50 @@ namespace {
 
 // The envelopes of `file` that would read more share values (shares x
 // stations) than the limit allows with `per_span` stations per span.
+// a * b, or the largest size_t when it would pass it.
+std::size_t times(std::size_t a, std::size_t b) {
+  return a != 0 && b > std::numeric_limits<std::size_t>::max() / a ? std::numeric_limits<std::size_t>::max() : a * b;
+}
+
 void envelope_limit_errors(const BeamFile& file, int per_span, const Limits& limits, std::vector<Error>& out) {
   const std::size_t n = file.beam.spans.size();
   const std::size_t stations = n * (static_cast<std::size_t>(per_span) + 1) + 2 * file.beam.loads.size();
+  // A moving load is read, per method, at 4 values for each piece of the
+  // beam between stations (spans x stations per span of them) at every
+  // station: 4 x pieces x stations.
+  const std::size_t pieces = times(n, static_cast<std::size_t>(per_span));
+  const std::size_t moving_values = times(times(4, pieces), stations);
+  // `shares`: the combination's other shares (0 for the moving load alone).
+  auto moving_reason = [&](const std::string& what, const std::string& name, std::size_t shares, std::size_t values) {
+    return what + " reads the moving load '" + name + "' at 4 x " + std::to_string(pieces) + " pieces of the beam (" +
+           std::to_string(n) + (n == 1 ? " span" : " spans") + " x " + std::to_string(per_span) +
+           " stations per span) at about " + std::to_string(stations) + " stations each" +
+           (shares ? " and " + std::to_string(shares) + (shares == 1 ? " share" : " shares") + " of its cases at each station" : std::string()) +
+           " (" + std::to_string(values) + " values), more than the limit of " + std::to_string(limits.max_envelope_values) +
+           ": use fewer stations per span, or check the beam in parts";
+  };
+  for (std::size_t m = 0; m < file.moving_loads.size(); ++m) {
+    const MovingLoad& ml = file.moving_loads[m];
+    if (moving_values > limits.max_envelope_values)
+      out.push_back({ml.pointer.empty() ? "/moving_loads/" + std::to_string(m) : ml.pointer,
+                     "moving load " + std::to_string(m + 1), moving_reason("this envelope", ml.name, 0, moving_values),
+                     "input.limit"});
+  }
   for (std::size_t c = 0; c < file.combinations.size(); ++c) {
     const Combination& comb = file.combinations[c];
     if (!comb.is_envelope()) continue;
+    if (comb.moving) {
+      // Its cases (one share each: no pattern or range goes with a moving
+      // load) plus the moving load.
+      const std::size_t shares = 1 + comb.factors.size();
+      const std::size_t sum = times(shares, stations) + moving_values;
+      const std::size_t values = sum < moving_values ? std::numeric_limits<std::size_t>::max() : sum;
+      if (values > limits.max_envelope_values)
+        out.push_back({comb.pointer.empty() ? "/combinations/" + std::to_string(c) : comb.pointer,
+                       "combination " + std::to_string(c + 1), moving_reason("this combination", comb.moving->first, shares, values),
+                       "input.limit"});
+      continue;
+    }
     std::size_t shares = 1;  // the settlements that name no case
     for (const auto& [cs, f] : comb.factors) {
       const bool patterned = std::find(comb.pattern.begin(), comb.pattern.end(), cs) != comb.pattern.end();
@@ -1456,7 +1679,7 @@ void envelope_limit_errors(const BeamFile& file, int per_span, const Limits& lim
 
 std::optional<Error> station_limit_error(const BeamFile& file, int per_span, const Limits& limits) {
   if (per_span < 1) return std::nullopt;
-  const std::size_t sets = file.cases.size() + file.combinations.size();
+  const std::size_t sets = file.cases.size() + file.combinations.size() + file.moving_loads.size();
   const std::size_t along = file.beam.spans.size() * (static_cast<std::size_t>(per_span) + 1);
   const std::size_t per_set = along + file.beam.loads.size();
   if (along <= limits.max_stations && per_set * std::max<std::size_t>(sets, 1) <= limits.max_stations) {

@@ -26,6 +26,9 @@ struct Limits {
   // station: shares x stations, per envelope. Its time and memory grow with it.
   std::size_t max_envelope_values = 20'000'000;
   std::size_t max_depth = 64;                  // nesting of JSON arrays and objects
+  // The points of one moving load (a crane's wheels, a vehicle's axles:
+  // a handful; a long train of axles a few hundred).
+  std::size_t max_moving_points = 1000;
 };
 
 // One error in a file. `pointer` is a JSON Pointer (RFC 6901, 0-based);

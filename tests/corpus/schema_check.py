@@ -59,6 +59,13 @@ EXCEPTIONS = {
     "combination-name-used-twice.json": "combination names are distinct",
     "combination-pattern-case-without-factor.json": "a patterned case has a factor",
     "preset-case-unknown.json": "a preset's cases exist",
+    "moving-load-offsets-decreasing.json": "a moving load's offsets increase",
+    "moving-load-all-points-zero.json": "a moving load has a point load that is not 0",
+    "moving-load-name-of-a-case.json": "moving load names differ from case names",
+    "combination-moving-load-factor-range.json": "a moving load takes one factor, not a range",
+    "combination-moving-load-with-pattern.json": "a combination naming a moving load has no pattern",
+    "combination-two-moving-loads.json": "a combination names at most one moving load",
+    "claim-moving-load-not-an-envelope-quantity.json": "a claim on a moving load is of an envelope quantity",
     # Strings with their own unit: converted, then checked, by the reader only.
     "length-with-a-force-unit.json": "the dimension of a string with a unit",
     "udl-wrong-dimension.json": "the dimension of a string with a unit",
