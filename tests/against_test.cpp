@@ -966,6 +966,56 @@ TEST(AgainstInvalid, EmptyCellsAreCountedNotSkippedSilently) {
   EXPECT_TRUE(c.holds());
 }
 
+// Another program's envelope table of a moving load: the same columns as a
+// patterned combination's. The consensus at every station holds; one value
+// 5% off the largest moment fails at its row; a reaction table holds.
+TEST(AgainstMoving, AMovingLoadsEnvelopeTableIsCompared) {
+  const char* beam = R"({
+    "units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 8, "EI": 90000}, {"length": 8, "EI": 90000}],
+    "supports": ["pinned", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 5, "case": "dead"}, {"type": "udl", "span": 2, "w": 5, "case": "dead"}],
+    "moving_loads": [{"name": "axles", "points": [{"P": 50, "offset": 0}, {"P": 50, "offset": 2.5}]}],
+    "stations_per_span": 4
+  })";
+  const input::BeamFile file = input::parse_beam_text(beam, "beam.json");
+  ASSERT_TRUE(file.ok()) << (file.errors.empty() ? "" : file.errors.front().format("beam.json"));
+  const BeamResult result = check(file, compare::Options{});
+  const LoadSet* set = nullptr;
+  for (const auto& s : result.sets)
+    if (s.name == "axles") set = &s;
+  ASSERT_NE(set, nullptr);
+  ASSERT_TRUE(set->envelope);
+  ASSERT_EQ(set->ok_count(), 3u);
+  Options o;
+  o.load_case = "axles";
+  const double scale = set->scale[static_cast<std::size_t>(Kind::Moment)];
+  auto table = [&](std::size_t bump_row, double bump) {
+    std::string t = "x,moment_max,moment_min\n";
+    for (std::size_t i = 0; i < set->stations.size(); ++i)
+      t += format_number(set->stations[i].x) + "," +
+           format_number(set->consensus_envelope.moment[i].max + (i == bump_row ? bump : 0.0)) + "," +
+           format_number(set->consensus_envelope.moment[i].min) + "\n";
+    return t;
+  };
+  const Comparison good = compare_text(file, result, table(0, 0), "theirs.csv", o);
+  ASSERT_TRUE(good.ok());
+  EXPECT_EQ(good.load_case, "axles");
+  EXPECT_TRUE(good.holds()) << good.failing() << " failing";
+  EXPECT_EQ(good.failing(), 0u);
+  const Comparison bad = compare_text(file, result, table(3, 0.05 * scale), "theirs.csv", o);
+  ASSERT_TRUE(bad.ok());
+  EXPECT_FALSE(bad.holds());
+  EXPECT_EQ(bad.failing(), 1u);
+  std::string r = "support,reaction_max,reaction_min\n";
+  for (std::size_t j = 0; j < set->beam.labels.size(); ++j)
+    r += set->beam.labels[j] + "," + format_number(set->consensus_envelope.reaction[j].max) + "," +
+         format_number(set->consensus_envelope.reaction[j].min) + "\n";
+  const Comparison reactions = compare_text(file, result, r, "reactions.csv", o);
+  ASSERT_TRUE(reactions.ok());
+  EXPECT_TRUE(reactions.holds());
+}
+
 }  // namespace
 }  // namespace trivet::compare::against
 
