@@ -115,7 +115,8 @@ TEST(Moving, TwoSpanInfluenceLinesMatchTheClosedFormAndTheHandbook) {
 // Three equal spans, a unit load at a = xi L in span 1: the three-moment
 // equations 4 L M_B + L M_C = -P a b (L + a) / L and L M_B + 4 L M_C = 0 give
 // M_B = -(4/15) L xi (1 - xi)(1 + xi) and M_C = -M_B / 4 (derived here); at
-// midspan M_B = -PL/10.
+// midspan M_B = -PL/10. Statics of span 1 gives the end reaction
+// R_A = (1 - xi) + M_B / L, and of span 3 (unloaded) R_D = M_C / L.
 TEST(Moving, ThreeSpanSupportMomentLinesMatchTheClosedForm) {
   const double L = 5.0;
   const Beam beam = spans_beam({L, L, L}, 7.5e3);
@@ -128,11 +129,15 @@ TEST(Moving, ThreeSpanSupportMomentLinesMatchTheClosedForm) {
     const MovingModel& mm = *m.moving_model;
     const auto mB = mm.influence(0, L, false, MovingModel::kMoment);
     const auto mC = mm.influence(1, L, false, MovingModel::kMoment);
+    const auto rA = mm.reaction_influence(0);
+    const auto rD = mm.reaction_influence(3);
     for (int k = 1; k < 30; ++k) {
       const double xi = k / 30.0;
       const double MB = -(4.0 / 15) * L * xi * (1 - xi) * (1 + xi);
       EXPECT_NEAR(mm.influence_value(mB, xi * L), MB, 1e-12 * L) << xi;
       EXPECT_NEAR(mm.influence_value(mC, xi * L), -MB / 4, 1e-12 * L) << xi;
+      EXPECT_NEAR(mm.influence_value(rA, xi * L), (1 - xi) + MB / L, 1e-12) << xi;
+      EXPECT_NEAR(mm.influence_value(rD, xi * L), -MB / 4 / L, 1e-12) << xi;
     }
     EXPECT_NEAR(mm.influence_value(mB, L / 2), -L / 10, 1e-12 * L);
   }
