@@ -337,6 +337,9 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
   if (!b.claims.empty()) {
     Table c;
     c.head = {"claim", "quantity", "where", "case", "claimed", "computed", "difference", "tolerance", "holds"};
+    // Claims from a table (--claims) say where they were read.
+    const bool sourced = std::any_of(b.claims.begin(), b.claims.end(), [](const ClaimResult& r) { return !r.claim.source.empty(); });
+    if (sourced) c.head.push_back("from");
     for (std::size_t i = 0; i < b.claims.size(); ++i) {
       const ClaimResult& r = b.claims[i];
       const Kind k = [&] {
@@ -358,6 +361,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
                         r.load_case, fixed(r.claim.value, d), r.evaluated ? fixed(r.computed, d) : "-",
                         r.evaluated ? fixed(r.difference, d) : "-", fixed(r.tolerance, d),
                         r.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
+      if (sourced) c.rows.back().push_back(r.claim.source.empty() ? "beam file" : r.claim.source);
       if (!r.reason.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": " + r.reason});
       if (!r.finding.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": finding: " + r.finding});
     }

@@ -613,8 +613,11 @@ struct Writer {
     }
     if (!b.claims.empty()) {
       o << "<h3>Claims (" << b.claims_failed() << " of " << b.claims.size() << " fail)</h3>\n";
+      const bool sourced =
+          std::any_of(b.claims.begin(), b.claims.end(), [](const ClaimResult& r) { return !r.claim.source.empty(); });
       o << "<table><tr><th>claim</th><th>quantity</th><th>where</th><th>load set</th><th>claimed</th><th>computed</th>"
-           "<th>difference</th><th>tolerance</th><th>holds</th></tr>\n";
+           "<th>difference</th><th>tolerance</th><th>holds</th>"
+        << (sourced ? "<th>from</th>" : "") << "</tr>\n";
       for (std::size_t i = 0; i < b.claims.size(); ++i) {
         const ClaimResult& r = b.claims[i];
         (void)claim_kind(r.claim.quantity);
@@ -627,11 +630,14 @@ struct Writer {
           << "</td><td class=\"n\">" << fixed(r.claim.value, d) << "</td><td class=\"n\">"
           << (r.evaluated ? fixed(r.computed, d) : "-") << "</td><td class=\"n\">"
           << (r.evaluated ? fixed(r.difference, d) : "-") << "</td><td class=\"n\">" << fixed(r.tolerance, d)
-          << "</td><td>" << (r.holds ? st_badge("holds") : st_badge("fails")) << "</td></tr>\n";
+          << "</td><td>" << (r.holds ? st_badge("holds") : st_badge("fails")) << "</td>";
+        if (sourced) o << "<td>" << html_escape(r.claim.source.empty() ? "beam file" : r.claim.source) << "</td>";
+        o << "</tr>\n";
+        const char* span = sourced ? "9" : "8";
         if (!r.reason.empty())
-          o << "<tr><td></td><td colspan=\"8\">" << html_escape(r.reason) << "</td></tr>\n";
+          o << "<tr><td></td><td colspan=\"" << span << "\">" << html_escape(r.reason) << "</td></tr>\n";
         if (!r.finding.empty())
-          o << "<tr><td></td><td colspan=\"8\">finding: " << html_escape(r.finding) << "</td></tr>\n";
+          o << "<tr><td></td><td colspan=\"" << span << "\">finding: " << html_escape(r.finding) << "</td></tr>\n";
       }
       o << "</table>\n";
     }

@@ -492,6 +492,7 @@ void claims(JsonWriter& w, const Report& b) {
     w.member("holds", c.holds);
     if (!c.reason.empty()) w.member("reason", c.reason);
     if (!c.finding.empty()) w.member("finding", c.finding);
+    if (!c.claim.source.empty()) w.member("source", c.claim.source);
     w.end_object();
   }
   w.end_array();

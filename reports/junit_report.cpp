@@ -108,7 +108,7 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
   for (std::size_t i = 0; i < b.claims.size(); ++i) {
     const ClaimResult& c = b.claims[i];
     Case k{"claim " + std::to_string(i + 1) + ": " + input::quantity_name(c.claim.quantity) + " at " + c.label +
-               " (" + c.load_case + ")",
+               " (" + c.load_case + ")" + (c.claim.source.empty() ? "" : " from " + c.claim.source),
            "", false};
     if (!c.holds) {
       k.failure = c.evaluated ? "claimed " + num(c.claim.value) + ", computed " + num(c.computed) + ", difference " +

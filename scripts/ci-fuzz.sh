@@ -24,6 +24,8 @@ cp examples/*.json tests/corpus/bad/*.json tests/corpus/good/*.json "$seeds"/
 cp tests/corpus/fuzz-found/*.json "$seeds"/ 2>/dev/null || true
 # Other programs' exports (--against), in every separator and decimal habit.
 cp tests/data/against/*.csv "$seeds"/
+# Spreadsheets and tables of claims (--against, --claims).
+cp tests/data/sheets/*.xlsx tests/data/sheets/*.ods tests/data/sheets/*.csv "$seeds"/
 for f in tests/data/against/*.csv; do tr ",." ";," < "$f" > "$seeds/semicolon-$(basename "$f")"; tr "," "\t" < "$f" > "$seeds/tab-$(basename "$f")"; done
 python3 - "$seeds" references/cases/*.json <<'PY'
 import json, os, sys

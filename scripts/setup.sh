@@ -8,6 +8,7 @@ packages=(
   libboost-dev nlohmann-json3-dev libgtest-dev libcli11-dev
   libgnuplot-iostream-dev gnuplot-nox
   libboost-iostreams-dev libboost-system-dev libboost-filesystem-dev
+  libzip-dev libpugixml-dev
 )
 missing=()
 for p in "${packages[@]}"; do

@@ -3,6 +3,9 @@ trivet_add_test(units_test ${CMAKE_CURRENT_SOURCE_DIR}/units_test.cpp trivet_inp
 trivet_add_test(reader_test ${CMAKE_CURRENT_SOURCE_DIR}/reader_test.cpp trivet_input)
 trivet_add_test(moving_reader_test ${CMAKE_CURRENT_SOURCE_DIR}/moving_reader_test.cpp trivet_input)
 trivet_add_test(against_test ${CMAKE_CURRENT_SOURCE_DIR}/against_test.cpp trivet_compare)
+# Spreadsheets (--against, --claims); the test writes its .xlsx and .ods files with libzip.
+trivet_add_test(sheet_test ${CMAKE_CURRENT_SOURCE_DIR}/sheet_test.cpp trivet_compare)
+target_link_libraries(sheet_test PRIVATE PkgConfig::LIBZIP)
 trivet_add_test(envelope_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_test.cpp trivet_compare)
 trivet_add_test(envelope_bruteforce_test ${CMAKE_CURRENT_SOURCE_DIR}/envelope_bruteforce_test.cpp trivet_compare)
 trivet_add_test(precision_test ${CMAKE_CURRENT_SOURCE_DIR}/precision_test.cpp trivet_precision)
@@ -26,6 +29,7 @@ add_test(NAME cli_exit_codes COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_exit_c
 add_test(NAME selfcheck COMMAND trivet selfcheck)
 add_test(NAME cli_selfcheck COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_selfcheck.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/references/cases)
 add_test(NAME cli_against COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_against.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data)
+add_test(NAME cli_sheets COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_sheets.sh $<TARGET_FILE:trivet> ${CMAKE_CURRENT_SOURCE_DIR}/data/sheets)
 
 # Plots and the HTML report; the browser test needs Chromium (skipped, not passed, without it).
 trivet_add_test(plot_test ${CMAKE_CURRENT_SOURCE_DIR}/plot_test.cpp trivet_report_html)

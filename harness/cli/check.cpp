@@ -25,6 +25,7 @@
 #include "harness/cli/memory.h"
 #include "harness/cli/reporting.h"
 #include "harness/compare/against.h"
+#include "harness/compare/claims_table.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
 #include "harness/precision/exact_reader.h"
@@ -73,12 +74,19 @@ int run_check(const CheckArgs& a) {
         {"--against-case", {"case", &a.against_case}}};
     for (const auto& [flag, what] : named)
       if (!what.second->empty()) settings.push_back({flag, {what.first, *what.second}});
+    for (const auto& sh : a.their_sheets) settings.push_back({"--their-sheet", {"sheet", sh}});
     for (const auto& [flag, setting] : settings) {
       if (a.against.empty()) fail("trivet: ", flag, ": applies to the file given with --against, and there is none");
-      const std::string err = ag::set_option(ao, setting.first, setting.second);
+      ag::Options check_only;
+      const std::string err = ag::set_option(setting.first == "sheet" ? check_only : ao, setting.first, setting.second);
       if (!err.empty()) fail("trivet: ", flag, ": ", err);
     }
+    if (a.their_sheets.size() > 1 && a.their_sheets.size() != a.against.size())
+      fail("trivet: --their-sheet: give one for every --against file, or one for each (", a.their_sheets.size(), " for ",
+           a.against.size(), " files)");
   }
+  if (!a.claims_sheet.empty() && a.claims.empty())
+    fail("trivet: --claims-sheet: applies to the file given with --claims, and there is none");
   if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
       !why.empty())
     fail("trivet: ", why);
@@ -88,12 +96,16 @@ int run_check(const CheckArgs& a) {
     // A report path must not name a file being read (it would be overwritten).
     std::vector<std::string> inputs = files;
     inputs.insert(inputs.end(), a.against.begin(), a.against.end());
+    if (!a.claims.empty()) inputs.push_back(a.claims);
     const char* const options[] = {"--json", "--junit", "--html"};
     const auto [which, why] = report_clashes_with_input(std::vector<std::string>{a.json, a.junit, a.html}, inputs);
     if (!why.empty()) {
       fail("trivet: ", options[which], ": ", why);
     }
   }
+  if (!a.claims.empty() && (files.size() != 1 || !problems.empty()))
+    fail("trivet: --claims adds a table of claims to one beam file; give exactly one beam file (", files.size() + problems.size(),
+         " given)");
   if (!a.shard.empty()) {
     unsigned k = 0, n = 0;
     char slash = 0;
@@ -196,6 +208,8 @@ int run_check(const CheckArgs& a) {
       std::string text;
       input::BeamFile f = input::read_beam_file(files[i], {}, &text);
       if (a.arithmetic == "double" && a.reference.empty()) std::string().swap(text);  // only exact reading needs it
+      // --claims: the table's claims join the file's; its errors make the beam invalid.
+      if (!a.claims.empty() && f.ok()) compare::claims_table::merge(f, compare::claims_table::read_file(f, a.claims, a.claims_sheet));
       // --stations-per-span may ask for more stations than the file's limit allows.
       if (f.ok() && a.stations_per_span > 0)
         if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
@@ -293,8 +307,11 @@ int run_check(const CheckArgs& a) {
     }
     if (results[0].status != compare::BeamStatus::Invalid) {
       const input::BeamFile f = input::read_beam_file(files[0]);
-      for (const auto& path : a.against) {
-        auto cmp = std::make_shared<ag::Comparison>(ag::compare_file(f, results[0], path, ao));
+      for (std::size_t k = 0; k < a.against.size(); ++k) {
+        const std::string& path = a.against[k];
+        ag::Options o = ao;
+        if (!a.their_sheets.empty()) o.sheet = a.their_sheets[a.their_sheets.size() == 1 ? 0 : k];
+        auto cmp = std::make_shared<ag::Comparison>(ag::compare_file(f, results[0], path, o));
         if (!cmp->ok()) against_invalid = true;
         else if (!cmp->holds()) results[0].status = compare::BeamStatus::Disagree;
         results[0].against.push_back(cmp);

@@ -50,6 +50,9 @@ struct CheckArgs {
   std::vector<std::string> against, columns;
   std::string their_units, their_moment, their_deflection, their_shear, their_reaction, their_reaction_moment, against_case;
   std::string their_separator, their_decimal;
+  std::vector<std::string> their_sheets;  // one for every --against file, or one for each
+  // --claims: a table of claims added to the beam file's (one beam file only).
+  std::string claims, claims_sheet;
   bool html_all = false;
   std::string record;   // --record DIR: a checking record per beam
   std::string arithmetic = "double", reference;

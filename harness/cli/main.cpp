@@ -62,7 +62,12 @@ int main(int argc, char** argv) {
   check->add_option("--their-reaction-moment", ca.their_reaction_moment, "counter-clockwise-positive (ours, default) or clockwise-positive");
   check->add_option("--their-separator", ca.their_separator, "comma, semicolon or tab (default: found from the --against file)");
   check->add_option("--their-decimal", ca.their_decimal, "point or comma (default: found from the --against file)");
+  check->add_option("--their-sheet", ca.their_sheets,
+                    "The sheet of an .xlsx or .ods --against file (default: the first); once for every file, or once for each")
+      ->expected(1)->take_all();
   check->add_option("--against-case", ca.against_case, "The load case the --against results belong to");
+  check->add_option("--claims", ca.claims, "A table of claims (CSV, .xlsx or .ods) added to the beam file's (one beam file only)");
+  check->add_option("--claims-sheet", ca.claims_sheet, "The sheet of an .xlsx or .ods --claims file (default: the first)");
 
   SelfcheckArgs sa;
   CLI::App* selfcheck = app.add_subcommand("selfcheck", "Run the built-in cited handbook and textbook cases on every method");

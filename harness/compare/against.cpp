@@ -22,9 +22,9 @@ namespace trivet::compare::against {
 std::string Error::format(const std::string& file) const {
   std::string s = file;
   if (line > 0) {
-    s += ": line " + std::to_string(line);
+    s += (in_sheet ? ": row " : ": line ") + std::to_string(line);
     if (column > 0) {
-      s += ", column " + std::to_string(column);
+      s += ", column " + (in_sheet ? sheet::column_letters(column) : std::to_string(column));
       if (!column_name.empty()) s += " (" + input::printable_text(column_name, 60) + ")";
     }
   }
@@ -364,12 +364,111 @@ CsvRead read_csv_file(const std::string& path, const CsvLimits& limits) {
 }
 
 // ---------------------------------------------------------------------------
+// Spreadsheets.
+
+std::string header_name(const std::string& cell) {
+  const std::string t = trim(cell);
+  if (t.size() >= 3) {
+    const char close = t.back();
+    const char open = close == ']' ? '[' : close == ')' ? '(' : 0;
+    const auto at = open ? t.rfind(open) : std::string::npos;
+    if (at != std::string::npos && at > 0) {
+      const std::string u = trim(t.substr(at + 1, t.size() - at - 2));
+      std::string why;
+      if (!u.empty() && input::parse_unit_expression(u, t, &why)) return lower(trim(t.substr(0, at)));
+    }
+  }
+  return lower(t);
+}
+
+void place_in_sheet(std::vector<Error>& errors, const CsvTable& table) {
+  for (auto& e : errors) {
+    e.in_sheet = true;
+    if (e.column > 0 && e.column <= table.sheet_columns.size()) e.column = table.sheet_columns[e.column - 1];
+  }
+}
+
+CsvRead table_from_sheet(const sheet::Sheet& s, const HeaderTest& is_header, const std::string& header_needs,
+                         const CsvLimits& limits) {
+  CsvRead out;
+  out.table.sheet = s.name.empty() ? std::string("(unnamed)") : s.name;
+  auto cells_of = [](const sheet::Row& r, std::size_t first, std::size_t last) {
+    std::vector<std::string> v(last - first + 1);
+    for (const auto& [c, t] : r.cells)
+      if (c >= first && c <= last) v[c - first] = trim(t);
+    return v;
+  };
+  std::size_t h = s.rows.size();
+  for (std::size_t k = 0; k < s.rows.size() && h == s.rows.size(); ++k) {
+    const auto& cs = s.rows[k].cells;
+    if (!cs.empty() && is_header(cells_of(s.rows[k], cs.front().first, cs.back().first))) h = k;
+  }
+  if (h == s.rows.size()) {
+    std::string why = "no row of sheet \"" + input::printable_text(out.table.sheet, 60) + "\" looks like the table's header (" +
+                      header_needs + ")";
+    if (s.rows.empty()) why += ": the sheet is empty";
+    out.errors.push_back({0, 0, "", why});
+    return out;
+  }
+  const sheet::Row& head = s.rows[h];
+  // The header's columns: from its first to its last named cell; an unnamed
+  // column inside them is kept only when it holds something below.
+  const std::size_t first = head.cells.front().first, last = head.cells.back().first;
+  if (last - first + 1 > limits.max_columns) {
+    out.errors.push_back({head.number, 0, "", "the header has more than " + std::to_string(limits.max_columns) + " columns", true});
+    return out;
+  }
+  const std::vector<std::string> names = cells_of(head, first, last);
+  std::vector<char> used(names.size(), 0);
+  for (std::size_t k = h + 1; k < s.rows.size(); ++k)
+    for (const auto& [c, t] : s.rows[k].cells)
+      if (c >= first && c <= last && !trim(t).empty()) used[c - first] = 1;
+  std::vector<std::size_t> keep;  // offsets into names
+  for (std::size_t k = 0; k < names.size(); ++k) {
+    if (!names[k].empty()) keep.push_back(k);
+    else if (used[k])
+      out.errors.push_back({head.number, first + k, "", "the header gives this column no name, and it holds values", true});
+  }
+  if (!out.ok()) return out;
+  out.table.header_line = head.number;
+  for (std::size_t k : keep) {
+    out.table.header.push_back(names[k]);
+    out.table.sheet_columns.push_back(first + k);
+  }
+  for (std::size_t k = h + 1; k < s.rows.size(); ++k) {
+    const std::vector<std::string> all = cells_of(s.rows[k], first, last);
+    CsvRow row;
+    row.line = s.rows[k].number;
+    bool any = false;
+    for (std::size_t c : keep) {
+      any = any || !all[c].empty();
+      row.fields.push_back(all[c]);
+    }
+    if (any) out.table.rows.push_back(std::move(row));
+  }
+  return out;
+}
+
+CsvRead read_table_file(const std::string& path, const std::string& sheet_name, const HeaderTest& is_header,
+                        const std::string& header_needs, const CsvLimits& limits) {
+  const sheet::Format format = sheet::format_of_path(path);
+  if (format == sheet::Format::None) return read_csv_file(path, limits);
+  const sheet::Sheet s = sheet::read_sheet_file(path, format, sheet_name);
+  if (!s.ok()) {
+    CsvRead out;
+    out.errors.push_back({0, 0, "", s.error});
+    return out;
+  }
+  return table_from_sheet(s, is_header, header_needs, limits);
+}
+
+// ---------------------------------------------------------------------------
 // Options.
 
 const std::vector<std::string>& option_names() {
   static const std::vector<std::string> names = {
       "column", "units", "force-unit", "length-unit", "moment-sign", "deflection-sign",
-      "shear-sign", "reaction-sign", "reaction-moment-sign", "tolerance", "case", "separator", "decimal"};
+      "shear-sign", "reaction-sign", "reaction-moment-sign", "tolerance", "case", "separator", "decimal", "sheet"};
   return names;
 }
 
@@ -464,6 +563,11 @@ std::string set_option(Options& o, const std::string& name, const std::string& v
     return choose(o.limits.separator, value, "the separator", {{"comma", ','}, {"semicolon", ';'}, {"tab", '\t'}});
   if (name == "decimal")
     return choose(o.limits.decimal, value, "the decimal mark", {{"point", '.'}, {"comma", ','}});
+  if (name == "sheet") {
+    if (value.empty()) return "the sheet name is empty";
+    o.sheet = value;
+    return "";
+  }
   if (name == "case") {
     if (trim(value).empty()) return "the load case name is empty";
     o.load_case = trim(value);
@@ -1539,6 +1643,22 @@ Comparison compare_table(const input::BeamFile& file, const BeamResult& result, 
   return finish();
 }
 
+bool is_against_header(const std::vector<std::string>& cells, const Options& options) {
+  for (const char* key : {"x", "span", "support"}) {
+    const auto m = options.columns.find(key);
+    const std::string want = lower(trim(m == options.columns.end() ? std::string(key) : m->second));
+    for (const auto& c : cells)
+      if (lower(trim(c)) == want || header_name(c) == want) return true;
+  }
+  return false;
+}
+
+namespace {
+std::string against_header_needs() {
+  return "a cell x or span for stations, or support for reactions, or the names given with --column";
+}
+}  // namespace
+
 Comparison compare_text(const input::BeamFile& file, const BeamResult& result, const std::string& text,
                         const std::string& display, const Options& options) {
   CsvRead csv = parse_csv_text(text, options.limits);
@@ -1552,18 +1672,59 @@ Comparison compare_text(const input::BeamFile& file, const BeamResult& result, c
   return compare_table(file, result, csv.table, display, options);
 }
 
-Comparison compare_file(const input::BeamFile& file, const BeamResult& result, const std::string& path,
-                        const Options& options, const std::string& display) {
-  const std::string name = display.empty() ? path : display;
-  CsvRead csv = read_csv_file(path, options.limits);
-  if (!csv.ok()) {
+namespace {
+
+// Compares a table read from a CSV file or a sheet; errors of a sheet name
+// its rows and columns.
+Comparison compare_read(const input::BeamFile& file, const BeamResult& result, CsvRead&& read, const std::string& name,
+                        const Options& options) {
+  if (!read.ok()) {
     Comparison out;
     out.file = name;
     out.units = result.units;
-    out.errors = std::move(csv.errors);
+    out.errors = std::move(read.errors);
     return out;
   }
-  return compare_table(file, result, csv.table, name, options);
+  Comparison out = compare_table(file, result, read.table, name, options);
+  if (!read.table.sheet.empty()) {
+    place_in_sheet(out.errors, read.table);
+    out.notes.insert(out.notes.begin(), "read from sheet \"" + input::printable_text(read.table.sheet, 60) +
+                                            "\", its header on row " + std::to_string(read.table.header_line) +
+                                            " (line numbers are the sheet's rows)");
+  }
+  return out;
+}
+
+}  // namespace
+
+Comparison compare_file(const input::BeamFile& file, const BeamResult& result, const std::string& path,
+                        const Options& options, const std::string& display) {
+  const std::string name = display.empty() ? path : display;
+  const HeaderTest test = [&](const std::vector<std::string>& cells) { return is_against_header(cells, options); };
+  if (!options.sheet.empty() && sheet::format_of_path(path) == sheet::Format::None) {
+    Comparison out;
+    out.file = name;
+    out.units = result.units;
+    out.errors.push_back({0, 0, "", "a sheet is named (\"" + input::printable_text(options.sheet, 60) +
+                                        "\"), but this is not an .xlsx or .ods file"});
+    return out;
+  }
+  return compare_read(file, result, read_table_file(path, options.sheet, test, against_header_needs(), options.limits),
+                      name, options);
+}
+
+Comparison compare_sheet_bytes(const input::BeamFile& file, const BeamResult& result, const std::string& bytes,
+                               sheet::Format format, const std::string& display, const Options& options) {
+  sheet::Limits sl;
+  sl.max_file_bytes = options.limits.max_file_bytes;
+  const sheet::Sheet s = sheet::read_sheet_bytes(bytes, format, options.sheet, sl);
+  CsvRead read;
+  if (!s.ok()) read.errors.push_back({0, 0, "", s.error});
+  else
+    read = table_from_sheet(
+        s, [&](const std::vector<std::string>& cells) { return is_against_header(cells, options); },
+        against_header_needs(), options.limits);
+  return compare_read(file, result, std::move(read), display, options);
 }
 
 }  // namespace trivet::compare::against

@@ -1,7 +1,9 @@
 // trivet: comparing another program's exported results with the consensus
 // of the methods (`trivet check beam.json --against results.csv`).
 //
-// The exported file is CSV (RFC 4180). Its kind is told from its header:
+// The exported file is CSV (RFC 4180), or a sheet of an .xlsx or .ods file
+// read into the same rows of text cells (sheet.h, table_from_sheet). Its
+// kind is told from its header:
 //   stations:  `x` (global position) or `span` (1-based) with `x_local`,
 //              and any of `shear`, `moment`, `deflection`;
 //   reactions: `support` (a node label such as "B", or a 1-based node
@@ -33,12 +35,14 @@
 #pragma once
 
 #include <cstddef>
+#include <functional>
 #include <map>
 #include <optional>
 #include <string>
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "harness/compare/sheet.h"
 #include "harness/input/reader.h"
 
 namespace trivet::compare::against {
@@ -51,7 +55,11 @@ struct Error {
   std::size_t column = 0;   // 1-based field number; 0: the line as a whole
   std::string column_name;  // the header's name of that column, when known
   std::string reason;
+  // From a spreadsheet: `line` is the sheet's row and `column` its column
+  // (written as letters).
+  bool in_sheet = false;
   // "results.csv: line 4, column 2 (moment): not a number (got \"1.2.3\")"
+  // "results.xlsx: row 4, column C (moment): ..."
   // "results.csv: line 1: no column to compare: ..."; "results.csv: ..."
   std::string format(const std::string& file) const;
 };
@@ -78,6 +86,10 @@ struct CsvTable {
   char separator = ',';  // as found or given
   char decimal = '.';    // numbers with a decimal comma are stored with a point
   std::size_t header_line = 0;
+  // Read from a spreadsheet: the sheet's name, and the sheet's column
+  // (1-based) of each column of the table. Empty for CSV.
+  std::string sheet;
+  std::vector<std::size_t> sheet_columns;
   std::vector<std::string> header;
   std::vector<CsvRow> rows;
 };
@@ -100,6 +112,34 @@ struct CsvRead {
 CsvRead parse_csv_text(const std::string& text, const CsvLimits& limits = {});
 // The same from a file; a file over limits.max_file_bytes is refused.
 CsvRead read_csv_file(const std::string& path, const CsvLimits& limits = {});
+
+// ---------------------------------------------------------------------------
+// Spreadsheets (.xlsx, .ods; sheet.h reads the sheet).
+
+// Tells a header row: given the row's cells from its first to its last
+// non-empty one, trimmed.
+using HeaderTest = std::function<bool(const std::vector<std::string>& cells)>;
+
+// A sheet's table as the CSV reader gives one: the header is the first row
+// that `is_header` accepts (rows above it, such as titles, are skipped; when
+// none does, an error that says what a header needs: `header_needs`, e.g.
+// "a cell x, span or support"). The table spans the header's columns from
+// its first to its last named one; cells outside them are not read, a
+// column without a name inside them must be empty, and rows that are empty
+// within them are skipped. Numbers come as the shortest text of their stored
+// value, so they read back to the same double.
+CsvRead table_from_sheet(const sheet::Sheet& s, const HeaderTest& is_header, const std::string& header_needs,
+                         const CsvLimits& limits = {});
+// A table from a file: a sheet (`sheet_name`, empty: the first) of an .xlsx
+// or .ods file (by its name's ending), else CSV. Errors of a spreadsheet
+// name its row and column.
+CsvRead read_table_file(const std::string& path, const std::string& sheet_name, const HeaderTest& is_header,
+                        const std::string& header_needs, const CsvLimits& limits = {});
+// The bare name of a header cell: without a unit in brackets at its end
+// ("Defl [mm]" -> "Defl"), lower case.
+std::string header_name(const std::string& cell);
+// Errors of a table read from a sheet: columns of the table to the sheet's.
+void place_in_sheet(std::vector<Error>& errors, const CsvTable& table);
 
 // ---------------------------------------------------------------------------
 // Options: how the other program wrote its file.
@@ -129,6 +169,8 @@ struct Options {
   // Empty: the beam file's claims tolerance (default 1% of the largest
   // magnitude of the kind). An absolute tolerance is in the beam file's units.
   std::optional<input::Tolerance> tolerance;
+  // The sheet of an .xlsx or .ods file (--their-sheet); empty: the first.
+  std::string sheet;
   // The load case or combination compared; empty: the beam's only one (an error if several).
   std::string load_case;
   CsvLimits limits;
@@ -146,6 +188,9 @@ struct Options {
 //   reaction-moment-sign  counter-clockwise-positive | clockwise-positive
 //   tolerance        "1%" or an absolute value in the beam file's units
 //   case             a load case or combination name
+//   separator        comma | semicolon | tab
+//   decimal          point | comma
+//   sheet            the name of a sheet of an .xlsx or .ods file
 // Returns an empty string when set, else the reason it is refused.
 std::string set_option(Options& options, const std::string& name, const std::string& value);
 // The names set_option knows, in that order.
@@ -247,7 +292,12 @@ struct Comparison {
 Comparison compare_table(const input::BeamFile& file, const BeamResult& result,
                          const CsvTable& table, const std::string& display,
                          const Options& options = {});
-// Reads `path` and compares it; `display` (default: path) names it.
+// Whether a row of a sheet is the header of an --against table: a cell
+// names a position column (x, span) or a support column, as the options
+// name them.
+bool is_against_header(const std::vector<std::string>& cells, const Options& options = {});
+// Reads `path` (CSV, or .xlsx or .ods by its name's ending) and compares
+// it; `display` (default: path) names it.
 Comparison compare_file(const input::BeamFile& file, const BeamResult& result,
                         const std::string& path, const Options& options = {},
                         const std::string& display = "");
@@ -255,6 +305,9 @@ Comparison compare_file(const input::BeamFile& file, const BeamResult& result,
 Comparison compare_text(const input::BeamFile& file, const BeamResult& result,
                         const std::string& text, const std::string& display,
                         const Options& options = {});
+// The same from the bytes of an .xlsx or .ods file.
+Comparison compare_sheet_bytes(const input::BeamFile& file, const BeamResult& result, const std::string& bytes,
+                               sheet::Format format, const std::string& display, const Options& options = {});
 
 // The factors tried for a units mistake, each with plain words, e.g.
 // {1000, "1000 (N for kN, or mm for m)"}: the products of at most two of

@@ -81,6 +81,9 @@ struct Claim {
   std::string load_case;               // empty: the file's only load set
   double value = 0.0;
   std::optional<Tolerance> tolerance;  // the claim's own
+  // Where a claim from a table of claims (--claims) was read: "claims.csv,
+  // line 4"; empty for the beam file's own claims.
+  std::string source;
 };
 
 // A load factor: one value, or a range [low, high] of which either may govern.

@@ -1,7 +1,9 @@
 // libFuzzer target: one beam file's text through the reader, the whole
 // check with every method, and the JSON, JUnit and console reports (into
 // strings); and the same bytes as another program's CSV export (any
-// separator and decimal mark) compared with a fixed beam (--against). Built with -DTRIVET_FUZZ=ON by clang (scripts/ci-fuzz.sh).
+// separator and decimal mark) compared with a fixed beam (--against), as an
+// .xlsx and as an .ods file (--against), and as a table of claims (CSV,
+// .xlsx, .ods; --claims). Built with -DTRIVET_FUZZ=ON by clang (scripts/ci-fuzz.sh).
 // The limits are small, so that the fuzzer explores the reading and the
 // checking rather than solving huge beams.
 #include <cstddef>
@@ -10,6 +12,7 @@
 #include <string>
 
 #include "harness/compare/against.h"
+#include "harness/compare/claims_table.h"
 #include "harness/compare/compare.h"
 #include "harness/input/reader.h"
 #include "reports/reports.h"
@@ -62,5 +65,23 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
   const compare::against::Comparison cmp = compare::against::compare_text(fixed, fixed_result, text, "fuzz.csv", ao);
   for (const auto& e : cmp.errors)
     if (e.reason.empty()) __builtin_trap();
+
+  // The bytes as a spreadsheet export, and as a table of claims.
+  for (const auto format : {compare::sheet::Format::Xlsx, compare::sheet::Format::Ods}) {
+    const compare::against::Comparison s = compare::against::compare_sheet_bytes(fixed, fixed_result, text, format, "fuzz", ao);
+    for (const auto& e : s.errors)
+      if (e.reason.empty()) __builtin_trap();
+    const compare::claims_table::Read c = compare::claims_table::read_sheet_bytes(fixed, text, format, "fuzz");
+    for (const auto& e : c.errors)
+      if (e.reason.empty()) __builtin_trap();
+    if (!c.ok() && !c.claims.empty()) __builtin_trap();
+  }
+  input::BeamFile with_claims = fixed;
+  compare::claims_table::merge(with_claims, compare::claims_table::read_text(fixed, text, "fuzz.csv"));
+  const compare::BeamResult claimed = compare::check(with_claims, opt);
+  // A table with errors makes the beam invalid; one without adds its claims, each evaluated or with its reason.
+  if (!with_claims.ok() && claimed.status != compare::BeamStatus::Invalid) __builtin_trap();
+  for (const auto& c : claimed.claims)
+    if (!c.evaluated && c.reason.empty()) __builtin_trap();
   return 0;
 }
