@@ -45,6 +45,22 @@ void compare_envelopes(LoadSet& set, double agreement);
 // `side_by_side`: the methods' direct solves run in threads of their own
 // (a long beam); the results are the same either way.
 void second_route(LoadSet& set, const std::vector<const Method*>& methods, double agreement, bool side_by_side);
+// What the second route checks of an envelope load set: each span's largest
+// and smallest moment and largest deflection (where the consensus extremes
+// are), and each support's (or spring's) largest and smallest reaction.
+struct RouteItem {
+  RouteCheck check;         // quantity, where, x and the envelope's value
+  Kind kind = Kind::Moment;
+  bool node = false;        // a reaction (index: the node); else a span's (index: the span)
+  std::size_t index = 0;
+  double local = 0;         // in the span
+  bool deflection = false;  // a span's deflection; else its moment
+  bool want_max = true;     // the largest value governs (else the smallest)
+};
+std::vector<RouteItem> route_items(const LoadSet& set);
+// A method's solve for the second route: an exception other than running
+// out of memory is the method's failure (internal error), not the run's.
+Solution solve_guarded(const Method& method, const Beam& beam, const std::vector<Station>& stations);
 // After set.second_route is filled (each check's `holds` set): the load set
 // disagrees with the worst check that fails, in words naming the governing
 // `what` ("arrangement", "position").

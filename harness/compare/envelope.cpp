@@ -1048,59 +1048,20 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
   const M& model = *lead->envelope_model;
   const Beam& beam = set.beam;
 
-  // What the envelope reports as governing, and the arrangement (with its
-  // factors) that governs it in the lead method's model.
-  struct Item {
-    RouteCheck check;
-    Kind kind = Kind::Moment;
-    bool node = false;
-    std::size_t index = 0;  // span or node
-    double local = 0;
+  // What the envelope reports as governing (route_items), and the
+  // arrangement (with its factors) that governs it in the lead method's model.
+  struct Item : RouteItem {
     M::What what = M::kMoment;
     std::size_t arrangement = 0;
   };
   std::vector<Item> items;
   std::vector<char> wants_max;  // per item: the largest value governs (else the smallest)
-  double x0 = 0;
-  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
-    const SpanExtremes& e = set.extremes[s];
-    const double L = beam.spans[s].length;
-    struct Spec { const char* q; double v, x; M::What w; bool want_max; Kind k; };
-    const Spec specs[] = {{"max_moment", e.max_moment, e.max_moment_x, M::kMoment, true, Kind::Moment},
-                          {"min_moment", e.min_moment, e.min_moment_x, M::kMoment, false, Kind::Moment},
-                          {"max_deflection", e.max_deflection, e.max_deflection_x, M::kDeflection, e.max_deflection >= 0,
-                           Kind::Deflection}};
-    for (const Spec& sp : specs) {
-      Item it;
-      it.check.quantity = sp.q;
-      it.check.where = "span " + std::to_string(s + 1);
-      it.check.x = sp.x;
-      it.check.envelope = sp.v;
-      it.kind = sp.k;
-      it.index = s;
-      it.local = std::min(std::max(sp.x - x0, 0.0), L);
-      it.what = sp.w;
-      items.push_back(std::move(it));
-      wants_max.push_back(sp.want_max);
-    }
-    x0 += L;
-  }
-  for (std::size_t j = 0; j < beam.node_count(); ++j) {
-    const SupportType t = beam.supports[j].type;
-    if (!restrains_deflection(t) && t != SupportType::Spring) continue;
-    for (int side = 0; side < 2; ++side) {
-      Item it;
-      it.check.quantity = side ? "reaction_min" : "reaction_max";
-      it.check.where = "node " + beam.labels[j];
-      it.check.x = beam.node_x(j);
-      const Bound& b = set.consensus_envelope.reaction[j];
-      it.check.envelope = side ? b.min : b.max;
-      it.kind = Kind::Reaction;
-      it.node = true;
-      it.index = j;
-      items.push_back(std::move(it));
-      wants_max.push_back(side == 0);
-    }
+  for (RouteItem& ri : route_items(set)) {
+    Item it;
+    static_cast<RouteItem&>(it) = std::move(ri);
+    it.what = it.deflection ? M::kDeflection : M::kMoment;
+    wants_max.push_back(it.want_max);
+    items.push_back(std::move(it));
   }
 
   // Each item's arrangement in the lead model, worked out a block of items
@@ -1179,16 +1140,7 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     const Beam ab = model.arrangement_beam(*choices[k]);
     for (std::size_t mi = 0; mi < methods.size(); ++mi) {
       Read& rd = reads[mi];
-      Solution sol;
-      try {
-        sol = methods[mi]->solve(ab, st);
-      } catch (const std::bad_alloc&) {
-        throw;
-      } catch (const std::exception& e) {
-        sol.status = MethodStatus::Failed;
-        sol.reason = std::string("internal error: ") + e.what();
-        sol.reason_id = reason_id::kInternal;
-      }
+      const Solution sol = solve_guarded(*methods[mi], ab, st);
       const bool ok = sol.status == MethodStatus::Ok && sol.at && sol.nodes.size() == beam.node_count();
       for (std::size_t i : uses[k]) {
         if (!ok) {
@@ -1247,6 +1199,67 @@ void second_route(LoadSet& set, const std::vector<const Method*>& methods, doubl
     set.second_route.push_back(std::move(rc));
   }
   settle_second_route(set, "arrangement");
+}
+
+Solution solve_guarded(const Method& method, const Beam& beam, const std::vector<Station>& stations) {
+  Solution sol;
+  try {
+    sol = method.solve(beam, stations);
+  } catch (const std::bad_alloc&) {
+    throw;
+  } catch (const std::exception& e) {
+    sol.status = MethodStatus::Failed;
+    sol.reason = std::string("internal error: ") + e.what();
+    sol.reason_id = reason_id::kInternal;
+  }
+  return sol;
+}
+
+std::vector<RouteItem> route_items(const LoadSet& set) {
+  std::vector<RouteItem> items;
+  const Beam& beam = set.beam;
+  double x0 = 0;
+  for (std::size_t s = 0; s < beam.spans.size() && s < set.extremes.size(); ++s) {
+    const SpanExtremes& e = set.extremes[s];
+    const double L = beam.spans[s].length;
+    struct Spec { const char* q; double v, x; bool deflection, want_max; Kind k; };
+    const Spec specs[] = {{"max_moment", e.max_moment, e.max_moment_x, false, true, Kind::Moment},
+                          {"min_moment", e.min_moment, e.min_moment_x, false, false, Kind::Moment},
+                          {"max_deflection", e.max_deflection, e.max_deflection_x, true, e.max_deflection >= 0,
+                           Kind::Deflection}};
+    for (const Spec& sp : specs) {
+      RouteItem it;
+      it.check.quantity = sp.q;
+      it.check.where = "span " + std::to_string(s + 1);
+      it.check.x = sp.x;
+      it.check.envelope = sp.v;
+      it.kind = sp.k;
+      it.index = s;
+      it.local = std::min(std::max(sp.x - x0, 0.0), L);
+      it.deflection = sp.deflection;
+      it.want_max = sp.want_max;
+      items.push_back(std::move(it));
+    }
+    x0 += L;
+  }
+  for (std::size_t j = 0; j < beam.node_count() && j < set.consensus_envelope.reaction.size(); ++j) {
+    const SupportType t = beam.supports[j].type;
+    if (!restrains_deflection(t) && t != SupportType::Spring) continue;
+    for (int side = 0; side < 2; ++side) {
+      RouteItem it;
+      it.check.quantity = side ? "reaction_min" : "reaction_max";
+      it.check.where = "node " + beam.labels[j];
+      it.check.x = beam.node_x(j);
+      const Bound& b = set.consensus_envelope.reaction[j];
+      it.check.envelope = side ? b.min : b.max;
+      it.kind = Kind::Reaction;
+      it.node = true;
+      it.index = j;
+      it.want_max = side == 0;
+      items.push_back(std::move(it));
+    }
+  }
+  return items;
 }
 
 void settle_second_route(LoadSet& set, const char* what) {

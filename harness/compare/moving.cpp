@@ -296,32 +296,28 @@ double MovingModel::influence_value(const std::vector<double>& line, double x, b
   return cubic(cheb().fit(&line[4 * j]), std::min(1.0, std::max(-1.0, (x - pm) / ph)));
 }
 
+Bound MovingModel::with_fixed(Bound b, double fixed) const {
+  if (factor_ < 0) {
+    std::swap(b.max, b.min);
+    std::swap(b.max_by, b.min_by);
+  }
+  b.max = fixed + factor_ * b.max;
+  b.min = fixed + factor_ * b.min;
+  return b;
+}
+
 Bound MovingModel::at(std::size_t span, double local, bool after, What what) const {
   bool on_grid = false;
   for (const Piece& pc : pieces_)
     if (pc.span == span && (same(local, pc.lo) || same(local, pc.hi))) on_grid = true;
   if (!on_grid) return off_grid(span, local, after, what);
-  Bound b = train_bound(influence(span, local, after, what), pieces_, *table_);
-  const double f = pick(fixed_.at(span, local, after), what);
-  if (factor_ < 0) {
-    std::swap(b.max, b.min);
-    std::swap(b.max_by, b.min_by);
-  }
-  b.max = f + factor_ * b.max;
-  b.min = f + factor_ * b.min;
-  return b;
+  return with_fixed(train_bound(influence(span, local, after, what), pieces_, *table_),
+                    pick(fixed_.at(span, local, after), what));
 }
 
 Bound MovingModel::reaction(std::size_t node) const {
-  Bound b = train_bound(reaction_influence(node), pieces_, *table_);
-  const double f = node < fixed_reactions_.size() ? fixed_reactions_[node] : 0.0;
-  if (factor_ < 0) {
-    std::swap(b.max, b.min);
-    std::swap(b.max_by, b.min_by);
-  }
-  b.max = f + factor_ * b.max;
-  b.min = f + factor_ * b.min;
-  return b;
+  return with_fixed(train_bound(reaction_influence(node), pieces_, *table_),
+                    node < fixed_reactions_.size() ? fixed_reactions_[node] : 0.0);
 }
 
 Bound MovingModel::off_grid(std::size_t span, double local, bool after, What what) const {
@@ -357,15 +353,7 @@ Bound MovingModel::off_grid(std::size_t span, double local, bool after, What wha
       for (std::size_t k = 0; k < 4; ++k) line.push_back(pick(samples_[4 * j + k].at(span, local, after), what));
     }
   }
-  Bound b = train_bound(line, pieces, table_for(pieces));
-  const double f = pick(fixed_.at(span, local, after), what);
-  if (factor_ < 0) {
-    std::swap(b.max, b.min);
-    std::swap(b.max_by, b.min_by);
-  }
-  b.max = f + factor_ * b.max;
-  b.min = f + factor_ * b.min;
-  return b;
+  return with_fixed(train_bound(line, pieces, table_for(pieces)), pick(fixed_.at(span, local, after), what));
 }
 
 Beam MovingModel::placed_beam(const Governs& g) const {
@@ -534,62 +522,33 @@ void moving_second_route(LoadSet& set, const std::vector<const Method*>& methods
   if (!lead || set.extremes.size() != set.beam.spans.size()) return;
   const M& model = *lead->moving_model;
   const Beam& beam = set.beam;
-  struct Item {
-    RouteCheck check;
-    Kind kind = Kind::Moment;
-    bool node = false;
-    std::size_t index = 0;
-    double local = 0;
+  // What the envelope reports as governing (route_items); the extremes are
+  // read at stations, so each is taken at the station of its span nearest
+  // it, where the lead model says where the train stands.
+  struct Item : RouteItem {
     bool after = false;
     M::What what = M::kMoment;
     std::shared_ptr<const Governs> by;
   };
   std::vector<Item> items;
-  for (std::size_t s = 0; s < beam.spans.size(); ++s) {
-    const SpanExtremes& e = set.extremes[s];
-    struct Spec { const char* q; double v, x; M::What w; bool want_max; Kind k; };
-    const Spec specs[] = {{"max_moment", e.max_moment, e.max_moment_x, M::kMoment, true, Kind::Moment},
-                          {"min_moment", e.min_moment, e.min_moment_x, M::kMoment, false, Kind::Moment},
-                          {"max_deflection", e.max_deflection, e.max_deflection_x, M::kDeflection, e.max_deflection >= 0,
-                           Kind::Deflection}};
-    for (const Spec& sp : specs) {
-      // The station of the span nearest the extreme (the extremes are read at stations).
+  for (RouteItem& ri : route_items(set)) {
+    Item it;
+    static_cast<RouteItem&>(it) = std::move(ri);
+    if (it.node) {
+      const Bound b = model.reaction(it.index);
+      it.by = it.want_max ? b.max_by : b.min_by;
+    } else {
       const Station* best = nullptr;
       for (const auto& st : set.stations)
-        if (st.span == s && (!best || std::abs(st.x - sp.x) < std::abs(best->x - sp.x))) best = &st;
+        if (st.span == it.index && (!best || std::abs(st.x - it.check.x) < std::abs(best->x - it.check.x))) best = &st;
       if (!best) continue;
-      Item it;
-      it.check.quantity = sp.q;
-      it.check.where = "span " + std::to_string(s + 1);
-      it.check.x = sp.x;
-      it.check.envelope = sp.v;
-      it.kind = sp.k;
-      it.index = s;
       it.local = best->local;
       it.after = best->after;
-      it.what = sp.w;
-      const Bound b = model.at(s, best->local, best->after, sp.w);
-      it.by = sp.want_max ? b.max_by : b.min_by;
-      items.push_back(std::move(it));
+      it.what = it.deflection ? M::kDeflection : M::kMoment;
+      const Bound b = model.at(it.index, best->local, best->after, it.what);
+      it.by = it.want_max ? b.max_by : b.min_by;
     }
-  }
-  for (std::size_t j = 0; j < beam.node_count(); ++j) {
-    const SupportType t = beam.supports[j].type;
-    if (!restrains_deflection(t) && t != SupportType::Spring) continue;
-    const Bound b = model.reaction(j);
-    for (int side = 0; side < 2; ++side) {
-      Item it;
-      it.check.quantity = side ? "reaction_min" : "reaction_max";
-      it.check.where = "node " + beam.labels[j];
-      it.check.x = beam.node_x(j);
-      const Bound& c = set.consensus_envelope.reaction[j];
-      it.check.envelope = side ? c.min : c.max;
-      it.kind = Kind::Reaction;
-      it.node = true;
-      it.index = j;
-      it.by = side ? b.min_by : b.max_by;
-      items.push_back(std::move(it));
-    }
+    items.push_back(std::move(it));
   }
   // Each distinct position solved once by every method.
   std::map<std::tuple<int, double, bool>, std::vector<std::size_t>> positions;
@@ -603,15 +562,7 @@ void moving_second_route(LoadSet& set, const std::vector<const Method*>& methods
     const Beam pb = model.placed_beam(governs_of(items[uses.front()].by));
     const std::vector<Station> st = build_stations(pb, 1);
     for (std::size_t mi = 0; mi < methods.size(); ++mi) {
-      Solution sol;
-      try {
-        sol = methods[mi]->solve(pb, st);
-      } catch (const std::bad_alloc&) {
-        throw;
-      } catch (const std::exception& e) {
-        sol.status = MethodStatus::Failed;
-        sol.reason = std::string("internal error: ") + e.what();
-      }
+      const Solution sol = solve_guarded(*methods[mi], pb, st);
       const bool ok = sol.status == MethodStatus::Ok && sol.at && sol.nodes.size() == beam.node_count();
       for (std::size_t i : uses) {
         Item& it = items[i];

@@ -92,6 +92,9 @@ class MovingModel {
   };
   Bound train_bound(const std::vector<double>& line, const std::vector<Piece>& pieces, const Table& table) const;
   Table table_for(const std::vector<Piece>& pieces) const;
+  // The fixed loads' value plus the factor times the train's bound (its
+  // ends swapped for a negative factor).
+  Bound with_fixed(Bound train, double fixed) const;
   // The line at a point that is no piece end: the pieces with the one that
   // holds it split there, and the values of the unit loads of the new pieces.
   Bound off_grid(std::size_t span, double local, bool after, What what) const;
