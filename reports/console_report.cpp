@@ -103,14 +103,14 @@ std::string sig6(double v) {
 }
 }  // namespace
 
-LimitsBrief limits_brief(const LoadSet& set) {
+LimitsBrief limits_brief(const LoadSet& set, double factor) {
   LimitsBrief b;
   double largest = 0;
   for (const auto& d : set.deflection_checks) {
     b.over += !d.holds;
     largest = std::max(largest, std::max(std::abs(d.deflection), d.allowed));
   }
-  b.decimals = decimals_for(largest) + 1;
+  b.decimals = decimals_for(largest * std::abs(factor)) + 1;
   return b;
 }
 
@@ -125,20 +125,22 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     out << "\n";
     return;
   }
-  const std::string F = b.units.force, L = b.units.length;
-  const std::string FL = F + "*" + L;
+  // Every value in its display unit (display_units.h); the JSON keeps the file's.
+  const DisplayUnits u = display_units(b.units, opt.show);
+  const std::string F = u.force.label, L = u.length.label, FL = u.moment.label, D = u.deflection.label;
   for (const auto& w : b.warnings) out << "  " << paint("warning: " + w, kYellow, opt.color) << "\n";
   // Each span's largest deflection against its limit (README, "Deflection
   // limits"); on a long beam only the spans over it, and a count.
   auto limits = [&](const LoadSet& set) {
     if (set.deflection_checks.empty()) return;
-    const auto [over, dd] = limits_brief(set);
+    const auto [over, dd] = limits_brief(set, u.deflection.factor);
     const bool cut = !opt.all_rows && set.deflection_checks.size() > opt.max_rows;
     Table t;
-    t.head = {"span", "limit", "max deflection [" + L + "]", "at x [" + L + "]", "allowed [" + L + "]", "span/deflection", "holds"};
+    t.head = {"span", "limit", "max deflection [" + D + "]", "at x [" + L + "]", "allowed [" + D + "]", "span/deflection", "holds"};
     for (const auto& d : set.deflection_checks) {
       if (cut && d.holds) continue;
-      t.rows.push_back({std::to_string(d.span + 1), d.limit, fixed(d.deflection, dd), fixed(d.x, 2), fixed(d.allowed, dd),
+      t.rows.push_back({std::to_string(d.span + 1), d.limit, fixed(u.deflection(d.deflection), dd), fixed(u.length(d.x), 2),
+                        fixed(u.deflection(d.allowed), dd),
                         std::isfinite(d.ratio) ? fixed(d.ratio, 0) : "-",
                         d.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
     }
@@ -148,7 +150,8 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     if (!t.rows.empty()) t.print(out, "  ");
   };
   for (const auto& set : b.sets) {
-    out << "  load set: " << set.name << "   units: " << F << ", " << L << "\n";
+    out << "  load set: " << set.name << "   units: force " << F << ", moment " << FL << ", x " << L << ", deflection " << D
+        << " (file: " << b.units.force << ", " << b.units.length << ")\n";
     out << "  methods:";
     for (std::size_t i = 0; i < set.methods.size(); ++i) {
       const auto& m = set.methods[i];
@@ -190,7 +193,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       if (set.moving && cb.factors.empty()) {
         out << "  moving load " << set.name << ":";
         for (const auto& pt : set.moving->points)
-          out << " " << input::format_number(pt.P) << " " << F << " at " << input::format_number(pt.offset) << " " << L << ";";
+          out << " " << shown_number(u.force(pt.P)) << " " << F << " at " << shown_number(u.length(pt.offset)) << " " << L << ";";
         out << (set.moving->both_directions ? " running either way" : " running forward only");
       } else {
         out << "  combination " << set.name << ":";
@@ -221,8 +224,8 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
             << sci(worst) << " (of the largest value)\n";
       }
       const Envelope& e = set.consensus_envelope;
-      const int dm = decimals_for(set.scale[static_cast<int>(Kind::Moment)]);
-      const int dr = decimals_for(set.scale[static_cast<int>(Kind::Reaction)]);
+      const int dm = decimals_for(u.moment(set.scale[static_cast<int>(Kind::Moment)]));
+      const int dr = decimals_for(u.force(set.scale[static_cast<int>(Kind::Reaction)]));
       Table t;
       t.head = {"node", "reaction max [" + F + "]", "governed by", "reaction min [" + F + "]", "governed by"};
       const std::size_t n = e.reaction.size();
@@ -232,8 +235,8 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
           t.rows.push_back({"  ... " + std::to_string(n - opt.max_rows) + " nodes not shown ..."});
           i = n - opt.max_rows / 2;
         }
-        t.rows.push_back({set.beam.labels[i], fixed(e.reaction[i].max, dr), describe(governs_of(e.reaction[i].max_by), cb),
-                          fixed(e.reaction[i].min, dr), describe(governs_of(e.reaction[i].min_by), cb)});
+        t.rows.push_back({set.beam.labels[i], fixed(u.force(e.reaction[i].max), dr), describe(governs_of(e.reaction[i].max_by), cb),
+                          fixed(u.force(e.reaction[i].min), dr), describe(governs_of(e.reaction[i].min_by), cb)});
       }
       t.print(out, "  ");
       Table x;
@@ -244,8 +247,9 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
           i = set.extremes.size() - opt.max_rows / 2;
         }
         const SpanExtremes& se = set.extremes[i];
-        x.rows.push_back({std::to_string(i + 1), fixed(se.max_moment, dm), fixed(se.max_moment_x, 2), se.max_moment_by,
-                          fixed(se.min_moment, dm), fixed(se.min_moment_x, 2), se.min_moment_by});
+        x.rows.push_back({std::to_string(i + 1), fixed(u.moment(se.max_moment), dm), fixed(u.length(se.max_moment_x), 2),
+                          se.max_moment_by, fixed(u.moment(se.min_moment), dm), fixed(u.length(se.min_moment_x), 2),
+                          se.min_moment_by});
       }
       out << "\n";
       x.print(out, "  ");
@@ -265,16 +269,16 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       }
     out << "  equilibrium (worst method): vertical forces " << sci(worst_f) << ", moments about the left end " << sci(worst_m) << "\n";
 
-    const int dm = decimals_for(set.scale[static_cast<int>(Kind::Moment)]);
-    const int dr = decimals_for(std::max(set.scale[static_cast<int>(Kind::Reaction)], 1e-300));
-    const int dd = decimals_for(set.scale[static_cast<int>(Kind::Deflection)]);
+    const int dm = decimals_for(u.moment(set.scale[static_cast<int>(Kind::Moment)]));
+    const int dr = decimals_for(std::max(u.force(set.scale[static_cast<int>(Kind::Reaction)]), 1e-300));
+    const int dd = decimals_for(u.deflection(set.scale[static_cast<int>(Kind::Deflection)]));
     const int dt = decimals_for(set.scale[static_cast<int>(Kind::Rotation)]);
     double xmax = 0;
-    for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(n.x));
+    for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(u.length(n.x)));
     const int dx = std::max(2, decimals_for(xmax) - 1);
     Table t;
     t.head = {"node", "x [" + L + "]", "M left [" + FL + "]", "M right [" + FL + "]", "reaction [" + F + "]",
-              "reaction moment [" + FL + "]", "deflection [" + L + "]", "rotation [rad]"};
+              "reaction moment [" + FL + "]", "deflection [" + D + "]", "rotation [rad]"};
     const std::size_t n = set.consensus_nodes.size();
     const bool cut = !opt.all_rows && n > opt.max_rows;
     for (std::size_t i = 0; i < n; ++i) {
@@ -283,9 +287,9 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
         i = n - opt.max_rows / 2;
       }
       const NodeResult& c = set.consensus_nodes[i];
-      t.rows.push_back({set.beam.labels[i], fixed(c.x, dx), c.moment_left ? fixed(*c.moment_left, dm) : "-",
-                        c.moment_right ? fixed(*c.moment_right, dm) : "-", fixed(c.reaction_force, dr),
-                        fixed(c.reaction_moment, dm), fixed(c.deflection, dd),
+      t.rows.push_back({set.beam.labels[i], fixed(u.length(c.x), dx), c.moment_left ? fixed(u.moment(*c.moment_left), dm) : "-",
+                        c.moment_right ? fixed(u.moment(*c.moment_right), dm) : "-", fixed(u.force(c.reaction_force), dr),
+                        fixed(u.moment(c.reaction_moment), dm), fixed(u.deflection(c.deflection), dd),
                         i == 0 ? fixed(c.rotation_right, dt)
                                : (std::abs(c.rotation_left - c.rotation_right) > 1e-9 * set.scale[4]
                                       ? fixed(c.rotation_left, dt) + " / " + fixed(c.rotation_right, dt)
@@ -295,7 +299,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     // Span extremes.
     Table e;
     e.head = {"span", "max sagging [" + FL + "]", "at x [" + L + "]", "max hogging [" + FL + "]", "at x [" + L + "]",
-              "max deflection [" + L + "]", "at x [" + L + "]"};
+              "max deflection [" + D + "]", "at x [" + L + "]"};
     const std::size_t ns = set.extremes.size();
     const bool cut_s = !opt.all_rows && ns > opt.max_rows;
     for (std::size_t i = 0; i < ns; ++i) {
@@ -308,9 +312,10 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       // is none ("-"), not "0.00" at some point.
       const double none = 1e-12 * set.scale[static_cast<int>(Kind::Moment)];
       const bool sag = x.max_moment > none, hog = x.min_moment < -none;
-      e.rows.push_back({std::to_string(i + 1), sag ? fixed(x.max_moment, dm) : "-", sag ? fixed(x.max_moment_x, dx) : "",
-                        hog ? fixed(x.min_moment, dm) : "-", hog ? fixed(x.min_moment_x, dx) : "", fixed(x.max_deflection, dd),
-                        fixed(x.max_deflection_x, dx)});
+      e.rows.push_back({std::to_string(i + 1), sag ? fixed(u.moment(x.max_moment), dm) : "-",
+                        sag ? fixed(u.length(x.max_moment_x), dx) : "", hog ? fixed(u.moment(x.min_moment), dm) : "-",
+                        hog ? fixed(u.length(x.min_moment_x), dx) : "", fixed(u.deflection(x.max_deflection), dd),
+                        fixed(u.length(x.max_deflection_x), dx)});
     }
     out << "\n";
     e.print(out, "  ");
@@ -324,9 +329,11 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
         if (x.min_moment < smin->min_moment) smin = &x;
         if (std::abs(x.max_deflection) > std::abs(sdef->max_deflection)) sdef = &x;
       }
-      out << "  whole beam: max sagging " << fixed(smax->max_moment, dm) << " " << FL << " at x = " << fixed(smax->max_moment_x, dx)
-          << ", max hogging " << fixed(smin->min_moment, dm) << " " << FL << " at x = " << fixed(smin->min_moment_x, dx)
-          << ", max deflection " << fixed(sdef->max_deflection, dd) << " " << L << " at x = " << fixed(sdef->max_deflection_x, dx) << "\n";
+      out << "  whole beam: max sagging " << fixed(u.moment(smax->max_moment), dm) << " " << FL << " at x = "
+          << fixed(u.length(smax->max_moment_x), dx) << " " << L << ", max hogging " << fixed(u.moment(smin->min_moment), dm)
+          << " " << FL << " at x = " << fixed(u.length(smin->min_moment_x), dx) << " " << L << ", max deflection "
+          << fixed(u.deflection(sdef->max_deflection), dd) << " " << D << " at x = " << fixed(u.length(sdef->max_deflection_x), dx)
+          << " " << L << "\n";
     }
     out << "\n";
     if (!set.deflection_checks.empty()) {
@@ -352,14 +359,16 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
           default: return Kind::Moment;
         }
       }();
-      const int d = decimals_for(std::max(std::abs(r.claim.value), std::abs(r.computed))) + 1;
       (void)k;
-      std::string where = r.label;
+      const DisplayUnit& cu = u.of(r.claim.quantity);
+      const int d = decimals_for(std::max(std::abs(cu(r.claim.value)), std::abs(cu(r.computed)))) + 1;
+      // A claim at x: its place in the display length unit.
+      std::string where = r.claim.x && !r.claim.node && !r.claim.span ? "x = " + shown_number(u.length(*r.claim.x)) + " " + L
+                                                                      : r.label;
       if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
-      const std::string unit = input::quantity_unit(b.units, r.claim.quantity);
-      c.rows.push_back({std::to_string(i + 1), std::string(input::quantity_name(r.claim.quantity)) + " [" + unit + "]", where,
-                        r.load_case, fixed(r.claim.value, d), r.evaluated ? fixed(r.computed, d) : "-",
-                        r.evaluated ? fixed(r.difference, d) : "-", fixed(r.tolerance, d),
+      c.rows.push_back({std::to_string(i + 1), std::string(input::quantity_name(r.claim.quantity)) + " [" + cu.label + "]", where,
+                        r.load_case, fixed(cu(r.claim.value), d), r.evaluated ? fixed(cu(r.computed), d) : "-",
+                        r.evaluated ? fixed(cu(r.difference), d) : "-", fixed(cu(r.tolerance), d),
                         r.holds ? paint("yes", kGreen, opt.color) : paint("NO", kRed, opt.color)});
       if (sourced) c.rows.back().push_back(r.claim.source.empty() ? "beam file" : r.claim.source);
       if (!r.reason.empty()) c.rows.push_back({"    claim " + std::to_string(i + 1) + ": " + r.reason});

@@ -145,6 +145,13 @@ int rank(BeamStatus s) {
   return 4;
 }
 
+// The display units of a beam in words (display_units.h).
+std::string shown_units_text(const Report& b, const HtmlOptions& opt) {
+  const DisplayUnits u = display_units(b.units, opt.show);
+  return html_escape("force " + u.force.label + ", moment " + u.moment.label + ", x " + u.length.label + ", deflection " +
+                     u.deflection.label + ", rotation rad");
+}
+
 std::string sci(double v) {
   if (!std::isfinite(v)) return "n/a";
   char buf[32];
@@ -306,7 +313,7 @@ struct Writer {
       ro.format = ImageFormat::Svg;
       ro.width = opt.plot_width;
       ro.height = opt.plot_height;
-      PlotData data = thinned(plot_data(b, si), opt.max_points);
+      PlotData data = thinned(plot_data(b, si, opt.show), opt.max_points);
       data.agreement = opt.agreement;
       std::string err;
       const std::string svg = render(data, ro, &err);
@@ -332,13 +339,15 @@ struct Writer {
   // and each span's extremes of moment_max and moment_min, with what
   // governs them (consensus of the methods).
   void envelope_tables(const Report& b, const LoadSet& set) {
-    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
-    const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
-    const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
+    const DisplayUnits u = display_units(b.units, opt.show);
+    const std::string F = html_escape(u.force.label), L = html_escape(u.length.label), FL = html_escape(u.moment.label);
+    const std::string D = html_escape(u.deflection.label);
+    const int dm = decimals_for(u.moment(set.scale[static_cast<std::size_t>(Kind::Moment)]));
+    const int dr = decimals_for(std::max(u.force(set.scale[static_cast<std::size_t>(Kind::Reaction)]), 1e-300));
     const Beam& beam = set.beam;
     const std::size_t nn = beam.node_count();
     std::vector<double> node_x(nn, 0.0);
-    for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + beam.spans[i - 1].length;
+    for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + u.length(beam.spans[i - 1].length);
     const int dx = std::max(2, decimals_for(nn ? node_x[nn - 1] : 1.0) - 1);
     auto governs = [&](const Governs& g) {
       return set.combination ? html_escape(describe(g, *set.combination)) : std::string();
@@ -349,8 +358,8 @@ struct Writer {
         o << "<p class=\"envelope-combination\">Envelope of moving load <b>" << html_escape(set.name) << "</b> over every position";
         o << (set.moving->both_directions ? ", running either way" : ", running forward only") << ": ";
         for (std::size_t k = 0; k < set.moving->points.size(); ++k)
-          o << (k ? "; " : "") << input::format_number(set.moving->points[k].P) << " " << F << " at "
-            << input::format_number(set.moving->points[k].offset) << " " << L;
+          o << (k ? "; " : "") << shown_number(u.force(set.moving->points[k].P)) << " " << F << " at "
+            << shown_number(u.length(set.moving->points[k].offset)) << " " << L;
       } else {
         o << "<p class=\"envelope-combination\">Envelope of combination <b>" << html_escape(set.name) << "</b>: ";
       }
@@ -380,8 +389,8 @@ struct Writer {
         const Support& sup = beam.supports[i];
         if (!(restrains_deflection(sup.type) || sup.type == SupportType::Spring)) continue;
         o << "<tr><td>" << html_escape(i < beam.labels.size() ? beam.labels[i] : input::default_label(i))
-          << "</td><td class=\"n\">" << fixed(node_x[i], dx) << "</td><td class=\"n\">" << fixed(re[i].max, dr)
-          << "</td><td>" << governs(governs_of(re[i].max_by)) << "</td><td class=\"n\">" << fixed(re[i].min, dr) << "</td><td>"
+          << "</td><td class=\"n\">" << fixed(node_x[i], dx) << "</td><td class=\"n\">" << fixed(u.force(re[i].max), dr)
+          << "</td><td>" << governs(governs_of(re[i].max_by)) << "</td><td class=\"n\">" << fixed(u.force(re[i].min), dr) << "</td><td>"
           << governs(governs_of(re[i].min_by)) << "</td></tr>\n";
       }
       o << "</table>\n";
@@ -392,19 +401,19 @@ struct Writer {
         << "]</th><th>governed by</th></tr>\n";
       for (std::size_t i = 0; i < set.extremes.size(); ++i) {
         const SpanExtremes& e = set.extremes[i];
-        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(e.max_moment, dm) << "</td><td class=\"n\">"
-          << fixed(e.max_moment_x, dx) << "</td><td>" << html_escape(e.max_moment_by) << "</td><td class=\"n\">"
-          << fixed(e.min_moment, dm) << "</td><td class=\"n\">" << fixed(e.min_moment_x, dx) << "</td><td>"
+        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(u.moment(e.max_moment), dm) << "</td><td class=\"n\">"
+          << fixed(u.length(e.max_moment_x), dx) << "</td><td>" << html_escape(e.max_moment_by) << "</td><td class=\"n\">"
+          << fixed(u.moment(e.min_moment), dm) << "</td><td class=\"n\">" << fixed(u.length(e.min_moment_x), dx) << "</td><td>"
           << html_escape(e.min_moment_by) << "</td></tr>\n";
       }
       o << "</table>\n";
-      const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
-      o << "<table class=\"envelope-deflections\"><tr><th>span</th><th>largest deflection [" << L << "]</th><th>at x ["
+      const int dd = decimals_for(u.deflection(set.scale[static_cast<std::size_t>(Kind::Deflection)]));
+      o << "<table class=\"envelope-deflections\"><tr><th>span</th><th>largest deflection [" << D << "]</th><th>at x ["
         << L << "]</th><th>governed by</th></tr>\n";
       for (std::size_t i = 0; i < set.extremes.size(); ++i) {
         const SpanExtremes& e = set.extremes[i];
-        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(e.max_deflection, dd) << "</td><td class=\"n\">"
-          << fixed(e.max_deflection_x, dx) << "</td><td>" << html_escape(e.max_deflection_by) << "</td></tr>\n";
+        o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << fixed(u.deflection(e.max_deflection), dd) << "</td><td class=\"n\">"
+          << fixed(u.length(e.max_deflection_x), dx) << "</td><td>" << html_escape(e.max_deflection_by) << "</td></tr>\n";
       }
       o << "</table>\n";
     }
@@ -414,13 +423,15 @@ struct Writer {
   // The second route: each value the envelope reports as governing, and its
   // arrangement solved directly by every method.
   void second_route_table(const Report& b, const LoadSet& set, int dx) {
-    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length);
-    // Each value in its kind's unit, to the digits the kind's largest value needs.
+    const DisplayUnits u = display_units(b.units, opt.show);
+    const std::string L = html_escape(u.length.label);
+    // Each value in its kind's display unit, to the digits the kind's largest value needs.
     auto shown = [&](const RouteCheck& rc, double v) {
       const bool defl = rc.quantity == "max_deflection", react = rc.quantity.rfind("reaction", 0) == 0;
       const Kind k = defl ? Kind::Deflection : react ? Kind::Reaction : Kind::Moment;
-      const int d = decimals_for(std::max(set.scale[static_cast<std::size_t>(k)], 1e-300)) + 2;
-      return fixed(v, d) + " " + (defl ? L : react ? F : F + "*" + L);
+      const DisplayUnit& ku = u.of(k);
+      const int d = decimals_for(std::max(ku(set.scale[static_cast<std::size_t>(k)]), 1e-300)) + 2;
+      return fixed(ku(v), d) + " " + html_escape(ku.label);
     };
     if (set.second_route.empty()) return;
     std::size_t holds = 0;
@@ -438,7 +449,7 @@ struct Writer {
     o << "<th>difference</th><th>holds</th></tr>\n";
     for (const auto& rc : set.second_route) {
       o << "<tr><td>" << html_escape(rc.quantity) << "</td><td>" << html_escape(rc.where) << "</td><td class=\"n\">"
-        << fixed(rc.x, dx) << "</td><td>" << html_escape(rc.arrangement) << "</td><td class=\"n\">"
+        << fixed(u.length(rc.x), dx) << "</td><td>" << html_escape(rc.arrangement) << "</td><td class=\"n\">"
         << shown(rc, rc.envelope) << "</td>";
       for (const auto& m : set.methods) {
         const auto it = std::find_if(rc.values.begin(), rc.values.end(), [&](const auto& p) { return p.first == m.name; });
@@ -502,8 +513,8 @@ struct Writer {
       << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status)) << "</h2>\n";
     if (!b.title.empty()) o << "<p><b>" << html_escape(b.title) << "</b></p>\n";
     o << "<p class=\"muted\">input <code>" << html_escape(b.file) << "</code>, SHA-256 <code>"
-      << html_escape(hash_of(b.file)) << "</code>; units " << html_escape(b.units.force) << ", "
-      << html_escape(b.units.length) << ". <a href=\"#summary\">back to the summary</a></p>\n";
+      << html_escape(hash_of(b.file)) << "</code>; file units " << html_escape(b.units.force) << ", "
+      << html_escape(b.units.length) << "; shown in " << shown_units_text(b, opt) << ". <a href=\"#summary\">back to the summary</a></p>\n";
     if (!b.warnings.empty()) {
       o << "<div class=\"warning beam-warnings\"><b>" << (b.warnings.size() == 1 ? "Warning" : "Warnings")
         << ".</b><ul>\n";
@@ -516,7 +527,9 @@ struct Writer {
       o << "</ul>\n</section>\n";
       return;
     }
-    const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
+    const DisplayUnits u = display_units(b.units, opt.show);
+    const std::string F = html_escape(u.force.label), L = html_escape(u.length.label), FL = html_escape(u.moment.label);
+    const std::string D = html_escape(u.deflection.label);
     for (std::size_t si = 0; si < b.sets.size(); ++si) {
       const LoadSet& set = b.sets[si];
       o << "<h3>Load set " << html_escape(set.name) << ": methods " << st_badge(verdict_name(set.verdict)) << "</h3>\n";
@@ -540,27 +553,32 @@ struct Writer {
         o << "</tr></table>\n";
         if (set.worst) {
           const Worst& w = *set.worst;
-          o << "<p>Worst agreement: " << kind_name(w.kind) << " at " << html_escape(w.where) << ":";
-          const int d = decimals_for(set.scale[static_cast<std::size_t>(w.kind)]) + 2;
+          // A place given by x is written again in the display length unit.
+          const std::string where = w.where.rfind("x = ", 0) == 0 ? "x = " + shown_number(u.length(w.x)) + " " + u.length.label
+                                                                  : w.where;
+          o << "<p>Worst agreement: " << kind_name(w.kind) << " at " << html_escape(where) << ":";
+          const DisplayUnit& wu = u.of(w.kind);
+          const int d = decimals_for(wu(set.scale[static_cast<std::size_t>(w.kind)])) + 2;
           for (std::size_t i = 0; i < w.values.size(); ++i)
-            o << (i ? ", " : " ") << html_escape(w.values[i].first) << " " << fixed(w.values[i].second, d);
+            o << (i ? ", " : " ") << html_escape(w.values[i].first) << " " << fixed(wu(w.values[i].second), d);
+          o << " " << html_escape(wu.label);
           o << ".</p>\n";
         }
       }
       if (!set.consensus_nodes.empty()) {
-        const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
-        const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
-        const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
+        const int dm = decimals_for(u.moment(set.scale[static_cast<std::size_t>(Kind::Moment)]));
+        const int dr = decimals_for(std::max(u.force(set.scale[static_cast<std::size_t>(Kind::Reaction)]), 1e-300));
+        const int dd = decimals_for(u.deflection(set.scale[static_cast<std::size_t>(Kind::Deflection)]));
         const int dt = decimals_for(set.scale[static_cast<std::size_t>(Kind::Rotation)]);
         double xmax = 0;
-        for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(n.x));
+        for (const auto& n : set.consensus_nodes) xmax = std::max(xmax, std::abs(u.length(n.x)));
         const int dx = std::max(2, decimals_for(xmax) - 1);
         const std::size_t n = set.consensus_nodes.size();
         const bool fold_nodes = n > 30;
         if (fold_nodes) o << "<details><summary>Nodes (" << n << ")</summary>\n";
         else o << "<p class=\"muted\">Nodes: consensus of the methods (median).</p>\n";
         o << "<table><tr><th>node</th><th>x [" << L << "]</th><th>M left [" << FL << "]</th><th>M right [" << FL
-          << "]</th><th>reaction [" << F << "]</th><th>reaction moment [" << FL << "]</th><th>deflection [" << L
+          << "]</th><th>reaction [" << F << "]</th><th>reaction moment [" << FL << "]</th><th>deflection [" << D
           << "]</th><th>rotation [rad]</th></tr>\n";
         for (std::size_t i = 0; i < n; ++i) {
           const NodeResult& c = set.consensus_nodes[i];
@@ -568,26 +586,27 @@ struct Writer {
                                       ? fixed(c.rotation_left, dt) + " / " + fixed(c.rotation_right, dt)
                                       : fixed(i == 0 ? c.rotation_right : c.rotation_left, dt);
           o << "<tr><td>" << html_escape(i < set.beam.labels.size() ? set.beam.labels[i] : input::default_label(i))
-            << "</td><td class=\"n\">" << fixed(c.x, dx) << "</td><td class=\"n\">"
-            << (c.moment_left ? fixed(*c.moment_left, dm) : "-") << "</td><td class=\"n\">"
-            << (c.moment_right ? fixed(*c.moment_right, dm) : "-") << "</td><td class=\"n\">"
-            << fixed(c.reaction_force, dr) << "</td><td class=\"n\">" << fixed(c.reaction_moment, dm)
-            << "</td><td class=\"n\">" << fixed(c.deflection, dd) << "</td><td class=\"n\">" << rot << "</td></tr>\n";
+            << "</td><td class=\"n\">" << fixed(u.length(c.x), dx) << "</td><td class=\"n\">"
+            << (c.moment_left ? fixed(u.moment(*c.moment_left), dm) : "-") << "</td><td class=\"n\">"
+            << (c.moment_right ? fixed(u.moment(*c.moment_right), dm) : "-") << "</td><td class=\"n\">"
+            << fixed(u.force(c.reaction_force), dr) << "</td><td class=\"n\">" << fixed(u.moment(c.reaction_moment), dm)
+            << "</td><td class=\"n\">" << fixed(u.deflection(c.deflection), dd) << "</td><td class=\"n\">" << rot << "</td></tr>\n";
         }
         o << "</table>\n";
         if (fold_nodes) o << "</details>\n";
         const std::size_t ns = set.extremes.size();
         if (ns > 30) o << "<details><summary>Span extremes (" << ns << ")</summary>\n";
         o << "<table><tr><th>span</th><th>max sagging [" << FL << "]</th><th>at x [" << L << "]</th><th>max hogging ["
-          << FL << "]</th><th>at x [" << L << "]</th><th>max deflection [" << L << "]</th><th>at x [" << L
+          << FL << "]</th><th>at x [" << L << "]</th><th>max deflection [" << D << "]</th><th>at x [" << L
           << "]</th></tr>\n";
         for (std::size_t i = 0; i < ns; ++i) {
           const SpanExtremes& e = set.extremes[i];
-          o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(e.max_moment, dm) : "-")
-            << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(e.max_moment_x, dx) : "") << "</td><td class=\"n\">"
-            << (e.min_moment < 0 ? fixed(e.min_moment, dm) : "-") << "</td><td class=\"n\">"
-            << (e.min_moment < 0 ? fixed(e.min_moment_x, dx) : "") << "</td><td class=\"n\">"
-            << fixed(e.max_deflection, dd) << "</td><td class=\"n\">" << fixed(e.max_deflection_x, dx) << "</td></tr>\n";
+          o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(u.moment(e.max_moment), dm) : "-")
+            << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(u.length(e.max_moment_x), dx) : "") << "</td><td class=\"n\">"
+            << (e.min_moment < 0 ? fixed(u.moment(e.min_moment), dm) : "-") << "</td><td class=\"n\">"
+            << (e.min_moment < 0 ? fixed(u.length(e.min_moment_x), dx) : "") << "</td><td class=\"n\">"
+            << fixed(u.deflection(e.max_deflection), dd) << "</td><td class=\"n\">" << fixed(u.length(e.max_deflection_x), dx)
+            << "</td></tr>\n";
         }
         o << "</table>\n";
         if (ns > 30) o << "</details>\n";
@@ -598,16 +617,15 @@ struct Writer {
     against_summary(b);
     for (const auto& set : b.sets) {
       if (set.deflection_checks.empty()) continue;
-      const auto [over, dd] = limits_brief(set);
+      const auto [over, dd] = limits_brief(set, u.deflection.factor);
       o << "<h3>Deflection limits, " << html_escape(set.name) << " (" << over << " of " << set.deflection_checks.size()
         << " spans over)</h3>\n";
-      o << "<table><tr><th>span</th><th>limit</th><th>max deflection [" << html_escape(b.units.length)
-        << "]</th><th>at x [" << html_escape(b.units.length) << "]</th><th>allowed [" << html_escape(b.units.length)
-        << "]</th><th>span/deflection</th><th>holds</th></tr>\n";
+      o << "<table><tr><th>span</th><th>limit</th><th>max deflection [" << D << "]</th><th>at x [" << L
+        << "]</th><th>allowed [" << D << "]</th><th>span/deflection</th><th>holds</th></tr>\n";
       for (const auto& d : set.deflection_checks)
         o << "<tr><td class=\"n\">" << d.span + 1 << "</td><td>" << html_escape(d.limit) << "</td><td class=\"n\">"
-          << fixed(d.deflection, dd) << "</td><td class=\"n\">" << fixed(d.x, 2) << "</td><td class=\"n\">"
-          << fixed(d.allowed, dd) << "</td><td class=\"n\">" << (std::isfinite(d.ratio) ? fixed(d.ratio, 0) : "-")
+          << fixed(u.deflection(d.deflection), dd) << "</td><td class=\"n\">" << fixed(u.length(d.x), 2) << "</td><td class=\"n\">"
+          << fixed(u.deflection(d.allowed), dd) << "</td><td class=\"n\">" << (std::isfinite(d.ratio) ? fixed(d.ratio, 0) : "-")
           << "</td><td>" << (d.holds ? st_badge("holds") : st_badge("fails")) << "</td></tr>\n";
       o << "</table>\n";
     }
@@ -621,15 +639,18 @@ struct Writer {
       for (std::size_t i = 0; i < b.claims.size(); ++i) {
         const ClaimResult& r = b.claims[i];
         (void)claim_kind(r.claim.quantity);
-        const int d = decimals_for(std::max(std::abs(r.claim.value), std::abs(r.computed))) + 1;
-        std::string where = r.label;
+        const DisplayUnit& cu = u.of(r.claim.quantity);
+        const int d = decimals_for(std::max(std::abs(cu(r.claim.value)), std::abs(cu(r.computed)))) + 1;
+        // A claim at x: its place in the display length unit.
+        std::string where = r.claim.x && !r.claim.node && !r.claim.span ? "x = " + shown_number(u.length(*r.claim.x)) + " " + u.length.label
+                                                                        : r.label;
         if (r.claim.side != input::Side::Unspecified) where += r.claim.side == input::Side::Left ? " (left)" : " (right)";
-        const std::string unit = input::quantity_unit(b.units, r.claim.quantity);
+        const std::string& unit = cu.label;
         o << "<tr><td class=\"n\">" << i + 1 << "</td><td>" << html_escape(input::quantity_name(r.claim.quantity))
           << " [" << html_escape(unit) << "]</td><td>" << html_escape(where) << "</td><td>" << html_escape(r.load_case)
-          << "</td><td class=\"n\">" << fixed(r.claim.value, d) << "</td><td class=\"n\">"
-          << (r.evaluated ? fixed(r.computed, d) : "-") << "</td><td class=\"n\">"
-          << (r.evaluated ? fixed(r.difference, d) : "-") << "</td><td class=\"n\">" << fixed(r.tolerance, d)
+          << "</td><td class=\"n\">" << fixed(cu(r.claim.value), d) << "</td><td class=\"n\">"
+          << (r.evaluated ? fixed(cu(r.computed), d) : "-") << "</td><td class=\"n\">"
+          << (r.evaluated ? fixed(cu(r.difference), d) : "-") << "</td><td class=\"n\">" << fixed(cu(r.tolerance), d)
           << "</td><td>" << (r.holds ? st_badge("holds") : st_badge("fails")) << "</td>";
         if (sourced) o << "<td>" << html_escape(r.claim.source.empty() ? "beam file" : r.claim.source) << "</td>";
         o << "</tr>\n";
@@ -656,12 +677,13 @@ a[href="#summary"]{display:none}
 
 // The governing values of one load set, in the load set's units: each a
 // row of what, value, where.
-void governing_rows(std::ostream& o, const Report& b, const LoadSet& set) {
-  const std::string F = html_escape(b.units.force), L = html_escape(b.units.length), FL = F + "*" + L;
-  const int dm = decimals_for(set.scale[static_cast<std::size_t>(Kind::Moment)]);
-  const int dv = decimals_for(set.scale[static_cast<std::size_t>(Kind::Shear)]);
-  const int dr = decimals_for(std::max(set.scale[static_cast<std::size_t>(Kind::Reaction)], 1e-300));
-  const int dd = decimals_for(set.scale[static_cast<std::size_t>(Kind::Deflection)]);
+void governing_rows(std::ostream& o, const LoadSet& set, const DisplayUnits& u) {
+  const std::string F = html_escape(u.force.label), L = html_escape(u.length.label), FL = html_escape(u.moment.label);
+  const std::string D = html_escape(u.deflection.label);
+  const int dm = decimals_for(u.moment(set.scale[static_cast<std::size_t>(Kind::Moment)]));
+  const int dv = decimals_for(u.force(set.scale[static_cast<std::size_t>(Kind::Shear)]));
+  const int dr = decimals_for(std::max(u.force(set.scale[static_cast<std::size_t>(Kind::Reaction)]), 1e-300));
+  const int dd = decimals_for(u.deflection(set.scale[static_cast<std::size_t>(Kind::Deflection)]));
   const int dx = 2;
   auto row = [&](const std::string& what, const std::string& value, const std::string& where) {
     o << "<tr><td>" << what << "</td><td class=\"n\">" << value << "</td><td>" << where << "</td></tr>\n";
@@ -678,17 +700,17 @@ void governing_rows(std::ostream& o, const Report& b, const LoadSet& set) {
     const SpanExtremes& c = set.extremes[smin];
     const SpanExtremes& d = set.extremes[sdef];
     auto by = [](const std::string& t) { return t.empty() ? std::string() : "; " + html_escape(t); };
-    row("largest sagging moment [" + FL + "]", a.max_moment > 0 ? fixed(a.max_moment, dm) : "none",
-        a.max_moment > 0 ? "span " + std::to_string(smax + 1) + ", x = " + fixed(a.max_moment_x, dx) + " " + L + by(a.max_moment_by) : "");
-    row("largest hogging moment [" + FL + "]", c.min_moment < 0 ? fixed(c.min_moment, dm) : "none",
-        c.min_moment < 0 ? "span " + std::to_string(smin + 1) + ", x = " + fixed(c.min_moment_x, dx) + " " + L + by(c.min_moment_by) : "");
+    row("largest sagging moment [" + FL + "]", a.max_moment > 0 ? fixed(u.moment(a.max_moment), dm) : "none",
+        a.max_moment > 0 ? "span " + std::to_string(smax + 1) + ", x = " + fixed(u.length(a.max_moment_x), dx) + " " + L + by(a.max_moment_by) : "");
+    row("largest hogging moment [" + FL + "]", c.min_moment < 0 ? fixed(u.moment(c.min_moment), dm) : "none",
+        c.min_moment < 0 ? "span " + std::to_string(smin + 1) + ", x = " + fixed(u.length(c.min_moment_x), dx) + " " + L + by(c.min_moment_by) : "");
     std::string ratio;
     for (const auto& dc : set.deflection_checks)
       if (dc.span == sdef)
         ratio = "; span/deflection " + (std::isfinite(dc.ratio) ? fixed(dc.ratio, 0) : std::string("-")) + " against " +
                 html_escape(dc.limit) + (dc.holds ? " (holds)" : " (fails)");
-    row("largest deflection [" + L + "]", fixed(d.max_deflection, dd),
-        "span " + std::to_string(sdef + 1) + ", x = " + fixed(d.max_deflection_x, dx) + " " + L + by(d.max_deflection_by) + ratio);
+    row("largest deflection [" + D + "]", fixed(u.deflection(d.max_deflection), dd),
+        "span " + std::to_string(sdef + 1) + ", x = " + fixed(u.length(d.max_deflection_x), dx) + " " + L + by(d.max_deflection_by) + ratio);
   }
   // Shear and reactions.
   if (set.envelope) {
@@ -700,13 +722,13 @@ void governing_rows(std::ostream& o, const Report& b, const LoadSet& set) {
         if (std::abs(v) > best) { best = std::abs(v); k = i; }
     if (best >= 0) {
       const double v = std::abs(e.shear[k].max) >= std::abs(e.shear[k].min) ? e.shear[k].max : e.shear[k].min;
-      row("largest shear [" + F + "]", fixed(v, dv), "x = " + fixed(set.stations[k].x, dx) + " " + L);
+      row("largest shear [" + F + "]", fixed(u.force(v), dv), "x = " + fixed(u.length(set.stations[k].x), dx) + " " + L);
     }
     for (std::size_t j = 0; j < e.reaction.size() && j < set.beam.supports.size(); ++j) {
       const SupportType t = set.beam.supports[j].type;
       if (!restrains_deflection(t) && t != SupportType::Spring) continue;
       row("reaction at node " + html_escape(set.beam.labels[j]) + ", largest / smallest [" + F + "]",
-          fixed(e.reaction[j].max, dr) + " / " + fixed(e.reaction[j].min, dr),
+          fixed(u.force(e.reaction[j].max), dr) + " / " + fixed(u.force(e.reaction[j].min), dr),
           e.reaction[j].min < 0 ? "uplift: the support must hold the beam down" : "");
     }
   } else {
@@ -715,17 +737,17 @@ void governing_rows(std::ostream& o, const Report& b, const LoadSet& set) {
     for (std::size_t i = 0; i < set.consensus_stations.size(); ++i)
       if (std::abs(set.consensus_stations[i].shear) > best) { best = std::abs(set.consensus_stations[i].shear); k = i; }
     if (best >= 0)
-      row("largest shear [" + F + "]", fixed(set.consensus_stations[k].shear, dv),
-          "x = " + fixed(set.consensus_stations[k].x, dx) + " " + L);
+      row("largest shear [" + F + "]", fixed(u.force(set.consensus_stations[k].shear), dv),
+          "x = " + fixed(u.length(set.consensus_stations[k].x), dx) + " " + L);
     for (std::size_t j = 0; j < set.consensus_nodes.size() && j < set.beam.supports.size(); ++j) {
       const SupportType t = set.beam.supports[j].type;
       if (!restrains_deflection(t) && t != SupportType::Spring) continue;
       const double r = set.consensus_nodes[j].reaction_force;
-      row("reaction at node " + html_escape(set.beam.labels[j]) + " [" + F + "]", fixed(r, dr),
+      row("reaction at node " + html_escape(set.beam.labels[j]) + " [" + F + "]", fixed(u.force(r), dr),
           r < 0 ? "uplift: the support must hold the beam down" : "");
       if (restrains_rotation(t) || set.beam.supports[j].kr > 0)
         row("reaction moment at node " + html_escape(set.beam.labels[j]) + " [" + FL + "]",
-            fixed(set.consensus_nodes[j].reaction_moment, dm), "counter-clockwise positive");
+            fixed(u.moment(set.consensus_nodes[j].reaction_moment), dm), "counter-clockwise positive");
     }
   }
 }
@@ -758,8 +780,8 @@ void write_record(std::ostream& out, const Report& b, const HtmlOptions& opt) {
       << "</td><th>checked by</th><td class=\"blank\"></td></tr>\n"
       << "<tr><th>checked with</th><td>trivet " << html_escape(version) << ", " << html_escape(date)
       << "</td><th>date</th><td class=\"blank\"></td></tr>\n"
-      << "<tr><th>units</th><td>" << html_escape(b.units.force) << ", " << html_escape(b.units.length)
-      << "</td><th>signature</th><td class=\"blank\"></td></tr>\n</table>\n</header>\n";
+      << "<tr><th>units</th><td>file: " << html_escape(b.units.force) << ", " << html_escape(b.units.length)
+      << "; shown in " << shown_units_text(b, opt) << "</td><th>signature</th><td class=\"blank\"></td></tr>\n</table>\n</header>\n";
   out << "<div class=\"caution\"><b>Caution.</b> " << html_escape(caution_text()) << "</div>\n";
   // The result in one paragraph.
   out << "<h2>Result: " << st_badge(beam_status_name(b.status)) << "</h2>\n<p>";
@@ -790,7 +812,7 @@ void write_record(std::ostream& out, const Report& b, const HtmlOptions& opt) {
       out << "<h3>Load set " << html_escape(set.name) << (set.envelope ? " (envelope)" : "") << ": methods "
           << st_badge(verdict_name(set.verdict)) << "</h3>\n";
       out << "<table class=\"governing\"><tr><th>value</th><th>consensus</th><th>where, and what governs</th></tr>\n";
-      governing_rows(out, b, set);
+      governing_rows(out, set, display_units(b.units, opt.show));
       out << "</table>\n";
     }
   }

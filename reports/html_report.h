@@ -48,6 +48,8 @@ struct HtmlOptions {
   // detail section; every beam is listed in the summary. True: every beam's
   // detail (--html-all).
   bool all_details = false;
+  // The units values are shown in (--show-units; display_units.h).
+  ShowUnits show;
 };
 
 struct HtmlStats {

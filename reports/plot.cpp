@@ -104,11 +104,11 @@ std::string combination_text(const input::Combination& c) {
 
 // A moving load in words: "moving load trolley: 40 kN at 0, 60 kN at 3 m;
 // both directions".
-std::string moving_text(const input::MovingLoad& t, const std::string& F, const std::string& L) {
+std::string moving_text(const input::MovingLoad& t, const DisplayUnits& u) {
   std::string s = "moving load " + t.name + ":";
   for (std::size_t k = 0; k < t.points.size(); ++k)
-    s += (k ? ", " : " ") + input::format_number(t.points[k].P) + " " + F + " at " +
-         input::format_number(t.points[k].offset) + " " + L;
+    s += (k ? ", " : " ") + shown_number(u.force(t.points[k].P)) + " " + u.force.label + " at " +
+         shown_number(u.length(t.points[k].offset)) + " " + u.length.label;
   s += t.both_directions ? "; both directions" : "; forward only";
   return s;
 }
@@ -120,7 +120,7 @@ std::string moving_text(const input::MovingLoad& t, const std::string& F, const 
 
 }  // namespace
 
-PlotData plot_data(const Report& b, std::size_t set_index) {
+PlotData plot_data(const Report& b, std::size_t set_index, const ShowUnits& show) {
   PlotData d;
   d.title = b.title.empty() ? b.file : b.title;
   if (b.status == BeamStatus::Invalid) {
@@ -134,29 +134,34 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
   }
   const LoadSet& set = b.sets[set_index];
   const Beam& beam = set.beam;
-  const std::string F = b.units.force, L = b.units.length, FL = F + "*" + L;
+  // Every number in its display unit (display_units.h): x in the length
+  // unit, each panel's values in its kind's unit.
+  const DisplayUnits u = display_units(b.units, show);
+  const std::string F = u.force.label, L = u.length.label, FL = u.moment.label, D = u.deflection.label;
   d.subtitle = b.file + "  |  load set: " + set.name + (set.envelope ? " (envelope)" : "") + "  |  methods " +
                verdict_name(set.verdict);
   d.envelope = set.envelope;
   // A moving load's own load set: its combination holds only the train.
   const bool own_moving = set.moving && set.combination && set.combination->factors.empty() &&
                           set.combination->moving && set.combination->moving->first == set.name;
-  if (own_moving) d.combination = moving_text(*set.moving, F, L);
+  if (own_moving) d.combination = moving_text(*set.moving, u);
   else if (set.combination) d.combination = "combination " + set.name + " = " + combination_text(*set.combination);
   d.x_label = "x [" + L + "]";
   const std::size_t nn = beam.node_count();
   d.x_min = 0;
-  d.x_max = nn ? beam.node_x(nn - 1) : 1;
+  d.x_max = nn ? u.length(beam.node_x(nn - 1)) : 1;
   if (!(d.x_max > d.x_min)) d.x_max = d.x_min + 1;
 
-  const int dm = decimals_for(set.scale[ki(Kind::Moment)]);
-  const int dv = decimals_for(set.scale[ki(Kind::Shear)]);
-  const int dr = decimals_for(std::max(set.scale[ki(Kind::Reaction)], 1e-300));
-  const int dd = decimals_for(set.scale[ki(Kind::Deflection)]);
+  const int dm = decimals_for(u.moment(set.scale[ki(Kind::Moment)]));
+  const int dv = decimals_for(u.force(set.scale[ki(Kind::Shear)]));
+  const int dr = decimals_for(std::max(u.force(set.scale[ki(Kind::Reaction)]), 1e-300));
+  const int dd = decimals_for(u.deflection(set.scale[ki(Kind::Deflection)]));
+  // A panel's display unit.
+  auto unit_of = [&](Kind k) -> const DisplayUnit& { return u.of(k); };
 
-  // Node x positions, summed once.
+  // Node x positions (display unit), summed once.
   std::vector<double> node_x(nn, 0.0);
-  for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + beam.spans[i - 1].length;
+  for (std::size_t i = 1; i < nn; ++i) node_x[i] = node_x[i - 1] + u.length(beam.spans[i - 1].length);
 
   // The sketch.
   for (std::size_t i = 0; i < nn; ++i) {
@@ -167,19 +172,20 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     n.type = s.type;
     n.hinge = s.hinge;
     n.rotational_spring = s.type == SupportType::Spring && s.kr > 0;
-    n.settlement = s.settlement;
+    n.settlement = u.deflection(s.settlement);
+    n.settlement_unit = D;
     if (i < set.consensus_nodes.size()) {
       const NodeResult& c = set.consensus_nodes[i];
       std::string r;
-      if (restrains_deflection(s.type) || s.type == SupportType::Spring) r = "R = " + fixed(c.reaction_force, dr) + " " + F;
+      if (restrains_deflection(s.type) || s.type == SupportType::Spring) r = "R = " + fixed(u.force(c.reaction_force), dr) + " " + F;
       if (restrains_rotation(s.type) || n.rotational_spring)
-        r += (r.empty() ? "" : "; ") + std::string("M = ") + fixed(c.reaction_moment, dm) + " " + FL;
+        r += (r.empty() ? "" : "; ") + std::string("M = ") + fixed(u.moment(c.reaction_moment), dm) + " " + FL;
       n.reaction = r;
     }
     if (set.envelope && i < set.consensus_envelope.reaction.size() &&
         (restrains_deflection(s.type) || s.type == SupportType::Spring)) {
       const Bound& r = set.consensus_envelope.reaction[i];
-      n.reaction = "R " + fixed(r.min, dr) + " to " + fixed(r.max, dr) + " " + F;
+      n.reaction = "R " + fixed(u.force(r.min), dr) + " to " + fixed(u.force(r.max), dr) + " " + F;
     }
     d.nodes.push_back(std::move(n));
   }
@@ -189,28 +195,28 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     const double base = l.on_node ? (l.index < nn ? node_x[l.index] : 0.0) : (l.index < nn ? node_x[l.index] : 0.0);
     switch (l.type) {
       case LoadType::Point:
-        s.x0 = s.x1 = l.on_node ? base : base + l.at;
-        s.v0 = s.v1 = l.P;
-        s.text = "P = " + input::format_number(l.P) + " " + F;
+        s.x0 = s.x1 = l.on_node ? base : base + u.length(l.at);
+        s.v0 = s.v1 = u.force(l.P);
+        s.text = "P = " + shown_number(s.v0) + " " + F;
         break;
       case LoadType::Couple:
-        s.x0 = s.x1 = l.on_node ? base : base + l.at;
-        s.v0 = s.v1 = l.C;
-        s.text = "C = " + input::format_number(l.C) + " " + FL;
+        s.x0 = s.x1 = l.on_node ? base : base + u.length(l.at);
+        s.v0 = s.v1 = u.moment(l.C);
+        s.text = "C = " + shown_number(s.v0) + " " + FL;
         break;
       case LoadType::Udl:
-        s.x0 = base + l.from;
-        s.x1 = base + l.to;
-        s.v0 = l.w1;
-        s.v1 = l.w2;
-        s.text = "w = " + input::format_number(l.w1) + " " + F + "/" + L;
+        s.x0 = base + u.length(l.from);
+        s.x1 = base + u.length(l.to);
+        s.v0 = u.force(l.w1) / u.length.factor;
+        s.v1 = u.force(l.w2) / u.length.factor;
+        s.text = "w = " + shown_number(s.v0) + " " + F + "/" + L;
         break;
       case LoadType::Linear:
-        s.x0 = base + l.from;
-        s.x1 = base + l.to;
-        s.v0 = l.w1;
-        s.v1 = l.w2;
-        s.text = "w = " + input::format_number(l.w1) + " to " + input::format_number(l.w2) + " " + F + "/" + L;
+        s.x0 = base + u.length(l.from);
+        s.x1 = base + u.length(l.to);
+        s.v0 = u.force(l.w1) / u.length.factor;
+        s.v1 = u.force(l.w2) / u.length.factor;
+        s.text = "w = " + shown_number(s.v0) + " to " + shown_number(s.v1) + " " + F + "/" + L;
         break;
     }
     if (set.combination) {
@@ -231,7 +237,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
   moment.ylabel = "moment [" + FL + "]\nsagging +, drawn down";
   moment.drawn_down = true;
   defl.kind = PanelKind::Deflection;
-  defl.ylabel = "deflection [" + L + "]\ndown +, drawn down";
+  defl.ylabel = "deflection [" + D + "]\ndown +, drawn down";
   defl.drawn_down = true;
   diff.kind = PanelKind::Difference;
   diff.ylabel = "(method - consensus)\n/ largest of its kind";
@@ -239,7 +245,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
   if (set.envelope) {
     shear.ylabel = "shear envelope [" + F + "]\nup +";
     moment.ylabel = "moment envelope [" + FL + "]\nsagging +, drawn down";
-    defl.ylabel = "deflection envelope [" + L + "]\ndown +, drawn down";
+    defl.ylabel = "deflection envelope [" + D + "]\ndown +, drawn down";
     diff.ylabel = "(method - consensus)\n/ largest of its kind\nmax and min";
   }
   std::size_t env_ok = 0;
@@ -254,6 +260,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     ++env_ok;
     for (Panel* p : {&shear, &moment, &defl}) {
       const std::vector<Bound>& bs = bounds_of(*m.envelope, panel_quantity(p->kind));
+      const DisplayUnit& pu = unit_of(panel_quantity(p->kind));
       for (Limit lim : {Limit::Max, Limit::Min}) {
         Curve c;
         c.method = m.name;
@@ -263,8 +270,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
         c.x.reserve(bs.size());
         c.y.reserve(bs.size());
         for (std::size_t i = 0; i < bs.size(); ++i) {
-          c.x.push_back(set.stations[i].x);
-          c.y.push_back(lim == Limit::Max ? bs[i].max : bs[i].min);
+          c.x.push_back(u.length(set.stations[i].x));
+          c.y.push_back(pu(lim == Limit::Max ? bs[i].max : bs[i].min));
         }
         p->curves.push_back(std::move(c));
       }
@@ -289,7 +296,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
           c.kind = k;
           c.limit = lim;
           for (std::size_t i = 0; i < bs.size(); ++i) {
-            c.x.push_back(set.stations[i].x);
+            c.x.push_back(u.length(set.stations[i].x));
             const double delta = lim == Limit::Max ? bs[i].max - cs[i].max : bs[i].min - cs[i].min;
             c.y.push_back(scale > 0 ? delta / scale : 0.0);
           }
@@ -312,6 +319,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     }
     for (Panel* p : {&shear, &moment, &defl}) {
       const Kind k = p->kind == PanelKind::Shear ? Kind::Shear : p->kind == PanelKind::Moment ? Kind::Moment : Kind::Deflection;
+      const DisplayUnit& pu = unit_of(k);
       Curve c;
       c.method = c.label = m.name;
       c.style = mi;
@@ -324,8 +332,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       for (std::size_t i = 0; i < m.stations.size(); ++i) {
         const Station& st = set.stations[i];
         if (i == 0 || set.stations[i - 1].span != st.span) span_begin = i;
-        c.x.push_back(m.stations[i].x);
-        c.y.push_back(value_of(m.stations[i], k));
+        c.x.push_back(u.length(m.stations[i].x));
+        c.y.push_back(pu(value_of(m.stations[i], k)));
         if (i + 1 >= m.stations.size() || set.stations[i + 1].span != st.span || !m.solution.at) continue;
         const double from = st.local, to = set.stations[i + 1].local;
         if (!(to > from)) continue;
@@ -338,8 +346,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
           const PointValues pv = m.solution.at(st.span, t, false);
           const double v = k == Kind::Shear ? pv.shear : k == Kind::Moment ? pv.moment : pv.deflection;
           if (!std::isfinite(v)) continue;
-          c.x.push_back(m.stations[i].x + (t - from));
-          c.y.push_back(v);
+          c.x.push_back(u.length(m.stations[i].x + (t - from)));
+          c.y.push_back(pu(v));
         }
       }
       p->curves.push_back(std::move(c));
@@ -358,7 +366,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
         c.style = mi;
         c.kind = k;
         for (std::size_t i = 0; i < m.stations.size(); ++i) {
-          c.x.push_back(m.stations[i].x);
+          c.x.push_back(u.length(m.stations[i].x));
           const double delta = value_of(m.stations[i], k) - value_of(set.consensus_stations[i], k);
           c.y.push_back(scale > 0 ? delta / scale : 0.0);
         }
@@ -379,23 +387,23 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     for (std::size_t i = 0; i < set.stations.size(); ++i) {
       const bool first = i == 0 || set.stations[i - 1].span != set.stations[i].span;
       const bool last = i + 1 == set.stations.size() || set.stations[i + 1].span != set.stations[i].span;
-      if (first || last) ends.emplace_back(set.consensus_stations[i].x, set.consensus_stations[i].shear);
+      if (first || last) ends.emplace_back(u.length(set.consensus_stations[i].x), u.force(set.consensus_stations[i].shear));
     }
     if (!every_span && !ends.empty()) {
       auto mx = std::max_element(ends.begin(), ends.end(), [](auto& a, auto& c) { return a.second < c.second; });
       auto mn = std::min_element(ends.begin(), ends.end(), [](auto& a, auto& c) { return a.second < c.second; });
       ends = {*mx, *mn};
     }
-    const double vs = set.scale[ki(Kind::Shear)];
+    const double vs = u.force(set.scale[ki(Kind::Shear)]);
     for (const auto& e : ends)
       if (std::abs(e.second) > 1e-9 * vs) shear.labels.push_back({e.first, e.second, fixed(e.second, dv)});
 
     // Moment at the nodes where it is not zero, and the span extremes.
-    const double ms = set.scale[ki(Kind::Moment)];
+    const double ms = u.moment(set.scale[ki(Kind::Moment)]);
     std::vector<double> labelled_x;
     auto node_moment = [&](std::size_t i) {
       const NodeResult& c = set.consensus_nodes[i];
-      return c.moment_right ? *c.moment_right : c.moment_left ? *c.moment_left : 0.0;
+      return u.moment(c.moment_right ? *c.moment_right : c.moment_left ? *c.moment_left : 0.0);
     };
     std::vector<std::size_t> nodes_to_label;
     if (every_span) {
@@ -433,19 +441,21 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       }
       spans_to_label = {hi, lo, df};
     }
-    const double ds = set.scale[ki(Kind::Deflection)];
+    const double ds = u.deflection(set.scale[ki(Kind::Deflection)]);
     for (std::size_t s : spans_to_label) {
       const SpanExtremes& e = set.extremes[s];
-      if (e.max_moment > 1e-9 * ms && !near_label(e.max_moment_x)) {
-        moment.labels.push_back({e.max_moment_x, e.max_moment, fixed(e.max_moment, dm)});
-        labelled_x.push_back(e.max_moment_x);
+      const double mmax = u.moment(e.max_moment), mmin = u.moment(e.min_moment), dmax = u.deflection(e.max_deflection);
+      const double xmax = u.length(e.max_moment_x), xmin = u.length(e.min_moment_x);
+      if (mmax > 1e-9 * ms && !near_label(xmax)) {
+        moment.labels.push_back({xmax, mmax, fixed(mmax, dm)});
+        labelled_x.push_back(xmax);
       }
-      if (e.min_moment < -1e-9 * ms && !near_label(e.min_moment_x)) {
-        moment.labels.push_back({e.min_moment_x, e.min_moment, fixed(e.min_moment, dm)});
-        labelled_x.push_back(e.min_moment_x);
+      if (mmin < -1e-9 * ms && !near_label(xmin)) {
+        moment.labels.push_back({xmin, mmin, fixed(mmin, dm)});
+        labelled_x.push_back(xmin);
       }
-      if (std::abs(e.max_deflection) > 1e-9 * ds)
-        defl.labels.push_back({e.max_deflection_x, e.max_deflection, fixed(e.max_deflection, dd)});
+      if (std::abs(dmax) > 1e-9 * ds)
+        defl.labels.push_back({u.length(e.max_deflection_x), dmax, fixed(dmax, dd)});
     }
   }
 
@@ -454,6 +464,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
   // downward deflection envelope of each span.
   if (set.envelope && consensus_ok && !set.extremes.empty()) {
     const double ms = set.scale[ki(Kind::Moment)], vs = set.scale[ki(Kind::Shear)], ds = set.scale[ki(Kind::Deflection)];
+    // (ms, vs, ds in the file's units: compared with file values below.)
     std::vector<std::size_t> spans_to_label;
     if (every_span) {
       for (std::size_t sp = 0; sp < set.extremes.size(); ++sp) spans_to_label.push_back(sp);
@@ -468,7 +479,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     for (std::size_t sp : spans_to_label) {
       const SpanExtremes& e = set.extremes[sp];
       const std::string tag = "span " + std::to_string(sp + 1) + ": ";
-      auto add = [&](double x, double v) {
+      auto add = [&](double x_file, double v_file) {
+        const double x = u.length(x_file), v = u.moment(v_file);
         const std::string t = fixed(v, dm);
         for (const auto& l : moment.labels)
           if (l.text == t && std::abs(l.x - x) < 0.03 * (d.x_max - d.x_min)) return;  // the same value at a node
@@ -476,14 +488,14 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       };
       if (e.max_moment > 1e-9 * ms) {
         add(e.max_moment_x, e.max_moment);
-        d.notes.push_back(tag + "largest moment_max " + fixed(e.max_moment, dm) + " " + FL + " at x = " +
-                          input::format_number(e.max_moment_x) + " " + L +
+        d.notes.push_back(tag + "largest moment_max " + fixed(u.moment(e.max_moment), dm) + " " + FL + " at x = " +
+                          shown_number(u.length(e.max_moment_x)) + " " + L +
                           (e.max_moment_by.empty() ? "" : " (" + e.max_moment_by + ")"));
       }
       if (e.min_moment < -1e-9 * ms) {
         add(e.min_moment_x, e.min_moment);
-        d.notes.push_back(tag + "smallest moment_min " + fixed(e.min_moment, dm) + " " + FL + " at x = " +
-                          input::format_number(e.min_moment_x) + " " + L +
+        d.notes.push_back(tag + "smallest moment_min " + fixed(u.moment(e.min_moment), dm) + " " + FL + " at x = " +
+                          shown_number(u.length(e.min_moment_x)) + " " + L +
                           (e.min_moment_by.empty() ? "" : " (" + e.min_moment_by + ")"));
       }
     }
@@ -493,9 +505,9 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       const bool last = i + 1 == set.stations.size() || set.stations[i + 1].span != sp;
       if (!every_span) break;
       if (first && ce.shear[i].max > 1e-9 * vs)
-        shear.labels.push_back({set.stations[i].x, ce.shear[i].max, fixed(ce.shear[i].max, dv)});
+        shear.labels.push_back({u.length(set.stations[i].x), u.force(ce.shear[i].max), fixed(u.force(ce.shear[i].max), dv)});
       if (last && ce.shear[i].min < -1e-9 * vs)
-        shear.labels.push_back({set.stations[i].x, ce.shear[i].min, fixed(ce.shear[i].min, dv)});
+        shear.labels.push_back({u.length(set.stations[i].x), u.force(ce.shear[i].min), fixed(u.force(ce.shear[i].min), dv)});
     }
     if (every_span) {
       std::vector<std::size_t> at(ns, set.stations.size());
@@ -505,7 +517,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       }
       for (std::size_t sp = 0; sp < ns; ++sp)
         if (at[sp] < set.stations.size() && ce.deflection[at[sp]].max > 1e-9 * ds)
-          defl.labels.push_back({set.stations[at[sp]].x, ce.deflection[at[sp]].max, fixed(ce.deflection[at[sp]].max, dd)});
+          defl.labels.push_back({u.length(set.stations[at[sp]].x), u.deflection(ce.deflection[at[sp]].max),
+                                 fixed(u.deflection(ce.deflection[at[sp]].max), dd)});
     }
   }
 
@@ -519,17 +532,18 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
     const Q q = c.claim.quantity;
     std::optional<double> x;
     if (c.claim.node && *c.claim.node < nn) x = node_x[*c.claim.node];
-    else if (c.claim.x) x = *c.claim.x;
+    else if (c.claim.x) x = u.length(*c.claim.x);
     else if (c.claim.span && *c.claim.span < set.extremes.size()) {
       const SpanExtremes& e = set.extremes[*c.claim.span];
-      x = q == Q::MinMoment ? e.min_moment_x : q == Q::MaxDeflection ? e.max_deflection_x : e.max_moment_x;
+      x = u.length(q == Q::MinMoment ? e.min_moment_x : q == Q::MaxDeflection ? e.max_deflection_x : e.max_moment_x);
     }
     const std::string verdict = !c.evaluated ? "not evaluated" : c.holds ? "holds" : "fails";
     if (q == Q::Reaction || q == Q::ReactionMoment || q == Q::ReactionMax || q == Q::ReactionMin) {
       if (c.claim.node && *c.claim.node < nn) {
         const char* what = q == Q::Reaction ? "R" : q == Q::ReactionMax ? "R max" : q == Q::ReactionMin ? "R min" : "M";
-        d.nodes[*c.claim.node].claims.push_back(tag + ": " + what + " = " +
-                                                input::format_number(c.claim.value) + " (" + verdict + ")");
+        const DisplayUnit& cu = u.of(q);
+        d.nodes[*c.claim.node].claims.push_back(tag + ": " + what + " = " + shown_number(cu(c.claim.value)) + " " +
+                                                cu.label + " (" + verdict + ")");
         continue;
       }
     }
@@ -544,7 +558,7 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
       d.notes.push_back(tag + " (" + input::quantity_name(q) + ", " + c.label + ") has no axis in the plot; see the claims table");
       continue;
     }
-    p->claims.push_back({ci, *x, c.claim.value, c.holds, c.evaluated, tag});
+    p->claims.push_back({ci, *x, u.of(q)(c.claim.value), c.holds, c.evaluated, tag});
   }
 
   // Another program's results: station values on their axes, reactions at
@@ -566,7 +580,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
           const bool force = cell.quantity == against::Quantity::ReactionForce;
           const int dec = force ? dr : dm;
           d.nodes[*node].others.push_back("other program: " + std::string(force ? "R" : "M") + " = " +
-                                          fixed(cell.theirs, dec) + " (" + (cell.holds ? "holds" : "fails") + ")");
+                                          fixed(force ? u.force(cell.theirs) : u.moment(cell.theirs), dec) + " " +
+                                          (force ? F : FL) + " (" + (cell.holds ? "holds" : "fails") + ")");
         }
         continue;
       }
@@ -578,7 +593,8 @@ PlotData plot_data(const Report& b, std::size_t set_index) {
                    : cell.quantity == against::Quantity::Deflection ? &defl
                                                                     : nullptr;
         if (!p) continue;
-        p->others.push_back({ai, ri, *x, cell.theirs, cell.holds, "other program, " + line});
+        p->others.push_back({ai, ri, u.length(*x), unit_of(panel_quantity(p->kind))(cell.theirs), cell.holds,
+                             "other program, " + line});
       }
     }
     if (unplaced > 0)
@@ -1274,7 +1290,7 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
           if (std::abs(n.settlement) > 0) {
             char sb[48];
             std::snprintf(sb, sizeof sb, "%.3g", n.settlement);
-            r += std::string(r.empty() ? "" : "; ") + "settles " + sb;
+            r += std::string(r.empty() ? "" : "; ") + "settles " + sb + (n.settlement_unit.empty() ? "" : " " + n.settlement_unit);
           }
           if (!many_nodes && !r.empty()) s.text(x, -55, r, "center", 7, "#333333");
           for (std::size_t c = 0; c < n.claims.size(); ++c)

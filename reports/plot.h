@@ -27,6 +27,7 @@
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "reports/display_units.h"
 #include "reports/report.h"
 
 namespace trivet::reports {
@@ -93,7 +94,8 @@ struct SketchNode {
   SupportType type = SupportType::Free;
   bool hinge = false;
   bool rotational_spring = false;  // spring with kr > 0
-  double settlement = 0;
+  double settlement = 0;            // in settlement_unit
+  std::string settlement_unit;     // the display deflection unit
   std::string reaction;            // "R = 81.2 kN; M = 169.1 kN*m", "R 40.1 to 97.3 kN" or empty
   std::vector<std::string> claims; // reaction claims at this node: "claim 1: R = 70 (holds)"
   // Another program's reactions at this node: "other: R = 81 (holds)".
@@ -139,7 +141,10 @@ struct PlotData {
 
 // The data of one load set. An invalid beam or a set index out of range
 // gives a PlotData with no panels and a note saying why.
-PlotData plot_data(const Report& beam, std::size_t set_index);
+// Every value and axis is in the display units `show` asks for
+// (display_units.h; the defaults when empty): x in the length unit, each
+// panel in its kind's unit, the sketch's texts likewise.
+PlotData plot_data(const Report& beam, std::size_t set_index, const ShowUnits& show = {});
 
 // An influence line asked for on the command line (`--influence
 // QUANTITY@WHERE`): QUANTITY one of moment, shear, deflection, reaction;

@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "harness/compare/compare.h"
+#include "reports/display_units.h"
 #include "reports/report.h"
 #include "reports/reporter.h"
 
@@ -61,6 +62,7 @@ struct ConsoleOptions {
   bool color = false;
   bool all_rows = false;     // every node and span, however many
   std::size_t max_rows = 40; // otherwise the first and last rows
+  ShowUnits show;            // the units values are shown in (--show-units)
 };
 
 // One beam as tables for a person.
@@ -88,11 +90,12 @@ std::string fixed(double v, int decimals);
 int decimals_for(double largest);
 
 // A load set's deflection checks in brief: how many spans are over their
-// limit, and the decimals that show the largest deflection or allowance.
+// limit, and the decimals that show the largest deflection or allowance
+// once multiplied by `factor` (the display unit's, display_units.h).
 struct LimitsBrief {
   std::size_t over = 0;
   int decimals = 0;
 };
-LimitsBrief limits_brief(const compare::LoadSet& set);
+LimitsBrief limits_brief(const compare::LoadSet& set, double factor = 1.0);
 
 }  // namespace trivet::reports

@@ -34,10 +34,12 @@ add_test(NAME cli_sheets COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_sheets.sh 
 # Plots and the HTML report; the browser test needs Chromium (skipped, not passed, without it).
 trivet_add_test(plot_test ${CMAKE_CURRENT_SOURCE_DIR}/plot_test.cpp trivet_report_html)
 trivet_add_test(html_test ${CMAKE_CURRENT_SOURCE_DIR}/html_test.cpp trivet_report_html)
+trivet_add_test(display_units_test ${CMAKE_CURRENT_SOURCE_DIR}/display_units_test.cpp trivet_report_html)
 add_test(NAME html_browser COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/html_browser_test.sh
          $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples ${CMAKE_CURRENT_SOURCE_DIR}/data/invalid)
 set_tests_properties(html_browser PROPERTIES SKIP_RETURN_CODE 77 TIMEOUT 300)
 add_test(NAME cli_plot COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_plot.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples)
+add_test(NAME cli_show_units COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_show_units.sh $<TARGET_FILE:trivet> ${PROJECT_SOURCE_DIR}/examples)
 
 # Hostile input, faults and limits: the corpus, the schema, robustness.
 include(${CMAKE_CURRENT_SOURCE_DIR}/corpus/tests.cmake)

@@ -71,10 +71,13 @@ TEST(PlotData, EachCurveIsTheMethodsStations) {
       ASSERT_EQ(c.x.size(), c.y.size());
       ASSERT_GE(c.x.size(), m.stations.size()) << m.name << " " << panel_name(k);
       std::size_t j = 0;
+      // Deflections are drawn in mm (display_units.h: the default for a
+      // kN, m file), everything else in the file's units.
+      const double f = k == PanelKind::Deflection ? display_units(b.units).deflection.factor : 1.0;
       for (std::size_t i = 0; i < m.stations.size(); ++i) {
         // The same doubles, copied: compared without tolerance on purpose.
         auto same = [](double u, double v) { return !(u < v) && !(v < u); };
-        while (j < c.x.size() && !(same(c.x[j], m.stations[i].x) && same(c.y[j], station_value(m.stations[i], k)))) ++j;
+        while (j < c.x.size() && !(same(c.x[j], m.stations[i].x) && same(c.y[j], station_value(m.stations[i], k) * f))) ++j;
         ASSERT_LT(j, c.x.size()) << m.name << " " << panel_name(k) << ": station " << i << " not on the curve";
         ++j;
       }
@@ -135,7 +138,7 @@ TEST(PlotData, ClaimsAreMarkersOnTheirAxes) {
   EXPECT_DOUBLE_EQ(mp->claims[1].y, 55.0);
   ASSERT_EQ(dp->claims.size(), 1u);
   EXPECT_DOUBLE_EQ(dp->claims[0].x, 10.0);
-  EXPECT_DOUBLE_EQ(dp->claims[0].y, 0.003);
+  EXPECT_DOUBLE_EQ(dp->claims[0].y, 3.0);  // 0.003 m, drawn in mm (display_units.h)
   ASSERT_EQ(sp->claims.size(), 1u);
   EXPECT_DOUBLE_EQ(sp->claims[0].y, 1000.0);
   EXPECT_FALSE(sp->claims[0].holds);  // 1000 kN is far off
@@ -204,9 +207,11 @@ TEST(PlotData, EnvelopeCurvesAreEachMethodsMaxAndMin) {
                        : k == PanelKind::Moment ? m.envelope->moment : m.envelope->deflection;
       ASSERT_EQ(c.x.size(), set.stations.size());
       ASSERT_EQ(c.y.size(), bs.size());
+      // Deflections in mm (display_units.h), the rest in the file's kN, m.
+      const double f = k == PanelKind::Deflection ? display_units(b.units).deflection.factor : 1.0;
       for (std::size_t i = 0; i < bs.size(); ++i) {
         EXPECT_DOUBLE_EQ(c.x[i], set.stations[i].x);
-        EXPECT_DOUBLE_EQ(c.y[i], c.limit == Limit::Max ? bs[i].max : bs[i].min) << m.name << " " << panel_name(k) << " " << i;
+        EXPECT_DOUBLE_EQ(c.y[i], (c.limit == Limit::Max ? bs[i].max : bs[i].min) * f) << m.name << " " << panel_name(k) << " " << i;
         if (std::abs(bs[i].max - bs[i].min) > 1e-9 * set.scale[0]) max_differs_from_min = true;
       }
     }
@@ -290,7 +295,7 @@ TEST(PlotData, OtherProgramsValuesAreMarkersAtTheirPositions) {
   const Panel* dp = d.panel(PanelKind::Deflection);
   ASSERT_EQ(dp->others.size(), 1u);
   EXPECT_NEAR(dp->others[0].x, 10.0, 1e-12);  // span 2 starts at 6
-  EXPECT_DOUBLE_EQ(dp->others[0].y, a2->rows[0].cells[0].theirs);
+  EXPECT_DOUBLE_EQ(dp->others[0].y, a2->rows[0].cells[0].theirs * 1000);  // drawn in mm (display_units.h)
   ASSERT_EQ(d.nodes[1].others.size(), 1u);
   EXPECT_NE(d.nodes[1].others[0].find("R = 12345"), std::string::npos) << d.nodes[1].others[0];
   EXPECT_NE(d.nodes[1].others[0].find("fails"), std::string::npos);
@@ -517,11 +522,14 @@ TEST(Render, AClaimFarOffScaleIsDrawnAtTheEdge) {
   std::string err;
   const std::string svg = render(plot_data(r, 0), ImageFormat::Svg, 800, 900, &err);
   ASSERT_FALSE(svg.empty()) << err;
-  EXPECT_NE(svg.find("claim 1 = 8.438 (off scale)"), std::string::npos);
-  // No tick label of the deflection axis reaches the claim's 8: the largest
-  // is about the results' 0.0084 (ticks of 0.002).
-  EXPECT_EQ(svg.find("<text>8</text>"), std::string::npos);
-  EXPECT_NE(svg.find("<text>0.008</text>"), std::string::npos);
+  // Deflections are drawn in mm (display_units.h): the claim's 8.4375 m is
+  // 8437.5 mm, the results' largest 8.4375 mm.
+  EXPECT_NE(svg.find("claim 1 = 8438 (off scale)"), std::string::npos);
+  // No tick label of the deflection axis reaches the claim's 8438: the
+  // largest is about the results' 8.4 (ticks of 2).
+  EXPECT_EQ(svg.find("<text>8000</text>"), std::string::npos);
+  EXPECT_EQ(svg.find("<text>8400</text>"), std::string::npos);
+  EXPECT_NE(svg.find("<text>8</text>"), std::string::npos);
 }
 
 }  // namespace

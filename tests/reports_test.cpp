@@ -84,7 +84,7 @@ TEST(ConsoleReport, ShowsUnitsTablesAndCaution) {
   write_console(out, beams[0], {});
   write_console_summary(out, summarize(beams), {});
   const std::string s = out.str();
-  for (const char* want : {"two spans", "M left [kN*m]", "reaction [kN]", "deflection [m]", "max sagging [kN*m]",
+  for (const char* want : {"two spans", "M left [kN*m]", "reaction [kN]", "deflection [mm]", "max sagging [kN*m]",
                            "NO", "summary: 1 beam", "caution:", "qualified engineer"})
     EXPECT_NE(s.find(want), std::string::npos) << want << "\n" << s;
   EXPECT_EQ(s.find("\033["), std::string::npos) << "no colour unless asked";

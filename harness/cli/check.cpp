@@ -87,6 +87,7 @@ int run_check(const CheckArgs& a) {
   }
   if (!a.claims_sheet.empty() && a.claims.empty())
     fail("trivet: --claims-sheet: applies to the file given with --claims, and there is none");
+  const reports::ShowUnits show = show_units_option("check", a.show_units);
   if (const std::string why = report_targets_problem({{"--json", a.json}, {"--junit", a.junit}, {"--html", a.html}});
       !why.empty())
     fail("trivet: ", why);
@@ -132,6 +133,7 @@ int run_check(const CheckArgs& a) {
   reports::ConsoleOptions copt;
   copt.color = !json_to_stdout && use_color(1);
   copt.all_rows = a.all_rows;
+  copt.show = show;
   const bool single = files.size() == 1;
   const bool streamed = a.against.empty() && !single;  // parts rendered by the workers
 
@@ -148,6 +150,7 @@ int run_check(const CheckArgs& a) {
     ho.all_details = a.html_all;
     ho.tool_version = TRIVET_VERSION;
     ho.command_line = a.command_line;
+    ho.show = show;
     return reports::html_reporter(f.out(), ho);
   });
   reporting.add_writer("--record", a.record, [&] {
@@ -155,6 +158,7 @@ int run_check(const CheckArgs& a) {
     ho.agreement = opt.agreement;
     ho.tool_version = TRIVET_VERSION;
     ho.command_line = a.command_line;
+    ho.show = show;
     return reports::record_reporter(a.record, ho);
   });
   reporting.add("--junit", a.junit, [&](ReportFile& f) {

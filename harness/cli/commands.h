@@ -13,6 +13,7 @@
 #include "harness/compare/compare.h"
 #include "harness/precision/precision.h"
 #include "harness/input/reader.h"
+#include "reports/display_units.h"
 
 #ifndef TRIVET_VERSION
 #define TRIVET_VERSION "0.0.0"
@@ -56,6 +57,7 @@ struct CheckArgs {
   bool html_all = false;
   std::string record;   // --record DIR: a checking record per beam
   std::string arithmetic = "double", reference;
+  std::string show_units;  // --show-units (check and plot)
 };
 
 struct SelfcheckArgs {
@@ -68,6 +70,10 @@ unsigned shard_of(const std::string& path, unsigned n);
 // Colour only on a terminal and never with NO_COLOR.
 bool use_color(int fd);
 std::vector<std::string> split_list(const std::string& s);
+// The units values are shown in (--show-units of `command`, "check" or
+// "plot"); empty text: the defaults. A text that cannot be read is a usage
+// error (exit 2) naming the option and what it accepts.
+reports::ShowUnits show_units_option(const std::string& command, const std::string& text);
 
 // Warnings about digits double may lose, for every beam (a pure function of
 // the beam), and, with --arithmetic or --reference, the results in extended
@@ -85,7 +91,7 @@ int run_selfcheck(const SelfcheckArgs& a);
 // `influence`: the --influence texts (QUANTITY@WHERE); when any is given the
 // plot command draws those influence lines instead of the diagrams.
 int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods,
-             const std::vector<std::string>& influence = {});
+             const std::vector<std::string>& influence = {}, const std::string& show_units = "");
 int run_merge(const std::vector<std::string>& inputs, const std::string& out_path);
 int run_example();
 int run_schema();

@@ -14,6 +14,14 @@ namespace trivet::cli {
 
 // The shard (0-based) a file belongs to: a hash of its path (FNV-1a), so
 // that adding a file does not move the others between shards.
+reports::ShowUnits show_units_option(const std::string& command, const std::string& text) {
+  if (text.empty()) return {};
+  std::string error;
+  const auto s = reports::parse_show_units(text, &error);
+  if (!s) fail("trivet ", command, ": --show-units: ", error);
+  return *s;
+}
+
 unsigned shard_of(const std::string& path, unsigned n) {
   std::uint64_t h = 1469598103934665603ull;
   for (unsigned char c : path) {

@@ -49,6 +49,10 @@ int main(int argc, char** argv) {
       ->check(CLI::IsMember({"double", "extended", "exact"}));
   check->add_option("--reference", ca.reference, "Also run in extended or exact arithmetic and report each method's rounding error")
       ->check(CLI::IsMember({"extended", "exact"}));
+  const std::string show_units_help = std::string("Units the tables, HTML, records and plots show values in: ") +
+                                      trivet::reports::show_units_syntax() +
+                                      " (default: kN, kN*m, m, mm for a metric file; kip, kip*ft, ft, in for an imperial one)";
+  check->add_option("--show-units", ca.show_units, show_units_help);
   check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
 
   check->add_option("--against", ca.against, "Another program's results (CSV) to compare; a second --against for a reactions table")
@@ -93,6 +97,7 @@ int main(int argc, char** argv) {
                    "shear, deflection or reaction; WHERE a node label (B: the end of the span on its left; B- left, "
                    "B+ right side) or x=7.5 (global x in the file's length unit). Several: OUT-moment-B.svg, ...")
       ->expected(1)->take_all();
+  plot->add_option("--show-units", ca.show_units, show_units_help);
 
   std::vector<std::string> merge_inputs;
   std::string merge_json = "-", merge_junit;
@@ -121,7 +126,7 @@ int main(int argc, char** argv) {
     else if (*merge) code = run_merge(merge_inputs, merge_json);
     else if (*schema) code = run_schema();
     else if (*selfcheck) code = run_selfcheck(sa);
-    else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods, plot_influence);
+    else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods, plot_influence, ca.show_units);
     else if (*example) code = run_example();
   } catch (const UsageError& e) {
     std::cerr << e.what() << "\n";

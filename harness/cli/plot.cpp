@@ -88,13 +88,16 @@ int run_influence(const input::BeamFile& f, const std::string& file, const std::
 }  // namespace
 
 int run_plot(const std::string& file, const std::string& out, const std::string& load_case, const std::string& methods,
-             const std::vector<std::string>& influence) {
+             const std::vector<std::string>& influence, const std::string& show_units) {
   const auto format = reports::format_for_path(out);
   if (!format) {
     fail("trivet plot: -o: the output must end in .svg or .png (got '", out, "')");
   }
+  const reports::ShowUnits show = show_units_option("plot", show_units);
   const input::BeamFile f = input::read_beam_file(file);
   if (!influence.empty()) {
+    if (!show_units.empty())
+      std::cerr << "trivet plot: --show-units is not used with --influence (an influence line is drawn in the file's units)\n";
     if (!load_case.empty())
       std::cerr << "trivet plot: --case is not used with --influence (an influence line does not depend on the loads)\n";
     return run_influence(f, file, out, *format, methods, influence);
@@ -118,7 +121,7 @@ int run_plot(const std::string& file, const std::string& out, const std::string&
     }
   }
   std::string error;
-  reports::PlotData data = reports::plot_data(r, index);
+  reports::PlotData data = reports::plot_data(r, index, show);
   data.caution = compare::caution_text();
   const std::string bytes = reports::render(data, *format, 960, 1100, &error);
   if (bytes.empty()) {
