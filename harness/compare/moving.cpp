@@ -95,12 +95,12 @@ MovingModel::Table MovingModel::table_for(const std::vector<Piece>& pieces) cons
   Table table;
   if (pieces.empty()) return table;
   const double length = pieces.back().x1;
+  // The piece ends: ends[0] the beam's start, ends[j + 1] the end of piece j.
   std::vector<double> ends;
   ends.reserve(pieces.size() + 1);
   ends.push_back(pieces.front().x0);
   for (const auto& pc : pieces) ends.push_back(pc.x1);
-  std::vector<double> upper(pieces.size());
-  for (std::size_t j = 0; j < pieces.size(); ++j) upper[j] = pieces[j].x1;
+  const auto upper = ends.begin() + 1;  // the end of each piece
   const auto& C = cheb();
   for (int dir = 0; dir < (train_.both_directions ? 2 : 1); ++dir) {
     const double d = dir == 0 ? 1.0 : -1.0;
@@ -118,19 +118,22 @@ MovingModel::Table MovingModel::table_for(const std::vector<Piece>& pieces) cons
       if (!(run.p1 > run.p0)) continue;
       const double mid = 0.5 * (run.p0 + run.p1), half = 0.5 * (run.p1 - run.p0);
       bool any = false;
-      for (std::size_t m = 0; m < 4; ++m) {
-        const double p = mid + half * C.t[m];
-        for (const auto& pt : train_.points) {
-          const double a = p + d * pt.offset;
-          if (!(a > 0 && a < length)) continue;
-          // The piece that holds a: the first whose end is beyond it.
-          std::size_t j = static_cast<std::size_t>(std::upper_bound(upper.begin(), upper.end(), a) - upper.begin());
-          if (j >= pieces.size()) j = pieces.size() - 1;
-          const Piece& pc = pieces[j];
-          const double pm = 0.5 * (pc.x0 + pc.x1), ph = 0.5 * (pc.x1 - pc.x0);
+      for (const auto& pt : train_.points) {
+        // On the beam or off it, and on which piece, the same for the whole
+        // run (no point crosses a piece end inside it): decided once at the
+        // middle, so rounding at the four points of a very short run cannot
+        // put one point on two pieces.
+        const double am = mid + d * pt.offset;
+        if (!(am > 0 && am < length)) continue;
+        std::size_t j = static_cast<std::size_t>(std::upper_bound(upper, ends.end(), am) - upper);
+        if (j >= pieces.size()) j = pieces.size() - 1;
+        const Piece& pc = pieces[j];
+        const double pm = 0.5 * (pc.x0 + pc.x1), ph = 0.5 * (pc.x1 - pc.x0);
+        for (std::size_t m = 0; m < 4; ++m) {
+          const double a = mid + half * C.t[m] + d * pt.offset;
           run.terms[m].push_back({static_cast<std::uint32_t>(j), std::min(1.0, std::max(-1.0, (a - pm) / ph)), pt.P});
-          any = true;
         }
+        any = true;
       }
       if (any) runs.push_back(std::move(run));
     }
