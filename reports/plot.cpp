@@ -395,12 +395,18 @@ PlotData plot_data(const Report& b, std::size_t set_index, const ShowUnits& show
       ends = {*mx, *mn};
     }
     const double vs = u.force(set.scale[ki(Kind::Shear)]);
-    for (const auto& e : ends)
-      if (std::abs(e.second) > 1e-9 * vs) shear.labels.push_back({e.first, e.second, fixed(e.second, dv)});
+    for (const auto& e : ends) {
+      if (!(std::abs(e.second) > 1e-9 * vs)) continue;
+      const std::string t = fixed(e.second, dv);
+      // A shear continuous across a hinge or a free joint: one label.
+      const bool again = std::any_of(shear.labels.begin(), shear.labels.end(), [&](const ValueLabel& l) {
+        return l.text == t && std::abs(l.x - e.first) < 1e-9 * (d.x_max - d.x_min);
+      });
+      if (!again) shear.labels.push_back({e.first, e.second, t});
+    }
 
     // Moment at the nodes where it is not zero, and the span extremes.
     const double ms = u.moment(set.scale[ki(Kind::Moment)]);
-    std::vector<double> labelled_x;
     auto node_moment = [&](std::size_t i) {
       const NodeResult& c = set.consensus_nodes[i];
       return u.moment(c.moment_right ? *c.moment_right : c.moment_left ? *c.moment_left : 0.0);
@@ -420,13 +426,15 @@ PlotData plot_data(const Report& b, std::size_t set_index, const ShowUnits& show
       const double mv = node_moment(i);
       if (std::abs(mv) > 1e-9 * ms) {
         moment.labels.push_back({node_x[i], mv, fixed(mv, dm)});
-        labelled_x.push_back(node_x[i]);
       }
     }
-    const double tol_x = 0.03 * (d.x_max - d.x_min);
-    auto near_label = [&](double x) {
-      for (double lx : labelled_x)
-        if (std::abs(lx - x) < tol_x) return true;
+    // The same value at (nearly) the same place once: a span's extreme at a
+    // node whose moment is labelled already, a shear continuous across a
+    // hinge. Labels near each other are kept apart when drawn (place_labels).
+    const double tol_x = 0.01 * (d.x_max - d.x_min);
+    auto near_label = [&](double x, const std::string& text) {
+      for (const auto& l : moment.labels)
+        if (l.text == text && std::abs(l.x - x) < tol_x) return true;
       return false;
     };
     std::vector<std::size_t> spans_to_label;
@@ -446,16 +454,20 @@ PlotData plot_data(const Report& b, std::size_t set_index, const ShowUnits& show
       const SpanExtremes& e = set.extremes[s];
       const double mmax = u.moment(e.max_moment), mmin = u.moment(e.min_moment), dmax = u.deflection(e.max_deflection);
       const double xmax = u.length(e.max_moment_x), xmin = u.length(e.min_moment_x);
-      if (mmax > 1e-9 * ms && !near_label(xmax)) {
+      if (mmax > 1e-9 * ms && !near_label(xmax, fixed(mmax, dm))) {
         moment.labels.push_back({xmax, mmax, fixed(mmax, dm)});
-        labelled_x.push_back(xmax);
       }
-      if (mmin < -1e-9 * ms && !near_label(xmin)) {
+      if (mmin < -1e-9 * ms && !near_label(xmin, fixed(mmin, dm))) {
         moment.labels.push_back({xmin, mmin, fixed(mmin, dm)});
-        labelled_x.push_back(xmin);
       }
-      if (std::abs(dmax) > 1e-9 * ds)
+      if (std::abs(dmax) > 1e-9 * ds && every_span)
         defl.labels.push_back({u.length(e.max_deflection_x), dmax, fixed(dmax, dd)});
+    }
+    // Many spans: the deflection of the span that deflects most only.
+    if (!every_span && !spans_to_label.empty()) {
+      const SpanExtremes& e = set.extremes[spans_to_label.back()];
+      const double dmax = u.deflection(e.max_deflection);
+      if (std::abs(dmax) > 1e-9 * ds) defl.labels.push_back({u.length(e.max_deflection_x), dmax, fixed(dmax, dd)});
     }
   }
 
@@ -888,6 +900,36 @@ PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req
 // ---------------------------------------------------------------------------
 // Thinning.
 
+double text_width(std::size_t chars, double size) { return 0.66 * size * static_cast<double>(chars) + 2.0; }
+
+std::vector<std::optional<std::pair<double, double>>> place_labels(const std::vector<LabelWish>& wishes,
+                                                                   const LabelBox& area, std::vector<LabelBox> taken) {
+  std::vector<std::optional<std::pair<double, double>>> out(wishes.size());
+  for (std::size_t i = 0; i < wishes.size(); ++i) {
+    const LabelWish& w = wishes[i];
+    if (!(std::isfinite(w.ax) && std::isfinite(w.ay) && w.w > 0 && w.h > 0)) continue;
+    const double near = 0.5 * w.h + 4, line = w.h + 2;
+    const double s = w.up ? -1 : 1;  // y grows downward
+    // Centres to try, best first: the side asked for, a line further out,
+    // the other side, two lines out, and beside the point.
+    const std::pair<double, double> tries[] = {
+        {w.ax, w.ay + s * near},           {w.ax, w.ay + s * (near + line)}, {w.ax, w.ay - s * near},
+        {w.ax, w.ay + s * (near + 2 * line)}, {w.ax, w.ay - s * (near + line)},
+        {w.ax + 0.5 * w.w + 6, w.ay},      {w.ax - 0.5 * w.w - 6, w.ay}};
+    for (auto [cx, cy] : tries) {
+      // Kept inside the panel sideways (a label at the beam's end).
+      cx = std::clamp(cx, area.x0 + 0.5 * w.w, std::max(area.x0 + 0.5 * w.w, area.x1 - 0.5 * w.w));
+      const LabelBox b{cx - 0.5 * w.w, cy - 0.5 * w.h, cx + 0.5 * w.w, cy + 0.5 * w.h};
+      if (b.y0 < area.y0 || b.y1 > area.y1) continue;
+      if (std::any_of(taken.begin(), taken.end(), [&](const LabelBox& t) { return t.overlaps(b); })) continue;
+      taken.push_back(b);
+      out[i] = std::make_pair(cx, cy);
+      break;
+    }
+  }
+  return out;
+}
+
 std::vector<std::size_t> thin_indices(const std::vector<double>& x, const std::vector<double>& y,
                                       std::size_t max_points) {
   const std::size_t n = std::min(x.size(), y.size());
@@ -1117,22 +1159,28 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   lay.H = std::max(400, opt.height);
   lay.right = std::clamp(lay.W * 0.2, 150.0, 230.0);
   lay.left = 136;
-  if (!d.combination.empty()) lay.top += 16;
-  // The caution at the foot, in lines of about a picture's width.
-  std::vector<std::string> caution_lines;
-  {
-    const std::size_t width = static_cast<std::size_t>(std::max(40, lay.W / 5));
-    std::istringstream words(d.caution);
+  // Text in lines of at most `width` characters, broken between words.
+  auto wrap = [](const std::string& text, std::size_t width) {
+    std::vector<std::string> lines;
+    std::istringstream words(text);
     std::string w, line;
     while (words >> w) {
       if (!line.empty() && line.size() + 1 + w.size() > width) {
-        caution_lines.push_back(line);
+        lines.push_back(line);
         line.clear();
       }
       line += (line.empty() ? "" : " ") + w;
     }
-    if (!line.empty()) caution_lines.push_back(line);
-  }
+    if (!line.empty()) lines.push_back(line);
+    return lines;
+  };
+  // The combination under the title, in lines that fit the picture (a
+  // 9-point character is up to about 6.5 pixels wide in a PNG).
+  const std::vector<std::string> combination_lines =
+      wrap(d.combination, static_cast<std::size_t>(std::max(30.0, lay.W / 7.2)));
+  lay.top += 14 * static_cast<double>(combination_lines.size()) + (combination_lines.empty() ? 0 : 2);
+  // The caution at the foot, in lines of about a picture's width.
+  const std::vector<std::string> caution_lines = wrap(d.caution, static_cast<std::size_t>(std::max(40, lay.W / 5)));
   if (!caution_lines.empty()) lay.bottom += 8 + 12 * static_cast<double>(caution_lines.size());
   if (d.envelope) lay.right = std::min(lay.right + 40, 0.3 * lay.W);  // "slope-deflection max/min"
 
@@ -1158,21 +1206,74 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   }
   bool any_point = false;
   for (const auto& l : d.loads) any_point = any_point || (l.type != LoadType::Udl && l.type != LoadType::Linear);
-  std::size_t claim_lines = 0;
-  for (const auto& n : d.nodes) claim_lines = std::max(claim_lines, n.claims.size() + n.others.size());
+  const double span = d.x_max - d.x_min;
+  const double xlo = d.x_min - 0.035 * span, xhi = d.x_max + 0.035 * span;
+  const double plot_w = lay.W - lay.left - lay.right;
+  const double upx = (xhi - xlo) / plot_w;
+  // The lines under each support (its reaction and settlement, then its
+  // claims and the other program's values, 7-point text): a node's lines
+  // go in consecutive rows from the first row where none of them would
+  // overlap a line of a node to its left (supports close together).
+  const bool many_nodes = d.nodes.size() > 40;
+  const std::size_t label_every = many_nodes ? (d.nodes.size() + 39) / 40 : 1;
+  struct NodeLine {
+    std::size_t node = 0;
+    std::string text, color;
+    std::size_t row = 0;
+  };
+  std::vector<NodeLine> node_lines;
+  std::size_t rows_used = 1;
+  {
+    std::vector<std::pair<LabelBox, std::size_t>> placed;  // (box in pixels along x, row)
+    for (std::size_t i = 0; i < d.nodes.size(); ++i) {
+      if (!(i % label_every == 0 || i + 1 == d.nodes.size())) continue;
+      const SketchNode& n = d.nodes[i];
+      std::vector<NodeLine> lines;
+      std::string r = n.reaction;
+      if (std::abs(n.settlement) > 0) {
+        char sb[48];
+        std::snprintf(sb, sizeof sb, "%.3g", n.settlement);
+        r += std::string(r.empty() ? "" : "; ") + "settles " + sb + (n.settlement_unit.empty() ? "" : " " + n.settlement_unit);
+      }
+      // Without a reaction line the claims start one row down, as always.
+      if (!many_nodes) lines.push_back({i, r, "#333333", 0});
+      for (const auto& c : n.claims) lines.push_back({i, c, "#555555", 0});
+      for (const auto& c : n.others)
+        lines.push_back({i, c, c.find("(fails)") != std::string::npos ? "#c2410c" : "#6a3d9a", 0});
+      const double xp = (n.x - xlo) / upx;
+      auto box = [&](const std::string& t) {
+        const double w = text_width(t.size(), 7);
+        return LabelBox{xp - 0.5 * w - 3, 0, xp + 0.5 * w + 3, 1};
+      };
+      std::size_t first = 0;
+      for (bool clash = true; clash && first < 8; ) {
+        clash = false;
+        for (std::size_t k = 0; k < lines.size() && !clash; ++k) {
+          if (lines[k].text.empty()) continue;
+          const LabelBox b = box(lines[k].text);
+          for (const auto& [pb, row] : placed)
+            if (row == first + k && pb.overlaps(b)) clash = true;
+        }
+        if (clash) ++first;
+      }
+      for (std::size_t k = 0; k < lines.size(); ++k) {
+        lines[k].row = first + k;
+        if (lines[k].text.empty()) continue;
+        placed.push_back({box(lines[k].text), lines[k].row});
+        rows_used = std::max(rows_used, lines[k].row + 1);
+        node_lines.push_back(lines[k]);
+      }
+    }
+  }
   const double layer_h = 30;
   const double loads_top = 8 + layers * layer_h + (any_point ? 34 : 0) + 6;
-  const double below = 66 + 12 * static_cast<double>(claim_lines);
+  const double below = 54 + 12 * static_cast<double>(rows_used);
   lay.sketch_h = std::max(0.16 * lay.H, loads_top + below + 8);
   const std::size_t data_panels = d.panels.size() > 0 ? d.panels.size() - 1 : 0;
   lay.panel_h = (lay.H - lay.top - lay.bottom - lay.sketch_h - lay.gap * static_cast<double>(data_panels)) /
                 std::max<std::size_t>(1, data_panels);
   if (lay.panel_h < 60) lay.panel_h = 60;
 
-  const double span = d.x_max - d.x_min;
-  const double xlo = d.x_min - 0.035 * span, xhi = d.x_max + 0.035 * span;
-  const double plot_w = lay.W - lay.left - lay.right;
-  const double upx = (xhi - xlo) / plot_w;
 
   if (opt.format == ImageFormat::Svg)
     gp << "set terminal svg size " << lay.W << "," << lay.H << " font \"sans,10\" noenhanced background rgb \"white\"\n";
@@ -1212,9 +1313,9 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
   }
   gp << "set label 9002 " << gq(subtitle) << " at screen 0.5, screen " << num(lay.fy(38))
      << " center font \",9\" textcolor rgb \"#444444\" noenhanced\n";
-  if (!d.combination.empty())
-    gp << "set label 9003 " << gq(d.combination) << " at screen 0.5, screen " << num(lay.fy(54))
-       << " center font \",9\" textcolor rgb \"#222222\" noenhanced\n";
+  for (std::size_t k = 0; k < combination_lines.size(); ++k)
+    gp << "set label " << 9050 + k << " " << gq(combination_lines[k]) << " at screen 0.5, screen "
+       << num(lay.fy(54 + 14 * static_cast<double>(k))) << " center font \",9\" textcolor rgb \"#222222\" noenhanced\n";
 
   for (std::size_t k = 0; k < caution_lines.size(); ++k)
     gp << "set label " << 9010 + k << " " << gq((k ? "" : "Caution: ") + caution_lines[k]) << " at screen 0.5, screen "
@@ -1233,8 +1334,6 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
       Sketch s{o, upx};
       // Spans.
       s.line(d.x_min, 0, d.x_max, 0, 4.0);
-      const bool many_nodes = d.nodes.size() > 40;
-      const std::size_t label_every = many_nodes ? (d.nodes.size() + 39) / 40 : 1;
       for (std::size_t i = 0; i < d.nodes.size(); ++i) {
         const SketchNode& n = d.nodes[i];
         const double x = n.x;
@@ -1284,22 +1383,10 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
             break;
         }
         if (n.hinge) s.circle(x, 0, 4, "white");
-        if (i % label_every == 0 || i + 1 == d.nodes.size()) {
-          s.text(x, -42, n.label, "center", 9);
-          std::string r = n.reaction;
-          if (std::abs(n.settlement) > 0) {
-            char sb[48];
-            std::snprintf(sb, sizeof sb, "%.3g", n.settlement);
-            r += std::string(r.empty() ? "" : "; ") + "settles " + sb + (n.settlement_unit.empty() ? "" : " " + n.settlement_unit);
-          }
-          if (!many_nodes && !r.empty()) s.text(x, -55, r, "center", 7, "#333333");
-          for (std::size_t c = 0; c < n.claims.size(); ++c)
-            s.text(x, -67 - 12 * static_cast<double>(c), n.claims[c], "center", 7, "#555555");
-          for (std::size_t c = 0; c < n.others.size(); ++c)
-            s.text(x, -67 - 12 * static_cast<double>(c + n.claims.size()), n.others[c], "center", 7,
-                   n.others[c].find("(fails)") != std::string::npos ? "#c2410c" : "#6a3d9a");
-        }
+        if (i % label_every == 0 || i + 1 == d.nodes.size()) s.text(x, -42, n.label, "center", 9);
       }
+      for (const auto& l : node_lines)
+        s.text(d.nodes[l.node].x, -55 - 12 * static_cast<double>(l.row), l.text, "center", 7, l.color.c_str());
       // Loads.
       double wmax = 0;
       for (const auto& l : d.loads)
@@ -1418,11 +1505,15 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         gp << "set label " << gq(d.mark_text) << " at first " << num(*d.mark_x)
            << ", graph 0.96 left offset 0.6,0 front font \",8\" textcolor rgb \"#b03030\" noenhanced\n";
       }
-      for (const auto& l : p.labels) {
-        const bool up = p.drawn_down ? l.y < 0 : l.y >= 0;
-        gp << "set label " << gq(l.text) << " at first " << num(l.x) << ",first " << num(l.y) << " center offset 0,"
-           << (up ? "0.8" : "-0.8") << " front font \",8\" textcolor rgb \"#222222\" noenhanced\n";
-      }
+      // Pixels of this panel (y down), for the labels' boxes.
+      auto px_x = [&](double x) { return lay.left + (x - xlo) / (xhi - xlo) * plot_w; };
+      auto px_y = [&](double y) {
+        const double t = (y - lo) / (hi - lo);
+        return p.drawn_down ? y_px + t * h : y_px + h - t * h;
+      };
+      std::vector<LabelBox> taken;
+      if (d.mark_x) taken.push_back({px_x(*d.mark_x), y_px, px_x(*d.mark_x) + 10 + text_width(d.mark_text.size(), 8), y_px + 0.1 * h});
+      if (p.kind == PanelKind::Difference) taken.push_back({lay.left, y_px, lay.left + 0.01 * plot_w + text_width(60, 8), y_px + 0.1 * h});
       // Where each claim is drawn: at its value, or at the edge it is beyond.
       std::vector<double> claim_y;
       for (const auto& c : p.claims) {
@@ -1443,6 +1534,27 @@ void write_script(Gnuplot& gp, const PlotData& d, const RenderOptions& opt, cons
         gp << "set label " << gq(text) << " at first " << num(c.x) << ",first " << num(y)
            << " left offset 1.2,0.2 front font \",7\" textcolor rgb \"" << (c.holds ? "#1d7a34" : "#b3122e")
            << "\" noenhanced\n";
+        // (offset 1.2 characters of the 10-point font: about 7 px)
+        taken.push_back({px_x(c.x) + 6, px_y(y) - 8, px_x(c.x) + 8 + text_width(text.size(), 7), px_y(y) + 2});
+      }
+      // The values, where they do not cover each other or a claim's text.
+      {
+        std::vector<LabelWish> wishes;
+        for (std::size_t li = 0; li < p.labels.size(); ++li) {
+          const ValueLabel& l = p.labels[li];
+          LabelWish w{px_x(l.x), px_y(l.y), text_width(l.text.size(), 8), 10, p.drawn_down ? l.y < 0 : l.y >= 0};
+          // The same text within its own width of an earlier one: said once.
+          for (std::size_t k = 0; k < li; ++k)
+            if (p.labels[k].text == l.text && std::abs(wishes[k].ax - w.ax) < w.w && std::abs(wishes[k].ay - w.ay) < w.h)
+              w.w = 0;  // left out
+          wishes.push_back(w);
+        }
+        const auto spots = place_labels(wishes, {lay.left, y_px, lay.W - lay.right, y_px + h}, taken);
+        for (std::size_t li = 0; li < p.labels.size(); ++li) {
+          if (!spots[li]) continue;
+          gp << "set label " << gq(p.labels[li].text) << " at screen " << num(lay.fx(spots[li]->first)) << ", screen "
+             << num(lay.fy(spots[li]->second)) << " center front font \",8\" textcolor rgb \"#222222\" noenhanced\n";
+        }
       }
       std::vector<std::vector<std::pair<double, double>>> series;
       std::vector<std::string> specs;

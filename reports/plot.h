@@ -196,6 +196,31 @@ std::vector<std::size_t> thin_indices(const std::vector<double>& x, const std::v
 // Every curve thinned so (see thin_indices).
 PlotData thinned(const PlotData& data, std::size_t max_points);
 
+// Where the value labels of a panel go, in pixels (y down). Each label is
+// a box of `w` x `h` wanted just above (`up`) or below its point (`ax`,
+// `ay`); it is tried there, then further out, on the other side and beside
+// the point, and takes the first spot that overlaps neither a box already
+// placed (`taken`, e.g. the claims' texts) nor an earlier label and lies
+// inside `area`. A label with no such spot is left out (its value is in the
+// tables): labels never cover each other. Returns each label's centre, or
+// nothing where it is left out.
+struct LabelBox {
+  double x0 = 0, y0 = 0, x1 = 0, y1 = 0;
+  bool overlaps(const LabelBox& o) const { return x0 < o.x1 && o.x0 < x1 && y0 < o.y1 && o.y0 < y1; }
+};
+struct LabelWish {
+  double ax = 0, ay = 0;  // the point labelled
+  double w = 0, h = 0;    // the text's box
+  bool up = true;         // first choice: above the point
+};
+std::vector<std::optional<std::pair<double, double>>> place_labels(const std::vector<LabelWish>& wishes,
+                                                                   const LabelBox& area,
+                                                                   std::vector<LabelBox> taken = {});
+// The box of a text of `chars` characters in a font of `size` points, as
+// gnuplot's svg and pngcairo terminals draw DejaVu Sans (a digit is 0.636
+// of the size wide; a little more, to be safe).
+double text_width(std::size_t chars, double size);
+
 enum class ImageFormat { Svg, Png };
 // ".svg" or ".png" (any case) at the end of a path.
 std::optional<ImageFormat> format_for_path(const std::string& path);

@@ -437,16 +437,17 @@ namespace {
 // the usual widths of a sans font's glyphs (digits and 'e' 0.56 of the font
 // size, '-' 0.34, '.' 0.28; common practice, no source); a rotated title's
 // line reaches a little right of its x.
-TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
-  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox)";
-  std::string err;
-  const std::string svg = render(plot_data(sample(), 0), ImageFormat::Svg, 800, 900, &err);
-  ASSERT_FALSE(svg.empty()) << err;
-  // Each text item of gnuplot's SVG reads
-  //   <g transform="translate(X,Y)[ rotate(270)]" ... font-size="S" ... text-anchor="A">
-  //   <text>T</text>
-  // (scanned by hand: std::regex trips GCC 12's maybe-uninitialized warning
-  // under the sanitizer build).
+// The text items of gnuplot's SVG. Each reads
+//   <g transform="translate(X,Y)[ rotate(270)]" ... font-size="S" ... text-anchor="A">
+//   <text>T</text>
+// (scanned by hand: std::regex trips GCC 12's maybe-uninitialized warning
+// under the sanitizer build).
+struct SvgText {
+  double x = 0, y = 0, size = 0;
+  std::string anchor, text;
+  bool rotated = false;
+};
+std::vector<SvgText> svg_texts(const std::string& svg) {
   const auto attribute = [](const std::string& tag, const std::string& name) -> std::string {
     const std::string key = name + "=\"";
     const auto at = tag.find(key);
@@ -454,21 +455,7 @@ TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
     const auto end = tag.find('"', at + key.size());
     return end == std::string::npos ? std::string() : tag.substr(at + key.size(), end - at - key.size());
   };
-  const auto is_number = [](const std::string& t) {
-    if (t.empty()) return false;
-    std::size_t i = t[0] == '-' ? 1 : 0;
-    bool digits = false;
-    for (; i < t.size() && (std::isdigit(static_cast<unsigned char>(t[i])) || t[i] == '.'); ++i) digits = true;
-    if (i < t.size() && t[i] == 'e') {
-      ++i;
-      if (i < t.size() && (t[i] == '-' || t[i] == '+')) ++i;
-      if (i == t.size()) return false;
-      for (; i < t.size() && std::isdigit(static_cast<unsigned char>(t[i])); ++i) {}
-    }
-    return digits && i == t.size();
-  };
-  double leftmost_tick = 1e9, rightmost_title = -1e9;
-  int ticks = 0, titles = 0;
+  std::vector<SvgText> out;
   for (std::size_t at = svg.find("<g transform=\"translate("); at != std::string::npos;
        at = svg.find("<g transform=\"translate(", at + 1)) {
     const auto close = svg.find('>', at);
@@ -484,15 +471,47 @@ TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
     const std::string text = svg.substr(open_text + 6, end_text - open_text - 6);
     if (text.find('<') != std::string::npos) continue;
     const std::string transform = attribute(tag, "transform");  // translate(X,Y)[ rotate(270)]
-    const double x = std::stod(transform.substr(std::string("translate(").size()));
-    const double size = std::stod(size_text);
-    if (transform.find("rotate(270)") != std::string::npos) {
-      rightmost_title = std::max(rightmost_title, x + 0.3 * size);
+    SvgText t;
+    t.x = std::stod(transform.substr(std::string("translate(").size()));
+    t.y = std::stod(transform.substr(transform.find(',') + 1));
+    t.size = std::stod(size_text);
+    t.anchor = anchor;
+    t.text = text;
+    t.rotated = transform.find("rotate(") != std::string::npos;
+    out.push_back(t);
+  }
+  return out;
+}
+
+bool is_number(const std::string& t) {
+  if (t.empty()) return false;
+  std::size_t i = t[0] == '-' ? 1 : 0;
+  bool digits = false;
+  for (; i < t.size() && (std::isdigit(static_cast<unsigned char>(t[i])) || t[i] == '.'); ++i) digits = true;
+  if (i < t.size() && t[i] == 'e') {
+    ++i;
+    if (i < t.size() && (t[i] == '-' || t[i] == '+')) ++i;
+    if (i == t.size()) return false;
+    for (; i < t.size() && std::isdigit(static_cast<unsigned char>(t[i])); ++i) {}
+  }
+  return digits && i == t.size();
+}
+
+TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox)";
+  std::string err;
+  const std::string svg = render(plot_data(sample(), 0), ImageFormat::Svg, 800, 900, &err);
+  ASSERT_FALSE(svg.empty()) << err;
+  double leftmost_tick = 1e9, rightmost_title = -1e9;
+  int ticks = 0, titles = 0;
+  for (const SvgText& t : svg_texts(svg)) {
+    if (t.rotated) {
+      rightmost_title = std::max(rightmost_title, t.x + 0.3 * t.size);
       ++titles;
-    } else if (anchor == "end" && is_number(text) && x < 200) {
+    } else if (t.anchor == "end" && is_number(t.text) && t.x < 200) {
       double w = 0;
-      for (char c : text) w += c == '-' ? 0.34 : c == '.' ? 0.28 : 0.56;
-      leftmost_tick = std::min(leftmost_tick, x - w * size);
+      for (char c : t.text) w += c == '-' ? 0.34 : c == '.' ? 0.28 : 0.56;
+      leftmost_tick = std::min(leftmost_tick, t.x - w * t.size);
       ++ticks;
     }
   }
@@ -500,6 +519,94 @@ TEST(Render, AxisTitlesLeaveTheTickLabelsClear) {
   ASSERT_GT(ticks, 10);
   EXPECT_LT(rightmost_title, leftmost_tick) << "an axis title reaches x = " << rightmost_title
                                             << ", a tick label starts at x = " << leftmost_tick;
+}
+
+// Labels wanted at one point, or crowded into a small panel, are placed
+// apart or left out: never on top of each other, never outside the panel.
+TEST(Labels, PlacedApartOrLeftOut) {
+  const LabelBox area{0, 0, 200, 100};
+  std::vector<LabelWish> wishes;
+  for (int i = 0; i < 12; ++i) wishes.push_back({100, 50, text_width(6, 8), 10, i % 2 == 0});
+  const auto spots = place_labels(wishes, area, {{90, 20, 110, 30}});  // a claim's text, say
+  std::vector<LabelBox> placed;
+  for (std::size_t i = 0; i < spots.size(); ++i) {
+    if (!spots[i]) continue;
+    const LabelBox b{spots[i]->first - 0.5 * wishes[i].w, spots[i]->second - 5, spots[i]->first + 0.5 * wishes[i].w,
+                     spots[i]->second + 5};
+    EXPECT_GE(b.x0, area.x0);
+    EXPECT_LE(b.x1, area.x1);
+    EXPECT_GE(b.y0, area.y0);
+    EXPECT_LE(b.y1, area.y1);
+    EXPECT_FALSE(b.overlaps({90, 20, 110, 30})) << "label " << i << " covers the claim's text";
+    for (const auto& o : placed) EXPECT_FALSE(b.overlaps(o)) << "label " << i << " covers an earlier one";
+    placed.push_back(b);
+  }
+  // The first two sit where they were asked: above and below the point.
+  ASSERT_TRUE(spots[0] && spots[1]);
+  EXPECT_LT(spots[0]->second, 50);
+  EXPECT_GT(spots[1]->second, 50);
+  EXPECT_GE(placed.size(), 4u);
+  EXPECT_LT(placed.size(), wishes.size()) << "twelve labels cannot all fit around one point";
+  // A label at the panel's end is moved inside it, not cut.
+  const auto edge = place_labels({{199, 50, 40, 10, true}}, area);
+  ASSERT_TRUE(edge[0]);
+  EXPECT_DOUBLE_EQ(edge[0]->first, 180);
+}
+
+// A short span between long ones puts its supports' moments and shears
+// side by side; a hinge where the shear runs on has the same shear at the
+// end of one span and the start of the next. Every value label of the
+// picture (gnuplot's own SVG) keeps clear of the others.
+TEST(Render, ValueLabelsNeverCoverEachOther) {
+  if (!find_gnuplot()) GTEST_SKIP() << "gnuplot is not installed (apt-get install gnuplot-nox)";
+  // (Invented numbers, chosen so that the moments at B and C, 0.6 m
+  // apart, are nearly equal: -229.4 and -226.2 kN*m.)
+  const char* text = R"({"title": "crowded labels", "units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 10, "EI": 50000}, {"length": 0.6, "EI": 50000}, {"length": 7, "EI": 50000},
+              {"length": 3, "EI": 50000}],
+    "supports": ["pinned", "roller", "roller", {"type": "free", "hinge": true}, "fixed"],
+    "loads": [{"type": "udl", "span": 1, "w": 20}, {"type": "udl", "span": 3, "w": 31.5},
+              {"type": "udl", "span": 4, "w": 31.5}]})";
+  input::BeamFile f = input::parse_beam_text(text, "crowded.json");
+  ASSERT_TRUE(f.ok()) << (f.errors.empty() ? "" : f.errors[0].format("crowded.json"));
+  const reports::Report b = compare::check(f, {});
+  const PlotData d = plot_data(b, 0);
+  std::size_t wanted = 0;
+  for (const auto& p : d.panels) wanted += p.labels.size();
+  std::string err;
+  const std::string svg = render(d, ImageFormat::Svg, 960, 1100, &err);
+  ASSERT_FALSE(svg.empty()) << err;
+  std::vector<std::pair<LabelBox, std::string>> boxes;
+  for (const SvgText& t : svg_texts(svg)) {
+    // The value labels: numbers at 8 points, centred (tick labels are
+    // anchored at an end).
+    if (t.rotated || t.anchor != "middle" || !is_number(t.text) || std::abs(t.size - 8) > 0.01) continue;
+    const double w = text_width(t.text.size(), t.size);
+    boxes.push_back({{t.x - 0.5 * w, t.y - 0.8 * t.size, t.x + 0.5 * w, t.y + 0.2 * t.size}, t.text});
+  }
+  ASSERT_GE(boxes.size(), 8u) << "the labels were not found in the SVG";
+  EXPECT_LE(boxes.size(), wanted);
+  for (std::size_t i = 0; i < boxes.size(); ++i)
+    for (std::size_t j = i + 1; j < boxes.size(); ++j)
+      EXPECT_FALSE(boxes[i].first.overlaps(boxes[j].first))
+          << "\"" << boxes[i].second << "\" and \"" << boxes[j].second << "\" overlap";
+  // The reactions under the sketch's supports B and C, 0.6 m apart, too.
+  std::vector<std::pair<LabelBox, std::string>> reactions;
+  for (const SvgText& t : svg_texts(svg)) {
+    if (t.rotated || t.anchor != "middle" || t.text.rfind("R = ", 0) != 0) continue;
+    const double w = text_width(t.text.size(), t.size);
+    reactions.push_back({{t.x - 0.5 * w, t.y - 0.8 * t.size, t.x + 0.5 * w, t.y + 0.2 * t.size}, t.text});
+  }
+  ASSERT_EQ(reactions.size(), 4u);  // A, B, C and the fixed end E
+  for (std::size_t i = 0; i < reactions.size(); ++i)
+    for (std::size_t j = i + 1; j < reactions.size(); ++j)
+      EXPECT_FALSE(reactions[i].first.overlaps(reactions[j].first))
+          << "\"" << reactions[i].second << "\" and \"" << reactions[j].second << "\" overlap";
+  // A shear that runs on through the hinge is labelled once.
+  std::size_t same = 0;
+  for (const auto& l : d.panel(PanelKind::Shear)->labels)
+    for (const auto& k : d.panel(PanelKind::Shear)->labels) same += &l != &k && l.text == k.text && std::abs(l.x - k.x) < 1e-9;
+  EXPECT_EQ(same, 0u);
 }
 
 }  // namespace
