@@ -94,15 +94,6 @@ std::string sci(double v) {
 
 }  // namespace
 
-namespace {
-// Six significant digits: what a person compares (the JSON keeps every digit).
-std::string sig6(double v) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
-}  // namespace
-
 LimitsBrief limits_brief(const LoadSet& set, double factor) {
   LimitsBrief b;
   double largest = 0;
@@ -349,17 +340,6 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     if (sourced) c.head.push_back("from");
     for (std::size_t i = 0; i < b.claims.size(); ++i) {
       const ClaimResult& r = b.claims[i];
-      const Kind k = [&] {
-        using Q = input::Quantity;
-        switch (r.claim.quantity) {
-          case Q::Shear: return Kind::Shear;
-          case Q::Reaction: return Kind::Reaction;
-          case Q::Deflection: case Q::MaxDeflection: return Kind::Deflection;
-          case Q::Rotation: return Kind::Rotation;
-          default: return Kind::Moment;
-        }
-      }();
-      (void)k;
       const DisplayUnit& cu = u.of(r.claim.quantity);
       const int d = decimals_for(std::max(std::abs(cu(r.claim.value)), std::abs(cu(r.computed)))) + 1;
       // A claim at x: its place in the display length unit.
@@ -388,11 +368,19 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       continue;
     }
     out << ": " << (cmp->holds() ? paint("every value holds", kGreen, opt.color) : paint("values fail", kRed, opt.color)) << "\n";
+    // In the display units, to the digits of the tolerance; each
+    // quantity's unit beside its name. (Where a row is: as their table
+    // gives it, in their units.)
+    auto digits = [](const DisplayUnit& du, double v, double tol) {
+      return decimals_for(std::max(std::abs(du(v)), std::abs(du(tol)))) + 1;
+    };
     Table t;
     t.head = {"quantity", "rows", "failing", "worst difference", "at", "tolerance"};
     for (const auto& q : cmp->summary) {
-      t.rows.push_back({ag::quantity_name(q.quantity), std::to_string(q.compared), std::to_string(q.failing),
-                        sig6(q.worst_difference), q.worst_where, sig6(q.tolerance)});
+      const DisplayUnit& du = u.of(q.quantity);
+      const int d = digits(du, q.worst_difference, q.tolerance);
+      t.rows.push_back({std::string(ag::quantity_name(q.quantity)) + " [" + du.label + "]", std::to_string(q.compared),
+                        std::to_string(q.failing), fixed(du(q.worst_difference), d), q.worst_where, fixed(du(q.tolerance), d)});
       if (q.finding) t.rows.push_back({"    " + paint("finding: " + q.finding->text, kYellow, opt.color)});
       else if (!q.note.empty()) t.rows.push_back({"    note: " + q.note});
       if (q.empty > 0)
@@ -405,12 +393,17 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       for (const auto& c : r.cells) {
         if (c.holds || shown >= 10) continue;
         ++shown;
+        const DisplayUnit& du = u.of(c.quantity);
+        const int d = digits(du, std::max(std::abs(c.theirs), std::abs(c.ours)), c.tolerance);
+        const std::string unit = " " + du.label;
         out << "    line " << r.line << ", " << r.where << ": " << ag::quantity_name(c.quantity) << " theirs "
-            << sig6(c.theirs) << ", ours " << sig6(c.ours) << ", difference "
-            << sig6(c.difference) << " (tolerance " << sig6(c.tolerance) << ")"
+            << fixed(du(c.theirs), d) << unit << ", ours " << fixed(du(c.ours), d) << unit << ", difference "
+            << fixed(du(c.difference), d) << unit << " (tolerance " << fixed(du(c.tolerance), d) << unit << ")"
             << (c.reason.empty() ? "" : ": " + c.reason) << "\n";
       }
-    if (cmp->failing() > shown) out << "    ... " << cmp->failing() - shown << " more failing values in the JSON report\n";
+    if (cmp->failing() > shown)
+      out << "    ... " << cmp->failing() - shown << (cmp->failing() - shown == 1 ? " more failing value" : " more failing values")
+          << " in the JSON report\n";
     out << "\n";
   }
 }

@@ -140,6 +140,17 @@ const DisplayUnit& DisplayUnits::of(input::Quantity q) const {
   return rotation;
 }
 
+const DisplayUnit& DisplayUnits::of(compare::against::Quantity q) const {
+  using AQ = compare::against::Quantity;
+  switch (q) {
+    case AQ::Shear: case AQ::ShearMax: case AQ::ShearMin:
+    case AQ::ReactionForce: case AQ::ReactionMax: case AQ::ReactionMin: return force;
+    case AQ::Deflection: case AQ::DeflectionMax: case AQ::DeflectionMin: return deflection;
+    case AQ::Moment: case AQ::MomentMax: case AQ::MomentMin: case AQ::ReactionMoment: return moment;
+  }
+  return moment;
+}
+
 DisplayUnits display_units(const input::Units& units, const ShowUnits& show) {
   std::string def[4];
   if (!show.file) {

@@ -16,6 +16,7 @@
 #include <optional>
 #include <string>
 
+#include "harness/compare/against.h"
 #include "harness/compare/compare.h"
 #include "harness/input/units.h"
 
@@ -55,6 +56,8 @@ struct DisplayUnits {
   // The unit of a claim's quantity (moments, shears, reactions,
   // deflections, rotations).
   const DisplayUnit& of(input::Quantity q) const;
+  // The unit of a column of another program's table (--against).
+  const DisplayUnit& of(compare::against::Quantity q) const;
 };
 
 // A value converted to a display unit, written as the file's numbers are

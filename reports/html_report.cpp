@@ -481,23 +481,16 @@ struct Writer {
       }
       o << "<table class=\"against\"><tr><th>quantity</th><th>rows</th><th>failing</th><th>worst difference</th>"
            "<th>where</th><th>tolerance</th><th>finding</th></tr>\n";
+      const DisplayUnits u = display_units(b.units, opt.show);
       for (const auto& s : c.summary) {
-        const std::string unit = html_escape(
-            [&]() -> std::string {
-              using AQ = against::Quantity;
-              switch (s.quantity) {
-                case AQ::Shear: case AQ::ShearMax: case AQ::ShearMin:
-                case AQ::ReactionForce: case AQ::ReactionMax: case AQ::ReactionMin: return c.units.force;
-                case AQ::Deflection: case AQ::DeflectionMax: case AQ::DeflectionMin: return c.units.length;
-                default: return c.units.force + "*" + c.units.length;
-              }
-            }());
-        const int d = decimals_for(std::max(std::abs(s.worst_difference), s.tolerance)) + 1;
+        const DisplayUnit& du = u.of(s.quantity);
+        const std::string unit = html_escape(du.label);
+        const int d = decimals_for(std::max(std::abs(du(s.worst_difference)), std::abs(du(s.tolerance)))) + 1;
         o << "<tr><td>" << html_escape(against::quantity_name(s.quantity)) << "</td><td class=\"n\">" << s.compared
-          << "</td><td class=\"n\">" << s.failing << "</td><td class=\"n\">" << fixed(s.worst_difference, d) << " "
+          << "</td><td class=\"n\">" << s.failing << "</td><td class=\"n\">" << fixed(du(s.worst_difference), d) << " "
           << unit << "</td><td>" << html_escape(s.worst_where)
           << (s.worst_line ? " (line " + std::to_string(s.worst_line) + ")" : std::string()) << "</td><td class=\"n\">"
-          << fixed(s.tolerance, d) << " " << unit << "</td><td>"
+          << fixed(du(s.tolerance), d) << " " << unit << "</td><td>"
           << html_escape(s.finding ? s.finding->text : s.note)
           << (s.empty ? html_escape((s.finding || !s.note.empty() ? "; " : "") + std::to_string(s.empty) +
                                     (s.empty == 1 ? " cell" : " cells") + " of this column empty: not compared")

@@ -7,6 +7,7 @@
 #include <sstream>
 
 #include "harness/compare/against.h"
+#include "reports/display_units.h"
 #include "reports/json_writer.h"
 #include "reports/reports.h"
 
@@ -105,15 +106,20 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
       out.push_back(lim);
     }
   }
+  ShowUnits own;
+  own.file = true;
+  const DisplayUnits file_units = display_units(b.units, own);
   for (std::size_t i = 0; i < b.claims.size(); ++i) {
     const ClaimResult& c = b.claims[i];
     Case k{"claim " + std::to_string(i + 1) + ": " + input::quantity_name(c.claim.quantity) + " at " + c.label +
                " (" + c.load_case + ")" + (c.claim.source.empty() ? "" : " from " + c.claim.source),
            "", false};
     if (!c.holds) {
-      k.failure = c.evaluated ? "claimed " + num(c.claim.value) + ", computed " + num(c.computed) + ", difference " +
-                                    num(c.difference) + ", tolerance " + num(c.tolerance)
-                              : "claimed " + num(c.claim.value) + ": " + c.reason;
+      // In the file's units, as the JSON report.
+      const std::string unit = " " + file_units.of(c.claim.quantity).label;
+      k.failure = c.evaluated ? "claimed " + num(c.claim.value) + unit + ", computed " + num(c.computed) + unit +
+                                    ", difference " + num(c.difference) + unit + ", tolerance " + num(c.tolerance) + unit
+                              : "claimed " + num(c.claim.value) + unit + ": " + c.reason;
       if (!c.finding.empty()) k.failure += "\nfinding: " + c.finding;
     }
     out.push_back(k);
@@ -129,8 +135,9 @@ std::vector<Case> cases_of(const Report& b, double equilibrium_bound) {
     for (const auto& q : c->summary) {
       Case k{"against " + c->file + ": " + ag::quantity_plural(q.quantity) + " (" + c->load_case + ")", "", false};
       if (q.failing > 0) {
+        const std::string unit = " " + file_units.of(q.quantity).label;
         k.failure = std::to_string(q.failing) + " of " + std::to_string(q.compared) + " values fail; worst difference " +
-                    num(q.worst_difference) + " at " + q.worst_where + " (tolerance " + num(q.tolerance) + ")";
+                    num(q.worst_difference) + unit + " at " + q.worst_where + " (tolerance " + num(q.tolerance) + unit + ")";
         if (q.finding) k.failure += "\nfinding: " + q.finding->text;
         else if (!q.note.empty()) k.failure += "\n" + q.note;
       }

@@ -699,8 +699,13 @@ std::string influence_slug(const InfluenceRequest& q) {
 }
 
 PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req,
-                        const std::vector<const compare::Method*>& methods, int stations_per_span, std::string* error) {
+                        const std::vector<const compare::Method*>& methods, int stations_per_span, std::string* error,
+                        const ShowUnits& show) {
   PlotData d;
+  // Drawn in the display units: positions in their length unit, a moment
+  // per unit load in moment per force, a deflection per unit load in
+  // deflection per force; shears and reactions per unit load have none.
+  const DisplayUnits u = display_units(file.units, show);
   InfluenceRequest q = req;
   auto bad = [&](const std::string& why) {
     if (error) *error = "--influence '" + q.text + "': " + why;
@@ -782,26 +787,26 @@ PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req
     }
   }
 
-  const std::string F = file.units.force, L = file.units.length;
-  const std::string where = node ? (q.x ? "x = " + input::format_number(*q.x) + " " + L + " (node " + label_of(*node) + ")"
+  const std::string F = u.force.label, L = u.length.label;
+  const std::string where = node ? (q.x ? "x = " + shown_number(u.length(*q.x)) + " " + L + " (node " + label_of(*node) + ")"
                                         : label_of(*node)) +
                                        (q.quantity == InfluenceRequest::Quantity::Moment ||
                                                 q.quantity == InfluenceRequest::Quantity::Shear
                                             ? (*node == 0 || *node + 1 == nn ? std::string()
                                                : after ? std::string(", right side") : std::string(", left side"))
                                             : std::string())
-                                 : "x = " + input::format_number(*q.x) + " " + L;
+                                 : "x = " + shown_number(u.length(*q.x)) + " " + L;
   d.title = std::string("Influence line: ") + quantity_word(q.quantity) + " at " + where;
   d.x_label = "position of the unit load x [" + L + "]";
   d.x_min = 0;
-  d.x_max = total > 0 ? total : 1;
-  d.mark_x = mark;
+  d.x_max = total > 0 ? u.length(total) : 1;
+  d.mark_x = u.length(mark);
   d.mark_text = where;
 
   // The sketch: supports, hinges and labels; no loads.
   for (std::size_t i = 0; i < nn; ++i) {
     SketchNode n;
-    n.x = node_x[i];
+    n.x = u.length(node_x[i]);
     n.label = label_of(i);
     const Support& s = beam.supports[i];
     n.type = s.type;
@@ -813,15 +818,18 @@ PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req
   sketch.kind = PanelKind::Sketch;
   Panel p;
   p.kind = PanelKind::Influence;
+  double ordinate = 1;  // display value of an ordinate per file value
   switch (q.quantity) {
     case InfluenceRequest::Quantity::Moment:
-      p.ylabel = "moment per unit load [" + L + "]\nsagging +";
+      p.ylabel = "moment per unit load [" + u.moment.label + " per " + F + "]\nsagging +";
+      ordinate = u.moment.factor / u.force.factor;
       break;
     case InfluenceRequest::Quantity::Shear:
       p.ylabel = "shear [per unit load]\nup +";
       break;
     case InfluenceRequest::Quantity::Deflection:
-      p.ylabel = "deflection per unit load [" + L + "/" + F + "]\ndown +";
+      p.ylabel = "deflection per unit load [" + u.deflection.label + " per " + F + "]\ndown +";
+      ordinate = u.deflection.factor / u.force.factor;
       break;
     case InfluenceRequest::Quantity::Reaction:
       p.ylabel = "reaction [per unit load]\nup +";
@@ -864,9 +872,9 @@ PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& req
       if (!(pc.x1 > pc.x0)) continue;
       for (int k = 0; k <= kPerPiece; ++k) {
         const double x = k == kPerPiece ? pc.x1 : pc.x0 + (pc.x1 - pc.x0) * k / kPerPiece;
-        const double v = model->influence_value(line, x, k == 0);
+        const double v = ordinate * model->influence_value(line, x, k == 0);
         finite = finite && std::isfinite(v);
-        c.x.push_back(x);
+        c.x.push_back(u.length(x));
         c.y.push_back(v);
         largest = std::max(largest, std::abs(v));
       }

@@ -181,9 +181,11 @@ std::string influence_slug(const InfluenceRequest& q);
 // failed) is left out with a note. A node label the beam does not have, an
 // x off the beam or a reaction at a node without a vertical support gives
 // no panels and the reason in *error.
+// Positions and ordinates are in the display units `show` asks for (a
+// moment per unit load in the moment unit per force unit, and so on).
 PlotData influence_data(const input::BeamFile& file, const InfluenceRequest& q,
                         const std::vector<const compare::Method*>& methods, int stations_per_span,
-                        std::string* error);
+                        std::string* error, const ShowUnits& show = {});
 
 // The indices of a curve's points to keep so it has at most about
 // `max_points`: always the first and last, every jump (two points at the

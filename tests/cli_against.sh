@@ -10,6 +10,20 @@ rc=$?; [ $rc = 0 ] || { echo "FAIL: correct export exited $rc"; cat /tmp/trivet-
 "$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-hogging.csv" --column x=Dist --column moment=Mz >/tmp/trivet-against.out 2>&1
 rc=$?; [ $rc = 1 ] || { echo "FAIL: sign-flipped export exited $rc, expected 1"; cat /tmp/trivet-against.out; fail=1; }
 grep -q "hogging-positive" /tmp/trivet-against.out || { echo "FAIL: no finding about the sign convention"; cat /tmp/trivet-against.out; fail=1; }
+# The table and the failing lines carry units and the table's digits (the
+# closed form M = wL^2/8 = 45 kN*m at midspan: the file's own title).
+grep -q "moment \[kN\*m\] *13 *11 *-90.000" /tmp/trivet-against.out ||
+  { echo "FAIL: the against table has no unit or runaway digits"; cat /tmp/trivet-against.out; fail=1; }
+grep -q "line 9, x = 3 m: moment theirs -45.000 kN\*m, ours 45.000 kN\*m" /tmp/trivet-against.out ||
+  { echo "FAIL: a failing line has no unit"; cat /tmp/trivet-against.out; fail=1; }
+# In other display units the numbers follow (1 kN*m = 1000 N*m); the JUnit
+# message stays in the file's units, with them.
+"$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-hogging.csv" --column x=Dist --column moment=Mz \
+  --show-units moment=N*m --junit /tmp/trivet-against.xml >/tmp/trivet-against.out 2>&1
+grep -q "moment \[N\*m\] *13 *11 *-90000" /tmp/trivet-against.out ||
+  { echo "FAIL: --show-units does not reach the against table"; cat /tmp/trivet-against.out; fail=1; }
+grep -q 'worst difference -90 kN\*m at x = 3 m (tolerance 0.45 kN\*m)' /tmp/trivet-against.xml ||
+  { echo "FAIL: the JUnit message has no unit"; cat /tmp/trivet-against.xml; fail=1; }
 "$trivet" check "$data/simple-udl.json" --against "$data/simple-udl-moments-hogging.csv" --column x=Dist --column moment=Mz --their-moment hogging-positive >/tmp/trivet-against.out 2>&1
 rc=$?; [ $rc = 0 ] || { echo "FAIL: declared hogging-positive export exited $rc"; cat /tmp/trivet-against.out; fail=1; }
 "$trivet" check "$data/simple-udl.json" --against "$data/no-such.csv" >/tmp/trivet-against.out 2>&1

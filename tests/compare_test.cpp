@@ -364,3 +364,70 @@ TEST(ClaimFindings, TheUsualMistakesAreNamedAndTheClaimStillFails) {
 
 }  // namespace
 }  // namespace trivet::compare
+
+namespace trivet::compare {
+namespace {
+
+// One name per claim quantity, the other spelling accepted for it: over a
+// span, max_moment and moment_max are the span's largest moment; at a point
+// of an envelope, moment_max and max_moment are the envelope's value there.
+// Three equal spans L, a live UDL w patterned span by span, nothing else:
+//  - the largest sagging moment of span 1 comes with spans 1 and 3 loaded,
+//    R_A = 0.45 wL and M = R_A^2 / 2w = 0.10125 wL^2 (three-moment equation,
+//    derived in tests/extremes_test.cpp; AISC Steel Construction Manual,
+//    Table 3-23, three equal spans, prints 0.1013 wL^2, from memory);
+//  - the largest hogging moment at B comes with spans 1 and 2 loaded:
+//    4 M_B + M_C = -wL^2/2 and M_B + 4 M_C = -wL^2/4 give M_B = -7 wL^2/60
+//    (derived here; the same table prints 0.1167 wL^2, from memory).
+std::string patterned(const std::string& claims) {
+  return R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 30000}, {"length": 5, "EI": 30000}, {"length": 5, "EI": 30000}],
+    "supports": ["pinned", "roller", "roller", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 8, "case": "live"}, {"type": "udl", "span": 2, "w": 8, "case": "live"},
+              {"type": "udl", "span": 3, "w": 8, "case": "live"}],
+    "combinations": [{"name": "pattern", "factors": {"live": 1.0}, "pattern": ["live"]}],
+    "claims": {"tolerance": 0.001, "values": [)" + claims + "]}}";
+}
+
+TEST(ClaimNames, EachQuantityOneNameTheOtherSpellingAccepted) {
+  const double wL2 = 8.0 * 25.0;
+  const std::string sag = std::to_string(0.10125 * wL2), hog = std::to_string(-7.0 * wL2 / 60.0);
+  const BeamResult r = run(patterned(
+      R"({"quantity": "max_moment", "span": 1, "value": )" + sag + R"(, "case": "pattern"},
+         {"quantity": "moment_max", "span": 1, "value": )" + sag + R"(, "case": "pattern"},
+         {"quantity": "moment_min", "node": "B", "value": )" + hog + R"(, "case": "pattern"},
+         {"quantity": "min_moment", "node": "B", "value": )" + hog + R"(, "case": "pattern"},
+         {"quantity": "min_moment", "span": 1, "value": )" + hog + R"(, "case": "pattern"},
+         {"quantity": "max_reaction", "node": "A", "value": )" + std::to_string(0.45 * 8 * 5) + R"(, "case": "pattern"})"));
+  ASSERT_EQ(r.claims.size(), 6u);
+  const input::Quantity want[] = {input::Quantity::MaxMoment, input::Quantity::MaxMoment, input::Quantity::MomentMin,
+                                  input::Quantity::MomentMin, input::Quantity::MinMoment, input::Quantity::ReactionMax};
+  for (std::size_t i = 0; i < r.claims.size(); ++i) {
+    EXPECT_EQ(r.claims[i].claim.quantity, want[i]) << "claim " << i + 1;
+    EXPECT_TRUE(r.claims[i].evaluated) << "claim " << i + 1 << ": " << r.claims[i].reason;
+    EXPECT_TRUE(r.claims[i].holds) << "claim " << i + 1 << ": computed " << r.claims[i].computed;
+  }
+  // The alias is remembered as written; the contract's name is not.
+  EXPECT_EQ(r.claims[0].claim.written, "");
+  EXPECT_EQ(r.claims[1].claim.written, "moment_max");
+  EXPECT_EQ(r.claims[3].claim.written, "min_moment");
+  // A wrong value still fails under either name.
+  const BeamResult w = run(patterned(R"({"quantity": "moment_max", "span": 1, "value": 19.0, "case": "pattern"})"));
+  ASSERT_EQ(w.claims.size(), 1u);
+  EXPECT_FALSE(w.claims[0].holds);
+  EXPECT_NEAR(w.claims[0].computed, 0.10125 * wL2, 1e-9 * wL2);
+}
+
+TEST(ClaimNames, AnEnvelopeNameOnALoadCaseSaysWhatToWrite) {
+  input::BeamFile f = input::parse_beam_text(simple_beam(R"(, "claims": {"values": [
+      {"quantity": "max_moment", "x": 3, "value": 45}, {"quantity": "max_shear", "x": 3, "value": 0}]})"), "t.json");
+  ASSERT_EQ(f.errors.size(), 2u);
+  EXPECT_NE(f.errors[0].reason.find("max_moment (read as moment_max) is an envelope value"), std::string::npos)
+      << f.errors[0].reason;
+  EXPECT_NE(f.errors[0].reason.find("claim moment at the point, or max_moment or min_moment over a span"), std::string::npos)
+      << f.errors[0].reason;
+  EXPECT_NE(f.errors[1].reason.find("max_shear (read as shear_max)"), std::string::npos) << f.errors[1].reason;
+}
+
+}  // namespace
+}  // namespace trivet::compare

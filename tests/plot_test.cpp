@@ -717,7 +717,7 @@ TEST(Influence, MomentAtBIsEachMethodsLineAndTheClosedForm) {
   EXPECT_DOUBLE_EQ(*d.mark_x, 8.0);
   const Panel* p = d.panel(PanelKind::Influence);
   ASSERT_NE(p, nullptr);
-  EXPECT_NE(p->ylabel.find("[m]"), std::string::npos) << p->ylabel;
+  EXPECT_NE(p->ylabel.find("[kN*m per kN]"), std::string::npos) << p->ylabel;
   ASSERT_EQ(p->curves.size(), compare::methods().size());
   const double L = 8.0;
   for (std::size_t mi = 0; mi < p->curves.size(); ++mi) {
@@ -734,6 +734,44 @@ TEST(Influence, MomentAtBIsEachMethodsLineAndTheClosedForm) {
       EXPECT_NEAR(c.y[i], -L * xi * (1 - xi) * (1 + xi) / 4, 1e-12 * L) << c.method << " x = " << c.x[i];
     }
   }
+}
+
+// The same beam in N and mm is drawn in the display units (m, kN*m per kN
+// for the moment line, mm per kN for the deflection line): the moment at B
+// under a unit load at midspan of span 1 is -3L/32 (as above) whatever the
+// file's units; the deflection at midspan of span 1 under a unit load there
+// is 23 L^3 / (1536 EI) for two equal spans (three-moment equation with
+// M_B = -3PL/32, superposed on PL^3/(48EI) - M_B L^2/(16EI); derived here).
+TEST(Influence, DrawnInTheDisplayUnits) {
+  const input::BeamFile f = input::parse_beam_text(R"({"title": "two equal spans in N and mm",
+    "units": {"force": "N", "length": "mm"},
+    "spans": [{"length": 8000, "EI": 2e13}, {"length": 8000, "EI": 2e13}],
+    "supports": ["pinned", "roller", "roller"], "stations_per_span": 4})", "two-mm.json");
+  ASSERT_TRUE(f.ok());
+  std::string err;
+  const PlotData d = influence_data(f, *parse_influence("moment@B", &err), all_methods(), 0, &err);
+  ASSERT_EQ(d.panels.size(), 2u) << err;
+  EXPECT_NE(d.x_label.find("[m]"), std::string::npos) << d.x_label;
+  EXPECT_DOUBLE_EQ(*d.mark_x, 8.0);
+  EXPECT_DOUBLE_EQ(d.x_max, 16.0);
+  const Panel* p = d.panel(PanelKind::Influence);
+  EXPECT_NE(p->ylabel.find("[kN*m per kN]"), std::string::npos) << p->ylabel;
+  for (const Curve& c : p->curves) EXPECT_NEAR(curve_at(c, 4.0), -3.0 * 8.0 / 32, 1e-12) << c.method;
+  const PlotData v = influence_data(f, *parse_influence("deflection@x=4000", &err), all_methods(), 0, &err);
+  ASSERT_EQ(v.panels.size(), 2u) << err;
+  EXPECT_EQ(v.title, "Influence line: deflection at x = 4 m");
+  const Panel* q = v.panel(PanelKind::Influence);
+  EXPECT_NE(q->ylabel.find("[mm per kN]"), std::string::npos) << q->ylabel;
+  // 23 (8000 mm)^3 / (1536 * 2e13 N*mm^2) in mm per N, times 1000 N per kN.
+  const double expected = 23.0 * 8000.0 * 8000.0 * 8000.0 / (1536.0 * 2e13) * 1000.0;
+  for (const Curve& c : q->curves) EXPECT_NEAR(curve_at(c, 4.0), expected, 1e-9 * expected) << c.method;
+  // The file's own units when asked.
+  ShowUnits own;
+  own.file = true;
+  const PlotData w = influence_data(f, *parse_influence("moment@B", &err), all_methods(), 0, &err, own);
+  EXPECT_NE(w.panel(PanelKind::Influence)->ylabel.find("[N*mm per N]"), std::string::npos);
+  for (const Curve& c : w.panel(PanelKind::Influence)->curves)
+    EXPECT_NEAR(curve_at(c, 4000.0), -3.0 * 8000.0 / 32, 1e-9) << c.method;
 }
 
 // Shear at an x inside span 1 that is no station (the point is added as

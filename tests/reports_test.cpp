@@ -116,7 +116,7 @@ TEST(JunitReport, CountsMatchTheElements) {
   EXPECT_EQ(attribute(root, "errors"), count("<error "));
   EXPECT_EQ(count("<failure "), 1u);  // the failing claim of the sample
   EXPECT_EQ(count("<error "), 1u);    // the invalid file
-  EXPECT_NE(x.find("claimed 1, computed"), std::string::npos);
+  EXPECT_NE(x.find("claimed 1 kN, computed"), std::string::npos);  // with its unit (the file's)
   EXPECT_EQ(count("</testsuite>"), 2u);
   EXPECT_EQ(count("</testsuites>"), 1u);
 }

@@ -78,7 +78,14 @@ TEST(Schema, QuantitiesAreTheReadersQuantities) {
   const json s = json::parse(beam_file_schema());
   std::vector<std::string> names;
   for (int q = 0; q <= static_cast<int>(Quantity::ReactionMin); ++q) names.push_back(quantity_name(static_cast<Quantity>(q)));
+  // Then the other spellings the reader accepts (claim_quantity).
+  const std::vector<std::string> aliases = {"deflection_max", "max_shear", "min_shear", "max_reaction", "min_reaction"};
+  for (const auto& a : aliases) {
+    EXPECT_TRUE(claim_quantity(a, a == "deflection_max", a != "deflection_max")) << a;
+    names.push_back(a);
+  }
   EXPECT_EQ(s["$defs"]["claim"]["properties"]["quantity"]["enum"].get<std::vector<std::string>>(), names);
+  EXPECT_FALSE(claim_quantity("maximum_moment", true, false));
 }
 
 }  // namespace

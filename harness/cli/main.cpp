@@ -55,7 +55,7 @@ int main(int argc, char** argv) {
   check->add_option("--show-units", ca.show_units, show_units_help);
   check->add_option("--shard", ca.shard, "Check only the K-th of N parts of the files (K/N, by a hash of the path)");
 
-  check->add_option("--against", ca.against, "Another program's results (CSV) to compare; a second --against for a reactions table")
+  check->add_option("--against", ca.against, "Another program's results (CSV, .xlsx or .ods) to compare; a second --against for a reactions table")
       ->expected(1)->take_all();
   check->add_option("--column", ca.columns, "Map a column name of the --against file, e.g. moment=Mz (repeatable)");
   check->add_option("--their-units", ca.their_units, "Units of the --against file, e.g. force=N,length=mm (default: the beam file's)");

@@ -25,7 +25,7 @@ std::string with_slug(const std::string& out, const std::string& slug) {
 // `trivet plot FILE --influence Q@W ... -o OUT`: one picture per request,
 // OUT itself for one, OUT-<quantity>-<where>.ext for several.
 int run_influence(const input::BeamFile& f, const std::string& file, const std::string& out, reports::ImageFormat format,
-                  const std::string& methods, const std::vector<std::string>& texts) {
+                  const std::string& methods, const std::vector<std::string>& texts, const reports::ShowUnits& show) {
   std::vector<reports::InfluenceRequest> requests;
   for (const auto& t : texts) {
     std::string error;
@@ -52,7 +52,7 @@ int run_influence(const input::BeamFile& f, const std::string& file, const std::
   std::vector<reports::PlotData> data;
   for (const auto& q : requests) {
     std::string error;
-    reports::PlotData d = reports::influence_data(f, q, chosen, 0, &error);
+    reports::PlotData d = reports::influence_data(f, q, chosen, 0, &error, show);
     if (d.panels.empty()) fail("trivet plot: ", error.empty() ? std::string("--influence: nothing to plot") : error);
     d.caution = compare::caution_text();
     data.push_back(std::move(d));
@@ -96,11 +96,9 @@ int run_plot(const std::string& file, const std::string& out, const std::string&
   const reports::ShowUnits show = show_units_option("plot", show_units);
   const input::BeamFile f = input::read_beam_file(file);
   if (!influence.empty()) {
-    if (!show_units.empty())
-      std::cerr << "trivet plot: --show-units is not used with --influence (an influence line is drawn in the file's units)\n";
     if (!load_case.empty())
       std::cerr << "trivet plot: --case is not used with --influence (an influence line does not depend on the loads)\n";
-    return run_influence(f, file, out, *format, methods, influence);
+    return run_influence(f, file, out, *format, methods, influence, show);
   }
   compare::Options opt;
   if (!methods.empty()) opt.methods = split_list(methods);

@@ -184,10 +184,16 @@ class Reader {
     for (char& ch : qn)
       if (ch == ' ' || ch == '-') ch = '_';
     std::vector<std::string> names;
-    bool found = false;
-    for (Quantity q : kAll) {
-      names.push_back(input::quantity_name(q));
-      if (qn == names.back()) { claim.quantity = q; found = true; }
+    for (Quantity q : kAll) names.push_back(input::quantity_name(q));
+    // The place decides between the two spellings of a span's extreme and
+    // an envelope's value at a point (input::claim_quantity).
+    const std::string wl0 = lower(cell(r, kWhere));
+    const bool over_span = wl0.compare(0, 4, "span") == 0;
+    const auto known = input::claim_quantity(qn, over_span, !over_span && !wl0.empty());
+    const bool found = known.has_value();
+    if (known) {
+      claim.quantity = *known;
+      if (qn != input::quantity_name(*known)) claim.written = qn;
     }
     if (qtext.empty()) { error(r.line, col_[kQuantity], "no quantity (one of moment, shear, reaction, deflection, ...)"); return; }
     if (!found) {
@@ -300,9 +306,10 @@ class Reader {
     for (const auto& cb : file_.combinations)
       if (cb.name == claim.load_case) comb = &cb;
     if (input::is_envelope_quantity(claim.quantity) && !(comb && comb->is_envelope()))
-      error(r.line, col_[kQuantity], qname + " is an envelope value: name a combination with a pattern or a factor range in the case column");
-    else if (comb && comb->is_envelope() && !input::is_envelope_quantity(claim.quantity))
-      error(r.line, col_[kQuantity], "\"" + claim.load_case + "\" is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min");
+      error(r.line, col_[kQuantity], (claim.written.empty() ? qname : claim.written + " (read as " + qname + ")") +
+                                         " is an envelope value: name a combination with a pattern or a factor range in the case column");
+    else if (comb && comb->is_envelope() && !input::is_envelope_quantity(claim.quantity) && !by_span)
+      error(r.line, col_[kQuantity], "\"" + claim.load_case + "\" is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min at a point, or max_moment, min_moment or max_deflection over a span");
 
     // value
     const std::string vtext = cell(r, kValue);

@@ -59,6 +59,11 @@ bool is_envelope_quantity(Quantity q) {
          q == Quantity::ShearMin || q == Quantity::ReactionMax || q == Quantity::ReactionMin;
 }
 
+std::optional<Quantity> claim_quantity_impl(const std::string& name, bool over_span, bool at_point);
+std::optional<Quantity> claim_quantity(const std::string& name, bool over_span, bool at_point) {
+  return claim_quantity_impl(name, over_span, at_point);
+}
+
 bool Combination::is_envelope() const {
   if (!pattern.empty() || moving) return true;
   for (const auto& f : factors)
@@ -416,6 +421,29 @@ const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "re
                                               "deflection", "rotation", "max_moment",
                                               "min_moment", "max_deflection", "moment_max", "moment_min",
                                               "shear_max", "shear_min", "reaction_max", "reaction_min"};
+
+}  // namespace
+std::optional<Quantity> claim_quantity_impl(const std::string& name, bool over_span, bool at_point) {
+  std::optional<Quantity> q;
+  auto it = std::find(kQuantities.begin(), kQuantities.end(), name);
+  if (it != kQuantities.end()) q = static_cast<Quantity>(it - kQuantities.begin());
+  else if (name == "max_shear") q = Quantity::ShearMax;
+  else if (name == "min_shear") q = Quantity::ShearMin;
+  else if (name == "max_reaction") q = Quantity::ReactionMax;
+  else if (name == "min_reaction") q = Quantity::ReactionMin;
+  else if (name == "deflection_max") q = Quantity::MaxDeflection;
+  if (!q) return q;
+  // One quantity, named by where it is taken.
+  if (over_span && !at_point) {
+    if (*q == Quantity::MomentMax) q = Quantity::MaxMoment;
+    else if (*q == Quantity::MomentMin) q = Quantity::MinMoment;
+  } else if (at_point && !over_span) {
+    if (*q == Quantity::MaxMoment) q = Quantity::MomentMax;
+    else if (*q == Quantity::MinMoment) q = Quantity::MomentMin;
+  }
+  return q;
+}
+namespace {
 
 // Tracks object keys during parsing so that a key given twice is an error
 // (nlohmann/json would otherwise keep the last one silently).
@@ -1485,15 +1513,16 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (q == c.end()) { rd.error("missing_field", ptr + "/quantity", where, "required field is missing"); continue; }
           if (!q->is_string()) { rd.error("wrong_type", ptr + "/quantity", where, "must be a quantity name (" + got(*q) + ")"); continue; }
           const std::string qn = q->get<std::string>();
-          auto qi = std::find(kQuantities.begin(), kQuantities.end(), qn);
-          if (qi == kQuantities.end()) {
+          const auto qi = claim_quantity_impl(qn, c.contains("span"), c.contains("node") || c.contains("x"));
+          if (!qi) {
             std::string reason = "unknown quantity '" + qn + "'";
             if (auto d = did_you_mean(qn, kQuantities)) reason += " (did you mean '" + *d + "'?)";
             else { reason += " (one of "; for (std::size_t k = 0; k < kQuantities.size(); ++k) reason += (k ? ", " : "") + kQuantities[k]; reason += ")"; }
             rd.error("unknown_name", ptr + "/quantity", where, reason);
             continue;
           }
-          claim.quantity = static_cast<Quantity>(qi - kQuantities.begin());
+          claim.quantity = *qi;
+          if (qn != quantity_name(claim.quantity)) claim.written = qn;
           const bool has_node = c.contains("node"), has_x = c.contains("x"), has_span = c.contains("span");
           const bool by_span = claim.quantity == Quantity::MaxMoment || claim.quantity == Quantity::MinMoment ||
                                claim.quantity == Quantity::MaxDeflection;
@@ -1576,14 +1605,25 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
     // A moving load is an envelope load set (over the train's positions).
     const bool envelope = (comb && comb->is_envelope()) || is_moving(c.load_case);
     if (is_envelope_quantity(c.quantity) && !envelope) {
+      const std::string name = c.written.empty() ? std::string(quantity_name(c.quantity))
+                                                 : c.written + " (read as " + quantity_name(c.quantity) + ")";
       rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
-               std::string(quantity_name(c.quantity)) + " is an envelope value: name a combination with a pattern or a factor range" +
-                   (moving_list.empty() ? "" : ", a moving load or a combination that names one,") + " in \"case\"");
+               name + " is an envelope value: name a combination with a pattern or a factor range" +
+                   (moving_list.empty() ? "" : ", a moving load or a combination that names one,") + " in \"case\"" +
+                   (c.quantity == Quantity::MomentMax || c.quantity == Quantity::MomentMin
+                        ? "; for a load case, claim moment at the point, or max_moment or min_moment over a span"
+                        : ""));
       continue;
     }
-    if (envelope && !is_envelope_quantity(c.quantity)) {
+    // An envelope takes its values at a point (moment_max ... reaction_min)
+    // and its span extremes (the largest moment_max, the smallest
+    // moment_min, the largest deflection of a span).
+    const bool over_span = c.quantity == Quantity::MaxMoment || c.quantity == Quantity::MinMoment ||
+                           c.quantity == Quantity::MaxDeflection;
+    if (envelope && !is_envelope_quantity(c.quantity) && !over_span) {
       rd.error("conflicting_fields", c.pointer + "/quantity", where_of(c.pointer),
-               "'" + c.load_case + "' is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min");
+               "'" + c.load_case + "' is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or "
+               "reaction_min at a point, or max_moment, min_moment or max_deflection over a span");
       continue;
     }
     if (!c.load_case.empty() && std::find(sets.begin(), sets.end(), c.load_case) == sets.end()) {

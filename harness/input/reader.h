@@ -55,6 +55,15 @@ enum class Quantity {
 };
 // True for the envelope quantities (moment_max ... reaction_min).
 bool is_envelope_quantity(Quantity q);
+// A claim's quantity from its name. Each quantity has one name (the
+// contract's, which the reports use) and the other spelling a person may
+// write is accepted for it: max_moment / moment_max (and min_) name the
+// largest moment over a span when the claim gives `span` (max_moment) and
+// the envelope's largest at a point when it gives `node` or `x`
+// (moment_max); deflection_max over a span is max_deflection; max_shear,
+// min_shear, max_reaction and min_reaction are shear_max ... reaction_min.
+// Nothing when the name is none of these.
+std::optional<Quantity> claim_quantity(const std::string& name, bool over_span, bool at_point);
 const char* quantity_name(Quantity q);
 Dimension quantity_dimension(Quantity q);
 // The unit a quantity is shown in: the file's units of its dimension, and
@@ -81,6 +90,7 @@ struct Claim {
   std::string load_case;               // empty: the file's only load set
   double value = 0.0;
   std::optional<Tolerance> tolerance;  // the claim's own
+  std::string written;                 // the quantity's name as written, when another spelling
   // Where a claim from a table of claims (--claims) was read: "claims.csv,
   // line 4"; empty for the beam file's own claims.
   std::string source;
