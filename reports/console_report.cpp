@@ -105,12 +105,39 @@ LimitsBrief limits_brief(const LoadSet& set, double factor) {
   return b;
 }
 
+std::string status_reasons(const Report& b) {
+  if (b.status == BeamStatus::Agree || b.status == BeamStatus::Invalid) return "";
+  std::vector<std::string> why;
+  std::vector<std::string> disagree, unconfirmed;
+  for (const auto& set : b.sets) {
+    if (set.verdict == Verdict::Disagree) disagree.push_back(set.name);
+    else if (set.verdict == Verdict::Unconfirmed) unconfirmed.push_back(set.name);
+  }
+  auto sets = [](const std::vector<std::string>& names) {
+    if (names.size() == 1) return "load set " + names[0];
+    return std::to_string(names.size()) + " load sets";
+  };
+  if (!disagree.empty()) why.push_back("methods disagree in " + sets(disagree));
+  if (!unconfirmed.empty()) why.push_back("fewer than two methods in " + sets(unconfirmed));
+  if (const std::size_t n = b.claims_failed()) why.push_back(std::to_string(n) + (n == 1 ? " claim fails" : " claims fail"));
+  if (const std::size_t n = b.limits_failed())
+    why.push_back(std::to_string(n) + (n == 1 ? " span over its deflection limit" : " spans over their deflection limit"));
+  std::size_t other = 0;
+  for (const auto& c : b.against)
+    if (c && c->ok()) other += c->failing();
+  if (other) why.push_back(std::to_string(other) + (other == 1 ? " value of another program fails" : " values of another program fail"));
+  std::string text;
+  for (std::size_t i = 0; i < why.size(); ++i) text += (i ? ", " : "") + why[i];
+  return text;
+}
+
 void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt) {
   // The file name and the title as text for a terminal (a title may hold
   // control characters; they are shown escaped, never sent raw).
   out << input::printable_text(b.file, 400);
   if (!b.title.empty()) out << " - " << input::printable_text(b.title, 200);
-  out << "  [" << status_word(b.status, opt.color) << "]\n";
+  const std::string why = status_reasons(b);
+  out << "  [" << status_word(b.status, opt.color) << (why.empty() ? "" : ": " + why) << "]\n";
   if (b.status == BeamStatus::Invalid) {
     for (const auto& e : b.errors) out << "  " << paint("error", kRed, opt.color) << ": " << e.format(b.file) << "\n";
     out << "\n";
@@ -168,11 +195,11 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
     }
     {
       std::ostringstream d;
-      d << "  agreement: ";
+      d << "  between methods: ";
       const std::string v = verdict_name(set.verdict);
       d << paint(v, set.verdict == Verdict::Agree ? kGreen : set.verdict == Verdict::Disagree ? kRed : kYellow, opt.color);
       if (set.ok_count() >= 2) {
-        d << "   largest difference between methods:";
+        d << "   largest difference:";
         for (std::size_t k = 0; k < 4; ++k) d << " " << kind_name(static_cast<Kind>(k)) << " " << sci(set.max_difference[k]);
         d << " (of the largest value)";
       }

@@ -113,6 +113,7 @@ namespace {
 const char* kCss = R"(
 body{font-family:sans-serif;margin:1.2em auto;max-width:72em;padding:0 1em;color:#1a1a1a;line-height:1.35}
 h1{font-size:1.5em;margin:.2em 0}h2{font-size:1.2em;margin:1.6em 0 .3em;border-top:2px solid #444;padding-top:.5em}
+.why{font-size:.8em;font-weight:normal;color:#7a1d1d}
 h3{font-size:1.02em;margin:1em 0 .3em}
 table{border-collapse:collapse;margin:.3em 0 .8em;font-size:.88em}
 th,td{border:1px solid #bbb;padding:.15em .45em;text-align:left;vertical-align:top}
@@ -503,7 +504,9 @@ struct Writer {
 
   void beam(const Report& b, std::size_t bi, bool plotted, bool open_plots) {
     o << "<section class=\"beam\" id=\"" << beam_anchor(bi) << "\">\n<h2>" << bi + 1 << ". <span class=\"mono\">"
-      << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status)) << "</h2>\n";
+      << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status))
+      << (status_reasons(b).empty() ? std::string() : " <span class=\"why\">" + html_escape(status_reasons(b)) + "</span>")
+      << "</h2>\n";
     if (!b.title.empty()) o << "<p><b>" << html_escape(b.title) << "</b></p>\n";
     o << "<p class=\"muted\">input <code>" << html_escape(b.file) << "</code>, SHA-256 <code>"
       << html_escape(hash_of(b.file)) << "</code>; file units " << html_escape(b.units.force) << ", "

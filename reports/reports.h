@@ -67,6 +67,11 @@ struct ConsoleOptions {
 
 // One beam as tables for a person.
 void write_console(std::ostream& out, const Report& beam, const ConsoleOptions& opt);
+// Why a beam is not `agree`, in a few words beside its status: "methods
+// disagree in load set live", "1 claim fails", "2 spans over their
+// deflection limit", "values of another program fail"; empty for a beam
+// that agrees (and for an invalid one: its errors say why).
+std::string status_reasons(const Report& beam);
 // The closing summary line(s).
 void write_console_summary(std::ostream& out, const Summary& s, const ConsoleOptions& opt);
 

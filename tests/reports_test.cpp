@@ -280,3 +280,32 @@ TEST(Junit, FailureMessagesShowReadableNumbers) {
 
 }  // namespace
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// One verdict per beam: the status carries why it is not agree, and the
+// methods' own agreement is said as theirs, so "agree" under a heading of
+// "disagree" cannot be read as the beam's verdict.
+TEST(ConsoleReport, TheBeamsStatusSaysWhyAndTheMethodsLineIsTheirs) {
+  const Report b = sample();  // the methods agree; the claim of 1 kN fails
+  EXPECT_EQ(status_reasons(b), "1 claim fails");
+  std::ostringstream out;
+  write_console(out, b, {});
+  const std::string text = out.str();
+  EXPECT_NE(text.find("[disagree: 1 claim fails]"), std::string::npos) << text;
+  EXPECT_NE(text.find("between methods: agree"), std::string::npos) << text;
+  EXPECT_EQ(text.find("agreement: agree"), std::string::npos) << text;
+  // An agreeing beam says nothing more.
+  input::BeamFile f = input::parse_beam_text(R"({"units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 5, "EI": 30000}], "supports": ["pinned", "roller"],
+    "loads": [{"type": "udl", "span": 1, "w": 9.3}]})", "ok.json");
+  const Report ok = compare::check(f, {});
+  EXPECT_EQ(status_reasons(ok), "");
+  std::ostringstream o2;
+  write_console(o2, ok, {});
+  EXPECT_NE(o2.str().find("[agree]"), std::string::npos);
+}
+
+}  // namespace
+}  // namespace trivet::reports
