@@ -41,5 +41,24 @@ expect 2 "--claims adds a table of claims to one beam file" "--claims with two b
 grep -q '"source": *"[^"]*claims-ok.csv, line 3"' "$json" || { echo "FAIL: no source in the JSON claims"; fail=1; }
 "$trivet" check "$beam" --claims "$bad" --json "$json" >/dev/null 2>&1
 grep -q '"id": *"claims.bad_row"' "$json" && grep -q '"status": "invalid"' "$json" || { echo "FAIL: a bad table of claims is not the beam's error in the JSON"; fail=1; }
+# A table of claims may name a moving load's own load set: a single 10 kN
+# load crossing a simple 6 m span gives at most PL/4 = 15 kN*m at midspan
+# (closed form: the moment under the load is P a (L - a) / L, largest at
+# a = L/2), claimed at the point (moment_max) and over the span (max_moment,
+# also written moment_max with a span).
+tmpd=$(mktemp -d)
+cat > "$tmpd/crossing.json" <<'JSON'
+{"title": "a load crossing a simple span", "units": {"force": "kN", "length": "m"},
+ "spans": [{"length": 6, "EI": 20000}], "supports": ["pinned", "roller"],
+ "moving_loads": [{"name": "cart", "points": [{"P": 10, "offset": 0}]}]}
+JSON
+printf 'quantity,where,value,case\nmoment_max,x = 3,15,cart\nmax_moment,span 1,15,cart\nmoment_max,span 1,15,cart\n' > "$tmpd/cart.csv"
+"$trivet" check "$tmpd/crossing.json" --claims "$tmpd/cart.csv" >"$tmpd/out" 2>&1
+rc=$?; [ $rc = 0 ] || { echo "FAIL: claims on a moving load from a table: exit $rc"; cat "$tmpd/out"; fail=1; }
+[ "$(grep -c 'cart .* yes' "$tmpd/out")" = 3 ] || { echo "FAIL: the three moving-load claims do not all hold"; cat "$tmpd/out"; fail=1; }
+printf 'quantity,where,value,case\nmoment_max,x = 3,16,cart\n' > "$tmpd/cart-wrong.csv"
+"$trivet" check "$tmpd/crossing.json" --claims "$tmpd/cart-wrong.csv" >"$tmpd/out" 2>&1
+rc=$?; [ $rc = 1 ] || { echo "FAIL: a wrong moving-load claim from a table: exit $rc, expected 1"; cat "$tmpd/out"; fail=1; }
+rm -rf "$tmpd"
 [ $fail = 0 ] && echo "sheets: all checks passed"
 exit $fail

@@ -133,6 +133,7 @@ class Reader {
     }
     sets_ = file_.cases;
     for (const auto& cb : file_.combinations) sets_.push_back(cb.name);
+    for (const auto& m : file_.moving_loads) sets_.push_back(m.name);  // each a load set of its own
     for (std::size_t i = first; i < table_.rows.size(); ++i) row(table_.rows[i]);
     if (!out_.errors.empty()) out_.claims.clear();
     return std::move(out_);
@@ -305,10 +306,15 @@ class Reader {
     const input::Combination* comb = nullptr;
     for (const auto& cb : file_.combinations)
       if (cb.name == claim.load_case) comb = &cb;
-    if (input::is_envelope_quantity(claim.quantity) && !(comb && comb->is_envelope()))
+    // An envelope: a combination with a pattern, a factor range or a moving
+    // load, or a moving load's own load set.
+    const bool envelope = (comb && comb->is_envelope()) ||
+                          std::any_of(file_.moving_loads.begin(), file_.moving_loads.end(),
+                                      [&](const input::MovingLoad& m) { return m.name == claim.load_case; });
+    if (input::is_envelope_quantity(claim.quantity) && !envelope)
       error(r.line, col_[kQuantity], (claim.written.empty() ? qname : claim.written + " (read as " + qname + ")") +
-                                         " is an envelope value: name a combination with a pattern or a factor range in the case column");
-    else if (comb && comb->is_envelope() && !input::is_envelope_quantity(claim.quantity) && !by_span)
+                                         " is an envelope value: name a combination with a pattern or a factor range, or a moving load, in the case column");
+    else if (envelope && !input::is_envelope_quantity(claim.quantity) && !by_span)
       error(r.line, col_[kQuantity], "\"" + claim.load_case + "\" is an envelope: claim moment_max, moment_min, shear_max, shear_min, reaction_max or reaction_min at a point, or max_moment, min_moment or max_deflection over a span");
 
     // value
