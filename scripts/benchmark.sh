@@ -57,7 +57,7 @@ row() {  # row LABEL FILE -> "| LABEL | median s (runs) | MiB |"; the median to 
 # the speed of a core swings by up to half from minute to minute, with the
 # host's other guests: an odd number of runs, and their median.)
 runs=9
-: > "$work/j2"; : > "$work/j1"; : > "$work/long"; : > "$work/patterned"; : > "$work/l100k"; : > "$work/l1m"; : > "$work/moving"
+: > "$work/j2"; : > "$work/j1"; : > "$work/long"; : > "$work/patterned"; : > "$work/l100k"; : > "$work/l1m"; : > "$work/moving"; : > "$work/html"
 for k in $(seq 1 "$runs"); do
   once "$trivet" check "$work/lib" --jobs 2 --json "$work/a.json" --junit "$work/a.xml" >> "$work/j2"
   once "$trivet" check "$work/lib" --jobs 1 --json "$work/b.json" --junit "$work/b.xml" >> "$work/j1"
@@ -65,6 +65,12 @@ done
 for k in $(seq 1 "$runs"); do
   once "$trivet" check "$work/long.json" --stations-per-span 1 --json "$work/c.json" >> "$work/long"
 done
+# A library's HTML report: every beam in the summary, the detail for those
+# that need attention.
+for k in $(seq 1 "$runs"); do
+  once "$trivet" check "$work/lib" --jobs 2 --html "$work/h.html" >> "$work/html"
+done
+html_mib=$(awk -v b="$(stat -c %s "$work/h.html")" 'BEGIN { printf "%.1f", b / 1048576 }')
 for k in $(seq 1 3); do
   once "$trivet" check "$work/patterned.json" --json "$work/d.json" >> "$work/patterned"
 done
@@ -86,6 +92,8 @@ done
   row "10,000 typical beams, all methods, JSON + JUnit, --jobs 1" "$work/j1"
   one=$(cat "$work/last")
   echo "| speed-up of --jobs 2 over --jobs 1 (medians) | $(awk -v a="$one" -v b="$two" 'BEGIN { printf "%.2fx", a / b }') | |"
+  row "10,000 typical beams, all methods, HTML report (${html_mib} MiB), --jobs 2" "$work/html"
+  html=$(cat "$work/last")
   row "100,000-span beam, all methods, --stations-per-span 1, JSON" "$work/long"
   long=$(cat "$work/last"); long_mib=$(cat "$work/last_mib")
   runs=3 row "1,000-span beam, live load patterned (every arrangement), 4 stations per span, all methods, JSON" "$work/patterned"
@@ -123,7 +131,7 @@ done
   echo "| target | measured | met |"
   echo "| --- | --- | --- |"
   awk -v two="$two" -v one="$one" -v long="$long" -v long_mib="$long_mib" -v pat="$pat" -v pat_mib="$pat_mib" \
-      -v l100k="$l100k" -v l1m="$l1m" -v mov="$mov" '
+      -v l100k="$l100k" -v l1m="$l1m" -v mov="$mov" -v html="$html" -v html_mib="$html_mib" '
     function ns(t) { if (t ~ /us$/) return t * 1000; if (t ~ /ms$/) return t * 1e6; return t + 0 }
     function ms(v, u) { if (u == "us") return v / 1000; if (u == "s") return v * 1000; if (u == "ns") return v / 1e6; return v + 0 }
     function yes(c) { return c ? "yes" : "**no**" }
@@ -137,6 +145,7 @@ done
     END {
       printf "| 10,000 typical beams, JSON + JUnit, --jobs 2: under 2 s | %s s | %s |\n", two, yes(two < 2)
       printf "| --jobs 2 at least 1.7x faster than --jobs 1 | %.2fx | %s |\n", one / two, yes(one / two >= 1.7)
+      printf "| a library HTML report of 10,000 typical beams: under 5 s and 30 MiB | %s s, %s MiB | %s |\n", html, html_mib, yes(html < 5 && html_mib < 30)
       printf "| 100,000-span beam, JSON: under 2 s and 1 GiB | %s s, %d MiB | %s |\n", long, long_mib, yes(long < 2 && long_mib < 1024)
       printf "| 1,000-span patterned envelope, 4 stations per span, JSON: under 2 s and 400 MiB | %s s, %d MiB | %s |\n", pat, pat_mib, yes(pat < 2 && pat_mib < 400)
       printf "| a two-point train over 20 spans, 10 stations per span, all methods, JSON: under 1 s | %s s | %s |\n", mov, yes(mov < 1)
