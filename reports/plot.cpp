@@ -25,6 +25,17 @@
 
 namespace trivet::reports {
 
+namespace {
+// A position found by a search (between stations): six significant digits,
+// as the console shows places, not the twelve of a number from the file.
+std::string place(double v) {
+  char b[32];
+  std::snprintf(b, sizeof b, "%.6g", v);
+  return b;
+}
+}  // namespace
+
+
 using namespace trivet::compare;
 
 const char* panel_name(PanelKind k) {
@@ -501,13 +512,13 @@ PlotData plot_data(const Report& b, std::size_t set_index, const ShowUnits& show
       if (e.max_moment > 1e-9 * ms) {
         add(e.max_moment_x, e.max_moment);
         d.notes.push_back(tag + "largest moment_max " + fixed(u.moment(e.max_moment), dm) + " " + FL + " at x = " +
-                          shown_number(u.length(e.max_moment_x)) + " " + L +
+                          place(u.length(e.max_moment_x)) + " " + L +
                           (e.max_moment_by.empty() ? "" : " (" + e.max_moment_by + ")"));
       }
       if (e.min_moment < -1e-9 * ms) {
         add(e.min_moment_x, e.min_moment);
         d.notes.push_back(tag + "smallest moment_min " + fixed(u.moment(e.min_moment), dm) + " " + FL + " at x = " +
-                          shown_number(u.length(e.min_moment_x)) + " " + L +
+                          place(u.length(e.min_moment_x)) + " " + L +
                           (e.min_moment_by.empty() ? "" : " (" + e.min_moment_by + ")"));
       }
     }
