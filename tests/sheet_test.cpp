@@ -580,7 +580,7 @@ TEST_F(ClaimsTable, BadRowsAreLocatedAndMakeTheBeamInvalid) {
       "--claims c.csv: line 9, column 3 (value): no value",
       "--claims c.csv: line 10, column 4 (case): there is no load case \"wind\" (cases: loads)",
       "--claims c.csv: line 11, column 5 (tolerance): the tolerance must not be negative (got \"-2\")",
-      "--claims c.csv: line 12, column 1 (quantity): moment_max is an envelope value: name a combination with a pattern or a factor range in the case column",
+      "--claims c.csv: line 12, column 1 (quantity): moment_max is an envelope value: name a combination with a pattern or a factor range, or a moving load, in the case column",
   };
   ASSERT_EQ(read.errors.size(), want.size()) << errors(read);
   for (std::size_t k = 0; k < want.size(); ++k) {
