@@ -28,6 +28,13 @@ std::string fixed(double v, int decimals) {
   return s;
 }
 
+bool is_sagging(const LoadSet& set, double moment) {
+  return moment > 1e-12 * set.scale[static_cast<int>(Kind::Moment)] && moment > 0;
+}
+bool is_hogging(const LoadSet& set, double moment) {
+  return moment < -1e-12 * set.scale[static_cast<int>(Kind::Moment)] && moment < 0;
+}
+
 int decimals_for(double largest) {
   if (!(largest > 0) || !std::isfinite(largest)) return 3;
   const int mag = static_cast<int>(std::floor(std::log10(largest)));
@@ -328,8 +335,7 @@ void write_console(std::ostream& out, const Report& b, const ConsoleOptions& opt
       const SpanExtremes& x = set.extremes[i];
       // Sagging or hogging below the rounding of the beam's largest moment
       // is none ("-"), not "0.00" at some point.
-      const double none = 1e-12 * set.scale[static_cast<int>(Kind::Moment)];
-      const bool sag = x.max_moment > none, hog = x.min_moment < -none;
+      const bool sag = is_sagging(set, x.max_moment), hog = is_hogging(set, x.min_moment);
       e.rows.push_back({std::to_string(i + 1), sag ? fixed(u.moment(x.max_moment), dm) : "-",
                         sag ? fixed(u.length(x.max_moment_x), dx) : "", hog ? fixed(u.moment(x.min_moment), dm) : "-",
                         hog ? fixed(u.length(x.min_moment_x), dx) : "", fixed(u.deflection(x.max_deflection), dd),

@@ -597,10 +597,11 @@ struct Writer {
           << "]</th></tr>\n";
         for (std::size_t i = 0; i < ns; ++i) {
           const SpanExtremes& e = set.extremes[i];
-          o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(u.moment(e.max_moment), dm) : "-")
-            << "</td><td class=\"n\">" << (e.max_moment > 0 ? fixed(u.length(e.max_moment_x), dx) : "") << "</td><td class=\"n\">"
-            << (e.min_moment < 0 ? fixed(u.moment(e.min_moment), dm) : "-") << "</td><td class=\"n\">"
-            << (e.min_moment < 0 ? fixed(u.length(e.min_moment_x), dx) : "") << "</td><td class=\"n\">"
+          const bool sag = is_sagging(set, e.max_moment), hog = is_hogging(set, e.min_moment);
+          o << "<tr><td>" << i + 1 << "</td><td class=\"n\">" << (sag ? fixed(u.moment(e.max_moment), dm) : "-")
+            << "</td><td class=\"n\">" << (sag ? fixed(u.length(e.max_moment_x), dx) : "") << "</td><td class=\"n\">"
+            << (hog ? fixed(u.moment(e.min_moment), dm) : "-") << "</td><td class=\"n\">"
+            << (hog ? fixed(u.length(e.min_moment_x), dx) : "") << "</td><td class=\"n\">"
             << fixed(u.deflection(e.max_deflection), dd) << "</td><td class=\"n\">" << fixed(u.length(e.max_deflection_x), dx)
             << "</td></tr>\n";
         }
@@ -696,10 +697,10 @@ void governing_rows(std::ostream& o, const LoadSet& set, const DisplayUnits& u) 
     const SpanExtremes& c = set.extremes[smin];
     const SpanExtremes& d = set.extremes[sdef];
     auto by = [](const std::string& t) { return t.empty() ? std::string() : "; " + html_escape(t); };
-    row("largest sagging moment [" + FL + "]", a.max_moment > 0 ? fixed(u.moment(a.max_moment), dm) : "none",
-        a.max_moment > 0 ? "span " + std::to_string(smax + 1) + ", x = " + fixed(u.length(a.max_moment_x), dx) + " " + L + by(a.max_moment_by) : "");
-    row("largest hogging moment [" + FL + "]", c.min_moment < 0 ? fixed(u.moment(c.min_moment), dm) : "none",
-        c.min_moment < 0 ? "span " + std::to_string(smin + 1) + ", x = " + fixed(u.length(c.min_moment_x), dx) + " " + L + by(c.min_moment_by) : "");
+    row("largest sagging moment [" + FL + "]", is_sagging(set, a.max_moment) ? fixed(u.moment(a.max_moment), dm) : "none",
+        is_sagging(set, a.max_moment) ? "span " + std::to_string(smax + 1) + ", x = " + fixed(u.length(a.max_moment_x), dx) + " " + L + by(a.max_moment_by) : "");
+    row("largest hogging moment [" + FL + "]", is_hogging(set, c.min_moment) ? fixed(u.moment(c.min_moment), dm) : "none",
+        is_hogging(set, c.min_moment) ? "span " + std::to_string(smin + 1) + ", x = " + fixed(u.length(c.min_moment_x), dx) + " " + L + by(c.min_moment_by) : "");
     std::string ratio;
     for (const auto& dc : set.deflection_checks)
       if (dc.span == sdef)

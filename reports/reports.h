@@ -91,6 +91,11 @@ std::unique_ptr<CheckReporter> junit_reporter(const Output& output, double equil
 
 // Rounds a value for a person: `decimals` after the point, no "-0".
 std::string fixed(double v, int decimals);
+// Whether a span's largest moment is sagging (hogging): beyond the rounding
+// of the load set's largest moment (1e-12 of it). Below that there is none,
+// shown "-" (or "none"), never "0.00" at some point; every report asks this.
+bool is_sagging(const compare::LoadSet& set, double moment);
+bool is_hogging(const compare::LoadSet& set, double moment);
 // Decimals that give about 4 significant digits to the largest magnitude.
 int decimals_for(double largest);
 

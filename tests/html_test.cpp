@@ -396,3 +396,45 @@ TEST(Record, FileNamesKeepTheFoldersApart) {
 
 }  // namespace
 }  // namespace trivet::reports
+
+namespace trivet::reports {
+namespace {
+
+// A span whose largest moment is rounding (the overhang of this beam: its
+// largest "sagging" moment is 2.8e-14 kN*m, at the free end, where the
+// moment is 0 in exact arithmetic) has no sagging: "-" in the console's and
+// the HTML report's span tables and "none" among a record's governing
+// values, never "0.00" at some point in one and "-" in another. (Invented
+// numbers, chosen for that rounding.)
+TEST(SpanTables, SaggingBelowRoundingIsNoneEverywhere) {
+  input::BeamFile f = input::parse_beam_text(R"({"title": "overhang", "units": {"force": "kN", "length": "m"},
+    "spans": [{"length": 6.3, "EI": 30000}, {"length": 4.1, "EI": 30000}], "supports": ["fixed", "roller", "free"],
+    "loads": [{"type": "udl", "span": 1, "w": 7.3}, {"type": "udl", "span": 2, "w": 11.1},
+              {"type": "point", "span": 2, "P": 3.3, "at": 1.7}]})", "overhang.json");
+  ASSERT_TRUE(f.ok());
+  const Report b = compare::check(f, {});
+  ASSERT_EQ(b.sets.size(), 1u);
+  const double noise = b.sets[0].extremes[1].max_moment;
+  ASSERT_LT(std::abs(noise), 1e-12 * b.sets[0].scale[static_cast<int>(compare::Kind::Moment)]);
+  EXPECT_FALSE(is_sagging(b.sets[0], noise));
+  std::ostringstream console;
+  write_console(console, b, {});
+  // "  2  -  <blank>  -98.9 ...": the span's row with no sagging value.
+  const std::string c = console.str();
+  const auto row = c.find("\n  2 ", c.find("max sagging"));
+  ASSERT_NE(row, std::string::npos) << c;
+  const std::string line = c.substr(row + 1, c.find('\n', row + 1) - row - 1);
+  std::istringstream words(line);
+  std::string span, first;
+  words >> span >> first;
+  EXPECT_EQ(first, "-") << line;
+  std::ostringstream html;
+  write_html(html, {b}, options());
+  const std::string h = html.str();
+  const auto hrow = h.find("<tr><td>2</td>", h.find("max sagging"));
+  ASSERT_NE(hrow, std::string::npos);
+  EXPECT_EQ(h.compare(hrow, 37, "<tr><td>2</td><td class=\"n\">-</td><td"), 0) << h.substr(hrow, 80);
+}
+
+}  // namespace
+}  // namespace trivet::reports
