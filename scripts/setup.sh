@@ -9,6 +9,7 @@ packages=(
   libgnuplot-iostream-dev gnuplot-nox
   libboost-iostreams-dev libboost-system-dev libboost-filesystem-dev
   libzip-dev libpugixml-dev
+  libcpp-httplib-dev
 )
 missing=()
 for p in "${packages[@]}"; do

@@ -41,7 +41,7 @@
 
 namespace trivet::cli {
 
-int run_check(const CheckArgs& a) {
+compare::Options check_options(const CheckArgs& a) {
   compare::Options opt;
   opt.agreement = a.agreement;
   if (a.stations_per_span > 0) opt.stations_per_span = a.stations_per_span;
@@ -55,6 +55,25 @@ int run_check(const CheckArgs& a) {
       fail("trivet: --methods: give at least one method");
     }
   }
+  return opt;
+}
+
+reports::Report check_beam(input::BeamFile f, const std::string& text, const CheckArgs& a, const compare::Options& opt) {
+  // --claims: the table's claims join the file's; its errors make the beam invalid.
+  if (!a.claims.empty() && f.ok()) compare::claims_table::merge(f, compare::claims_table::read_file(f, a.claims, a.claims_sheet));
+  // --stations-per-span may ask for more stations than the file's limit allows.
+  if (f.ok() && a.stations_per_span > 0)
+    if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
+  reports::Report r(compare::check(f, opt));
+  if (r.status != compare::BeamStatus::Invalid && f.ok()) {
+    try { apply_precision_text(r, r.precision, text, f, a.arithmetic, a.reference, opt); }
+    catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
+  }
+  return r;
+}
+
+int run_check(const CheckArgs& a) {
+  const compare::Options opt = check_options(a);
   // The --against options, each checked by its own name before any beam is
   // checked; without --against they have nothing to apply to.
   namespace ag = compare::against;
@@ -212,16 +231,7 @@ int run_check(const CheckArgs& a) {
       std::string text;
       input::BeamFile f = input::read_beam_file(files[i], {}, &text);
       if (a.arithmetic == "double" && a.reference.empty()) std::string().swap(text);  // only exact reading needs it
-      // --claims: the table's claims join the file's; its errors make the beam invalid.
-      if (!a.claims.empty() && f.ok()) compare::claims_table::merge(f, compare::claims_table::read_file(f, a.claims, a.claims_sheet));
-      // --stations-per-span may ask for more stations than the file's limit allows.
-      if (f.ok() && a.stations_per_span > 0)
-        if (auto e = input::station_limit_error(f, a.stations_per_span)) f.errors.push_back(*e);
-      r = reports::Report(compare::check(f, opt));
-      if (r.status != compare::BeamStatus::Invalid && f.ok()) {
-        try { apply_precision_text(r, r.precision, text, f, a.arithmetic, a.reference, opt); }
-        catch (const std::exception& e) { r.warnings.push_back(std::string("arithmetic run failed: ") + e.what()); }
-      }
+      r = check_beam(std::move(f), text, a, opt);
     } catch (const std::bad_alloc&) {
       internal_error = true;
       r = reports::Report{};

@@ -14,6 +14,7 @@
 #include "harness/precision/precision.h"
 #include "harness/input/reader.h"
 #include "reports/display_units.h"
+#include "reports/report.h"
 
 #ifndef TRIVET_VERSION
 #define TRIVET_VERSION "0.0.0"
@@ -60,6 +61,15 @@ struct CheckArgs {
   std::string show_units;  // --show-units (check and plot)
 };
 
+// `trivet desk [FILE] [--port N] [--host ADDR] [--open]` (docs/desk-api.md).
+struct DeskArgs {
+  std::string file;
+  std::string host = "127.0.0.1";
+  int port = 8320;
+  bool open = false;
+  std::string command_line;
+};
+
 struct SelfcheckArgs {
   std::string json, junit, html, methods, dir, command_line;
   std::string arithmetic = "double", reference;
@@ -85,8 +95,19 @@ void apply_precision_text(compare::BeamResult& r, std::vector<std::shared_ptr<co
                           const std::string& text, const input::BeamFile& f, const std::string& arithmetic,
                           const std::string& reference, const compare::Options& opt);
 
+// The check's options from its command line (--methods, --agreement,
+// --stations-per-span); an unknown method is a usage error.
+compare::Options check_options(const CheckArgs& a);
+// One beam, read into `f` from `text`, checked as `trivet check` checks
+// each file: --claims merged, the station limit of --stations-per-span,
+// the methods, then the precision warnings and --arithmetic/--reference.
+// Throws only on an internal failure (the caller reports it).
+reports::Report check_beam(input::BeamFile f, const std::string& text, const CheckArgs& a, const compare::Options& opt);
+
 // The commands.
 int run_check(const CheckArgs& a);
+// The desk: a local web server for one beam (harness/desk).
+int run_desk(const DeskArgs& a);
 int run_selfcheck(const SelfcheckArgs& a);
 // `influence`: the --influence texts (QUANTITY@WHERE); when any is given the
 // plot command draws those influence lines instead of the diagrams.

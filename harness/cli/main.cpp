@@ -105,11 +105,22 @@ int main(int argc, char** argv) {
   merge->add_option("reports", merge_inputs, "JSON reports written by check --json")->required();
   merge->add_option("--json", merge_json, "Write the merged report to FILE ('-' for standard output, the default)");
 
+  DeskArgs da;
+  CLI::App* desk = app.add_subcommand("desk", "Check one beam in the browser: a local web server (127.0.0.1) for the beam file FILE");
+  desk->add_option("file", da.file, "The beam file to open and save to (a new one is made on the first save; "
+                                    "without it the desk starts from the example and saves nothing)");
+  desk->add_option("--port", da.port, "The port to listen on (default 8320; 0: any free port)")
+      ->default_val(8320)->check(CLI::Range(0, 65535));
+  desk->add_option("--host", da.host, "The address to listen on (default 127.0.0.1, this computer only)")
+      ->default_val("127.0.0.1");
+  desk->add_flag("--open", da.open, "Open the page in the browser (xdg-open)");
+
   CLI::App* example = app.add_subcommand("example", "Print a starter beam file");
   CLI::App* schema = app.add_subcommand("schema", "Print the JSON Schema (draft 2020-12) of the beam file");
 
   for (int i = 0; i < argc; ++i) ca.command_line += (i ? " " : "") + std::string(argv[i]);
   sa.command_line = ca.command_line;
+  da.command_line = ca.command_line;
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& e) {
@@ -128,6 +139,7 @@ int main(int argc, char** argv) {
     else if (*selfcheck) code = run_selfcheck(sa);
     else if (*plot) code = run_plot(plot_file, plot_out, plot_case, ca.methods, plot_influence, ca.show_units);
     else if (*example) code = run_example();
+    else if (*desk) code = run_desk(da);
   } catch (const UsageError& e) {
     std::cerr << e.what() << "\n";
     return e.code;
