@@ -247,9 +247,25 @@ int run_check(const CheckArgs& a) {
     if (streamed) {
       try { render(r, rendered[i]); }
       catch (const std::exception& e) {
+        // The beam's report could not be written (a large one, out of
+        // memory): the beam stays in every report, as an internal failure
+        // that says so; only if even that cannot be written is it a line
+        // on the console.
         internal_error = true;
-        rendered[i].parts.clear();
-        rendered[i].problem = "trivet: internal error while writing the report of " + files[i] + ": " + e.what() + "\n";
+        const bool memory = dynamic_cast<const std::bad_alloc*>(&e) != nullptr;
+        try {
+          rendered[i].parts.clear();
+          r = reports::Report{};
+          r.file = files[i];
+          r.errors.push_back({"", "",
+                              memory ? "internal failure: out of memory while writing the report of this beam (the other beams are kept)"
+                                     : std::string("internal error while writing the report of this beam: ") + e.what(),
+                              memory ? "internal.out_of_memory" : "internal.error"});
+          render(r, rendered[i]);
+        } catch (const std::exception& again) {
+          rendered[i].parts.clear();
+          rendered[i].problem = "trivet: internal error while writing the report of " + files[i] + ": " + again.what() + "\n";
+        }
       }
       if (!keep_results) r = reports::Report{};
       {

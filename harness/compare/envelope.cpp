@@ -877,8 +877,11 @@ void run_envelope_method(const Method& method, const Beam& full, const input::Co
   Envelope env;
   const std::size_t n = full.spans.size();
   r.extremes.assign(n, {});
-  std::future<void> later;
+  // (`second` before `later`: if this thread's half throws, the future's
+  // destructor waits for the other half, which writes into `second`, so
+  // `second` must outlive it.)
   Envelope second;
+  std::future<void> later;
   const std::size_t mid = side_by_side && n >= 2 ? n / 2 : n;
   if (mid < n) {
     try {
