@@ -811,14 +811,21 @@
     const limits = set && Array.isArray(set.deflection_limits) ? set.deflection_limits : [];
     const xs = [];
     for (let i = 0; i < n; ++i) xs.push(nodeValue(set, i, 'x'));
+    // Sagging or hogging below the rounding of the largest moment is none
+    // ("–"), as in the console and the HTML report.
+    let mScale = 0;
+    for (const e of ext) mScale = Math.max(mScale, Math.abs(Number(e.max_moment) || 0), Math.abs(Number(e.min_moment) || 0));
+    const none = 1e-12 * mScale;
     for (const e of ext) {
+      const sag = typeof e.max_moment === 'number' && e.max_moment > none;
+      const hog = typeof e.min_moment === 'number' && e.min_moment < -none;
       const k = Number(e.span) - 1;
       const length = xs[k + 1] !== undefined && xs[k] !== undefined && xs[k] !== null && xs[k + 1] !== null ? xs[k + 1] - xs[k] : null;
       const d = typeof e.max_deflection === 'number' ? Math.abs(e.max_deflection) : null;
       const ratio = length !== null && d ? Math.round(length / d) : null;
       const lim = limits.find((x) => Number(x.span) === Number(e.span));
       const limitText = lim ? textOf(lim.limit) + (lim.holds ? ': holds' : ': EXCEEDED') : '';
-      spanRows.push({ attrs: lim && !lim.holds ? { class: 'fails' } : null, cells: [String(e.span), length, e.max_moment, e.max_moment_x, e.min_moment, e.min_moment_x,
+      spanRows.push({ attrs: lim && !lim.holds ? { class: 'fails' } : null, cells: [String(e.span), length, sag ? e.max_moment : '–', sag ? e.max_moment_x : '', hog ? e.min_moment : '–', hog ? e.min_moment_x : '',
         e.max_deflection, e.max_deflection_x, ratio === null ? '–' : 'L/' + ratio, limitText] });
     }
     const heads = ['span', ['length', l], ['largest sagging moment', fl], ['at x', l], ['largest hogging moment', fl], ['at x', l],
