@@ -158,6 +158,10 @@ if f"v-{status}" not in dom.verdict_class:
     fail(f"the verdict's class {dom.verdict_class!r} does not name {status!r}")
 if dom.svg_in_plot < 1:
     fail("no <svg> plot in #plot")
+# The results in the units a person reads: the example's file is in kN and m,
+# its deflections are shown in mm.
+if "mm" not in dom.text.get("t-nodes", "") or "mm" not in dom.text.get("t-span-results", ""):
+    fail("the node and span tables do not show deflections in mm: " + dom.text.get("t-nodes", "")[:200])
 caution = dom.text.get("caution", "")
 if "qualified engineer" not in caution or "local codes" not in caution:
     fail("the caution is not on the page")

@@ -258,6 +258,20 @@ def body_checks(desk, trivet, work, beam_path, original):
     check(all("http://" not in p.get("svg", "") for p in plots), "the plots have no namespace or network URL")
     check(caution in v.get("console", "") and "agree" in v.get("console", ""),
           "/api/view has the console report with the caution", v.get("console", "")[:300])
+    # The display units: the file's kN and m are read as kN, kN*m, m and mm.
+    disp = v.get("display", {})
+    check(disp.get("deflection") == {"label": "mm", "factor": 1000.0} and disp.get("force") == {"label": "kN", "factor": 1.0}
+          and disp.get("moment", {}).get("label") == "kN*m", "/api/view gives the display units", disp)
+    # A file in N and mm: forces shown in kN (x 0.001), moments in kN*m (x 1e-6), lengths in m (x 0.001).
+    nmm = json.loads(original)
+    nmm["units"] = {"force": "N", "length": "mm"}
+    st, _, b = desk.request("POST", "/api/view", json.dumps(nmm).encode())
+    disp = load(b).get("display", {}) if st in (200, 400) else {}
+    ok_units = (disp.get("force", {}).get("label") == "kN" and abs(disp["force"]["factor"] - 1e-3) < 1e-15
+                and disp.get("moment", {}).get("label") == "kN*m" and abs(disp["moment"]["factor"] - 1e-6) < 1e-18
+                and disp.get("length", {}).get("label") == "m" and abs(disp["length"]["factor"] - 1e-3) < 1e-15
+                and disp.get("deflection", {}).get("label") == "mm" and abs(disp["deflection"]["factor"] - 1.0) < 1e-15)
+    check(st == 200 and ok_units, "/api/view of an N and mm beam gives kN, kN*m, m and mm", (st, disp))
 
     # /api/report.html: the HTML report as a download.
     st, h, b = desk.request("POST", "/api/report.html", original)

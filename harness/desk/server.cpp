@@ -263,7 +263,17 @@ class Desk {
     // The check's JSON report as it is, inside the answer.
     std::string body = "{\"report\": " + json_report(r);
     body += ", \"plots\": " + plots(r).dump(-1, ' ', false, json::error_handler_t::replace);
-    body += ", \"console\": " + json(console_text(r)).dump(-1, ' ', false, json::error_handler_t::replace) + "}\n";
+    body += ", \"console\": " + json(console_text(r)).dump(-1, ' ', false, json::error_handler_t::replace);
+    // The units a person reads (as the console and the diagrams show
+    // them): each kind's label and the factor from the file's unit.
+    if (r.status != compare::BeamStatus::Invalid) {
+      const reports::DisplayUnits u = reports::display_units(r.units, back_.console.show);
+      auto unit = [](const reports::DisplayUnit& d) { return json{{"label", d.label}, {"factor", d.factor}}; };
+      const json display = {{"force", unit(u.force)}, {"moment", unit(u.moment)}, {"length", unit(u.length)},
+                            {"deflection", unit(u.deflection)}, {"rotation", unit(u.rotation)}};
+      body += ", \"display\": " + display.dump(-1, ' ', false, json::error_handler_t::replace);
+    }
+    body += "}\n";
     send(res, body, kJson);
   }
 

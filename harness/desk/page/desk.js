@@ -746,6 +746,15 @@
     const l = textOf(units.length) || 'L';
     const fl = f + '·' + l;
     const set = state.loadSet && b.results ? b.results[state.loadSet] : null;
+    // The results in the units a person reads (kN, kN·m, m, mm for a
+    // metric file; kip, kip·ft, ft, in for an imperial one), as the console
+    // and the diagrams show them: the server sends each kind's label and
+    // its factor from the file's unit.
+    const disp = view.display && typeof view.display === 'object' ? view.display : {};
+    const U = (kind, fileLabel) => (disp[kind] && typeof disp[kind].factor === 'number'
+      ? { label: textOf(disp[kind].label).replace('*', '·'), factor: disp[kind].factor } : { label: fileLabel, factor: 1 });
+    const uF = U('force', f), uM = U('moment', fl), uL = U('length', l), uD = U('deflection', l);
+    const cv = (v, u) => (typeof v === 'number' && isFinite(v) ? v * u.factor : v);
 
     // the plot of this load set
     const plotBox = $('plot');
@@ -787,17 +796,19 @@
     };
     if (envelope) {
       for (let i = 0; i < n; ++i) {
-        nodeRows.push({ attrs: { id: 'node-' + i, 'data-label': labelOf(i) }, cells: [labelOf(i), nodeValue(set, i, 'x'),
-          nodeValue(set, i, 'reaction_max'), nodeValue(set, i, 'reaction_min')] });
+        nodeRows.push({ attrs: { id: 'node-' + i, 'data-label': labelOf(i) }, cells: [labelOf(i), cv(nodeValue(set, i, 'x'), uL),
+          cv(nodeValue(set, i, 'reaction_max'), uF), cv(nodeValue(set, i, 'reaction_min'), uF)] });
       }
-      table('t-nodes', ['node', ['x', l], ['reaction max', f], ['reaction min', f]], nodeRows, ['', 'num', 'num', 'num']);
+      table('t-nodes', ['node', ['x', uL.label], ['reaction max', uF.label], ['reaction min', uF.label]], nodeRows, ['', 'num', 'num', 'num']);
     } else {
       const fields = ['x', 'moment_left', 'moment_right', 'reaction_force', 'reaction_moment', 'deflection', 'rotation'];
+      const fieldUnit = { x: uL, moment_left: uM, moment_right: uM, reaction_force: uF, reaction_moment: uM, deflection: uD };
       for (let i = 0; i < n; ++i) {
-        nodeRows.push({ attrs: { id: 'node-' + i, 'data-label': labelOf(i) }, cells: [labelOf(i)].concat(fields.map((k) => nodeValue(set, i, k))) });
+        nodeRows.push({ attrs: { id: 'node-' + i, 'data-label': labelOf(i) },
+          cells: [labelOf(i)].concat(fields.map((k) => (fieldUnit[k] ? cv(nodeValue(set, i, k), fieldUnit[k]) : nodeValue(set, i, k)))) });
       }
-      table('t-nodes', ['node', ['x', l], ['moment left', fl], ['moment right', fl], ['reaction', f], ['reaction moment', fl],
-        ['deflection', l], ['rotation', 'rad']], nodeRows, ['', 'num', 'num', 'num', 'num', 'num', 'num', 'num']);
+      table('t-nodes', ['node', ['x', uL.label], ['moment left', uM.label], ['moment right', uM.label], ['reaction', uF.label],
+        ['reaction moment', uM.label], ['deflection', uD.label], ['rotation', 'rad']], nodeRows, ['', 'num', 'num', 'num', 'num', 'num', 'num', 'num']);
       // The cells carry their field names for readers of the page (and the browser test).
       const rows = $('t-nodes').tBodies[0].rows;
       for (let i = 0; i < nodeRows.length; ++i) {
@@ -825,11 +836,12 @@
       const ratio = length !== null && d ? Math.round(length / d) : null;
       const lim = limits.find((x) => Number(x.span) === Number(e.span));
       const limitText = lim ? textOf(lim.limit) + (lim.holds ? ': holds' : ': EXCEEDED') : '';
-      spanRows.push({ attrs: lim && !lim.holds ? { class: 'fails' } : null, cells: [String(e.span), length, sag ? e.max_moment : '–', sag ? e.max_moment_x : '', hog ? e.min_moment : '–', hog ? e.min_moment_x : '',
-        e.max_deflection, e.max_deflection_x, ratio === null ? '–' : 'L/' + ratio, limitText] });
+      spanRows.push({ attrs: lim && !lim.holds ? { class: 'fails' } : null, cells: [String(e.span), cv(length, uL),
+        sag ? cv(e.max_moment, uM) : '–', sag ? cv(e.max_moment_x, uL) : '', hog ? cv(e.min_moment, uM) : '–', hog ? cv(e.min_moment_x, uL) : '',
+        cv(e.max_deflection, uD), cv(e.max_deflection_x, uL), ratio === null ? '–' : 'L/' + ratio, limitText] });
     }
-    const heads = ['span', ['length', l], ['largest sagging moment', fl], ['at x', l], ['largest hogging moment', fl], ['at x', l],
-      ['largest deflection', l], ['at x', l], 'span / deflection'];
+    const heads = ['span', ['length', uL.label], ['largest sagging moment', uM.label], ['at x', uL.label],
+      ['largest hogging moment', uM.label], ['at x', uL.label], ['largest deflection', uD.label], ['at x', uL.label], 'span / deflection'];
     const cols = ['', 'num', 'num', 'num', 'num', 'num', 'num', 'num', ''];
     if (limits.length) { heads.push('deflection limit'); cols.push(''); } else for (const r of spanRows) r.cells.pop();
     table('t-span-results', heads, spanRows, cols);
