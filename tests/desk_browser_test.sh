@@ -18,14 +18,8 @@ set -u
 trivet=${1:?usage: desk_browser_test.sh TRIVET BEAM_FILE}
 beam=${2:?usage: desk_browser_test.sh TRIVET BEAM_FILE}
 
-browser=""
-for b in chromium chromium-browser; do
-  if command -v "$b" >/dev/null 2>&1; then browser=$(command -v "$b"); break; fi
-done
-if [ -z "$browser" ]; then
-  echo "SKIPPED: chromium is not installed (apt-get install chromium); the desk page was not checked in a browser"
-  exit 77
-fi
+what="the desk page"
+. "$(dirname "$0")/find_chromium.sh"
 command -v python3 >/dev/null 2>&1 || { echo "FAIL: python3 is needed to read the DOM and the JSON report"; exit 1; }
 
 work=$(mktemp -d)

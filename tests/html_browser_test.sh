@@ -12,14 +12,8 @@ trivet=${1:?usage: html_browser_test.sh TRIVET BEAM_FILE_OR_DIR...}
 shift
 [ $# -gt 0 ] || { echo "usage: html_browser_test.sh TRIVET BEAM_FILE_OR_DIR..." >&2; exit 2; }
 
-browser=""
-for b in chromium chromium-browser; do
-  if command -v "$b" >/dev/null 2>&1; then browser=$(command -v "$b"); break; fi
-done
-if [ -z "$browser" ]; then
-  echo "SKIPPED: chromium is not installed (apt-get install chromium); the HTML report was not checked in a browser"
-  exit 77
-fi
+what="the HTML report"
+. "$(dirname "$0")/find_chromium.sh"
 
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
