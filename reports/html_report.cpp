@@ -504,9 +504,9 @@ struct Writer {
 
   void beam(const Report& b, std::size_t bi, bool plotted, bool open_plots) {
     o << "<section class=\"beam\" id=\"" << beam_anchor(bi) << "\">\n<h2>" << bi + 1 << ". <span class=\"mono\">"
-      << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status))
-      << (status_reasons(b).empty() ? std::string() : " <span class=\"why\">" + html_escape(status_reasons(b)) + "</span>")
-      << "</h2>\n";
+      << html_escape(b.file) << "</span> " << st_badge(beam_status_name(b.status));
+    if (const std::string why = status_reasons(b); !why.empty()) o << " <span class=\"why\">" << html_escape(why) << "</span>";
+    o << "</h2>\n";
     if (!b.title.empty()) o << "<p><b>" << html_escape(b.title) << "</b></p>\n";
     o << "<p class=\"muted\">input <code>" << html_escape(b.file) << "</code>, SHA-256 <code>"
       << html_escape(hash_of(b.file)) << "</code>; file units " << html_escape(b.units.force) << ", "

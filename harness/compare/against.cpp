@@ -1659,32 +1659,22 @@ std::string against_header_needs() {
 }
 }  // namespace
 
-Comparison compare_text(const input::BeamFile& file, const BeamResult& result, const std::string& text,
-                        const std::string& display, const Options& options) {
-  CsvRead csv = parse_csv_text(text, options.limits);
-  if (!csv.ok()) {
-    Comparison out;
-    out.file = display;
-    out.units = result.units;
-    out.errors = std::move(csv.errors);
-    return out;
-  }
-  return compare_table(file, result, csv.table, display, options);
-}
-
 namespace {
+
+// A table that could not be read: nothing compared, the errors said.
+Comparison unreadable(const std::string& name, const BeamResult& result, std::vector<Error> errors) {
+  Comparison out;
+  out.file = name;
+  out.units = result.units;
+  out.errors = std::move(errors);
+  return out;
+}
 
 // Compares a table read from a CSV file or a sheet; errors of a sheet name
 // its rows and columns.
 Comparison compare_read(const input::BeamFile& file, const BeamResult& result, CsvRead&& read, const std::string& name,
                         const Options& options) {
-  if (!read.ok()) {
-    Comparison out;
-    out.file = name;
-    out.units = result.units;
-    out.errors = std::move(read.errors);
-    return out;
-  }
+  if (!read.ok()) return unreadable(name, result, std::move(read.errors));
   Comparison out = compare_table(file, result, read.table, name, options);
   if (!read.table.sheet.empty()) {
     place_in_sheet(out.errors, read.table);
@@ -1697,18 +1687,18 @@ Comparison compare_read(const input::BeamFile& file, const BeamResult& result, C
 
 }  // namespace
 
+Comparison compare_text(const input::BeamFile& file, const BeamResult& result, const std::string& text,
+                        const std::string& display, const Options& options) {
+  return compare_read(file, result, parse_csv_text(text, options.limits), display, options);
+}
+
 Comparison compare_file(const input::BeamFile& file, const BeamResult& result, const std::string& path,
                         const Options& options, const std::string& display) {
   const std::string name = display.empty() ? path : display;
   const HeaderTest test = [&](const std::vector<std::string>& cells) { return is_against_header(cells, options); };
-  if (!options.sheet.empty() && sheet::format_of_path(path) == sheet::Format::None) {
-    Comparison out;
-    out.file = name;
-    out.units = result.units;
-    out.errors.push_back({0, 0, "", "a sheet is named (\"" + input::printable_text(options.sheet, 60) +
-                                        "\"), but this is not an .xlsx or .ods file"});
-    return out;
-  }
+  if (!options.sheet.empty() && sheet::format_of_path(path) == sheet::Format::None)
+    return unreadable(name, result, {{0, 0, "", "a sheet is named (\"" + input::printable_text(options.sheet, 60) +
+                                                     "\"), but this is not an .xlsx or .ods file"}});
   return compare_read(file, result, read_table_file(path, options.sheet, test, against_header_needs(), options.limits),
                       name, options);
 }

@@ -59,11 +59,6 @@ bool is_envelope_quantity(Quantity q) {
          q == Quantity::ShearMin || q == Quantity::ReactionMax || q == Quantity::ReactionMin;
 }
 
-std::optional<Quantity> claim_quantity_impl(const std::string& name, bool over_span, bool at_point);
-std::optional<Quantity> claim_quantity(const std::string& name, bool over_span, bool at_point) {
-  return claim_quantity_impl(name, over_span, at_point);
-}
-
 bool Combination::is_envelope() const {
   if (!pattern.empty() || moving) return true;
   for (const auto& f : factors)
@@ -423,7 +418,8 @@ const std::vector<std::string> kQuantities = {"moment", "shear", "reaction", "re
                                               "shear_max", "shear_min", "reaction_max", "reaction_min"};
 
 }  // namespace
-std::optional<Quantity> claim_quantity_impl(const std::string& name, bool over_span, bool at_point) {
+// (Outside the file's private namespace, after kQuantities: reader.h.)
+std::optional<Quantity> claim_quantity(const std::string& name, bool over_span, bool at_point) {
   std::optional<Quantity> q;
   auto it = std::find(kQuantities.begin(), kQuantities.end(), name);
   if (it != kQuantities.end()) q = static_cast<Quantity>(it - kQuantities.begin());
@@ -1513,7 +1509,7 @@ BeamFile parse_beam_text(const std::string& text, const std::string& display, co
           if (q == c.end()) { rd.error("missing_field", ptr + "/quantity", where, "required field is missing"); continue; }
           if (!q->is_string()) { rd.error("wrong_type", ptr + "/quantity", where, "must be a quantity name (" + got(*q) + ")"); continue; }
           const std::string qn = q->get<std::string>();
-          const auto qi = claim_quantity_impl(qn, c.contains("span"), c.contains("node") || c.contains("x"));
+          const auto qi = claim_quantity(qn, c.contains("span"), c.contains("node") || c.contains("x"));
           if (!qi) {
             std::string reason = "unknown quantity '" + qn + "'";
             if (auto d = did_you_mean(qn, kQuantities)) reason += " (did you mean '" + *d + "'?)";
